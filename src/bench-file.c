@@ -1,0 +1,631 @@
+/* bench-file.c - bench files in and out, through jansson.  Everything a
+ * file may say is checked here or in the model's key table; nothing
+ * unknown is silently ignored. */
+#include <config.h>
+
+#include <errno.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-file.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+static const char *
+json_kind(const json_t *v)
+{
+	switch (json_typeof(v)) {
+	case JSON_OBJECT:	return "an object";
+	case JSON_ARRAY:	return "an array";
+	case JSON_STRING:	return "a string";
+	case JSON_INTEGER:
+	case JSON_REAL:		return "a number";
+	case JSON_TRUE:
+	case JSON_FALSE:	return "a boolean";
+	default:		return "null";
+	}
+}
+
+/* A quantity: a JSON number in SI, or a string with a unit. */
+static int
+get_quantity(json_t *v, enum unit_dim dim, double *out, const char *what, char **cause)
+{
+	char *why = NULL;
+
+	if (json_is_number(v)) {
+		*out = json_number_value(v);
+		return 0;
+	}
+	if (!json_is_string(v))
+		return fail_with(cause, "%s: expected a number or a string with a unit, "
+		    "got %s", what, json_kind(v));
+	if (units_parse(json_string_value(v), dim, out, &why) != 0) {
+		fail_with(cause, "%s: %s", what, why);
+		free(why);
+		return -1;
+	}
+	return 0;
+}
+
+static int
+get_number(json_t *v, double *out, const char *what, char **cause)
+{
+	if (!json_is_number(v))
+		return fail_with(cause, "%s: expected a plain number, got %s", what,
+		    json_kind(v));
+	*out = json_number_value(v);
+	return 0;
+}
+
+static int
+get_positive(json_t *v, enum unit_dim dim, double *out, const char *what, char **cause)
+{
+	if (get_quantity(v, dim, out, what, cause) != 0)
+		return -1;
+	if (!(*out > 0) || !isfinite(*out))
+		return fail_with(cause, "%s: must be > 0", what);
+	return 0;
+}
+
+static int
+set_key_json(struct element *el, enum model_key k, json_t *v, char **cause)
+{
+	const struct model_key_def *d = &model_keys[k];
+	char what[128];
+	double x;
+
+	snprintf(what, sizeof what, "element '%s': %s", el->id, model_key_path(k));
+	switch (d->kind) {
+	case KIND_QUANTITY:
+		if (get_quantity(v, d->dim, &x, what, cause) != 0)
+			return -1;
+		break;
+	case KIND_BOOL:
+		if (!json_is_boolean(v))
+			return fail_with(cause, "%s: expected true or false, got %s",
+			    what, json_kind(v));
+		x = json_is_true(v);
+		break;
+	case KIND_AXIS:
+		if (!json_is_string(v))
+			return fail_with(cause, "%s: expected \"both\", \"x\" or \"y\", got %s",
+			    what, json_kind(v));
+		return model_set_text(el, k, json_string_value(v), cause);
+	default:
+		if (get_number(v, &x, what, cause) != 0)
+			return -1;
+		break;
+	}
+	return model_set(el, k, x, cause);
+}
+
+static int read_branch(json_t *arr, struct branch *br, const char *where,
+    size_t depth, char **cause);
+
+static int
+read_damage(json_t *obj, struct element *el, char **cause)
+{
+	const char *key;
+	json_t *v;
+
+	if (!json_is_object(obj))
+		return fail_with(cause, "element '%s': damage: expected an object, got %s",
+		    el->id, json_kind(obj));
+	json_object_foreach(obj, key, v) {
+		int k = -1;
+
+		for (int i = K_DMG_FIRST; i < K_COUNT; i++)
+			if (strcmp(key, model_keys[i].name) == 0)
+				k = i;
+		if (k < 0)
+			return fail_with(cause, "element '%s': damage: unknown key '%s' "
+			    "(cw_linear, cw_irradiance, fluence, wavelength, pulse_width)",
+			    el->id, key);
+		if (set_key_json(el, (enum model_key)k, v, cause) != 0)
+			return -1;
+	}
+	return 0;
+}
+
+static int
+set_text(char **dst, json_t *v, const char *id, const char *key, char **cause)
+{
+	if (!json_is_string(v))
+		return fail_with(cause, "element '%s': %s: expected a string, got %s",
+		    id, key, json_kind(v));
+	free(*dst);
+	*dst = xstrdup(json_string_value(v));
+	return 0;
+}
+
+int
+bench_element_from_json(json_t *obj, struct element *el, int need_id,
+    int allow_branch, size_t depth, char **cause)
+{
+	json_t *jid, *jtype, *v;
+	const char *key, *id;
+	enum elem_type type;
+
+	if (!json_is_object(obj))
+		return fail_with(cause, "an element must be an object, got %s", json_kind(obj));
+	jid = json_object_get(obj, "id");
+	if (jid == NULL && need_id)
+		return fail_with(cause, "an element has no id");
+	if (jid != NULL && (!json_is_string(jid) || json_string_length(jid) == 0))
+		return fail_with(cause, "an element's id must be a non-empty string");
+	id = jid != NULL ? json_string_value(jid) : "(part)";
+	jtype = json_object_get(obj, "type");
+	if (jtype == NULL)
+		return fail_with(cause, "element '%s': type: missing", id);
+	if (!json_is_string(jtype) || model_type_parse(json_string_value(jtype), &type) != 0)
+		return fail_with(cause, "element '%s': type: unknown type %s%s%s (space, mirror, "
+		    "lens, splitter, window, filter, waveplate, polarizer, iris, dump, "
+		    "detector, target)", id, json_is_string(jtype) ? "'" : "",
+		    json_is_string(jtype) ? json_string_value(jtype) : json_kind(jtype),
+		    json_is_string(jtype) ? "'" : "");
+	model_element_init(el, type, jid != NULL ? id : "");
+	json_object_foreach(obj, key, v) {
+		int k;
+		enum port port = PORT_NONE;
+
+		if (strcmp(key, "id") == 0 || strcmp(key, "type") == 0)
+			continue;
+		if (strcmp(key, "label") == 0) {
+			if (set_text(&el->label, v, el->id, key, cause) != 0)
+				return -1;
+			continue;
+		}
+		if (strcmp(key, "part") == 0) {
+			if (set_text(&el->part, v, el->id, key, cause) != 0)
+				return -1;
+			continue;
+		}
+		if (strcmp(key, "damage") == 0) {
+			if (read_damage(v, el, cause) != 0)
+				return -1;
+			continue;
+		}
+		if (strcmp(key, "reflected") == 0)
+			port = PORT_REFLECTED;
+		else if (strcmp(key, "transmitted") == 0)
+			port = PORT_TRANSMITTED;
+		else if (strcmp(key, "rejected") == 0)
+			port = PORT_REJECTED;
+		if (port != PORT_NONE) {
+			if (!allow_branch || !model_type_takes_port(type, port))
+				return fail_with(cause, "element '%s': a %s has no '%s' branch",
+				    el->id, model_type_name(type), key);
+			if (el->side_port != PORT_NONE)
+				return fail_with(cause, "element '%s': %s: a splitter takes "
+				    "exactly one side branch, reflected or transmitted",
+				    el->id, key);
+			el->side_port = port;
+			if (read_branch(v, &el->side, el->id, depth + 1, cause) != 0)
+				return -1;
+			continue;
+		}
+		k = model_key_find(key);
+		if (k < 0 || k >= K_DMG_FIRST || !model_key_applies((enum model_key)k, type))
+			return fail_with(cause, "element '%s': unknown key '%s' for a %s",
+			    el->id, key, model_type_name(type));
+		if (set_key_json(el, (enum model_key)k, v, cause) != 0)
+			return -1;
+	}
+	return 0;
+}
+
+static int
+read_branch(json_t *arr, struct branch *br, const char *where, size_t depth,
+    char **cause)
+{
+	size_t i;
+	json_t *v;
+
+	if (!json_is_array(arr))
+		return fail_with(cause, "%s: expected an array of elements, got %s",
+		    where, json_kind(arr));
+	if (depth > MODEL_MAX_DEPTH)
+		return fail_with(cause, "%s: side branches nested more than %d deep",
+		    where, MODEL_MAX_DEPTH);
+	json_array_foreach(arr, i, v) {
+		struct element *el = model_branch_push(br);
+
+		model_element_init(el, EL_SPACE, "");
+		if (bench_element_from_json(v, el, 1, 1, depth, cause) != 0) {
+			cause_prefix(cause, "%s[%zu]", depth ? where : "path", i);
+			return -1;
+		}
+	}
+	return 0;
+}
+
+static int
+read_pair(json_t *v, enum unit_dim dim, double out[2], int *pair, const char *what,
+    char **cause)
+{
+	if (json_is_array(v)) {
+		if (json_array_size(v) != 2)
+			return fail_with(cause, "source: %s: expected [x, y]", what);
+		*pair = 1;
+		for (int i = 0; i < 2; i++) {
+			json_t *e = json_array_get(v, (size_t)i);
+			int rc = dim == DIM_NONE ?
+			    get_number(e, &out[i], what, cause) :
+			    get_quantity(e, dim, &out[i], what, cause);
+
+			if (rc != 0)
+				return cause_prefix(cause, "source"), -1;
+		}
+		return 0;
+	}
+	*pair = 0;
+	if ((dim == DIM_NONE ? get_number(v, &out[0], what, cause) :
+	    get_quantity(v, dim, &out[0], what, cause)) != 0) {
+		cause_prefix(cause, "source");
+		return -1;
+	}
+	out[1] = out[0];
+	return 0;
+}
+
+static int
+read_pulsed(json_t *obj, struct source *s, char **cause)
+{
+	const char *key;
+	json_t *v;
+	int have_energy = 0;
+
+	if (!json_is_object(obj))
+		return fail_with(cause, "source: pulsed: expected an object, got %s",
+		    json_kind(obj));
+	s->pulsed = 1;
+	json_object_foreach(obj, key, v) {
+		if (strcmp(key, "rep_rate") == 0) {
+			if (get_positive(v, DIM_FREQUENCY, &s->rep_rate, "source: pulsed.rep_rate", cause))
+				return -1;
+		} else if (strcmp(key, "pulse_width") == 0) {
+			if (get_positive(v, DIM_TIME, &s->pulse_width, "source: pulsed.pulse_width", cause))
+				return -1;
+		} else if (strcmp(key, "pulse_energy") == 0) {
+			if (get_positive(v, DIM_ENERGY, &s->pulse_energy, "source: pulsed.pulse_energy", cause))
+				return -1;
+			have_energy = 1;
+		} else if (strcmp(key, "shape") == 0) {
+			const char *t = json_string_value(v);
+
+			if (t != NULL && strcmp(t, "gaussian") == 0)
+				s->shape = PULSE_GAUSSIAN;
+			else if (t != NULL && strcmp(t, "sech2") == 0)
+				s->shape = PULSE_SECH2;
+			else if (t != NULL && strcmp(t, "square") == 0)
+				s->shape = PULSE_SQUARE;
+			else
+				return fail_with(cause, "source: pulsed.shape: expected "
+				    "\"gaussian\", \"sech2\" or \"square\"");
+		} else {
+			return fail_with(cause, "source: pulsed: unknown key '%s' "
+			    "(rep_rate, pulse_width, shape, pulse_energy)", key);
+		}
+	}
+	s->energy_given = have_energy;
+	return 0;
+}
+
+static int
+read_source(json_t *obj, struct source *s, char **cause)
+{
+	const char *key;
+	json_t *v;
+	int have_power = 0;
+
+	if (!json_is_object(obj))
+		return fail_with(cause, "source: expected an object, got %s", json_kind(obj));
+	model_source_defaults(s);
+	json_object_foreach(obj, key, v) {
+		if (strcmp(key, "wavelength") == 0) {
+			if (get_positive(v, DIM_LENGTH, &s->wavelength, "source: wavelength", cause))
+				return -1;
+		} else if (strcmp(key, "power") == 0) {
+			if (get_positive(v, DIM_POWER, &s->power, "source: power", cause))
+				return -1;
+			have_power = 1;
+		} else if (strcmp(key, "pulsed") == 0) {
+			if (read_pulsed(v, s, cause) != 0)
+				return -1;
+		} else if (strcmp(key, "waist") == 0) {
+			if (read_pair(v, DIM_LENGTH, s->waist, &s->waist_pair, "waist", cause))
+				return -1;
+			if (!(s->waist[0] > 0 && s->waist[1] > 0))
+				return fail_with(cause, "source: waist: must be > 0");
+		} else if (strcmp(key, "waist_position") == 0) {
+			if (get_quantity(v, DIM_LENGTH, &s->waist_position,
+			    "source: waist_position", cause))
+				return -1;
+		} else if (strcmp(key, "m2") == 0) {
+			if (read_pair(v, DIM_NONE, s->m2, &s->m2_pair, "m2", cause))
+				return -1;
+			if (!(s->m2[0] >= 1 && s->m2[1] >= 1))
+				return fail_with(cause, "source: m2: must be >= 1 (M² of a real beam)");
+		} else if (strcmp(key, "polarization") == 0) {
+			if (json_is_number(v)) {
+				s->pol = POL_LINEAR;
+				s->pol_angle_deg = json_number_value(v);
+			} else if (json_is_string(v) && strcmp(json_string_value(v), "circular") == 0) {
+				s->pol = POL_CIRCULAR;
+			} else if (json_is_string(v) && strcmp(json_string_value(v), "unpolarized") == 0) {
+				s->pol = POL_UNPOLARIZED;
+			} else {
+				return fail_with(cause, "source: polarization: expected an angle "
+				    "in degrees, \"circular\" or \"unpolarized\"");
+			}
+		} else {
+			return fail_with(cause, "source: unknown key '%s' (wavelength, power, "
+			    "pulsed, waist, waist_position, m2, polarization)", key);
+		}
+	}
+	if (have_power && s->energy_given)
+		return fail_with(cause, "source: give power or pulsed.pulse_energy, not both");
+	if (s->energy_given)
+		s->power = s->pulse_energy * s->rep_rate;
+	else if (s->pulsed && have_power)
+		s->pulse_energy = s->power / s->rep_rate;
+	if (isnan(s->waist[0]))
+		return fail_with(cause, "source: waist: missing");
+	if (isnan(s->wavelength))
+		return fail_with(cause, "source: wavelength: missing");
+	return 0;
+}
+
+int
+bench_head_from_json(json_t *root, struct bench *b, char **cause)
+{
+	const char *key;
+	json_t *v, *fmt;
+
+	if (!json_is_object(root))
+		return fail_with(cause, "the file must hold one JSON object, got %s",
+		    json_kind(root));
+	fmt = json_object_get(root, "format");
+	if (fmt == NULL)
+		return fail_with(cause, "format: missing (expected \"%s\")", MODEL_FORMAT);
+	if (!json_is_string(fmt) || strcmp(json_string_value(fmt), MODEL_FORMAT) != 0)
+		return fail_with(cause, "format: expected \"%s\"", MODEL_FORMAT);
+	if (json_object_get(root, "source") == NULL)
+		return fail_with(cause, "source: missing");
+	json_object_foreach(root, key, v) {
+		if (strcmp(key, "format") == 0 || strcmp(key, "path") == 0) {
+			continue;
+		} else if (strcmp(key, "name") == 0) {
+			if (!json_is_string(v) || json_string_length(v) == 0)
+				return fail_with(cause, "name: expected a non-empty string");
+			free(b->name);
+			b->name = xstrdup(json_string_value(v));
+		} else if (strcmp(key, "notes") == 0) {
+			if (!json_is_string(v))
+				return fail_with(cause, "notes: expected a string, got %s",
+				    json_kind(v));
+			free(b->notes);
+			b->notes = xstrdup(json_string_value(v));
+		} else if (strcmp(key, "safety_factor") == 0) {
+			if (get_number(v, &b->safety_factor, "safety_factor", cause))
+				return -1;
+			if (!(b->safety_factor > 1) || !isfinite(b->safety_factor))
+				return fail_with(cause, "safety_factor: %g must be > 1",
+				    b->safety_factor);
+			b->safety_given = 1;
+		} else if (strcmp(key, "air_breakdown") == 0) {
+			if (get_positive(v, DIM_IRRADIANCE, &b->air_breakdown, "air_breakdown", cause))
+				return -1;
+			b->air_given = 1;
+		} else if (strcmp(key, "source") == 0) {
+			if (read_source(v, &b->src, cause) != 0)
+				return -1;
+		} else {
+			return fail_with(cause, "unknown top-level key '%s' (format, name, "
+			    "notes, safety_factor, air_breakdown, source, path)", key);
+		}
+	}
+	if (b->name == NULL || b->name[0] == '\0')
+		return fail_with(cause, "name: missing");
+	return 0;
+}
+
+struct bench *
+bench_file_parse(const char *text, size_t len, const char *where, char **cause)
+{
+	json_error_t jerr;
+	json_t *root, *path;
+	struct bench *b;
+
+	root = json_loadb(text, len, JSON_REJECT_DUPLICATES, &jerr);
+	if (root == NULL) {
+		fail_with(cause, "%s:%d:%d: not valid JSON: %s", where, jerr.line,
+		    jerr.column, jerr.text);
+		return NULL;
+	}
+	b = model_bench_new(NULL);
+	free(b->name);
+	b->name = NULL;
+	if (bench_head_from_json(root, b, cause) != 0)
+		goto bad;
+	path = json_object_get(root, "path");
+	if (path == NULL) {
+		fail_with(cause, "path: missing");
+		goto bad;
+	}
+	if (read_branch(path, &b->path, "path", 0, cause) != 0)
+		goto bad;
+	if (model_validate(b, cause) != 0)
+		goto bad;
+	json_decref(root);
+	return b;
+bad:
+	cause_prefix(cause, "%s", where);
+	json_decref(root);
+	model_bench_free(b);
+	return NULL;
+}
+
+char *
+bench_slurp(const char *path, size_t *len, char **cause)
+{
+	FILE *f = strcmp(path, "-") == 0 ? stdin : fopen(path, "rb");
+	struct buf b;
+	char chunk[65536];
+	size_t n;
+
+	if (f == NULL) {
+		fail_with(cause, "%s: %s", path, strerror(errno));
+		return NULL;
+	}
+	buf_init(&b);
+	while ((n = fread(chunk, 1, sizeof chunk, f)) > 0)
+		buf_addn(&b, chunk, n);
+	if (ferror(f)) {
+		fail_with(cause, "%s: %s", path, strerror(errno));
+		if (f != stdin)
+			fclose(f);
+		buf_release(&b);
+		return NULL;
+	}
+	if (f != stdin)
+		fclose(f);
+	*len = b.len;
+	return buf_take(&b);
+}
+
+struct bench *
+bench_file_read(const char *path, char **cause)
+{
+	size_t len;
+	char *text = bench_slurp(path, &len, cause);
+	struct bench *b;
+
+	if (text == NULL)
+		return NULL;
+	b = bench_file_parse(text, len, strcmp(path, "-") == 0 ? "<stdin>" : path, cause);
+	free(text);
+	return b;
+}
+
+/* ---- writing ---- */
+
+static json_t *
+key_json(const struct element *el, enum model_key k)
+{
+	switch (model_keys[k].kind) {
+	case KIND_BOOL:
+		return json_boolean(el->val[k] != 0);
+	case KIND_AXIS:
+		return json_string(el->val[k] == AXIS_X ? "x" : el->val[k] == AXIS_Y ? "y" : "both");
+	default:
+		return json_real(el->val[k]);
+	}
+}
+
+static json_t *branch_json(const struct branch *br);
+
+json_t *
+bench_element_to_json(const struct element *el, int with_branch)
+{
+	json_t *o = json_object(), *dmg = NULL;
+
+	if (el->id != NULL && el->id[0] != '\0')
+		json_object_set_new(o, "id", json_string(el->id));
+	json_object_set_new(o, "type", json_string(model_type_name(el->type)));
+	if (el->label != NULL)
+		json_object_set_new(o, "label", json_string(el->label));
+	if (el->part != NULL)
+		json_object_set_new(o, "part", json_string(el->part));
+	for (int k = 0; k < K_COUNT; k++) {
+		if (!model_has(el, (enum model_key)k))
+			continue;
+		if (k >= K_DMG_FIRST) {
+			if (dmg == NULL)
+				dmg = json_object();
+			json_object_set_new(dmg, model_keys[k].name, key_json(el, (enum model_key)k));
+		} else {
+			json_object_set_new(o, model_keys[k].name, key_json(el, (enum model_key)k));
+		}
+	}
+	if (dmg != NULL)
+		json_object_set_new(o, "damage", dmg);
+	if (with_branch && el->side_port != PORT_NONE)
+		json_object_set_new(o, model_port_name(el->side_port), branch_json(&el->side));
+	return o;
+}
+
+static json_t *
+branch_json(const struct branch *br)
+{
+	json_t *a = json_array();
+
+	for (size_t i = 0; i < br->n; i++)
+		json_array_append_new(a, bench_element_to_json(&br->el[i], 1));
+	return a;
+}
+
+static json_t *
+pair_json(const double v[2], int pair)
+{
+	if (!pair)
+		return json_real(v[0]);
+	return json_pack("[ff]", v[0], v[1]);
+}
+
+json_t *
+bench_head_to_json(const struct bench *b)
+{
+	const struct source *s = &b->src;
+	json_t *o = json_object(), *src = json_object();
+	static const char *const shapes[] = { "gaussian", "sech2", "square" };
+
+	json_object_set_new(o, "format", json_string(MODEL_FORMAT));
+	json_object_set_new(o, "name", json_string(b->name));
+	if (b->notes != NULL)
+		json_object_set_new(o, "notes", json_string(b->notes));
+	if (b->safety_given)
+		json_object_set_new(o, "safety_factor", json_real(b->safety_factor));
+	if (b->air_given)
+		json_object_set_new(o, "air_breakdown", json_real(b->air_breakdown));
+	json_object_set_new(src, "wavelength", json_real(s->wavelength));
+	if (!s->energy_given)
+		json_object_set_new(src, "power", json_real(s->power));
+	if (s->pulsed) {
+		json_t *p = json_object();
+
+		json_object_set_new(p, "rep_rate", json_real(s->rep_rate));
+		json_object_set_new(p, "pulse_width", json_real(s->pulse_width));
+		json_object_set_new(p, "shape", json_string(shapes[s->shape]));
+		if (s->energy_given)
+			json_object_set_new(p, "pulse_energy", json_real(s->pulse_energy));
+		json_object_set_new(src, "pulsed", p);
+	}
+	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair));
+	json_object_set_new(src, "waist_position", json_real(s->waist_position));
+	json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair));
+	if (s->pol == POL_CIRCULAR)
+		json_object_set_new(src, "polarization", json_string("circular"));
+	else if (s->pol == POL_UNPOLARIZED)
+		json_object_set_new(src, "polarization", json_string("unpolarized"));
+	else
+		json_object_set_new(src, "polarization", json_real(s->pol_angle_deg));
+	json_object_set_new(o, "source", src);
+	return o;
+}
+
+char *
+bench_file_dump(const struct bench *b)
+{
+	json_t *o = bench_head_to_json(b);
+	char *text, *out;
+
+	json_object_set_new(o, "path", branch_json(&b->path));
+	text = json_dumps(o, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(17));
+	json_decref(o);
+	out = xasprintf("%s\n", text);
+	free(text);
+	return out;
+}

@@ -1,0 +1,39 @@
+/* bench-file.h - the bench file (format "beamledger-bench-1", JSON) read
+ * into a struct bench and written back.  The contract is
+ * ../shared/spec/bench-format.md and beamledger-bench(5).
+ *
+ * Reading is strict: unknown keys, wrong types, values out of range, units
+ * of the wrong dimension are errors whose message names the element id and
+ * the key.  Callers prefix the file name.  Writing uses plain SI numbers
+ * printed so that they read back to the same double. */
+#ifndef BENCH_FILE_H
+#define BENCH_FILE_H
+
+#include <stddef.h>
+
+#include <jansson.h>
+
+#include "core-model.h"
+
+/* Parses text; `where` (file name or "-") prefixes every message.
+ * Returns a validated bench, or NULL with *cause set. */
+struct bench *bench_file_parse(const char *text, size_t len, const char *where,
+                  char **cause);                          /* caller frees */
+/* Reads a file ("-": standard input). */
+struct bench *bench_file_read(const char *path, char **cause);   /* caller frees */
+/* Writes the bench as indented JSON text with a final newline. */
+char         *bench_file_dump(const struct bench *);     /* caller frees */
+
+/* One element, for the parts shelf and the store.  With need_id == 0 the
+ * object may lack "id" (a part), and el->id is left empty.  Side branches
+ * are read too when allow_branch != 0. */
+int           bench_element_from_json(json_t *obj, struct element *el,
+                  int need_id, int allow_branch, size_t depth, char **cause);
+json_t       *bench_element_to_json(const struct element *, int with_branch); /* caller decrefs */
+/* The source and top-level settings without the path. */
+json_t       *bench_head_to_json(const struct bench *);  /* caller decrefs */
+int           bench_head_from_json(json_t *obj, struct bench *, char **cause);
+/* Reads a whole file into memory (NUL-terminated). */
+char         *bench_slurp(const char *path, size_t *len, char **cause);   /* caller frees */
+
+#endif

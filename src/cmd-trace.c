@@ -1,0 +1,113 @@
+/* cmd-trace.c - `beamledger trace` and `beamledger demo`: read a bench,
+ * trace it, print the report; nothing reaches stdout unless the whole trace
+ * succeeded. */
+#include <config.h>
+
+#include <getopt.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-demo.h"
+#include "bench-file.h"
+#include "cmd.h"
+#include "core-trace.h"
+#include "report.h"
+#include "util-err.h"
+
+/* Prints the report of one bench; returns the trace's exit status. */
+int cmd_trace_print(const struct bench *, enum report_format, const struct report_opts *);
+
+int
+cmd_trace_print(const struct bench *b, enum report_format fmt,
+    const struct report_opts *o)
+{
+	struct trace *t = trace_run(b);
+	char *text;
+	int rc, over = 0;
+
+	for (size_t i = 0; i < t->nrows; i++)
+		if (t->rows[i].status == STATUS_OVER)
+			over = 1;
+	text = fmt == REPORT_JSON ? report_json(t) :
+	    fmt == REPORT_CSV ? report_csv(t) : report_table(t, o);
+	rc = cmd_print(text);
+	free(text);
+	trace_free(t);
+	return rc != 0 ? rc : over;
+}
+
+int
+cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
+{
+	static const struct option opts[] = {
+		{ "format", required_argument, NULL, 'f' },
+		{ "color", required_argument, NULL, 'c' },
+		{ "colour", required_argument, NULL, 'c' },
+		{ "ascii", no_argument, NULL, 'a' },
+		{ "demo", no_argument, NULL, 'd' },
+		{ "help", no_argument, NULL, 'h' },
+		{ NULL, 0, NULL, 0 },
+	};
+	enum report_format fmt = REPORT_TABLE;
+	struct report_opts ro = { 0, 0 };
+	const char *color = "auto";
+	struct bench *b;
+	char *cause = NULL;
+	int demo = 0, ch, rc;
+
+	(void)ctx;
+	optind = 0;
+	opterr = 0;
+	while ((ch = getopt_long(argc, argv, "+f:", opts, NULL)) != -1) {
+		switch (ch) {
+		case 'f':
+			if (report_format_parse(optarg, &fmt) != 0)
+				return cmd_usage("trace: --format must be table, json or csv, "
+				    "not '%s'", optarg);
+			break;
+		case 'c':
+			if (strcmp(optarg, "always") && strcmp(optarg, "never") &&
+			    strcmp(optarg, "auto"))
+				return cmd_usage("trace: --color must be always, never or auto");
+			color = optarg;
+			break;
+		case 'a':
+			ro.ascii = 1;
+			break;
+		case 'd':
+			demo = 1;
+			break;
+		case 'h':
+			printf("Usage: " PROG " trace FILE | --demo [--format table|json|csv]"
+			    " [--color WHEN] [--ascii]\n"
+			    "Exit status: 0 nothing over its threshold, 1 something over, 2 trouble.\n");
+			return 0;
+		default:
+			return cmd_usage("trace: unknown option '%s'", argv[optind - 1]);
+		}
+	}
+	if (demo == (optind < argc))
+		return cmd_usage(demo ? "trace: give a file or --demo, not both" :
+		    "trace: which bench? give a file, or --demo");
+	if (optind + 1 < argc)
+		return cmd_usage("trace: one bench at a time ('%s' is extra)", argv[optind + 1]);
+	ro.color = cmd_color(color);
+	b = demo ? bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause) :
+	    bench_file_read(argv[optind], &cause);
+	if (b == NULL)
+		return cmd_fail(cause);
+	rc = cmd_trace_print(b, fmt, &ro);
+	model_bench_free(b);
+	return rc;
+}
+
+int
+cmd_demo(struct cmd_ctx *ctx, int argc, char **argv)
+{
+	(void)ctx;
+	(void)argv;
+	if (argc > 1)
+		return cmd_usage("demo: takes no arguments");
+	return cmd_print(bench_demo_text);
+}

@@ -1,0 +1,35 @@
+/* cmd.h - the command table behind main(): one function per command, each
+ * in a cmd-*.c file.  A command returns the process exit status: 0 fine,
+ * 1 something over threshold (trace, diff), 2 trouble. */
+#ifndef CMD_H
+#define CMD_H
+
+#define PROG "beamledger"
+
+struct cmd_ctx {
+	const char *db_path;        /* --db or BEAMLEDGER_DB; NULL: default */
+	const char *author;         /* --author or $USER */
+};
+
+struct cmd {
+	const char *name;
+	int       (*fn)(struct cmd_ctx *, int argc, char **argv);
+	const char *args;
+	const char *summary;
+};
+
+extern const struct cmd cmd_table[];
+
+/* "beamledger: <msg>" and "Try 'beamledger --help'"; returns 2. */
+int  cmd_usage(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+/* "beamledger: <cause>", frees cause; returns 2. */
+int  cmd_fail(char *cause);
+/* Colour for stdout: --color=always|never|auto, NO_COLOR, a terminal. */
+int  cmd_color(const char *when);
+/* Writes text to stdout; returns 0, or 2 after a message when it fails. */
+int  cmd_print(const char *text);
+
+int  cmd_trace(struct cmd_ctx *, int, char **);
+int  cmd_demo(struct cmd_ctx *, int, char **);
+
+#endif

@@ -1,0 +1,211 @@
+/* core-beam.c - Gaussian beam propagation per axis with the ABCD law
+ * (Kogelnik & Li 1966; Siegman, Lasers, ch. 20), clipping at a round
+ * aperture, and the focus inside a gap. */
+#include <config.h>
+
+#include <math.h>
+
+#include "core-beam.h"
+
+double
+beam_rayleigh(double w0, double m2, double lambda)
+{
+	return M_PI * w0 * w0 / (m2 * lambda);
+}
+
+struct beam_axis
+beam_axis_from_waist(double w0, double m2, double lambda, double dz)
+{
+	struct beam_axis a;
+
+	a.q = dz + I * beam_rayleigh(w0, m2, lambda);
+	a.m2 = m2;
+	return a;
+}
+
+double
+beam_radius(const struct beam_axis *a, double lambda)
+{
+	double im = cimag(1.0 / a->q);
+
+	return sqrt(-a->m2 * lambda / (M_PI * im));
+}
+
+double
+beam_curvature(const struct beam_axis *a)
+{
+	double re = creal(1.0 / a->q);
+
+	return re == 0 ? INFINITY : 1.0 / re;
+}
+
+double
+beam_waist_distance(const struct beam_axis *a)
+{
+	return -creal(a->q);
+}
+
+double
+beam_waist_radius(const struct beam_axis *a, double lambda)
+{
+	return sqrt(a->m2 * lambda * cimag(a->q) / M_PI);
+}
+
+void
+beam_space(struct beam_axis *a, double length)
+{
+	a->q += length;
+}
+
+void
+beam_abcd(struct beam_axis *a, double ma, double mb, double mc, double md)
+{
+	a->q = (ma * a->q + mb) / (mc * a->q + md);
+}
+
+void
+beam_lens(struct beam_axis *a, double focal)
+{
+	/* [[1, 0], [-1/f, 1]]: q' = q / (1 - q/f) */
+	a->q = a->q / (1.0 - a->q / focal);
+}
+
+void
+beam_mirror_focal(double roc, double aoi_deg, double *fx, double *fy)
+{
+	double c = cos(aoi_deg * M_PI / 180.0);
+
+	*fx = roc / 2 * c;
+	*fy = roc / 2 / c;
+}
+
+static double
+clip_integrand(double phi, double wx, double wy, double a)
+{
+	double c = cos(phi), s = sin(phi);
+	double g = c * c / (wx * wx) + s * s / (wy * wy);
+
+	return -expm1(-2 * a * a * g) / g;
+}
+
+double
+beam_clip_transmission(double wx, double wy, double a)
+{
+	double prev, sum, h;
+	int n;
+
+	if (!(a > 0))
+		return 0;
+	if (fabs(wx - wy) <= 1e-12 * (wx + wy))
+		return -expm1(-2 * a * a / (wx * wy));
+	/* The integrand is smooth and periodic in φ with period π and even
+	 * about 0, so the trapezoid rule on [0, π/2] converges geometrically;
+	 * the integral over 2π is four times it. */
+	n = 16;
+	h = M_PI / 2 / n;
+	sum = 0.5 * (clip_integrand(0, wx, wy, a) + clip_integrand(M_PI / 2, wx, wy, a));
+	for (int i = 1; i < n; i++)
+		sum += clip_integrand(i * h, wx, wy, a);
+	prev = sum * h;
+	for (int iter = 0; iter < 16; iter++) {
+		double now;
+
+		for (int i = 1; i < 2 * n; i += 2)
+			sum += clip_integrand(i * h / 2, wx, wy, a);
+		n *= 2;
+		h /= 2;
+		now = sum * h;
+		if (fabs(now - prev) <= 1e-14 * fabs(now))
+			return 4 * now / (2 * M_PI * wx * wy);
+		prev = now;
+	}
+	return 4 * prev / (2 * M_PI * wx * wy);
+}
+
+/* d ln(wx·wy)/dz up to a positive factor: each axis contributes
+ * u/(u² + zR²), u the distance past its waist. */
+static double
+log_slope(double ux, double zx, double uy, double zy)
+{
+	return ux / (ux * ux + zx * zx) + uy / (uy * uy + zy * zy);
+}
+
+static double
+area(double ux, double zx, double uy, double zy)
+{
+	return (1 + ux * ux / (zx * zx)) * (1 + uy * uy / (zy * zy));
+}
+
+int
+beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
+    double lambda, double length, double *dz, double *wx, double *wy)
+{
+	/* Positions along the gap measured from its start; axis i has its
+	 * waist at a_i = -Re q_i and Rayleigh range z_i = Im q_i. */
+	double ax = -creal(x->q), zx = cimag(x->q);
+	double ay = -creal(y->q), zy = cimag(y->q);
+	double best = NAN, best_area = INFINITY;
+	double m, d, p, qq, roots[3];
+	int nroots = 0;
+
+	if (!(length > 0))
+		return 0;
+	if (!(log_slope(-ax, zx, -ay, zy) < 0) ||
+	    !(log_slope(length - ax, zx, length - ay, zy) > 0))
+		return 0;
+	/* Stationary points of wx·wy: with m the mid-point of the two waists,
+	 * d half their separation and s = z - m, the condition is the
+	 * depressed cubic 2s³ + (A + B - 2d²)s + d(A - B) = 0 (A = zx²,
+	 * B = zy²) [derived]. */
+	m = (ax + ay) / 2;
+	d = (ax - ay) / 2;
+	p = (zx * zx + zy * zy - 2 * d * d) / 2;
+	qq = d * (zx * zx - zy * zy) / 2;
+	if (p == 0 && qq == 0) {
+		roots[nroots++] = 0;
+	} else {
+		/* s³ + p s + q = 0 */
+		double disc = qq * qq / 4 + p * p * p / 27;
+
+		if (disc > 0) {
+			double sq = sqrt(disc);
+			roots[nroots++] = cbrt(-qq / 2 + sq) + cbrt(-qq / 2 - sq);
+		} else {
+			double r = sqrt(-p / 3);
+			double phi = acos(fmax(-1, fmin(1, -qq / (2 * r * r * r))));
+
+			for (int k = 0; k < 3; k++)
+				roots[nroots++] = 2 * r * cos((phi - 2 * M_PI * k) / 3);
+		}
+	}
+	for (int i = 0; i < nroots; i++) {
+		double s = roots[i], t, ar;
+
+		/* two Newton steps polish the closed form */
+		for (int k = 0; k < 2; k++) {
+			double f = s * s * s + p * s + qq, fp = 3 * s * s + p;
+			if (fp != 0)
+				s -= f / fp;
+		}
+		t = m + s;
+		if (!(t > 0 && t < length))
+			continue;
+		ar = area(t - ax, zx, t - ay, zy);
+		if (ar < best_area) {
+			best_area = ar;
+			best = t;
+		}
+	}
+	if (isnan(best))
+		return 0;
+	{
+		struct beam_axis fx = *x, fy = *y;
+
+		beam_space(&fx, best);
+		beam_space(&fy, best);
+		*dz = best;
+		*wx = beam_radius(&fx, lambda);
+		*wy = beam_radius(&fy, lambda);
+	}
+	return 1;
+}

@@ -1,0 +1,45 @@
+/* core-beam.h - the Gaussian beam of each axis: complex beam parameter q,
+ * ABCD propagation, radius, clipping at a round aperture, and the focus in
+ * a free-space gap.  Embedded-Gaussian rule: the real beam of quality M²
+ * has radius w with 1/q = 1/R - i·M²·λ/(π·w²).  Pure computation. */
+#ifndef CORE_BEAM_H
+#define CORE_BEAM_H
+
+#include <complex.h>
+
+#define PHYS_C    299792458.0          /* m/s, exact (SI) */
+#define PHYS_EPS0 8.8541878128e-12     /* F/m, CODATA 2018 */
+
+struct beam_axis {
+	double complex q;           /* m */
+	double         m2;          /* M² of this axis, >= 1 */
+};
+
+/* q at distance dz from a waist of radius w0 (dz > 0: past the waist). */
+struct beam_axis beam_axis_from_waist(double w0, double m2, double lambda, double dz);
+double beam_rayleigh(double w0, double m2, double lambda);        /* zR */
+double beam_radius(const struct beam_axis *, double lambda);      /* 1/e² radius w */
+double beam_curvature(const struct beam_axis *);                  /* R, INFINITY at a waist */
+double beam_waist_distance(const struct beam_axis *);             /* -Re q: + when the waist is ahead */
+double beam_waist_radius(const struct beam_axis *, double lambda);
+
+void   beam_space(struct beam_axis *, double length);
+void   beam_lens(struct beam_axis *, double focal);               /* thin lens, f != 0 */
+void   beam_abcd(struct beam_axis *, double a, double b, double c, double d);
+
+/* Focal lengths of a curved mirror (roc > 0 concave) at angle of incidence
+ * aoi: tangential (x) (roc/2)·cos θ, sagittal (y) (roc/2)/cos θ. */
+void   beam_mirror_focal(double roc, double aoi_deg, double *fx, double *fy);
+
+/* Power fraction of a centred elliptical Gaussian (radii wx, wy) passed by
+ * a round aperture of radius a.  Exact for wx = wy; otherwise the angular
+ * integral of the spec, by a trapezoid rule refined until it settles. */
+double beam_clip_transmission(double wx, double wy, double a);
+
+/* Looks for a focus inside a gap of `length` that starts with axes x, y:
+ * the product wx·wy falls at the start and rises at the end.  On success
+ * returns 1 and sets *dz (from the gap start) and both radii there. */
+int    beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
+           double lambda, double length, double *dz, double *wx, double *wy);
+
+#endif

@@ -1,0 +1,154 @@
+/* core-damage.c - exposure quantities and threshold scaling.  The scaling
+ * rules are rules of thumb of the trade (wavelength λ¹, pulse width τ^½,
+ * Stuart et al., Phys. Rev. B 53, 1749 (1996) for the range of τ^½); the
+ * trace flags every number that depends on them. */
+#include <config.h>
+
+#include <math.h>
+
+#include "core-beam.h"
+#include "core-damage.h"
+
+double
+damage_peak_factor(enum pulse_shape shape)
+{
+	switch (shape) {
+	case PULSE_SECH2:
+		return log(1 + sqrt(2.0));
+	case PULSE_SQUARE:
+		return 1;
+	default:
+		return 2 * sqrt(log(2.0) / M_PI);
+	}
+}
+
+double
+damage_peak_irradiance(double power, double wx, double wy)
+{
+	return 2 * power / (M_PI * wx * wy);
+}
+
+double
+damage_peak_field(double irradiance)
+{
+	return sqrt(2 * irradiance / (PHYS_C * PHYS_EPS0));
+}
+
+double
+damage_linear_density(double power, double wx, double wy)
+{
+	return power / (2 * fmin(wx, wy));
+}
+
+double
+damage_critical_power(double lambda, double n0, double n2)
+{
+	return 3.77 * lambda * lambda / (8 * M_PI * n0 * n2);
+}
+
+double
+damage_b_integral(double lambda, double n2, double irradiance, double thickness)
+{
+	return 2 * M_PI / lambda * n2 * irradiance * thickness;
+}
+
+static int
+in_range(double tau)
+{
+	return tau >= DAMAGE_TAU_MIN && tau <= DAMAGE_TAU_MAX;
+}
+
+void
+damage_limits(const struct element *el, const struct source *src,
+    struct damage_limits *lim)
+{
+	double lam = src->wavelength, wl_spec, k;
+
+	lim->cw_linear = lim->cw_irradiance = lim->fluence = NAN;
+	lim->max_power = lim->max_absorbed = NAN;
+	lim->flags = 0;
+	wl_spec = model_has(el, K_DMG_WAVELENGTH) ? el->val[K_DMG_WAVELENGTH] : lam;
+	k = lam / wl_spec;
+	if (wl_spec != lam && (el->set & (KEY_BIT(K_DMG_CW_LINEAR) |
+	    KEY_BIT(K_DMG_CW_IRRADIANCE) | KEY_BIT(K_DMG_FLUENCE))))
+		lim->flags |= DAMAGE_WL_SCALED;
+	if (model_has(el, K_DMG_CW_LINEAR))
+		lim->cw_linear = el->val[K_DMG_CW_LINEAR] * k;
+	if (model_has(el, K_DMG_CW_IRRADIANCE))
+		lim->cw_irradiance = el->val[K_DMG_CW_IRRADIANCE] * k;
+	if (model_has(el, K_DMG_FLUENCE)) {
+		if (!src->pulsed) {
+			/* Never scale a pulsed rating to CW. */
+			lim->flags |= DAMAGE_CW_ONLY_PULSED;
+		} else {
+			double tau = src->pulse_width;
+			double tau_spec = el->val[K_DMG_PULSE_WIDTH];
+
+			lim->fluence = el->val[K_DMG_FLUENCE] * k;
+			if (tau != tau_spec) {
+				lim->fluence *= sqrt(tau / tau_spec);
+				lim->flags |= DAMAGE_PULSE_SCALED;
+				if (!in_range(tau) || !in_range(tau_spec))
+					lim->flags |= DAMAGE_PULSE_RANGE;
+			}
+		}
+	}
+	if (model_has(el, K_MAX_POWER))
+		lim->max_power = el->val[K_MAX_POWER];
+	if (model_has(el, K_MAX_ABSORBED))
+		lim->max_absorbed = el->val[K_MAX_ABSORBED];
+	if (!(lim->flags & DAMAGE_CW_ONLY_PULSED) || damage_rated(lim))
+		lim->flags &= ~(unsigned)DAMAGE_CW_ONLY_PULSED;
+}
+
+int
+damage_rated(const struct damage_limits *l)
+{
+	return !isnan(l->cw_linear) || !isnan(l->cw_irradiance) ||
+	    !isnan(l->fluence) || !isnan(l->max_power) || !isnan(l->max_absorbed);
+}
+
+static double
+worse(double r, double metric, double limit)
+{
+	double x;
+
+	if (isnan(limit))
+		return r;
+	x = metric / limit;
+	return isnan(r) || x > r ? x : r;
+}
+
+double
+damage_ratio(const struct damage_limits *l, const struct damage_exposure *e)
+{
+	double r = NAN;
+
+	r = worse(r, e->linear_density, l->cw_linear);
+	r = worse(r, e->irradiance, l->cw_irradiance);
+	if (!isnan(e->fluence))
+		r = worse(r, e->fluence, l->fluence);
+	r = worse(r, e->power_in, l->max_power);
+	r = worse(r, e->power_lost, l->max_absorbed);
+	return r;
+}
+
+enum damage_status
+damage_status_of(double ratio, double sf)
+{
+	if (isnan(ratio))
+		return STATUS_UNRATED;
+	if (ratio >= 1)
+		return STATUS_OVER;
+	if (ratio >= 1 / sf)
+		return STATUS_CAUTION;
+	return STATUS_OK;
+}
+
+const char *
+damage_status_name(enum damage_status s)
+{
+	static const char *const names[] = { "unrated", "ok", "caution", "over" };
+
+	return names[s];
+}

@@ -1,0 +1,59 @@
+/* core-damage.h - what a beam does to a surface: irradiance, fluence, pulse
+ * peak power, peak field, self-focusing, and laser-induced damage
+ * thresholds rescaled from the conditions they were measured at.
+ * Pure computation; every formula is in REFERENCE.md §4-5, 10-11. */
+#ifndef CORE_DAMAGE_H
+#define CORE_DAMAGE_H
+
+#include "core-model.h"
+
+/* Pulses shorter or longer than this are outside the range where the
+ * √τ law of fluence thresholds is established (Stuart et al. 1996). */
+#define DAMAGE_TAU_MIN 50e-12
+#define DAMAGE_TAU_MAX 100e-9
+
+/* Peak power = k · E / τ_FWHM: 2√(ln2/π) gaussian, ln(1+√2) sech², 1 square. */
+double damage_peak_factor(enum pulse_shape);
+double damage_peak_irradiance(double power, double wx, double wy);  /* 2P/(π wx wy) */
+double damage_peak_field(double irradiance);                        /* √(2I/(c ε0)) V/m */
+double damage_linear_density(double power, double wx, double wy);   /* P/(2 min w) */
+/* Marburger: P_cr = 3.77 λ² / (8π n0 n2). */
+double damage_critical_power(double lambda, double n0, double n2);
+/* On-axis nonlinear phase of a thin plate: (2π/λ)·n2·I·L. */
+double damage_b_integral(double lambda, double n2, double irradiance, double thickness);
+
+/* Flags a threshold can raise while it is rescaled. */
+enum {
+	DAMAGE_WL_SCALED        = 1 << 0,
+	DAMAGE_PULSE_SCALED     = 1 << 1,
+	DAMAGE_PULSE_RANGE      = 1 << 2,   /* √τ outside its established range */
+	DAMAGE_CW_ONLY_PULSED   = 1 << 3,   /* only a pulsed rating, CW beam: unrated */
+};
+
+/* A rating scaled to the beam at hand (rules of thumb of the trade, common
+ * practice, no single source): every threshold × λ/λ_spec, a fluence also
+ * × √(τ/τ_spec).  NAN where the rating does not apply. */
+struct damage_limits {
+	double   cw_linear;         /* W/m */
+	double   cw_irradiance;     /* W/m² */
+	double   fluence;           /* J/m² */
+	double   max_power;         /* W */
+	double   max_absorbed;      /* W */
+	unsigned flags;
+};
+
+void   damage_limits(const struct element *, const struct source *, struct damage_limits *);
+int    damage_rated(const struct damage_limits *);
+
+/* What the element sees, and the ratio to its scaled limits (the largest
+ * that applies; NAN when none applies). */
+struct damage_exposure {
+	double power_in, power_lost, linear_density, irradiance, fluence;
+};
+double damage_ratio(const struct damage_limits *, const struct damage_exposure *);
+
+enum damage_status { STATUS_UNRATED, STATUS_OK, STATUS_CAUTION, STATUS_OVER };
+enum damage_status damage_status_of(double ratio, double safety_factor);
+const char *damage_status_name(enum damage_status);
+
+#endif

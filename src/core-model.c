@@ -1,0 +1,527 @@
+/* core-model.c - the bench in memory, its key table and its checks.
+ * Every rule about which value a key may hold lives here, so a value typed
+ * in a file, on the command line or in the workbench meets the same check. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-model.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+#define ALL_OPTICS (EL_BIT(EL_MIRROR) | EL_BIT(EL_LENS) | EL_BIT(EL_SPLITTER) | \
+	EL_BIT(EL_WINDOW) | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | \
+	EL_BIT(EL_POLARIZER) | EL_BIT(EL_IRIS) | EL_BIT(EL_DUMP) | \
+	EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
+#define TRANSMISSIVE (EL_BIT(EL_LENS) | EL_BIT(EL_WINDOW))
+#define TERMINATORS (EL_BIT(EL_DUMP) | EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
+
+/* Ranges: angles of incidence stay below grazing; polarizer and waveplate
+ * angles are any orientation. */
+const struct model_key_def model_keys[K_COUNT] = {
+	[K_LENGTH] = { "length", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 0, 1, 0,
+	    EL_BIT(EL_SPACE), NAN, "free-space gap length" },
+	[K_REFLECTANCE] = { "reflectance", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "power reflectance, 0..1" },
+	[K_RS] = { "rs", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "s-polarized power reflectance" },
+	[K_RP] = { "rp", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "p-polarized power reflectance" },
+	[K_TP] = { "tp", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_SPLITTER), NAN, "p-polarized power transmittance" },
+	[K_TS] = { "ts", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_SPLITTER), NAN, "s-polarized power transmittance" },
+	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -INFINITY, INFINITY, 1, 1, 1,
+	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat" },
+	[K_AOI] = { "aoi", KIND_ANGLE, DIM_NONE, 0, 90, 0, 1, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "angle of incidence, degrees" },
+	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -INFINITY, INFINITY, 1, 1, 1,
+	    EL_BIT(EL_LENS), NAN, "focal length, - diverging" },
+	[K_AXIS] = { "axis", KIND_AXIS, DIM_NONE, 0, 2, 0, 0, 0,
+	    EL_BIT(EL_LENS), AXIS_BOTH, "both, x or y (cylindrical)" },
+	[K_TRANSMISSION] = { "transmission", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER),
+	    1, "power transmission, 0..1" },
+	[K_THICKNESS] = { "thickness", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 0, 1, 0,
+	    TRANSMISSIVE, NAN, "material thickness, for the B-integral" },
+	[K_N2] = { "n2", KIND_QUANTITY, DIM_N2, 0, INFINITY, 0, 1, 0,
+	    TRANSMISSIVE, NAN, "nonlinear index, e.g. 2.7e-16 cm^2/W" },
+	[K_INDEX] = { "index", KIND_NUMBER, DIM_NONE, 1, INFINITY, 0, 1, 0,
+	    TRANSMISSIVE, 1.45, "linear refractive index" },
+	[K_POLARIZING] = { "polarizing", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_SPLITTER), 0, "true: polarizing splitter" },
+	[K_OD] = { "od", KIND_NUMBER, DIM_NONE, 0, INFINITY, 0, 1, 0,
+	    EL_BIT(EL_FILTER), NAN, "optical density, T = 10^-od" },
+	[K_MAX_ABSORBED] = { "max_absorbed", KIND_QUANTITY, DIM_POWER, 0, INFINITY, 1, 1, 0,
+	    EL_BIT(EL_FILTER), NAN, "absorbed power rating" },
+	[K_RETARDANCE] = { "retardance", KIND_NUMBER, DIM_NONE, 0, INFINITY, 0, 1, 0,
+	    EL_BIT(EL_WAVEPLATE), NAN, "retardance in waves (0.5, 0.25)" },
+	[K_ANGLE] = { "angle", KIND_ANGLE, DIM_NONE, -360, 360, 0, 0, 0,
+	    EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER), 0, "axis angle from horizontal, degrees" },
+	[K_EXTINCTION] = { "extinction", KIND_NUMBER, DIM_NONE, 1, INFINITY, 0, 1, 0,
+	    EL_BIT(EL_POLARIZER), NAN, "pass/block transmission ratio; absent = ideal" },
+	[K_DIAMETER] = { "diameter", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	    EL_BIT(EL_IRIS), NAN, "iris opening diameter" },
+	[K_MAX_POWER] = { "max_power", KIND_QUANTITY, DIM_POWER, 0, INFINITY, 1, 1, 0,
+	    TERMINATORS, NAN, "power rating" },
+	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS & ~EL_BIT(EL_IRIS), NAN, "clear-aperture diameter" },
+	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS, NAN, "CW LIDT, linear power density (kW/cm)" },
+	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS, NAN, "CW LIDT, irradiance (kW/cm^2)" },
+	[K_DMG_FLUENCE] = { "fluence", KIND_QUANTITY, DIM_FLUENCE, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS, NAN, "pulsed LIDT, peak fluence (J/cm^2)" },
+	[K_DMG_WAVELENGTH] = { "wavelength", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS, NAN, "wavelength the LIDT was measured at" },
+	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 0, INFINITY, 1, 1, 0,
+	    ALL_OPTICS, NAN, "pulse width the fluence LIDT was measured at" },
+};
+
+static const char *const type_names[EL_NTYPES] = {
+	"space", "mirror", "lens", "splitter", "window", "filter",
+	"waveplate", "polarizer", "iris", "dump", "detector", "target",
+};
+
+static const char *const key_paths[K_COUNT - K_DMG_FIRST] = {
+	"damage.cw_linear", "damage.cw_irradiance", "damage.fluence",
+	"damage.wavelength", "damage.pulse_width",
+};
+
+const char *
+model_type_name(enum elem_type t)
+{
+	return (unsigned)t < EL_NTYPES ? type_names[t] : "?";
+}
+
+int
+model_type_parse(const char *s, enum elem_type *out)
+{
+	for (int t = 0; t < EL_NTYPES; t++)
+		if (strcmp(s, type_names[t]) == 0) {
+			*out = (enum elem_type)t;
+			return 0;
+		}
+	return -1;
+}
+
+const char *
+model_port_name(enum port p)
+{
+	switch (p) {
+	case PORT_REFLECTED:	return "reflected";
+	case PORT_TRANSMITTED:	return "transmitted";
+	case PORT_REJECTED:	return "rejected";
+	default:		return "main";
+	}
+}
+
+int
+model_type_is_terminator(enum elem_type t)
+{
+	return (TERMINATORS & EL_BIT(t)) != 0;
+}
+
+int
+model_type_takes_port(enum elem_type t, enum port p)
+{
+	if (t == EL_SPLITTER)
+		return p == PORT_REFLECTED || p == PORT_TRANSMITTED;
+	if (t == EL_POLARIZER)
+		return p == PORT_REJECTED;
+	return 0;
+}
+
+const char *
+model_key_path(enum model_key k)
+{
+	return k >= K_DMG_FIRST ? key_paths[k - K_DMG_FIRST] : model_keys[k].name;
+}
+
+int
+model_key_find(const char *name)
+{
+	for (int k = 0; k < K_COUNT; k++)
+		if (strcmp(name, model_key_path((enum model_key)k)) == 0)
+			return k;
+	return -1;
+}
+
+int
+model_key_applies(enum model_key k, enum elem_type t)
+{
+	return (model_keys[k].types & EL_BIT(t)) != 0;
+}
+
+int
+model_has(const struct element *el, enum model_key k)
+{
+	return (el->set & KEY_BIT(k)) != 0;
+}
+
+/* Defaults that depend on the type (a splitter meets the beam at 45°). */
+double
+model_get(const struct element *el, enum model_key k)
+{
+	if (model_has(el, k))
+		return el->val[k];
+	switch (k) {
+	case K_AOI:
+		return el->type == EL_SPLITTER ? 45 : 0;
+	case K_REFLECTANCE:
+		return el->type == EL_MIRROR ? 1 : NAN;
+	default:
+		return model_keys[k].dflt;
+	}
+}
+
+static void
+range_text(struct buf *b, const struct model_key_def *d)
+{
+	if (isinf(d->lo) && isinf(d->hi))
+		buf_add(b, "any nonzero value");
+	else if (isinf(d->hi))
+		buf_printf(b, "%s %g", d->lo_open ? ">" : ">=", d->lo);
+	else
+		buf_printf(b, "%s%g, %g%s", d->lo_open ? "(" : "[", d->lo, d->hi,
+		    d->hi_open ? ")" : "]");
+}
+
+int
+model_set(struct element *el, enum model_key k, double v, char **cause)
+{
+	const struct model_key_def *d = &model_keys[k];
+	struct buf b;
+	char shown[64];
+	int bad;
+
+	if (!model_key_applies(k, el->type))
+		return fail_with(cause, "element '%s': a %s has no key '%s'",
+		    el->id, model_type_name(el->type), model_key_path(k));
+	if (d->kind == KIND_QUANTITY)
+		units_format(shown, sizeof shown, v, d->dim, 6, 0);
+	else
+		snprintf(shown, sizeof shown, "%g", v);
+	if (!isfinite(v))
+		return fail_with(cause, "element '%s': %s: '%s' is not a finite number",
+		    el->id, model_key_path(k), shown);
+	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
+	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0);
+	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL)
+		bad = bad || v != floor(v);
+	if (bad) {
+		buf_init(&b);
+		range_text(&b, d);
+		fail_with(cause, "element '%s': %s %s is out of range (allowed: %s)",
+		    el->id, model_key_path(k), shown, b.s);
+		buf_release(&b);
+		return -1;
+	}
+	el->val[k] = v;
+	el->set |= KEY_BIT(k);
+	return 0;
+}
+
+void
+model_unset(struct element *el, enum model_key k)
+{
+	el->set &= ~KEY_BIT(k);
+	el->val[k] = NAN;
+}
+
+static int
+parse_plain(const char *text, double *v)
+{
+	char *end;
+
+	while (*text == ' ' || *text == '\t')
+		text++;
+	if (*text == '\0')
+		return -1;
+	*v = strtod(text, &end);
+	while (*end == ' ' || *end == '\t')
+		end++;
+	return *end == '\0' && isfinite(*v) ? 0 : -1;
+}
+
+int
+model_set_text(struct element *el, enum model_key k, const char *text, char **cause)
+{
+	const struct model_key_def *d = &model_keys[k];
+	char *why = NULL;
+	double v;
+
+	if (!model_key_applies(k, el->type))
+		return fail_with(cause, "element '%s': a %s has no key '%s'",
+		    el->id, model_type_name(el->type), model_key_path(k));
+	switch (d->kind) {
+	case KIND_QUANTITY:
+		if (units_parse(text, d->dim, &v, &why) != 0) {
+			fail_with(cause, "element '%s': %s: %s", el->id,
+			    model_key_path(k), why);
+			free(why);
+			return -1;
+		}
+		break;
+	case KIND_BOOL:
+		if (strcmp(text, "true") == 0)
+			v = 1;
+		else if (strcmp(text, "false") == 0)
+			v = 0;
+		else
+			return fail_with(cause, "element '%s': %s: '%s' is not true or false",
+			    el->id, model_key_path(k), text);
+		break;
+	case KIND_AXIS:
+		if (strcmp(text, "both") == 0)
+			v = AXIS_BOTH;
+		else if (strcmp(text, "x") == 0)
+			v = AXIS_X;
+		else if (strcmp(text, "y") == 0)
+			v = AXIS_Y;
+		else
+			return fail_with(cause, "element '%s': %s: '%s' is not both, x or y",
+			    el->id, model_key_path(k), text);
+		break;
+	default:
+		if (parse_plain(text, &v) != 0)
+			return fail_with(cause, "element '%s': %s: '%s' is not a plain number%s",
+			    el->id, model_key_path(k), text,
+			    d->kind == KIND_ANGLE ? " (degrees)" : "");
+		break;
+	}
+	return model_set(el, k, v, cause);
+}
+
+char *
+model_value_text(const struct element *el, enum model_key k)
+{
+	const struct model_key_def *d = &model_keys[k];
+	double v = model_get(el, k);
+	char tmp[64];
+
+	switch (d->kind) {
+	case KIND_QUANTITY:
+		units_format_exact(tmp, sizeof tmp, v, d->dim);
+		return xstrdup(tmp);
+	case KIND_BOOL:
+		return xstrdup(v != 0 ? "true" : "false");
+	case KIND_AXIS:
+		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
+	default:
+		units_format_exact(tmp, sizeof tmp, v, DIM_NONE);
+		return xstrdup(tmp);
+	}
+}
+
+/* ---- life cycle ---- */
+
+void
+model_element_init(struct element *el, enum elem_type t, const char *id)
+{
+	memset(el, 0, sizeof *el);
+	el->type = t;
+	el->id = xstrdup(id != NULL ? id : "");
+	for (int k = 0; k < K_COUNT; k++)
+		el->val[k] = NAN;
+}
+
+void
+model_branch_release(struct branch *b)
+{
+	for (size_t i = 0; i < b->n; i++)
+		model_element_release(&b->el[i]);
+	free(b->el);
+	b->el = NULL;
+	b->n = b->cap = 0;
+}
+
+void
+model_element_release(struct element *el)
+{
+	free(el->id);
+	free(el->label);
+	free(el->part);
+	model_branch_release(&el->side);
+	el->id = el->label = el->part = NULL;
+}
+
+static void
+branch_copy(struct branch *dst, const struct branch *src)
+{
+	dst->n = dst->cap = src->n;
+	dst->el = src->n ? xcalloc(src->n, sizeof *dst->el) : NULL;
+	for (size_t i = 0; i < src->n; i++)
+		model_element_copy(&dst->el[i], &src->el[i]);
+}
+
+void
+model_element_copy(struct element *dst, const struct element *src)
+{
+	*dst = *src;
+	dst->id = xstrdup(src->id);
+	dst->label = xstrdup(src->label);
+	dst->part = xstrdup(src->part);
+	branch_copy(&dst->side, &src->side);
+}
+
+struct element *
+model_branch_push(struct branch *b)
+{
+	struct element *el;
+
+	if (b->n == b->cap) {
+		b->cap = b->cap ? b->cap * 2 : 8;
+		b->el = xreallocarray(b->el, b->cap, sizeof *b->el);
+	}
+	el = &b->el[b->n++];
+	memset(el, 0, sizeof *el);
+	return el;
+}
+
+void
+model_branch_insert(struct branch *b, size_t i, struct element *el)
+{
+	if (i > b->n)
+		i = b->n;
+	model_branch_push(b);
+	memmove(&b->el[i + 1], &b->el[i], (b->n - 1 - i) * sizeof *b->el);
+	b->el[i] = *el;
+}
+
+void
+model_branch_remove(struct branch *b, size_t i, struct element *out)
+{
+	if (i >= b->n)
+		return;
+	if (out != NULL)
+		*out = b->el[i];
+	else
+		model_element_release(&b->el[i]);
+	memmove(&b->el[i], &b->el[i + 1], (b->n - 1 - i) * sizeof *b->el);
+	b->n--;
+}
+
+void
+model_source_defaults(struct source *s)
+{
+	memset(s, 0, sizeof *s);
+	s->wavelength = NAN;
+	s->power = NAN;
+	s->pulse_energy = NAN;
+	s->rep_rate = NAN;
+	s->pulse_width = NAN;
+	s->waist[0] = s->waist[1] = NAN;
+	s->m2[0] = s->m2[1] = 1;
+	s->shape = PULSE_GAUSSIAN;
+	s->pol = POL_LINEAR;
+}
+
+struct bench *
+model_bench_new(const char *name)
+{
+	struct bench *b = xcalloc(1, sizeof *b);
+
+	b->name = xstrdup(name != NULL ? name : "");
+	b->safety_factor = 2;
+	b->air_breakdown = 1e14;
+	model_source_defaults(&b->src);
+	return b;
+}
+
+void
+model_bench_free(struct bench *b)
+{
+	if (b == NULL)
+		return;
+	free(b->name);
+	free(b->notes);
+	model_branch_release(&b->path);
+	free(b);
+}
+
+struct bench *
+model_bench_dup(const struct bench *src)
+{
+	struct bench *b = xcalloc(1, sizeof *b);
+
+	*b = *src;
+	b->name = xstrdup(src->name);
+	b->notes = xstrdup(src->notes);
+	branch_copy(&b->path, &src->path);
+	return b;
+}
+
+/* ---- walking ---- */
+
+static int
+walk(struct branch *b, struct element *parent, size_t depth,
+    model_walk_fn fn, void *arg)
+{
+	int rc;
+
+	for (size_t i = 0; i < b->n; i++) {
+		if ((rc = fn(&b->el[i], parent, depth, arg)) != 0)
+			return rc;
+		if (b->el[i].side_port != PORT_NONE &&
+		    (rc = walk(&b->el[i].side, &b->el[i], depth + 1, fn, arg)) != 0)
+			return rc;
+	}
+	return 0;
+}
+
+int
+model_walk(struct branch *b, model_walk_fn fn, void *arg)
+{
+	return walk(b, NULL, 0, fn, arg);
+}
+
+size_t
+model_count(const struct branch *b)
+{
+	size_t n = b->n;
+
+	for (size_t i = 0; i < b->n; i++)
+		n += model_count(&b->el[i].side);
+	return n;
+}
+
+struct find_ctx {
+	const char      *id;
+	struct element  *hit, *parent;
+};
+
+static int
+find_fn(struct element *el, struct element *parent, size_t depth, void *arg)
+{
+	struct find_ctx *c = arg;
+
+	(void)depth;
+	if (strcmp(el->id, c->id) != 0)
+		return 0;
+	c->hit = el;
+	c->parent = parent;
+	return 1;
+}
+
+struct element *
+model_find(struct bench *bench, const char *id, struct branch **where,
+    size_t *index, struct element **parent)
+{
+	struct find_ctx c = { id, NULL, NULL };
+	struct branch *b;
+
+	if (model_walk(&bench->path, find_fn, &c) == 0)
+		return NULL;
+	b = c.parent != NULL ? &c.parent->side : &bench->path;
+	if (where != NULL)
+		*where = b;
+	if (index != NULL)
+		*index = (size_t)(c.hit - b->el);
+	if (parent != NULL)
+		*parent = c.parent;
+	return c.hit;
+}

@@ -1,0 +1,454 @@
+/* core-trace.c - the trace engine.  One pass over the element tree, depth
+ * first without recursion (an explicit stack of branch cursors), so the cost
+ * is linear in the number of elements and nesting cannot exhaust the C stack. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-trace.h"
+#include "core-polar.h"
+#include "util-err.h"
+
+#define B_WARN_RAD 3.0          /* common practice: 3-5 rad, onset of break-up */
+#define CLIP_WARN  0.01         /* REFERENCE §9, common practice */
+#define CLIP_HARD  0.10
+
+static const char *const flag_names[TF_COUNT] = {
+	"clipping", "hard_clipping", "wavelength_scaled", "pulse_scaled",
+	"pulse_scaling_out_of_range", "pulsed_rating_on_cw", "self_focusing",
+	"focus", "air_breakdown",
+};
+
+const char *
+trace_flag_name(unsigned bit)
+{
+	for (int i = 0; i < TF_COUNT; i++)
+		if (bit == 1u << i)
+			return flag_names[i];
+	return "?";
+}
+
+const char *
+trace_warn_name(enum trace_warn_kind k)
+{
+	static const char *const names[] = {
+		"unterminated", "b_integral", "air_breakdown", "self_focusing",
+	};
+
+	return names[k];
+}
+
+void
+trace_branch_name(const struct element *parent, enum port port, char *buf, size_t n)
+{
+	if (parent == NULL)
+		snprintf(buf, n, "main");
+	else
+		snprintf(buf, n, "%s.%s", parent->id, model_port_name(port));
+}
+
+/* The beam between elements. */
+struct state {
+	double           s[4];
+	struct beam_axis x, y;
+	double           z;
+	double           b_total;
+	int              b_warned;
+};
+
+/* A branch being walked: where it is and what beam it carries. */
+struct cursor {
+	const struct branch  *br;
+	size_t                i;
+	const struct element *parent;
+	enum port             port;
+	struct state          st;
+};
+
+static void
+warn(struct trace *t, enum trace_warn_kind kind, const struct cursor *c,
+    const struct element *after, double value)
+{
+	struct trace_warning *w;
+
+	if (t->nwarn == t->capwarn) {
+		t->capwarn = t->capwarn ? 2 * t->capwarn : 8;
+		t->warn = xreallocarray(t->warn, t->capwarn, sizeof *t->warn);
+	}
+	w = &t->warn[t->nwarn++];
+	w->kind = kind;
+	w->parent = c->parent;
+	w->port = c->port;
+	w->after = after;
+	w->value = value;
+}
+
+static void
+start_state(const struct bench *b, struct state *st)
+{
+	const struct source *s = &b->src;
+
+	switch (s->pol) {
+	case POL_CIRCULAR:
+		polar_circular(st->s, s->power);
+		break;
+	case POL_UNPOLARIZED:
+		polar_unpolarized(st->s, s->power);
+		break;
+	default:
+		polar_linear(st->s, s->power, s->pol_angle_deg);
+		break;
+	}
+	/* q = -waist_position + i zR */
+	st->x = beam_axis_from_waist(s->waist[0], s->m2[0], s->wavelength, -s->waist_position);
+	st->y = beam_axis_from_waist(s->waist[1], s->m2[1], s->wavelength, -s->waist_position);
+	st->z = 0;
+	st->b_total = 0;
+	st->b_warned = 0;
+}
+
+/* What the element does to the polarization and power: the Mueller matrix
+ * of the port that continues, and of the side port when it has one. */
+static void
+element_mueller(const struct element *el, struct mueller *main_m, struct mueller *side_m)
+{
+	double r, rs, rp, tp, ts, t, t2;
+
+	polar_identity(main_m);
+	polar_scalar(side_m, 0);
+	switch (el->type) {
+	case EL_MIRROR:
+		if (model_has(el, K_RS) || model_has(el, K_RP)) {
+			rs = model_has(el, K_RS) ? el->val[K_RS] : 1;
+			rp = model_has(el, K_RP) ? el->val[K_RP] : 1;
+			polar_diattenuator(main_m, rp, rs, 0);
+		} else {
+			polar_scalar(main_m, model_get(el, K_REFLECTANCE));
+		}
+		polar_reflect(main_m);
+		break;
+	case EL_SPLITTER: {
+		struct mueller refl, trans;
+
+		if (model_get(el, K_POLARIZING) != 0) {
+			tp = model_has(el, K_TP) ? el->val[K_TP] : 1;
+			rs = model_has(el, K_RS) ? el->val[K_RS] : 1;
+			ts = model_has(el, K_TS) ? el->val[K_TS] : 1 - rs;
+			rp = model_has(el, K_RP) ? el->val[K_RP] : 1 - tp;
+			polar_diattenuator(&trans, tp, ts, 0);
+			polar_diattenuator(&refl, rp, rs, 0);
+		} else {
+			r = el->val[K_REFLECTANCE];
+			polar_scalar(&trans, 1 - r);
+			polar_scalar(&refl, r);
+		}
+		polar_reflect(&refl);
+		if (el->side_port == PORT_REFLECTED) {
+			*main_m = trans;
+			*side_m = refl;
+		} else {
+			*main_m = refl;
+			*side_m = trans;
+		}
+		break;
+	}
+	case EL_LENS:
+	case EL_WINDOW:
+		polar_scalar(main_m, model_get(el, K_TRANSMISSION));
+		break;
+	case EL_FILTER:
+		t = model_has(el, K_OD) ? pow(10, -el->val[K_OD]) : model_get(el, K_TRANSMISSION);
+		polar_scalar(main_m, t);
+		break;
+	case EL_WAVEPLATE:
+		polar_retarder(main_m, el->val[K_RETARDANCE], model_get(el, K_ANGLE));
+		t = model_get(el, K_TRANSMISSION);
+		for (int i = 0; i < 4; i++)
+			for (int j = 0; j < 4; j++)
+				main_m->m[i][j] *= t;
+		break;
+	case EL_POLARIZER:
+		t = model_get(el, K_TRANSMISSION);
+		t2 = model_has(el, K_EXTINCTION) ? t / el->val[K_EXTINCTION] : 0;
+		polar_diattenuator(main_m, t, t2, model_get(el, K_ANGLE));
+		if (el->side_port == PORT_REJECTED) {
+			polar_diattenuator(side_m, 0, 1 - t2, model_get(el, K_ANGLE));
+			polar_reflect(side_m);
+		}
+		break;
+	case EL_DUMP:
+	case EL_DETECTOR:
+	case EL_TARGET:
+		polar_scalar(main_m, 0);
+		break;
+	default:
+		break;
+	}
+}
+
+static void
+element_optics(const struct element *el, struct state *st)
+{
+	double fx, fy, f;
+
+	switch (el->type) {
+	case EL_MIRROR:
+		if (!model_has(el, K_ROC))
+			return;
+		beam_mirror_focal(el->val[K_ROC], model_get(el, K_AOI), &fx, &fy);
+		beam_lens(&st->x, fx);
+		beam_lens(&st->y, fy);
+		break;
+	case EL_LENS:
+		f = el->val[K_FOCAL];
+		if (model_get(el, K_AXIS) != AXIS_Y)
+			beam_lens(&st->x, f);
+		if (model_get(el, K_AXIS) != AXIS_X)
+			beam_lens(&st->y, f);
+		break;
+	default:
+		break;
+	}
+}
+
+static void
+gap_focus(const struct bench *b, struct trace_row *row, const struct state *st)
+{
+	double dz, wx, wy, lam = b->src.wavelength;
+
+	if (!beam_gap_focus(&st->x, &st->y, lam, row->el->val[K_LENGTH], &dz, &wx, &wy))
+		return;
+	row->has_focus = 1;
+	row->flags |= TF_FOCUS;
+	row->focus.z = st->z + dz;
+	row->focus.wx = wx;
+	row->focus.wy = wy;
+	row->focus.irradiance = damage_peak_irradiance(row->power_in, wx, wy);
+	if (b->src.pulsed) {
+		double e = row->power_in / b->src.rep_rate;
+		double ppk = damage_peak_factor(b->src.shape) * e / b->src.pulse_width;
+
+		row->focus.peak_irradiance = damage_peak_irradiance(ppk, wx, wy);
+		row->focus.air_breakdown = row->focus.peak_irradiance >= b->air_breakdown;
+		if (row->focus.air_breakdown)
+			row->flags |= TF_AIR_BREAKDOWN;
+	} else {
+		row->focus.peak_irradiance = row->focus.irradiance;
+	}
+}
+
+/* Fills one row and advances the state through the element; returns the
+ * state of the side port through *side. */
+static void
+visit(struct trace *t, const struct cursor *c, struct trace_row *row,
+    struct state *st, struct state *side, unsigned depth)
+{
+	const struct bench *b = t->bench;
+	const struct source *src = &b->src;
+	const struct element *el = &c->br->el[c->i];
+	struct mueller mm, ms;
+	struct damage_exposure ex;
+	double p, a, lam = src->wavelength;
+
+	memset(row, 0, sizeof *row);
+	row->el = el;
+	row->parent = c->parent;
+	row->port = c->port;
+	row->depth = depth;
+	row->z = st->z;
+	memcpy(row->stokes, st->s, sizeof st->s);
+	row->qx = st->x;
+	row->qy = st->y;
+	p = row->power_in = st->s[0];
+	row->wx = beam_radius(&st->x, lam);
+	row->wy = beam_radius(&st->y, lam);
+	row->irradiance = damage_peak_irradiance(p, row->wx, row->wy);
+	row->linear_density = damage_linear_density(p, row->wx, row->wy);
+	row->fluence = row->peak_power = NAN;
+	row->b_integral = row->critical_power = NAN;
+	row->b_total = st->b_total;
+	if (src->pulsed) {
+		double e = p / src->rep_rate;
+
+		row->fluence = 2 * e / (M_PI * row->wx * row->wy);
+		row->peak_power = damage_peak_factor(src->shape) * e / src->pulse_width;
+		row->peak_irradiance = damage_peak_irradiance(row->peak_power, row->wx, row->wy);
+	} else {
+		row->peak_irradiance = row->irradiance;
+	}
+	row->field = damage_peak_field(row->peak_irradiance);
+
+	/* Clip first, then let the element act. */
+	a = el->type == EL_IRIS ? el->val[K_DIAMETER] :
+	    model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+	if (!isnan(a)) {
+		double tr = beam_clip_transmission(row->wx, row->wy, a / 2);
+
+		row->clip_loss = 1 - tr;
+		for (int i = 0; i < 4; i++)
+			st->s[i] *= tr;
+		if (row->clip_loss > CLIP_WARN)
+			row->flags |= TF_CLIPPING;
+		if (row->clip_loss > CLIP_HARD)
+			row->flags |= TF_HARD_CLIP;
+	}
+	element_mueller(el, &mm, &ms);
+	*side = *st;
+	polar_apply(&ms, st->s, side->s);
+	polar_apply(&mm, st->s, st->s);
+	element_optics(el, st);
+	side->x = st->x;
+	side->y = st->y;
+	row->power_out = st->s[0] + (el->side_port != PORT_NONE ? side->s[0] : 0);
+	row->power_lost = p - row->power_out;
+
+	/* Nonlinear phase and self-focusing in transmissive parts. */
+	if ((el->type == EL_LENS || el->type == EL_WINDOW) && model_has(el, K_N2)) {
+		double ppk = src->pulsed ? row->peak_power : p;
+
+		row->critical_power = damage_critical_power(lam, model_get(el, K_INDEX),
+		    el->val[K_N2]);
+		if (row->critical_power > 0 && ppk > row->critical_power)
+			row->flags |= TF_SELF_FOCUSING;
+		if (model_has(el, K_THICKNESS)) {
+			row->b_integral = damage_b_integral(lam, el->val[K_N2],
+			    row->peak_irradiance, el->val[K_THICKNESS]);
+			st->b_total += row->b_integral;
+			row->b_total = st->b_total;
+			if (st->b_total > B_WARN_RAD && !st->b_warned) {
+				st->b_warned = 1;
+				warn(t, TW_B_INTEGRAL, c, el, st->b_total);
+			}
+		}
+		if (row->flags & TF_SELF_FOCUSING)
+			warn(t, TW_SELF_FOCUSING, c, el, ppk);
+		side->b_total = st->b_total;
+		side->b_warned = st->b_warned;
+	}
+
+	damage_limits(el, src, &row->limits);
+	if (row->limits.flags & DAMAGE_WL_SCALED)
+		row->flags |= TF_WAVELENGTH_SCALED;
+	if (row->limits.flags & DAMAGE_PULSE_SCALED)
+		row->flags |= TF_PULSE_SCALED;
+	if (row->limits.flags & DAMAGE_PULSE_RANGE)
+		row->flags |= TF_PULSE_RANGE;
+	if (row->limits.flags & DAMAGE_CW_ONLY_PULSED)
+		row->flags |= TF_PULSED_RATING_ON_CW;
+	ex.power_in = p;
+	ex.power_lost = row->power_lost;
+	ex.linear_density = row->linear_density;
+	ex.irradiance = row->irradiance;
+	ex.fluence = row->fluence;
+	row->ratio = damage_ratio(&row->limits, &ex);
+	row->status = damage_status_of(row->ratio, b->safety_factor);
+
+	if (el->type == EL_SPACE) {
+		gap_focus(b, row, st);
+		if (row->focus.air_breakdown)
+			warn(t, TW_AIR_BREAKDOWN, c, el, row->focus.peak_irradiance);
+		beam_space(&st->x, el->val[K_LENGTH]);
+		beam_space(&st->y, el->val[K_LENGTH]);
+		st->z += el->val[K_LENGTH];
+		side->x = st->x;
+		side->y = st->y;
+		side->z = st->z;
+	}
+}
+
+/* A branch has ended: what is left either went into its terminator or
+ * leaves the bench. */
+static void
+branch_end(struct trace *t, const struct cursor *c)
+{
+	const struct element *last = c->br->n ? &c->br->el[c->br->n - 1] : c->parent;
+
+	if (c->br->n && model_type_is_terminator(last->type))
+		return;
+	if (c->st.s[0] > 0) {
+		warn(t, TW_UNTERMINATED, c, last, c->st.s[0]);
+		t->leaving += c->st.s[0];
+	}
+}
+
+struct trace *
+trace_run(const struct bench *b)
+{
+	struct trace *t = xcalloc(1, sizeof *t);
+	struct cursor *stack;
+	size_t top = 0, cap = 16, nrow = 0;
+
+	t->bench = b;
+	t->nrows = model_count(&b->path);
+	t->rows = xcalloc(t->nrows ? t->nrows : 1, sizeof *t->rows);
+	t->worst = -1;
+	t->worst_ratio = NAN;
+	t->safe_source_power = NAN;
+	stack = xcalloc(cap, sizeof *stack);
+	stack[0].br = &b->path;
+	start_state(b, &stack[0].st);
+	top = 1;
+	while (top > 0) {
+		struct cursor *c = &stack[top - 1];
+		struct state side;
+		const struct element *el;
+		struct trace_row *row;
+
+		if (c->i >= c->br->n) {
+			branch_end(t, c);
+			top--;
+			continue;
+		}
+		el = &c->br->el[c->i];
+		row = &t->rows[nrow++];
+		visit(t, c, row, &c->st, &side, (unsigned)(top - 1));
+		t->absorbed += row->power_lost;
+		if (!isnan(row->ratio) && (t->worst < 0 || row->ratio > t->worst_ratio)) {
+			t->worst = (long)(row - t->rows);
+			t->worst_ratio = row->ratio;
+		}
+		c->i++;
+		if (el->side_port != PORT_NONE) {
+			if (top == cap) {
+				cap *= 2;
+				stack = xreallocarray(stack, cap, sizeof *stack);
+				c = &stack[top - 1];
+			}
+			stack[top].br = &el->side;
+			stack[top].i = 0;
+			stack[top].parent = el;
+			stack[top].port = el->side_port;
+			stack[top].st = side;
+			top++;
+		}
+	}
+	free(stack);
+	if (t->worst >= 0 && t->worst_ratio > 0)
+		t->safe_source_power = b->src.power / (b->safety_factor * t->worst_ratio);
+	return t;
+}
+
+void
+trace_free(struct trace *t)
+{
+	if (t == NULL)
+		return;
+	free(t->rows);
+	free(t->warn);
+	free(t);
+}
+
+void
+trace_radius_at(const struct trace *t, const struct trace_row *row, double dz,
+    double *wx, double *wy)
+{
+	struct beam_axis x = row->qx, y = row->qy;
+
+	beam_space(&x, dz);
+	beam_space(&y, dz);
+	*wx = beam_radius(&x, t->bench->src.wavelength);
+	*wy = beam_radius(&y, t->bench->src.wavelength);
+}

@@ -1,0 +1,95 @@
+/* core-trace.h - walk a bench and compute what every element sees: power,
+ * beam radii, irradiance, fluence, peak field, B-integral, damage ratio and
+ * status; foci in the gaps; beams that leave the bench.
+ *
+ * Results for an element are taken at its plane, before it acts (for a
+ * space: at its start).  The conventions are those of trace-conventions.md.
+ * Pure computation: the only allocation is the result it returns. */
+#ifndef CORE_TRACE_H
+#define CORE_TRACE_H
+
+#include <stddef.h>
+
+#include "core-beam.h"
+#include "core-damage.h"
+#include "core-model.h"
+
+enum trace_flag {
+	TF_CLIPPING            = 1 << 0,   /* aperture passes < 99 % */
+	TF_HARD_CLIP           = 1 << 1,   /* < 90 %: the Gaussian model after it is rough */
+	TF_WAVELENGTH_SCALED   = 1 << 2,
+	TF_PULSE_SCALED        = 1 << 3,
+	TF_PULSE_RANGE         = 1 << 4,   /* "pulse_scaling_out_of_range" */
+	TF_PULSED_RATING_ON_CW = 1 << 5,   /* only a fluence rating, CW beam */
+	TF_SELF_FOCUSING       = 1 << 6,
+	TF_FOCUS               = 1 << 7,   /* a focus lies in this gap */
+	TF_AIR_BREAKDOWN       = 1 << 8,
+};
+#define TF_COUNT 9
+const char *trace_flag_name(unsigned bit);     /* "clipping", ... ; bit is one flag */
+
+struct trace_focus {
+	double z;                   /* m from the source along the branch */
+	double wx, wy;
+	double irradiance, peak_irradiance;
+	int    air_breakdown;       /* pulsed only */
+};
+
+struct trace_row {
+	const struct element *el;       /* borrowed from the bench */
+	const struct element *parent;   /* owner of the side branch; NULL on main */
+	enum port             port;
+	unsigned              depth;    /* 0 on main */
+	double                z;
+	double                stokes[4];  /* arriving */
+	struct beam_axis      qx, qy;     /* arriving */
+	double                power_in, power_out, power_lost;
+	double                wx, wy;
+	double                irradiance, linear_density, peak_irradiance, field;
+	double                clip_loss;
+	double                fluence, peak_power;        /* NAN for CW */
+	double                b_integral, b_total;        /* NAN where no n2/thickness */
+	double                critical_power;             /* NAN without n2 */
+	double                ratio;                      /* NAN: unrated */
+	struct damage_limits  limits;
+	enum damage_status    status;
+	unsigned              flags;
+	int                   has_focus;
+	struct trace_focus    focus;
+};
+
+enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING };
+
+struct trace_warning {
+	enum trace_warn_kind  kind;
+	const struct element *parent;   /* branch owner; NULL: main */
+	enum port             port;
+	const struct element *after;    /* borrowed; NULL: straight after the source */
+	double                value;    /* W (unterminated), rad, W/m² */
+};
+
+struct trace {
+	const struct bench   *bench;    /* borrowed: outlives the trace */
+	struct trace_row     *rows;     /* owned, depth-first path order */
+	size_t                nrows;
+	struct trace_warning *warn;     /* owned */
+	size_t                nwarn, capwarn;
+	long                  worst;    /* row index, -1 when nothing is rated */
+	double                worst_ratio;
+	double                safe_source_power;   /* NAN when nothing is rated */
+	double                absorbed, leaving;   /* W: sum of power_lost; sum left on the table */
+};
+
+/* The bench must have passed model_validate.  Never fails. */
+struct trace *trace_run(const struct bench *);     /* caller frees */
+void          trace_free(struct trace *);          /* NULL ok */
+
+/* "main" or "<parent id>.<port>", into buf. */
+void          trace_branch_name(const struct element *parent, enum port,
+                  char *buf, size_t n);
+const char   *trace_warn_name(enum trace_warn_kind);
+/* Radii dz past the start of a row's plane (inside a space). */
+void          trace_radius_at(const struct trace *, const struct trace_row *,
+                  double dz, double *wx, double *wy);
+
+#endif

@@ -1,0 +1,256 @@
+/* core-validate.c - the checks that span more than one value: unique ids,
+ * terminators last, side branches where they belong, keys that exclude or
+ * need each other, and a consistent source.  Single values are checked as
+ * they are set (core-model.c). */
+#include <config.h>
+
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-model.h"
+#include "util-err.h"
+
+/* An open-addressing set of borrowed id strings, so that a 10^5-element
+ * bench is checked in linear time. */
+struct idset {
+	const char **slot;
+	size_t       cap;
+};
+
+static uint64_t
+hash_str(const char *s)
+{
+	uint64_t h = 1469598103934665603ULL;     /* FNV-1a */
+
+	for (; *s != '\0'; s++)
+		h = (h ^ (unsigned char)*s) * 1099511628211ULL;
+	return h;
+}
+
+/* Returns 1 when id was already present. */
+static int
+idset_add(struct idset *set, const char *id)
+{
+	size_t i = (size_t)hash_str(id) & (set->cap - 1);
+
+	while (set->slot[i] != NULL) {
+		if (strcmp(set->slot[i], id) == 0)
+			return 1;
+		i = (i + 1) & (set->cap - 1);
+	}
+	set->slot[i] = id;
+	return 0;
+}
+
+struct vctx {
+	struct idset ids;
+	char       **cause;
+};
+
+static int
+exclusive(const struct element *el, enum model_key a, enum model_key b, char **cause)
+{
+	if (model_has(el, a) && model_has(el, b))
+		return fail_with(cause, "element '%s': give %s or %s, not both",
+		    el->id, model_key_path(a), model_key_path(b));
+	return 0;
+}
+
+static int
+require(const struct element *el, enum model_key k, char **cause)
+{
+	if (!model_has(el, k))
+		return fail_with(cause, "element '%s': a %s needs %s (%s)", el->id,
+		    model_type_name(el->type), model_key_path(k), model_keys[k].help);
+	return 0;
+}
+
+static int
+sum_le_one(const struct element *el, enum model_key a, double va,
+    enum model_key b, double vb, char **cause)
+{
+	if (va + vb > 1 + 1e-12)
+		return fail_with(cause, "element '%s': %s + %s = %g exceeds 1 "
+		    "(the splitter would make power)", el->id, model_key_path(a),
+		    model_key_path(b), va + vb);
+	return 0;
+}
+
+static int
+check_splitter(const struct element *el, char **cause)
+{
+	double rs, rp, tp, ts;
+
+	if (model_get(el, K_POLARIZING) == 0) {
+		static const enum model_key pol_only[] = { K_RS, K_RP, K_TP, K_TS };
+
+		for (size_t i = 0; i < sizeof pol_only / sizeof *pol_only; i++)
+			if (model_has(el, pol_only[i]))
+				return fail_with(cause, "element '%s': %s applies only "
+				    "with polarizing: true", el->id,
+				    model_key_path(pol_only[i]));
+		return require(el, K_REFLECTANCE, cause);
+	}
+	if (model_has(el, K_REFLECTANCE))
+		return fail_with(cause, "element '%s': a polarizing splitter takes "
+		    "tp, rs (and ts, rp), not reflectance", el->id);
+	tp = model_has(el, K_TP) ? el->val[K_TP] : 1;
+	rs = model_has(el, K_RS) ? el->val[K_RS] : 1;
+	ts = model_has(el, K_TS) ? el->val[K_TS] : 1 - rs;
+	rp = model_has(el, K_RP) ? el->val[K_RP] : 1 - tp;
+	if (sum_le_one(el, K_TP, tp, K_RP, rp, cause) != 0 ||
+	    sum_le_one(el, K_TS, ts, K_RS, rs, cause) != 0)
+		return -1;
+	return 0;
+}
+
+static int
+check_element(struct element *el, struct element *parent, size_t depth, void *arg)
+{
+	struct vctx *v = arg;
+	char **cause = v->cause;
+
+	(void)parent;
+	if (el->id == NULL || el->id[0] == '\0')
+		return fail_with(cause, "a %s has an empty id", model_type_name(el->type));
+	if (idset_add(&v->ids, el->id))
+		return fail_with(cause, "element '%s': id used twice", el->id);
+	if (depth > MODEL_MAX_DEPTH)
+		return fail_with(cause, "element '%s': side branches nested more "
+		    "than %d deep", el->id, MODEL_MAX_DEPTH);
+	for (int k = 0; k < K_COUNT; k++)
+		if ((el->set & KEY_BIT(k)) && !model_key_applies((enum model_key)k, el->type))
+			return fail_with(cause, "element '%s': a %s has no key '%s'",
+			    el->id, model_type_name(el->type),
+			    model_key_path((enum model_key)k));
+	if (el->side_port != PORT_NONE && !model_type_takes_port(el->type, el->side_port))
+		return fail_with(cause, "element '%s': a %s has no %s port", el->id,
+		    model_type_name(el->type), model_port_name(el->side_port));
+	if (el->side_port == PORT_NONE && el->side.n != 0)
+		return fail_with(cause, "element '%s': side branch without a port", el->id);
+
+	switch (el->type) {
+	case EL_SPACE:
+		return require(el, K_LENGTH, cause);
+	case EL_MIRROR:
+		if (exclusive(el, K_REFLECTANCE, K_RS, cause) != 0 ||
+		    exclusive(el, K_REFLECTANCE, K_RP, cause) != 0)
+			return -1;
+		break;
+	case EL_LENS:
+		if (require(el, K_FOCAL, cause) != 0)
+			return -1;
+		break;
+	case EL_SPLITTER:
+		if (el->side_port == PORT_NONE)
+			return fail_with(cause, "element '%s': a splitter needs one side "
+			    "branch, reflected or transmitted", el->id);
+		if (check_splitter(el, cause) != 0)
+			return -1;
+		break;
+	case EL_FILTER:
+		if (exclusive(el, K_OD, K_TRANSMISSION, cause) != 0)
+			return -1;
+		break;
+	case EL_WAVEPLATE:
+		if (require(el, K_RETARDANCE, cause) != 0)
+			return -1;
+		break;
+	case EL_IRIS:
+		if (require(el, K_DIAMETER, cause) != 0)
+			return -1;
+		break;
+	default:
+		break;
+	}
+	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
+		return fail_with(cause, "element '%s': damage.fluence needs "
+		    "damage.pulse_width (the pulse width it was measured at)", el->id);
+	return 0;
+}
+
+static int
+check_order(struct branch *b, const char *where, char **cause)
+{
+	for (size_t i = 0; i < b->n; i++) {
+		struct element *el = &b->el[i];
+
+		if (model_type_is_terminator(el->type) && i + 1 < b->n)
+			return fail_with(cause, "element '%s': a %s ends its branch (%s) "
+			    "but '%s' follows it", el->id, model_type_name(el->type),
+			    where, b->el[i + 1].id);
+	}
+	return 0;
+}
+
+static int
+order_fn(struct element *el, struct element *parent, size_t depth, void *arg)
+{
+	(void)parent;
+	(void)depth;
+	if (el->side_port == PORT_NONE)
+		return 0;
+	return check_order(&el->side, model_port_name(el->side_port), arg);
+}
+
+int
+model_source_validate(const struct source *s, char **cause)
+{
+	if (!(s->wavelength > 0) || !isfinite(s->wavelength))
+		return fail_with(cause, "source: wavelength must be given and > 0");
+	if (!(s->waist[0] > 0) || !(s->waist[1] > 0) || !isfinite(s->waist[0] * s->waist[1]))
+		return fail_with(cause, "source: waist must be given and > 0");
+	if (!isfinite(s->waist_position))
+		return fail_with(cause, "source: waist_position must be finite");
+	if (!(s->m2[0] >= 1) || !(s->m2[1] >= 1) || !isfinite(s->m2[0] * s->m2[1]))
+		return fail_with(cause, "source: m2 must be >= 1");
+	if (s->pulsed) {
+		if (!(s->rep_rate > 0) || !isfinite(s->rep_rate))
+			return fail_with(cause, "source: pulsed.rep_rate must be given and > 0");
+		if (!(s->pulse_width > 0) || !isfinite(s->pulse_width))
+			return fail_with(cause, "source: pulsed.pulse_width must be given and > 0");
+		if (s->energy_given && (!(s->pulse_energy > 0) || !isfinite(s->pulse_energy)))
+			return fail_with(cause, "source: pulsed.pulse_energy must be > 0");
+	}
+	if (!(s->power > 0) || !isfinite(s->power))
+		return fail_with(cause, s->pulsed ?
+		    "source: give power or pulsed.pulse_energy (> 0)" :
+		    "source: power must be given and > 0");
+	if (s->pol == POL_LINEAR && !isfinite(s->pol_angle_deg))
+		return fail_with(cause, "source: polarization angle must be finite");
+	return 0;
+}
+
+int
+model_validate(const struct bench *bench, char **cause)
+{
+	struct bench *b = (struct bench *)bench;    /* the walk does not modify */
+	struct vctx v;
+	size_t n = model_count(&b->path), cap = 16;
+	int rc;
+
+	if (b->name == NULL || b->name[0] == '\0')
+		return fail_with(cause, "name: the bench needs a name");
+	if (!(b->safety_factor > 1) || !isfinite(b->safety_factor))
+		return fail_with(cause, "safety_factor %g must be > 1", b->safety_factor);
+	if (!(b->air_breakdown > 0) || !isfinite(b->air_breakdown))
+		return fail_with(cause, "air_breakdown must be > 0");
+	if (model_source_validate(&b->src, cause) != 0)
+		return -1;
+	while (cap < 2 * n)
+		cap *= 2;
+	v.ids.cap = cap;
+	v.ids.slot = xcalloc(cap, sizeof *v.ids.slot);
+	v.cause = cause;
+	rc = model_walk(&b->path, check_element, &v);
+	free(v.ids.slot);
+	if (rc != 0)
+		return -1;
+	if (check_order(&b->path, "main", cause) != 0)
+		return -1;
+	if (model_walk(&b->path, order_fn, cause) != 0)
+		return -1;
+	return 0;
+}

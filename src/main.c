@@ -1,0 +1,124 @@
+/* main.c - argv to the command table.  Global options come before the
+ * command; with no command the workbench opens. */
+#include <config.h>
+
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "cmd.h"
+#include "report.h"
+#include "util-err.h"
+
+const struct cmd cmd_table[] = {
+	{ "trace", cmd_trace, "FILE | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
+	    "trace a bench: power, beam size, irradiance and damage margins" },
+	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
+	{ NULL, NULL, NULL, NULL },
+};
+
+int
+cmd_usage(const char *fmt, ...)
+{
+	va_list ap;
+
+	fputs(PROG ": ", stderr);
+	va_start(ap, fmt);
+	vfprintf(stderr, fmt, ap);
+	va_end(ap);
+	fputs("\nTry '" PROG " --help' for more information.\n", stderr);
+	return 2;
+}
+
+int
+cmd_fail(char *cause)
+{
+	fprintf(stderr, PROG ": %s\n", cause != NULL ? cause : "failed");
+	free(cause);
+	return 2;
+}
+
+int
+cmd_color(const char *when)
+{
+	const char *nc = getenv("NO_COLOR"), *term = getenv("TERM");
+
+	if (when != NULL && strcmp(when, "always") == 0)
+		return 1;
+	if (when != NULL && strcmp(when, "never") == 0)
+		return 0;
+	if (nc != NULL && nc[0] != '\0')
+		return 0;
+	if (term == NULL || strcmp(term, "dumb") == 0)
+		return 0;
+	return isatty(STDOUT_FILENO);
+}
+
+int
+cmd_print(const char *text)
+{
+	if (fputs(text, stdout) == EOF || fflush(stdout) == EOF) {
+		perror(PROG ": standard output");
+		return 2;
+	}
+	return 0;
+}
+
+static void
+usage(void)
+{
+	printf("Usage: " PROG " [--db PATH] [COMMAND [ARGS]]\n"
+	    "Lay out laser beam lines, trace power, beam size, irradiance and fluence\n"
+	    "through every optic, and flag what exceeds its damage threshold.\n\n"
+	    "Commands:\n");
+	for (const struct cmd *c = cmd_table; c->name != NULL; c++)
+		printf("  %-8s %s\n           %s\n", c->name, c->args, c->summary);
+	printf("\nOptions:\n"
+	    "  --db PATH      the bench database (default $XDG_DATA_HOME/beamledger/benches.db;\n"
+	    "                 also BEAMLEDGER_DB)\n"
+	    "  --help         show this help and exit\n"
+	    "  --version      show the version and exit\n\n"
+	    "Exit status: 0 no element over its threshold, 1 at least one over, 2 trouble.\n\n"
+	    "%s\n"
+	    "See beamledger(1) and beamledger-bench(5).\n", report_safety_text);
+}
+
+int
+main(int argc, char **argv)
+{
+	struct cmd_ctx ctx = { getenv("BEAMLEDGER_DB"), getenv("USER") };
+	int i = 1;
+
+	for (; i < argc && argv[i][0] == '-'; i++) {
+		if (strcmp(argv[i], "--help") == 0 || strcmp(argv[i], "-h") == 0) {
+			usage();
+			return 0;
+		} else if (strcmp(argv[i], "--version") == 0) {
+			printf(PROG " " PACKAGE_VERSION "\n"
+			    "Copyright (c) 2026 the beamledger authors.\n"
+			    "License MIT: <https://opensource.org/licenses/MIT>.\n"
+			    "This is free software: you are free to change and redistribute it.\n"
+			    "There is NO WARRANTY, to the extent permitted by law.\n");
+			return 0;
+		} else if (strcmp(argv[i], "--db") == 0) {
+			if (i + 1 >= argc)
+				return cmd_usage("option '--db' needs a path");
+			ctx.db_path = argv[++i];
+		} else if (strncmp(argv[i], "--db=", 5) == 0) {
+			ctx.db_path = argv[i] + 5;
+		} else if (strcmp(argv[i], "--") == 0) {
+			i++;
+			break;
+		} else {
+			return cmd_usage("unknown option '%s'", argv[i]);
+		}
+	}
+	if (i >= argc)
+		return cmd_usage("no command given (the workbench is not built yet)");
+	for (const struct cmd *c = cmd_table; c->name != NULL; c++)
+		if (strcmp(argv[i], c->name) == 0)
+			return c->fn(&ctx, argc - i, argv + i);
+	return cmd_usage("unknown command '%s'", argv[i]);
+}

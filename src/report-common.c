@@ -1,0 +1,127 @@
+/* report-common.c - pieces of a report that more than one form shares:
+ * the source line, flag lists, warning sentences, the safety cautions. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "report.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+const char report_safety_text[] =
+"Laser safety: beamledger gives design estimates, not a safety assessment.\n"
+"The laser safety officer, local rules and licensed practice decide.\n"
+"  - Class 3B and 4 beams hurt eyes directly and by specular reflection;\n"
+"    class 4 also by diffuse reflection, to skin, and as a fire risk.\n"
+"  - Wear eyewear rated for this wavelength with enough optical density;\n"
+"    invisible beams (UV, 1030/1064 nm, IR) need particular care.\n"
+"  - Terminate every beam, stray reflections and rejected ports included,\n"
+"    in a dump rated for it; keep beams in the table plane, below eye level.\n"
+"  - Align at reduced power.  A pulsed focus in air can spark: UV, noise, ozone.\n";
+
+int
+report_format_parse(const char *s, enum report_format *out)
+{
+	if (strcmp(s, "table") == 0)
+		*out = REPORT_TABLE;
+	else if (strcmp(s, "json") == 0)
+		*out = REPORT_JSON;
+	else if (strcmp(s, "csv") == 0)
+		*out = REPORT_CSV;
+	else
+		return -1;
+	return 0;
+}
+
+void
+report_flags(unsigned flags, char *buf, size_t n, const char *sep)
+{
+	size_t used = 0;
+
+	if (n == 0)
+		return;
+	buf[0] = '\0';
+	for (int i = 0; i < TF_COUNT; i++) {
+		if (!(flags & (1u << i)))
+			continue;
+		used += (size_t)snprintf(buf + (used < n ? used : n - 1),
+		    used < n ? n - used : 1, "%s%s", used ? sep : "",
+		    trace_flag_name(1u << i));
+	}
+}
+
+char *
+report_source_line(const struct bench *b, int ascii)
+{
+	const struct source *s = &b->src;
+	static const char *const shapes[] = { "gaussian", "sech2", "square" };
+	char t1[48], t2[48], t3[48], t4[48];
+	struct buf out;
+
+	buf_init(&out);
+	units_format(t1, sizeof t1, s->wavelength, DIM_LENGTH, 4, ascii);
+	buf_add(&out, t1);
+	if (s->pulsed) {
+		units_format(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY, 3, ascii);
+		units_format(t2, sizeof t2, s->pulse_width, DIM_TIME, 3, ascii);
+		units_format(t3, sizeof t3, s->pulse_energy, DIM_ENERGY, 3, ascii);
+		units_format(t4, sizeof t4, s->power, DIM_POWER, 3, ascii);
+		buf_printf(&out, ", pulsed %s, %s %s, %s a pulse (%s average)",
+		    t1, t2, shapes[s->shape], t3, t4);
+	} else {
+		units_format(t1, sizeof t1, s->power, DIM_POWER, 3, ascii);
+		buf_printf(&out, ", CW %s", t1);
+	}
+	units_format(t1, sizeof t1, s->waist[0], DIM_LENGTH, 3, ascii);
+	if (s->waist[0] != s->waist[1]) {
+		units_format(t2, sizeof t2, s->waist[1], DIM_LENGTH, 3, ascii);
+		buf_printf(&out, ", waist %s x %s", t1, t2);
+	} else {
+		buf_printf(&out, ", waist %s", t1);
+	}
+	if (s->waist_position != 0) {
+		units_format(t1, sizeof t1, s->waist_position, DIM_LENGTH, 3, ascii);
+		buf_printf(&out, " at %s", t1);
+	}
+	if (s->m2[0] != s->m2[1])
+		buf_printf(&out, ", M%s %.3g x %.3g", ascii ? "2" : "²", s->m2[0], s->m2[1]);
+	else
+		buf_printf(&out, ", M%s %.3g", ascii ? "2" : "²", s->m2[0]);
+	if (s->pol == POL_CIRCULAR)
+		buf_add(&out, ", circular");
+	else if (s->pol == POL_UNPOLARIZED)
+		buf_add(&out, ", unpolarized");
+	else
+		buf_printf(&out, ", linear %g%s", s->pol_angle_deg, ascii ? " deg" : "°");
+	return buf_take(&out);
+}
+
+char *
+report_warning_text(const struct trace *t, const struct trace_warning *w, int ascii)
+{
+	char br[160], v[48];
+	const char *after = w->after != NULL ? w->after->id : "the source";
+
+	(void)t;
+	trace_branch_name(w->parent, w->port, br, sizeof br);
+	switch (w->kind) {
+	case TW_UNTERMINATED:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("unterminated: %s leaves the bench after %s (branch %s)",
+		    v, after, br);
+	case TW_B_INTEGRAL:
+		return xasprintf("b_integral: B = %.3g rad on branch %s after %s "
+		    "(over 3 rad: small-scale self-focusing; common practice)",
+		    w->value, br, after);
+	case TW_AIR_BREAKDOWN:
+		units_format(v, sizeof v, w->value, DIM_IRRADIANCE, 3, ascii);
+		return xasprintf("air_breakdown: the focus in %s reaches %s peak: a spark "
+		    "in air (UV, noise, ozone)", after, v);
+	default:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("self_focusing: peak power %s in %s is above the critical "
+		    "power (branch %s)", v, after, br);
+	}
+}

@@ -1,0 +1,238 @@
+/* report-table.c - the trace as a person reads it on a terminal: a header,
+ * one row per element with side branches indented under their port, then
+ * foci, warnings, the worst element, the safe source power and what the
+ * flags mean.  Status is always a word; colour only repeats it. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "report.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+static const char *
+status_color(enum damage_status s)
+{
+	switch (s) {
+	case STATUS_OVER:	return "\033[1;31m";
+	case STATUS_CAUTION:	return "\033[33m";
+	case STATUS_OK:		return "\033[32m";
+	default:		return "";
+	}
+}
+
+static void
+col(struct buf *b, size_t start, size_t width, const char *text, int right)
+{
+	size_t n = utf8_cols(text), have = utf8_cols(b->s + start);
+
+	if (right)
+		while (have + n < width) {
+			buf_addc(b, ' ');
+			have++;
+		}
+	buf_add(b, text);
+	buf_pad(b, width, start);
+}
+
+/* Column widths (terminal columns).  The id column grows with nesting. */
+enum { W_ID = 14, W_TYPE = 10, W_Z = 9, W_P = 10, W_R = 17, W_I = 12, W_F = 12,
+    W_RATIO = 8, W_STATUS = 9 };
+
+static void
+header(struct buf *b, const struct trace *t)
+{
+	size_t s = b->len;
+	int pulsed = t->bench->src.pulsed;
+
+	col(b, s, W_ID, "element", 0);
+	col(b, s, W_ID + W_TYPE, "type", 0);
+	col(b, s, W_ID + W_TYPE + W_Z, "z", 1);
+	col(b, s, W_ID + W_TYPE + W_Z + W_P, "power", 1);
+	col(b, s, W_ID + W_TYPE + W_Z + W_P + W_R, "radius x/y", 1);
+	col(b, s, W_ID + W_TYPE + W_Z + W_P + W_R + W_I, pulsed ? "peak irr." : "irradiance", 1);
+	col(b, s, W_ID + W_TYPE + W_Z + W_P + W_R + W_I + W_F, pulsed ? "fluence" : "lin. dens.", 1);
+	col(b, s, W_ID + W_TYPE + W_Z + W_P + W_R + W_I + W_F + W_RATIO, "ratio", 1);
+	buf_add(b, "  status   flags\n");
+}
+
+static void
+row_line(struct buf *b, const struct trace *t, const struct trace_row *r,
+    const struct report_opts *o)
+{
+	char v1[48], v2[48], tmp[112];
+	size_t s = b->len, x = 0;
+	int pulsed = t->bench->src.pulsed, a = o->ascii;
+
+	for (unsigned d = 0; d < r->depth; d++)
+		buf_add(b, "  ");
+	buf_add(b, r->el->id);
+	if (utf8_cols(b->s + s) >= W_ID)
+		buf_addc(b, ' ');
+	col(b, s, x += W_ID, "", 0);
+	col(b, s, x += W_TYPE, model_type_name(r->el->type), 0);
+	units_format(v1, sizeof v1, r->z, DIM_LENGTH, 3, a);
+	col(b, s, x += W_Z, v1, 1);
+	units_format(v1, sizeof v1, r->power_in, DIM_POWER, 3, a);
+	col(b, s, x += W_P, v1, 1);
+	units_format(v1, sizeof v1, r->wx, DIM_LENGTH, 3, a);
+	if (fabs(r->wx - r->wy) <= 5e-4 * r->wx) {
+		col(b, s, x += W_R, v1, 1);
+	} else {
+		units_format(v2, sizeof v2, r->wy, DIM_LENGTH, 3, a);
+		/* "1.20/0.600 mm" when both share a unit */
+		{
+			const char *u1 = strchr(v1, ' '), *u2 = strchr(v2, ' ');
+
+			if (u1 != NULL && u2 != NULL && strcmp(u1, u2) == 0)
+				snprintf(tmp, sizeof tmp, "%.*s/%s", (int)(u1 - v1), v1, v2);
+			else
+				snprintf(tmp, sizeof tmp, "%s/%s", v1, v2);
+		}
+		col(b, s, x += W_R, tmp, 1);
+	}
+	units_format(v1, sizeof v1, r->peak_irradiance, DIM_IRRADIANCE, 3, a);
+	col(b, s, x += W_I, v1, 1);
+	if (pulsed)
+		units_format(v1, sizeof v1, r->fluence, DIM_FLUENCE, 3, a);
+	else
+		units_format(v1, sizeof v1, r->linear_density, DIM_LINEAR, 3, a);
+	col(b, s, x += W_F, v1, 1);
+	if (isnan(r->ratio))
+		snprintf(v1, sizeof v1, "-");
+	else if (r->ratio >= 1)
+		snprintf(v1, sizeof v1, "%.0f %%", r->ratio * 100);
+	else
+		snprintf(v1, sizeof v1, "%.1f %%", r->ratio * 100);
+	col(b, s, x += W_RATIO, v1, 1);
+	buf_add(b, "  ");
+	if (o->color && r->status != STATUS_UNRATED)
+		buf_add(b, status_color(r->status));
+	snprintf(v1, sizeof v1, "%s", damage_status_name(r->status));
+	if (r->status == STATUS_OVER)
+		snprintf(v1, sizeof v1, "OVER");
+	buf_add(b, v1);
+	if (o->color && r->status != STATUS_UNRATED)
+		buf_add(b, "\033[0m");
+	buf_pad(b, x + 2 + W_STATUS, s);
+	report_flags(r->flags, tmp, sizeof tmp, ",");
+	buf_add(b, tmp);
+	while (b->len > 0 && b->s[b->len - 1] == ' ')
+		b->s[--b->len] = '\0';
+	buf_addc(b, '\n');
+}
+
+static void
+foci(struct buf *b, const struct trace *t, int a)
+{
+	char z[48], w1[48], w2[48], irr[48];
+	int any = 0;
+
+	for (size_t i = 0; i < t->nrows; i++) {
+		const struct trace_row *r = &t->rows[i];
+
+		if (!r->has_focus)
+			continue;
+		if (!any)
+			buf_add(b, "\nFoci in air:\n");
+		any = 1;
+		units_format(z, sizeof z, r->focus.z, DIM_LENGTH, 4, a);
+		units_format(w1, sizeof w1, r->focus.wx, DIM_LENGTH, 3, a);
+		units_format(w2, sizeof w2, r->focus.wy, DIM_LENGTH, 3, a);
+		units_format(irr, sizeof irr, r->focus.peak_irradiance, DIM_IRRADIANCE, 3, a);
+		buf_printf(b, "  in %s at z = %s: radius %s x %s, peak %s%s\n",
+		    r->el->id, z, w1, w2, irr,
+		    r->focus.air_breakdown ? "  AIR BREAKDOWN" : "");
+	}
+}
+
+static void
+legend(struct buf *b, unsigned all)
+{
+	static const struct { unsigned bit; const char *text; } notes[] = {
+		{ TF_CLIPPING, "clipping: the aperture passes less than 99 % (common practice); "
+		    "the clipped beam is then treated as Gaussian again, which can "
+		    "underestimate downstream peaks (diffraction rings)" },
+		{ TF_HARD_CLIP, "hard_clipping: less than 90 % passes; downstream figures are rough" },
+		{ TF_WAVELENGTH_SCALED, "wavelength_scaled: threshold scaled by lambda/lambda_spec "
+		    "(rule of thumb, common practice)" },
+		{ TF_PULSE_SCALED, "pulse_scaled: fluence threshold scaled by sqrt(tau/tau_spec) "
+		    "(rule of thumb; Stuart et al. 1996)" },
+		{ TF_PULSE_RANGE, "pulse_scaling_out_of_range: a pulse width lies outside 50 ps..100 ns, "
+		    "where the sqrt(tau) law is not established: ask the vendor for a rating" },
+		{ TF_PULSED_RATING_ON_CW, "pulsed_rating_on_cw: only a fluence rating, which says "
+		    "nothing about a CW beam: unrated" },
+		{ TF_SELF_FOCUSING, "self_focusing: peak power above the critical power (Marburger 1975)" },
+		{ TF_AIR_BREAKDOWN, "air_breakdown: a pulsed focus in air reaches the bench's breakdown level" },
+	};
+	int any = 0;
+
+	for (size_t i = 0; i < sizeof notes / sizeof *notes; i++) {
+		if (!(all & notes[i].bit))
+			continue;
+		if (!any)
+			buf_add(b, "\nFlags:\n");
+		any = 1;
+		buf_printf(b, "  %s\n", notes[i].text);
+	}
+}
+
+char *
+report_table(const struct trace *t, const struct report_opts *o)
+{
+	const struct bench *bench = t->bench;
+	struct buf b;
+	unsigned all = 0;
+	char *src, v[48], br[160];
+	int a = o->ascii;
+
+	buf_init(&b);
+	src = report_source_line(bench, a);
+	buf_printf(&b, "Bench %s: %s\n", bench->name, src);
+	free(src);
+	buf_printf(&b, "Safety factor %g: caution from %.0f %% of a threshold, over from 100 %%.\n\n",
+	    bench->safety_factor, 100 / bench->safety_factor);
+	header(&b, t);
+	for (size_t i = 0; i < t->nrows; i++) {
+		const struct trace_row *r = &t->rows[i];
+
+		/* a side branch starts right after its owner */
+		if (i > 0 && t->rows[i - 1].el == r->parent && r->parent != NULL) {
+			for (unsigned d = 1; d < r->depth; d++)
+				buf_add(&b, "  ");
+			trace_branch_name(r->parent, r->port, br, sizeof br);
+			buf_printf(&b, "%s %s\n", a ? "\\" : "\u2514", br);
+		}
+		row_line(&b, t, r, o);
+		all |= r->flags;
+	}
+	foci(&b, t, a);
+	if (t->nwarn > 0) {
+		buf_add(&b, "\nWarnings:\n");
+		for (size_t i = 0; i < t->nwarn; i++) {
+			char *w = report_warning_text(t, &t->warn[i], a);
+
+			buf_printf(&b, "  %s\n", w);
+			free(w);
+		}
+	}
+	buf_addc(&b, '\n');
+	if (t->worst >= 0) {
+		const struct trace_row *w = &t->rows[t->worst];
+
+		buf_printf(&b, "Worst: %s at %.0f %% of its threshold (%s).\n", w->el->id,
+		    t->worst_ratio * 100, w->status == STATUS_OVER ? "OVER" :
+		    damage_status_name(w->status));
+		units_format(v, sizeof v, t->safe_source_power, DIM_POWER, 3, a);
+		buf_printf(&b, "Safe source power: %s (every rated element at 1/%g of its threshold).\n",
+		    v, bench->safety_factor);
+	} else {
+		buf_add(&b, "No element has a damage rating: nothing was checked.\n");
+	}
+	legend(&b, all);
+	buf_add(&b, "\nDesign estimate only; the laser safety officer and local rules decide.\n");
+	return buf_take(&b);
+}

@@ -1,0 +1,31 @@
+/* report.h - a finished trace written out for people (table), scripts
+ * (JSON, the fields of bench-format.md) and spreadsheets (CSV).  Pure
+ * formatting into strings; the caller prints. */
+#ifndef REPORT_H
+#define REPORT_H
+
+#include "core-trace.h"
+
+enum report_format { REPORT_TABLE, REPORT_JSON, REPORT_CSV };
+
+struct report_opts {
+	int color;                  /* ANSI colour as an extra, never alone */
+	int ascii;                  /* no UTF-8 symbols */
+};
+
+int   report_format_parse(const char *s, enum report_format *out);   /* 0 / -1 */
+char *report_table(const struct trace *, const struct report_opts *); /* caller frees */
+char *report_json(const struct trace *);                              /* caller frees */
+char *report_csv(const struct trace *);                               /* caller frees */
+
+/* Shared by the table and the workbench: the source in one line
+ * ("1064 nm, pulsed 10 Hz 8 ns gaussian, 200 mJ (2.00 W average), ..."). */
+char *report_source_line(const struct bench *, int ascii);            /* caller frees */
+/* Flags as "clipping, focus" into buf. */
+void  report_flags(unsigned flags, char *buf, size_t n, const char *sep);
+/* A warning in one line ("beam leaves the bench after S4r (POL1.rejected): 1.23 mW"). */
+char *report_warning_text(const struct trace *, const struct trace_warning *, int ascii); /* caller frees */
+/* The cautions shown by --help, the man page and the workbench help. */
+extern const char report_safety_text[];
+
+#endif

@@ -1,0 +1,119 @@
+/* util-buf.c - growable string buffer.  See util-buf.h. */
+#include <config.h>
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "util-buf.h"
+#include "util-err.h"
+
+void
+buf_init(struct buf *b)
+{
+	b->cap = 64;
+	b->s = xmalloc(b->cap);
+	b->s[0] = '\0';
+	b->len = 0;
+}
+
+void
+buf_release(struct buf *b)
+{
+	free(b->s);
+	b->s = NULL;
+	b->len = b->cap = 0;
+}
+
+void
+buf_reset(struct buf *b)
+{
+	b->len = 0;
+	b->s[0] = '\0';
+}
+
+char *
+buf_take(struct buf *b)
+{
+	char *s = b->s;
+
+	buf_init(b);
+	return s;
+}
+
+static void
+grow(struct buf *b, size_t extra)
+{
+	if (b->len + extra + 1 <= b->cap)
+		return;
+	while (b->len + extra + 1 > b->cap)
+		b->cap *= 2;
+	b->s = xrealloc(b->s, b->cap);
+}
+
+void
+buf_addn(struct buf *b, const char *s, size_t n)
+{
+	grow(b, n);
+	memcpy(b->s + b->len, s, n);
+	b->len += n;
+	b->s[b->len] = '\0';
+}
+
+void
+buf_add(struct buf *b, const char *s)
+{
+	buf_addn(b, s, strlen(s));
+}
+
+void
+buf_addc(struct buf *b, char c)
+{
+	buf_addn(b, &c, 1);
+}
+
+void
+buf_vprintf(struct buf *b, const char *fmt, va_list ap)
+{
+	va_list aq;
+	int n;
+
+	va_copy(aq, ap);
+	n = vsnprintf(NULL, 0, fmt, aq);
+	va_end(aq);
+	if (n <= 0)
+		return;
+	grow(b, (size_t)n);
+	vsnprintf(b->s + b->len, (size_t)n + 1, fmt, ap);
+	b->len += (size_t)n;
+}
+
+void
+buf_printf(struct buf *b, const char *fmt, ...)
+{
+	va_list ap;
+
+	va_start(ap, fmt);
+	buf_vprintf(b, fmt, ap);
+	va_end(ap);
+}
+
+size_t
+utf8_cols(const char *s)
+{
+	size_t n = 0;
+
+	for (; *s != '\0'; s++)
+		if (((unsigned char)*s & 0xC0) != 0x80)
+			n++;
+	return n;
+}
+
+void
+buf_pad(struct buf *b, size_t width, size_t from)
+{
+	size_t have = utf8_cols(b->s + from);
+
+	while (have++ < width)
+		buf_addc(b, ' ');
+}
