@@ -26,6 +26,7 @@ enum { B_M, B_J, B_S, B_V, B_COUNT };
 #define SUP3		"\xc2\xb3"	/* U+00B3 */
 #define MIDDLE_DOT	"\xc2\xb7"	/* U+00B7 */
 
+#define NELEMS(a)	(sizeof (a) / sizeof (a)[0])
 #define MAX_FACTORS	8	/* "W/cm^2" has two; more is a typo */
 #define MAX_EXP10	999999999LL	/* beyond any double; keeps sums in range */
 
@@ -130,8 +131,7 @@ units_si_symbol(enum unit_dim dim, int ascii)
 static int
 is_space(char c)
 {
-	return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\v' ||
-	    c == '\f';
+	return c != '\0' && strchr(" \t\n\r\v\f", c) != NULL;
 }
 
 static int
@@ -189,23 +189,19 @@ scan_number(const char *p, const char *end, struct number *num)
 	num->end = p;
 
 	/* An 'e' not followed by digits is left for the unit to reject. */
-	q = p;
-	if (q < end && (*q == 'e' || *q == 'E')) {
-		q++;
-		if (q < end && (*q == '+' || *q == '-'))
-			neg = *q++ == '-';
-		if (q < end && is_digit(*q)) {
-			for (; q < end && is_digit(*q); q++)
-				if (num->exp10 < MAX_EXP10)
-					num->exp10 = num->exp10 * 10 + (*q - '0');
-			if (num->exp10 > MAX_EXP10)
-				num->exp10 = MAX_EXP10;
-			if (neg)
-				num->exp10 = -num->exp10;
-			p = q;
-		}
-	}
-	return p;
+	if (p == end || (*p != 'e' && *p != 'E'))
+		return p;
+	q = p + 1;
+	if (q < end && (*q == '+' || *q == '-'))
+		neg = *q++ == '-';
+	if (q == end || !is_digit(*q))
+		return p;
+	for (; q < end && is_digit(*q); q++)
+		num->exp10 = num->exp10 < MAX_EXP10 ?
+		    num->exp10 * 10 + (*q - '0') : MAX_EXP10;
+	if (neg)
+		num->exp10 = -num->exp10;
+	return q;
 }
 
 /* The number times 10^shift, rounded once.  The decimal point is dropped
@@ -235,14 +231,26 @@ number_value(const struct number *num, long long shift)
 	return v;
 }
 
+static const struct symbol *
+find_symbol(const char *s, size_t len)
+{
+	size_t i;
+
+	for (i = 0; i < NELEMS(symbols); i++)
+		if (strlen(symbols[i].name) == len &&
+		    memcmp(symbols[i].name, s, len) == 0)
+			return &symbols[i];
+	return NULL;
+}
+
 /* Reads one "[prefix]symbol[exponent]" at *pp into u, with sign -1 in a
  * denominator. */
 static int
 scan_factor(const struct quote *q, const char **pp, const char *end,
     int sign, struct unit *u, char **cause)
 {
-	const char *p = *pp, *run = p, *name;
-	const struct symbol *sym = NULL;
+	const char *p = *pp, *run = p;
+	const struct symbol *sym;
 	size_t i, k, len;
 	int exp = 1, neg = 0, pexp = 0;
 
@@ -256,22 +264,11 @@ scan_factor(const struct quote *q, const char **pp, const char *end,
 		    q->len, q->s, (int)(end - run), run);
 
 	/* A bare symbol wins over prefix + symbol: "m" is the metre. */
-	for (i = 0; i < sizeof symbols / sizeof symbols[0]; i++)
-		if (strlen(symbols[i].name) == len &&
-		    memcmp(symbols[i].name, run, len) == 0)
-			sym = &symbols[i];
-	for (k = 0; sym == NULL && k < sizeof prefixes / sizeof prefixes[0];
-	    k++) {
-		if (starts(run, p, prefixes[k].name) == 0)
-			continue;
-		name = run + strlen(prefixes[k].name);
-		for (i = 0; i < sizeof symbols / sizeof symbols[0]; i++)
-			if (strlen(symbols[i].name) == (size_t)(p - name) &&
-			    memcmp(symbols[i].name, name, p - name) == 0) {
-				sym = &symbols[i];
-				pexp = prefixes[k].exp10;
-			}
-	}
+	sym = find_symbol(run, len);
+	for (k = 0; sym == NULL && k < NELEMS(prefixes); k++)
+		if ((i = starts(run, p, prefixes[k].name)) != 0 &&
+		    (sym = find_symbol(run + i, len - i)) != NULL)
+			pexp = prefixes[k].exp10;
 	if (sym == NULL)
 		return fail_with(cause, "'%.*s': unknown unit '%.*s'",
 		    q->len, q->s, (int)len, run);
@@ -378,24 +375,19 @@ c_decimal_point(char *s)
 	memmove(p + 1, p + n, strlen(p + n) + 1);
 }
 
-/* 10^n exactly, for the small n of unit conversions. */
-static double
-pow10_small(int n)
-{
-	double v = 1;
-
-	assert(n >= 0 && n <= 22);
-	while (n-- > 0)
-		v *= 10;
-	return v;
-}
-
-/* v (SI) in a unit that is 10^exp10 SI; dividing or multiplying by an
- * exact power of ten rounds once, where multiplying by 1e-4 would not. */
+/* v (SI) in a unit that is 10^exp10 SI.  Scaling by an exact power of ten
+ * (10^n, n <= 22) rounds once; multiplying by 1e-4, itself inexact, would
+ * round twice. */
 static double
 si_to(double v, int exp10)
 {
-	return exp10 >= 0 ? v / pow10_small(exp10) : v * pow10_small(-exp10);
+	double p = 1;
+	int i;
+
+	assert(exp10 >= -22 && exp10 <= 22);
+	for (i = 0; i < abs(exp10); i++)
+		p *= 10;
+	return exp10 >= 0 ? v / p : v * p;
 }
 
 /* "'0.25': a length needs a unit, e.g. '250 mm'": the example reads the
@@ -485,68 +477,67 @@ units_format(char *buf, size_t n, double v, enum unit_dim dim, int sig,
     int ascii)
 {
 	const struct dim_info *d;
-	const char *unit, *sp, *sign;
-	char e[40], dg[20], mant[48];
-	size_t nd = 0, i;
-	int x, eng, shift, len;
+	const char *unit, *prefix = "";
+	char e[40], num[48];
+	size_t i, len = 0;
+	int x, eng, shift, nd;
 
 	assert(dim >= 0 && dim < DIM_COUNT);
 	d = &dims[dim];
-	ascii = ascii != 0;
-	unit = d->show[ascii];
-	sp = unit[0] != '\0' ? " " : "";
-	if (isnan(v))
-		return utf8_trim(buf, n, snprintf(buf, n, "-"));
-	if (isinf(v))
-		return utf8_trim(buf, n, snprintf(buf, n, "%s",
-		    v < 0 ? "-inf" : "inf"));
-	if (v == 0)
-		return utf8_trim(buf, n, snprintf(buf, n, "0%s%s", sp, unit));
+	unit = d->show[ascii != 0];
 	sig = sig < 1 ? 1 : sig > 17 ? 17 : sig;
-	v = si_to(v, d->show_exp10);
-	sign = v < 0 ? "-" : "";
+	if (!isfinite(v) || v == 0) {
+		snprintf(num, sizeof num, "%s", isnan(v) ? "-" : v == 0 ? "0" :
+		    v < 0 ? "-inf" : "inf");
+		unit = v == 0 ? unit : "";
+		goto out;
+	}
 
 	/* %e does the rounding, carry included (999.96 -> 1.00e+03); the
 	 * prefix is then chosen from the exponent it settled on. */
-	snprintf(e, sizeof e, "%.*e", sig - 1, fabs(v));
+	v = si_to(v, d->show_exp10);
+	snprintf(e, sizeof e, "%.*e", sig - 1, v);
 	c_decimal_point(e);
-	for (i = 0; e[i] != 'e'; i++)
-		if (is_digit(e[i]))
-			dg[nd++] = e[i];
-	x = atoi(e + i + 1);
+	x = atoi(strchr(e, 'e') + 1);
 	eng = x >= 0 ? x / 3 * 3 : -((-x + 2) / 3) * 3;
-
 	if (dim == DIM_NONE && x >= -4 && x < sig) {
 		/* Plain numbers read best without prefix or exponent. */
-		snprintf(mant, sizeof mant, "%.*f", x < sig - 1 ? sig - 1 - x :
-		    0, fabs(v));
-		c_decimal_point(mant);
-		return utf8_trim(buf, n, snprintf(buf, n, "%s%s", sign, mant));
+		snprintf(num, sizeof num, "%.*f", x < sig - 1 ? sig - 1 - x : 0,
+		    v);
+		c_decimal_point(num);
+		goto out;
 	}
 	if (dim == DIM_NONE || d->scientific || eng < OUT_PREFIX_MIN ||
-	    eng > OUT_PREFIX_MIN + 27)
-		return utf8_trim(buf, n, snprintf(buf, n, "%s%s%s%s", sign, e,
-		    sp, unit));
-
-	/* Digits dg[0..shift] before the point, padded when sig is short. */
-	shift = x - eng;
-	for (len = 0, i = 0; i <= (size_t)shift; i++)
-		mant[len++] = i < nd ? dg[i] : '0';
-	if ((size_t)shift + 1 < nd) {
-		mant[len++] = '.';
-		for (i = shift + 1; i < nd; i++)
-			mant[len++] = dg[i];
+	    eng > OUT_PREFIX_MIN + 27) {
+		memcpy(num, e, sizeof e);
+		goto out;
 	}
-	mant[len] = '\0';
-	return utf8_trim(buf, n, snprintf(buf, n, "%s%s %s%s", sign, mant,
-	    out_prefix[ascii][(eng - OUT_PREFIX_MIN) / 3], unit));
+
+	/* Move the point right by x - eng places, padding when sig is short:
+	 * "2.50e-04" becomes "250" and the prefix µ. */
+	shift = x - eng;
+	if (v < 0)
+		num[len++] = '-';
+	for (i = 0, nd = 0; e[i] != 'e'; i++) {
+		if (!is_digit(e[i]))
+			continue;
+		if (nd++ == shift + 1)
+			num[len++] = '.';
+		num[len++] = e[i];
+	}
+	for (; nd <= shift; nd++)
+		num[len++] = '0';
+	num[len] = '\0';
+	prefix = out_prefix[ascii != 0][(eng - OUT_PREFIX_MIN) / 3];
+out:
+	return utf8_trim(buf, n, snprintf(buf, n, "%s%s%s%s", num,
+	    unit[0] != '\0' ? " " : "", prefix, unit));
 }
 
 int
 units_format_exact(char *buf, size_t n, double v, enum unit_dim dim)
 {
-	const char *unit, *p;
-	struct number num;
+	const char *unit;
 	char s[40];
 	int prec;
 
@@ -554,13 +545,15 @@ units_format_exact(char *buf, size_t n, double v, enum unit_dim dim)
 	unit = dims[dim].si[1];
 	if (!isfinite(v))
 		return units_format(buf, n, v, DIM_NONE, 1, 1);
-	/* The first precision that strtod brings back to the same double. */
-	for (prec = 1; prec <= 17; prec++) {
+	/* The first precision that strtod brings back to the same double
+	 * (both in the locale's notation; units_parse rounds as strtod). */
+	for (prec = 1; prec < 17; prec++) {
 		snprintf(s, sizeof s, "%.*g", prec, v);
-		c_decimal_point(s);
-		p = scan_number(s, s + strlen(s), &num);
-		if (prec == 15)
+		if (strtod(s, NULL) == v)
 			break;
 	}
+	if (prec == 17)
+		snprintf(s, sizeof s, "%.17g", v);
+	c_decimal_point(s);
 	return snprintf(buf, n, "%s%s%s", s, unit[0] != '\0' ? " " : "", unit);
 }

@@ -503,8 +503,9 @@ lcg_next(uint64_t *state)
 	return *state;
 }
 
-/* Finite doubles spread over every magnitude: bit patterns for one half,
- * bench-sized mantissas times 10^-20..10^20 for the other. */
+/* Finite doubles spread over every magnitude: bit patterns for half
+ * (every other one with a zero exponent field, i.e. subnormal), bench-sized
+ * mantissas times 10^-20..10^21 for the rest. */
 static double
 lcg_double(uint64_t *state, int i)
 {
@@ -515,6 +516,8 @@ lcg_double(uint64_t *state, int i)
 		do {
 			bits = lcg_next(state);
 			bits ^= lcg_next(state) >> 32;
+			if (i % 4 == 2)
+				bits &= 0x800fffffffffffffULL;
 			memcpy(&v, &bits, sizeof v);
 		} while (!isfinite(v));
 		return v;

@@ -1,0 +1,541 @@
+/* core-edit.c - all-or-nothing edits of a bench.  Each edit runs on a deep
+ * copy which must pass model_validate before it replaces the original, so a
+ * refused edit can never leave a half-changed bench behind. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-edit.h"
+#include "util-err.h"
+
+/* Swaps the checked copy in; frees what it replaces. */
+static int
+commit_copy(struct bench *b, struct bench *copy, char **cause)
+{
+	struct bench tmp;
+
+	if (model_validate(copy, cause) != 0) {
+		model_bench_free(copy);
+		return -1;
+	}
+	tmp = *b;
+	*b = *copy;
+	*copy = tmp;
+	model_bench_free(copy);
+	return 0;
+}
+
+char *
+edit_split_pair(char *kv)
+{
+	char *eq = strchr(kv, '=');
+
+	if (eq == NULL)
+		return NULL;
+	*eq = '\0';
+	return eq + 1;
+}
+
+static int
+parse_port(const char *text, enum port *p)
+{
+	if (strcmp(text, "reflected") == 0)
+		*p = PORT_REFLECTED;
+	else if (strcmp(text, "transmitted") == 0)
+		*p = PORT_TRANSMITTED;
+	else if (strcmp(text, "rejected") == 0)
+		*p = PORT_REJECTED;
+	else if (strcmp(text, "none") == 0 || text[0] == '\0')
+		*p = PORT_NONE;
+	else
+		return -1;
+	return 0;
+}
+
+/* One key on one element, with no whole-bench check. */
+static int
+set_one(struct element *el, const char *key, const char *text, char **cause)
+{
+	int k;
+
+	if (strcmp(key, "label") == 0 || strcmp(key, "part") == 0) {
+		char **dst = key[0] == 'l' ? &el->label : &el->part;
+
+		free(*dst);
+		*dst = text[0] != '\0' ? xstrdup(text) : NULL;
+		return 0;
+	}
+	if (strcmp(key, "id") == 0) {
+		if (text[0] == '\0')
+			return fail_with(cause, "element '%s': id: must not be empty", el->id);
+		free(el->id);
+		el->id = xstrdup(text);
+		return 0;
+	}
+	if (strcmp(key, "side") == 0) {
+		enum port p;
+
+		if (parse_port(text, &p) != 0)
+			return fail_with(cause, "element '%s': side: '%s' is not reflected, "
+			    "transmitted, rejected or none", el->id, text);
+		if (p != PORT_NONE && !model_type_takes_port(el->type, p))
+			return fail_with(cause, "element '%s': a %s has no %s port", el->id,
+			    model_type_name(el->type), text);
+		if (p == PORT_NONE && el->side.n > 0)
+			return fail_with(cause, "element '%s': side: its %s branch still holds "
+			    "%zu element(s); remove them first", el->id,
+			    model_port_name(el->side_port), el->side.n);
+		el->side_port = p;
+		return 0;
+	}
+	k = model_key_find(key);
+	if (k < 0)
+		return fail_with(cause, "element '%s': unknown key '%s'", el->id, key);
+	if (!model_key_applies((enum model_key)k, el->type))
+		return fail_with(cause, "element '%s': a %s has no key '%s'", el->id,
+		    model_type_name(el->type), key);
+	if (text[0] == '\0') {
+		model_unset(el, (enum model_key)k);
+		return 0;
+	}
+	return model_set_text(el, (enum model_key)k, text, cause);
+}
+
+int
+edit_element_new(struct element *out, const char *type, const char *id,
+    char *const *kv, size_t nkv, char **cause)
+{
+	enum elem_type t;
+
+	if (model_type_parse(type, &t) != 0)
+		return fail_with(cause, "unknown type '%s' (space, mirror, lens, splitter, "
+		    "window, filter, waveplate, polarizer, iris, dump, detector, target)", type);
+	if (id == NULL || id[0] == '\0')
+		return fail_with(cause, "a new %s needs an id", type);
+	model_element_init(out, t, id);
+	if (t == EL_SPLITTER)
+		out->side_port = PORT_REFLECTED;
+	for (size_t i = 0; i < nkv; i++) {
+		char *pair = xstrdup(kv[i]), *val = edit_split_pair(pair);
+		int rc;
+
+		rc = val == NULL ?
+		    fail_with(cause, "element '%s': '%s' is not KEY=VALUE", id, kv[i]) :
+		    set_one(out, pair, val, cause);
+		free(pair);
+		if (rc != 0) {
+			model_element_release(out);
+			return -1;
+		}
+	}
+	return 0;
+}
+
+/* Resolves a place to a branch and an index in the copy. */
+static int
+locate(struct bench *b, const struct edit_place *pl, struct branch **br, size_t *at,
+    char **cause)
+{
+	struct element *el;
+	size_t i;
+
+	if (pl == NULL || (pl->after == NULL && pl->before == NULL && pl->into == NULL)) {
+		*br = &b->path;
+		*at = b->path.n;
+		return 0;
+	}
+	if (pl->into != NULL) {
+		char *id = xstrdup(pl->into), *dot = strrchr(id, '.');
+		enum port p = PORT_NONE;
+
+		if (dot != NULL) {
+			*dot = '\0';
+			if (parse_port(dot + 1, &p) != 0 || p == PORT_NONE)
+				dot = NULL;
+		}
+		if (dot == NULL) {
+			fail_with(cause, "'%s' is not SPLITTER.PORT (e.g. BS1.reflected)", pl->into);
+			free(id);
+			return -1;
+		}
+		el = model_find(b, id, NULL, NULL, NULL);
+		if (el == NULL) {
+			fail_with(cause, "no element '%s' in bench '%s'", id, b->name);
+			free(id);
+			return -1;
+		}
+		if (el->side_port != p) {
+			fail_with(cause, "element '%s' has no %s branch%s%s", id,
+			    model_port_name(p), el->side_port != PORT_NONE ? "; its side port is " : "",
+			    el->side_port != PORT_NONE ? model_port_name(el->side_port) : "");
+			free(id);
+			return -1;
+		}
+		free(id);
+		*br = &el->side;
+		*at = pl->at_start ? 0 : el->side.n;
+		return 0;
+	}
+	el = model_find(b, pl->after != NULL ? pl->after : pl->before, br, &i, NULL);
+	if (el == NULL)
+		return fail_with(cause, "no element '%s' in bench '%s'",
+		    pl->after != NULL ? pl->after : pl->before, b->name);
+	*at = pl->after != NULL ? i + 1 : i;
+	return 0;
+}
+
+int
+edit_add(struct bench *b, struct element *el, const struct edit_place *pl, char **cause)
+{
+	struct bench *copy;
+	struct branch *br;
+	size_t at;
+
+	if (model_find(b, el->id, NULL, NULL, NULL) != NULL) {
+		fail_with(cause, "element '%s': id used twice", el->id);
+		model_element_release(el);
+		return -1;
+	}
+	copy = model_bench_dup(b);
+	if (locate(copy, pl, &br, &at, cause) != 0) {
+		model_bench_free(copy);
+		model_element_release(el);
+		return -1;
+	}
+	model_branch_insert(br, at, el);
+	return commit_copy(b, copy, cause);
+}
+
+int
+edit_set_pairs(struct bench *b, const char *id, char *const *kv, size_t nkv, char **cause)
+{
+	struct bench *copy = model_bench_dup(b);
+	struct element *el = model_find(copy, id, NULL, NULL, NULL);
+
+	if (el == NULL) {
+		model_bench_free(copy);
+		return fail_with(cause, "no element '%s' in bench '%s'", id, b->name);
+	}
+	for (size_t i = 0; i < nkv; i++) {
+		char *pair = xstrdup(kv[i]), *val = edit_split_pair(pair);
+		int rc = val == NULL ?
+		    fail_with(cause, "element '%s': '%s' is not KEY=VALUE", id, kv[i]) :
+		    set_one(el, pair, val, cause);
+
+		free(pair);
+		if (rc != 0) {
+			model_bench_free(copy);
+			return -1;
+		}
+	}
+	return commit_copy(b, copy, cause);
+}
+
+int
+edit_set(struct bench *b, const char *id, const char *key, const char *text, char **cause)
+{
+	char *pair = xasprintf("%s=%s", key, text);
+	int rc = edit_set_pairs(b, id, &pair, 1, cause);
+
+	free(pair);
+	return rc;
+}
+
+int
+edit_remove(struct bench *b, const char *id, char **cause)
+{
+	struct branch *br;
+	size_t i;
+
+	if (model_find(b, id, &br, &i, NULL) == NULL)
+		return fail_with(cause, "no element '%s' in bench '%s'", id, b->name);
+	/* Removing never breaks a rule the bench already kept, except a
+	 * terminator that now stands last by accident of order: none can. */
+	model_branch_remove(br, i, NULL);
+	return 0;
+}
+
+static int
+contains(const struct element *el, const char *id)
+{
+	for (size_t i = 0; i < el->side.n; i++)
+		if (strcmp(el->side.el[i].id, id) == 0 || contains(&el->side.el[i], id))
+			return 1;
+	return 0;
+}
+
+int
+edit_move(struct bench *b, const char *id, const struct edit_place *pl, char **cause)
+{
+	struct bench *copy;
+	struct element moving, *target;
+	struct branch *br;
+	size_t i, at;
+	const char *ref = pl == NULL ? NULL :
+	    pl->after != NULL ? pl->after : pl->before != NULL ? pl->before : pl->into;
+
+	if (ref != NULL && strcmp(ref, id) == 0)
+		return fail_with(cause, "element '%s' cannot move next to itself", id);
+	copy = model_bench_dup(b);
+	if ((target = model_find(copy, id, &br, &i, NULL)) == NULL) {
+		model_bench_free(copy);
+		return fail_with(cause, "no element '%s' in bench '%s'", id, b->name);
+	}
+	if (ref != NULL) {
+		char *rid = xstrdup(ref), *dot = pl->into != NULL ? strrchr(rid, '.') : NULL;
+
+		if (dot != NULL)
+			*dot = '\0';
+		if (strcmp(rid, id) == 0 || contains(target, rid)) {
+			fail_with(cause, "element '%s' cannot move into its own side branch", id);
+			free(rid);
+			model_bench_free(copy);
+			return -1;
+		}
+		free(rid);
+	}
+	model_branch_remove(br, i, &moving);
+	if (locate(copy, pl, &br, &at, cause) != 0) {
+		model_element_release(&moving);
+		model_bench_free(copy);
+		return -1;
+	}
+	model_branch_insert(br, at, &moving);
+	return commit_copy(b, copy, cause);
+}
+
+/* ---- bench settings ---- */
+
+const char *const edit_bench_keys[] = {
+	"name", "notes", "safety_factor", "air_breakdown",
+	"source.wavelength", "source.power", "source.pulsed", "source.pulse_energy",
+	"source.rep_rate", "source.pulse_width", "source.shape", "source.waist",
+	"source.waist_position", "source.m2", "source.polarization", NULL,
+};
+
+static int
+quantity(const char *key, const char *text, enum unit_dim dim, double *out, char **cause)
+{
+	char *why = NULL;
+
+	if (units_parse(text, dim, out, &why) != 0) {
+		fail_with(cause, "%s: %s", key, why);
+		free(why);
+		return -1;
+	}
+	return 0;
+}
+
+static int
+plain(const char *key, const char *text, double *out, char **cause)
+{
+	char *end;
+
+	*out = strtod(text, &end);
+	while (*end == ' ')
+		end++;
+	if (end == text || *end != '\0' || !isfinite(*out))
+		return fail_with(cause, "%s: '%s' is not a plain number", key, text);
+	return 0;
+}
+
+/* "3 mm" or "3 mm, 2 mm" */
+static int
+pair(const char *key, const char *text, enum unit_dim dim, double v[2], int *is_pair,
+    char **cause)
+{
+	char *t = xstrdup(text), *comma = strchr(t, ',');
+	int rc;
+
+	if (comma != NULL)
+		*comma = '\0';
+	rc = dim == DIM_NONE ? plain(key, t, &v[0], cause) :
+	    quantity(key, t, dim, &v[0], cause);
+	if (rc == 0 && comma != NULL)
+		rc = dim == DIM_NONE ? plain(key, comma + 1, &v[1], cause) :
+		    quantity(key, comma + 1, dim, &v[1], cause);
+	else
+		v[1] = v[0];
+	*is_pair = comma != NULL;
+	free(t);
+	return rc;
+}
+
+static int
+set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
+{
+	struct source *s = &b->src;
+	double v;
+
+	if (strcmp(key, "name") == 0) {
+		if (text[0] == '\0')
+			return fail_with(cause, "name: must not be empty");
+		free(b->name);
+		b->name = xstrdup(text);
+	} else if (strcmp(key, "notes") == 0) {
+		free(b->notes);
+		b->notes = text[0] != '\0' ? xstrdup(text) : NULL;
+	} else if (strcmp(key, "safety_factor") == 0) {
+		if (plain(key, text, &b->safety_factor, cause) != 0)
+			return -1;
+		b->safety_given = 1;
+	} else if (strcmp(key, "air_breakdown") == 0) {
+		if (quantity(key, text, DIM_IRRADIANCE, &b->air_breakdown, cause) != 0)
+			return -1;
+		b->air_given = 1;
+	} else if (strcmp(key, "source.wavelength") == 0) {
+		return quantity(key, text, DIM_LENGTH, &s->wavelength, cause);
+	} else if (strcmp(key, "source.power") == 0) {
+		if (quantity(key, text, DIM_POWER, &s->power, cause) != 0)
+			return -1;
+		s->energy_given = 0;
+		if (s->pulsed)
+			s->pulse_energy = s->power / s->rep_rate;
+	} else if (strcmp(key, "source.pulse_energy") == 0) {
+		if (!s->pulsed)
+			return fail_with(cause, "%s: the source is CW; set source.pulsed=true first", key);
+		if (quantity(key, text, DIM_ENERGY, &s->pulse_energy, cause) != 0)
+			return -1;
+		s->energy_given = 1;
+		s->power = s->pulse_energy * s->rep_rate;
+	} else if (strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0) {
+		int rate = key[7] == 'r';
+
+		if (!s->pulsed)
+			return fail_with(cause, "%s: the source is CW; set source.pulsed=true first", key);
+		if (quantity(key, text, rate ? DIM_FREQUENCY : DIM_TIME,
+		    rate ? &s->rep_rate : &s->pulse_width, cause) != 0)
+			return -1;
+		if (s->energy_given)
+			s->power = s->pulse_energy * s->rep_rate;
+		else
+			s->pulse_energy = s->power / s->rep_rate;
+	} else if (strcmp(key, "source.pulsed") == 0) {
+		if (strcmp(text, "true") == 0) {
+			if (!s->pulsed) {
+				s->pulsed = 1;
+				s->energy_given = 0;
+				if (!(s->rep_rate > 0))
+					s->rep_rate = 10;
+				if (!(s->pulse_width > 0))
+					s->pulse_width = 10e-9;
+				s->pulse_energy = s->power / s->rep_rate;
+			}
+		} else if (strcmp(text, "false") == 0) {
+			s->pulsed = 0;
+			s->energy_given = 0;
+		} else {
+			return fail_with(cause, "%s: '%s' is not true or false", key, text);
+		}
+	} else if (strcmp(key, "source.shape") == 0) {
+		if (strcmp(text, "gaussian") == 0)
+			s->shape = PULSE_GAUSSIAN;
+		else if (strcmp(text, "sech2") == 0)
+			s->shape = PULSE_SECH2;
+		else if (strcmp(text, "square") == 0)
+			s->shape = PULSE_SQUARE;
+		else
+			return fail_with(cause, "%s: '%s' is not gaussian, sech2 or square", key, text);
+	} else if (strcmp(key, "source.waist") == 0) {
+		return pair(key, text, DIM_LENGTH, s->waist, &s->waist_pair, cause);
+	} else if (strcmp(key, "source.waist_position") == 0) {
+		return quantity(key, text, DIM_LENGTH, &s->waist_position, cause);
+	} else if (strcmp(key, "source.m2") == 0) {
+		return pair(key, text, DIM_NONE, s->m2, &s->m2_pair, cause);
+	} else if (strcmp(key, "source.polarization") == 0) {
+		if (strcmp(text, "circular") == 0) {
+			s->pol = POL_CIRCULAR;
+		} else if (strcmp(text, "unpolarized") == 0) {
+			s->pol = POL_UNPOLARIZED;
+		} else {
+			if (plain(key, text, &v, cause) != 0)
+				return fail_with(cause, "%s: expected degrees, circular or unpolarized", key);
+			s->pol = POL_LINEAR;
+			s->pol_angle_deg = v;
+		}
+	} else {
+		return fail_with(cause, "unknown bench key '%s'", key);
+	}
+	return 0;
+}
+
+int
+edit_set_bench(struct bench *b, const char *key, const char *text, char **cause)
+{
+	struct bench *copy = model_bench_dup(b);
+
+	if (set_bench_key(copy, key, text, cause) != 0) {
+		model_bench_free(copy);
+		return -1;
+	}
+	return commit_copy(b, copy, cause);
+}
+
+char *
+edit_bench_value(const struct bench *b, const char *key)
+{
+	const struct source *s = &b->src;
+	static const char *const shapes[] = { "gaussian", "sech2", "square" };
+	char t1[64], t2[64];
+
+	if (strcmp(key, "name") == 0)
+		return xstrdup(b->name);
+	if (strcmp(key, "notes") == 0)
+		return xstrdup(b->notes != NULL ? b->notes : "");
+	if (strcmp(key, "safety_factor") == 0)
+		return xasprintf("%.17g", b->safety_factor);
+	if (strcmp(key, "air_breakdown") == 0) {
+		units_format_exact(t1, sizeof t1, b->air_breakdown, DIM_IRRADIANCE);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.wavelength") == 0) {
+		units_format_exact(t1, sizeof t1, s->wavelength, DIM_LENGTH);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.power") == 0) {
+		units_format_exact(t1, sizeof t1, s->power, DIM_POWER);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.pulsed") == 0)
+		return xstrdup(s->pulsed ? "true" : "false");
+	if (!s->pulsed && (strcmp(key, "source.pulse_energy") == 0 ||
+	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0 ||
+	    strcmp(key, "source.shape") == 0))
+		return xstrdup("");
+	if (strcmp(key, "source.pulse_energy") == 0) {
+		units_format_exact(t1, sizeof t1, s->pulse_energy, DIM_ENERGY);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.rep_rate") == 0) {
+		units_format_exact(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.pulse_width") == 0) {
+		units_format_exact(t1, sizeof t1, s->pulse_width, DIM_TIME);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.shape") == 0)
+		return xstrdup(shapes[s->shape]);
+	if (strcmp(key, "source.waist") == 0) {
+		units_format_exact(t1, sizeof t1, s->waist[0], DIM_LENGTH);
+		if (!s->waist_pair)
+			return xstrdup(t1);
+		units_format_exact(t2, sizeof t2, s->waist[1], DIM_LENGTH);
+		return xasprintf("%s, %s", t1, t2);
+	}
+	if (strcmp(key, "source.waist_position") == 0) {
+		units_format_exact(t1, sizeof t1, s->waist_position, DIM_LENGTH);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.m2") == 0)
+		return s->m2_pair ? xasprintf("%.17g, %.17g", s->m2[0], s->m2[1]) :
+		    xasprintf("%.17g", s->m2[0]);
+	if (strcmp(key, "source.polarization") == 0)
+		return s->pol == POL_CIRCULAR ? xstrdup("circular") :
+		    s->pol == POL_UNPOLARIZED ? xstrdup("unpolarized") :
+		    xasprintf("%.17g", s->pol_angle_deg);
+	return xstrdup("");
+}

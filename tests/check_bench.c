@@ -1,0 +1,3 @@
+#include <config.h>
+#include <stdlib.h>
+int main(void){return EXIT_SUCCESS;}
