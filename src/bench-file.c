@@ -12,6 +12,9 @@
 #include "bench-file.h"
 #include "util-buf.h"
 #include "util-err.h"
+#include "util-json.h"
+
+static void dump_element(struct buf *, json_t *, int);
 
 static const char *
 json_kind(const json_t *v)
@@ -616,16 +619,110 @@ bench_head_to_json(const struct bench *b)
 	return o;
 }
 
+/* jansson prints reals with 17 digits ("0.10000000000000001"); a file
+ * people read should say 0.1, and still read back to the same double.
+ * Elements stay on one line each, so a long path reads like a list. */
+static void
+dump_value(struct buf *out, json_t *v, int indent, int inline_all)
+{
+	const char *k;
+	json_t *x;
+	size_t i;
+	int first = 1;
+
+	switch (json_typeof(v)) {
+	case JSON_OBJECT:
+		buf_addc(out, '{');
+		json_object_foreach(v, k, x) {
+			int branch = json_is_array(x) && !inline_all;
+
+			buf_add(out, first ? (inline_all ? " " : "\n") : (inline_all ? ", " : ",\n"));
+			if (!inline_all)
+				buf_printf(out, "%*s", indent + 2, "");
+			json_put_string(out, k);
+			buf_add(out, ": ");
+			dump_value(out, x, indent + 2, inline_all && !branch);
+			first = 0;
+		}
+		if (inline_all)
+			buf_add(out, first ? "}" : " }");
+		else
+			buf_printf(out, "\n%*s}", indent, "");
+		break;
+	case JSON_ARRAY:
+		if (json_array_size(v) == 0) {
+			buf_add(out, "[]");
+			break;
+		}
+		buf_addc(out, '[');
+		json_array_foreach(v, i, x) {
+			if (inline_all || !json_is_object(x)) {
+				buf_add(out, i ? ", " : "");
+				dump_value(out, x, indent, 1);
+				continue;
+			}
+			buf_printf(out, "%s\n%*s", i ? "," : "", indent + 2, "");
+			/* an element: one line, except its side branch */
+			dump_element(out, x, indent + 2);
+		}
+		if (inline_all || !json_is_object(json_array_get(v, 0)))
+			buf_addc(out, ']');
+		else
+			buf_printf(out, "\n%*s]", indent, "");
+		break;
+	case JSON_STRING:
+		json_put_string(out, json_string_value(v));
+		break;
+	case JSON_INTEGER:
+		buf_printf(out, "%lld", (long long)json_integer_value(v));
+		break;
+	case JSON_REAL:
+		json_put_exact(out, json_real_value(v));
+		break;
+	case JSON_TRUE:
+		buf_add(out, "true");
+		break;
+	case JSON_FALSE:
+		buf_add(out, "false");
+		break;
+	default:
+		buf_add(out, "null");
+		break;
+	}
+}
+
+static void
+dump_element(struct buf *out, json_t *el, int indent)
+{
+	const char *k;
+	json_t *x;
+	int first = 1;
+
+	buf_addc(out, '{');
+	json_object_foreach(el, k, x) {
+		buf_add(out, first ? " " : ", ");
+		json_put_string(out, k);
+		buf_add(out, ": ");
+		if (json_is_array(x) && json_array_size(x) > 0 &&
+		    json_is_object(json_array_get(x, 0)))
+			dump_value(out, x, indent + 2, 0);
+		else
+			dump_value(out, x, indent, 1);
+		first = 0;
+	}
+	buf_add(out, " }");
+}
+
 char *
 bench_file_dump(const struct bench *b)
 {
 	json_t *o = bench_head_to_json(b);
-	char *text, *out;
+	struct buf out;
 
 	json_object_set_new(o, "path", branch_json(&b->path));
-	text = json_dumps(o, JSON_INDENT(2) | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(17));
+	buf_init(&out);
+	dump_value(&out, o, 0, 0);
+	buf_addc(&out, '\n');
 	json_decref(o);
-	out = xasprintf("%s\n", text);
-	free(text);
-	return out;
+	return buf_take(&out);
 }

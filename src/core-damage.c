@@ -67,6 +67,9 @@ damage_limits(const struct element *el, const struct source *src,
 	lim->cw_linear = lim->cw_irradiance = lim->fluence = NAN;
 	lim->max_power = lim->max_absorbed = NAN;
 	lim->flags = 0;
+	if ((el->set & (KEY_BIT(K_DMG_CW_LINEAR) | KEY_BIT(K_DMG_CW_IRRADIANCE) |
+	    KEY_BIT(K_DMG_FLUENCE) | KEY_BIT(K_MAX_POWER) | KEY_BIT(K_MAX_ABSORBED))) == 0)
+		return;                     /* unrated: the common case for gaps */
 	wl_spec = model_has(el, K_DMG_WAVELENGTH) ? el->val[K_DMG_WAVELENGTH] : lam;
 	k = lam / wl_spec;
 	if (wl_spec != lam && (el->set & (KEY_BIT(K_DMG_CW_LINEAR) |

@@ -118,7 +118,8 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 	double r, rs, rp, tp, ts, t, t2;
 
 	polar_identity(main_m);
-	polar_scalar(side_m, 0);
+	if (el->side_port != PORT_NONE)
+		polar_scalar(side_m, 0);
 	switch (el->type) {
 	case EL_MIRROR:
 		if (model_has(el, K_RS) || model_has(el, K_RP)) {
@@ -295,13 +296,17 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		if (row->clip_loss > CLIP_HARD)
 			row->flags |= TF_HARD_CLIP;
 	}
-	element_mueller(el, &mm, &ms);
-	*side = *st;
-	polar_apply(&ms, st->s, side->s);
-	polar_apply(&mm, st->s, st->s);
-	element_optics(el, st);
-	side->x = st->x;
-	side->y = st->y;
+	if (el->type != EL_SPACE) {         /* a gap of air leaves power alone */
+		element_mueller(el, &mm, &ms);
+		if (el->side_port != PORT_NONE) {
+			*side = *st;
+			polar_apply(&ms, st->s, side->s);
+		}
+		polar_apply(&mm, st->s, st->s);
+		element_optics(el, st);
+		side->x = st->x;
+		side->y = st->y;
+	}
 	row->power_out = st->s[0] + (el->side_port != PORT_NONE ? side->s[0] : 0);
 	row->power_lost = p - row->power_out;
 
@@ -325,9 +330,9 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		}
 		if (row->flags & TF_SELF_FOCUSING)
 			warn(t, TW_SELF_FOCUSING, c, el, ppk);
-		side->b_total = st->b_total;
-		side->b_warned = st->b_warned;
 	}
+	side->b_total = st->b_total;
+	side->b_warned = st->b_warned;
 
 	damage_limits(el, src, &row->limits);
 	if (row->limits.flags & DAMAGE_WL_SCALED)
@@ -353,9 +358,6 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		beam_space(&st->x, el->val[K_LENGTH]);
 		beam_space(&st->y, el->val[K_LENGTH]);
 		st->z += el->val[K_LENGTH];
-		side->x = st->x;
-		side->y = st->y;
-		side->z = st->z;
 	}
 }
 
@@ -377,13 +379,27 @@ branch_end(struct trace *t, const struct cursor *c)
 struct trace *
 trace_run(const struct bench *b)
 {
-	struct trace *t = xcalloc(1, sizeof *t);
+	return trace_rerun(NULL, b);
+}
+
+struct trace *
+trace_rerun(struct trace *t, const struct bench *b)
+{
 	struct cursor *stack;
 	size_t top = 0, cap = 16, nrow = 0;
 
+	if (t == NULL)
+		t = xcalloc(1, sizeof *t);
 	t->bench = b;
 	t->nrows = model_count(&b->path);
-	t->rows = xcalloc(t->nrows ? t->nrows : 1, sizeof *t->rows);
+	if (t->nrows > t->caprows || t->rows == NULL) {
+		/* every row is filled whole by visit(): no need to zero them */
+		free(t->rows);
+		t->caprows = t->nrows ? t->nrows : 1;
+		t->rows = xmalloc(t->caprows * sizeof *t->rows);
+	}
+	t->nwarn = 0;
+	t->absorbed = t->leaving = 0;
 	t->worst = -1;
 	t->worst_ratio = NAN;
 	t->safe_source_power = NAN;

@@ -71,7 +71,7 @@ struct trace_warning {
 struct trace {
 	const struct bench   *bench;    /* borrowed: outlives the trace */
 	struct trace_row     *rows;     /* owned, depth-first path order */
-	size_t                nrows;
+	size_t                nrows, caprows;
 	struct trace_warning *warn;     /* owned */
 	size_t                nwarn, capwarn;
 	long                  worst;    /* row index, -1 when nothing is rated */
@@ -82,6 +82,10 @@ struct trace {
 
 /* The bench must have passed model_validate.  Never fails. */
 struct trace *trace_run(const struct bench *);     /* caller frees */
+/* The same, reusing the memory of an earlier result t (which it returns;
+ * NULL t allocates).  The workbench retraces on every edit this way, and a
+ * large bench then costs no fresh pages. */
+struct trace *trace_rerun(struct trace *t, const struct bench *);
 void          trace_free(struct trace *);          /* NULL ok */
 
 /* "main" or "<parent id>.<port>", into buf. */

@@ -14,6 +14,7 @@
 #include <string.h>
 
 #include "core-units.h"
+#include "util-json.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -539,21 +540,14 @@ units_format_exact(char *buf, size_t n, double v, enum unit_dim dim)
 {
 	const char *unit;
 	char s[40];
-	int prec;
 
 	assert(dim >= 0 && dim < DIM_COUNT);
 	unit = dims[dim].si[1];
 	if (!isfinite(v))
 		return units_format(buf, n, v, DIM_NONE, 1, 1);
-	/* The first precision that strtod brings back to the same double
-	 * (both in the locale's notation; units_parse rounds as strtod). */
-	for (prec = 1; prec < 17; prec++) {
-		snprintf(s, sizeof s, "%.*g", prec, v);
-		if (strtod(s, NULL) == v)
-			break;
-	}
-	if (prec == 17)
-		snprintf(s, sizeof s, "%.17g", v);
+	/* The shortest text strtod brings back to the same double (in the
+	 * locale's notation; units_parse rounds as strtod). */
+	fmt_exact(s, sizeof s, v);
 	c_decimal_point(s);
 	return snprintf(buf, n, "%s%s%s", s, unit[0] != '\0' ? " " : "", unit);
 }

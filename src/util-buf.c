@@ -76,15 +76,22 @@ void
 buf_vprintf(struct buf *b, const char *fmt, va_list ap)
 {
 	va_list aq;
+	size_t room = b->cap - b->len;
 	int n;
 
+	/* Try the room there is first: most appends fit, and formatting
+	 * twice is what a long report would spend its time on. */
 	va_copy(aq, ap);
-	n = vsnprintf(NULL, 0, fmt, aq);
+	n = vsnprintf(b->s + b->len, room, fmt, aq);
 	va_end(aq);
-	if (n <= 0)
+	if (n < 0) {
+		b->s[b->len] = '\0';
 		return;
-	grow(b, (size_t)n);
-	vsnprintf(b->s + b->len, (size_t)n + 1, fmt, ap);
+	}
+	if ((size_t)n >= room) {
+		grow(b, (size_t)n);
+		vsnprintf(b->s + b->len, (size_t)n + 1, fmt, ap);
+	}
 	b->len += (size_t)n;
 }
 

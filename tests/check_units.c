@@ -560,7 +560,7 @@ static const struct exact_case {
 	{ 0.25, DIM_LENGTH, "0.25 m" },
 	{ 1e-8, DIM_TIME, "1e-08 s" },
 	{ 3.5, DIM_NONE, "3.5" },
-	{ 100, DIM_LENGTH, "1e+02 m" },
+	{ 100, DIM_LENGTH, "100 m" },
 	{ 1064e-9, DIM_LENGTH, "1.064e-06 m" },
 	{ 2.5, DIM_POWER, "2.5 W" },
 	{ -2.5, DIM_POWER, "-2.5 W" },

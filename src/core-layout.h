@@ -1,0 +1,180 @@
+/* core-layout.h - everything the workbench decides about what to show,
+ * without curses: ratio bars and percentages, text fitted to columns,
+ * choosing table columns for a width, key-hint lines, the bench chain
+ * flattened into rows, friendly value text that reads back exactly, new
+ * element ids, the status line, and the beam-profile plot laid out as a
+ * grid of glyph codes.  The ui-* files only put these on the screen.
+ *
+ * Pure computation (no I/O, no globals); unit-tested in
+ * tests/check_layout.c.  Owned by the workbench. */
+#ifndef CORE_LAYOUT_H
+#define CORE_LAYOUT_H
+
+#include <stddef.h>
+
+#include "core-model.h"
+#include "core-trace.h"
+#include "util-buf.h"
+
+/* ---- numbers and words ---- */
+
+/* A ratio-to-threshold bar exactly `width` columns wide: filled cells for
+ * the ratio on a 0..100 % scale (UTF-8 eighth blocks, or '#' in ASCII),
+ * a tick at `caution` (the ratio where caution starts, 1/safety factor;
+ * NAN for none) and a final arrow when the ratio is past 100 %.  An unrated
+ * (NAN) ratio gives blanks.  Writes into buf (truncating at n); returns the
+ * number of columns written. */
+int   layout_bar(char *buf, size_t n, double ratio, double caution, int width,
+          int ascii);
+/* "15.8 %", "109 %", "0.65 %", "<0.01 %"; "-" for NAN. */
+void  layout_percent(char *buf, size_t n, double ratio);
+/* The status in words as the screen shows it: "ok", "caution", "OVER",
+ * "unrated". */
+const char *layout_status_word(enum damage_status);
+/* Radii as "3.00 mm" (equal at 3 digits) or "2.41/2.43 mm" (one unit) or
+ * "265 µm/1.82 mm". */
+void  layout_radius_text(char *buf, size_t n, double wx, double wy, int ascii);
+
+/* ---- text in columns ---- */
+
+enum layout_align { LAYOUT_LEFT, LAYOUT_RIGHT };
+/* s fitted to exactly `cols` columns: padded, or cut with "…" ("~" in
+ * ASCII).  UTF-8 safe (counts code points, as utf8_cols).  Returns buf. */
+char *layout_fit_text(char *buf, size_t n, const char *s, int cols,
+          enum layout_align, int ascii);
+
+struct layout_col {
+	const char *name;
+	int         min, want;      /* columns; want < 0: takes what is left */
+	int         prio;           /* 0 always shown; higher is dropped first */
+};
+/* Chooses widths for a table row of `width` columns with `gap` blanks
+ * between shown columns: columns are dropped from the highest prio down
+ * until the minima fit, then widened towards `want` in prio order, then
+ * the flexible column (want < 0) takes the rest.  width_out[i] is 0 for a
+ * hidden column.  Returns the columns used, or -1 when even prio 0 does not
+ * fit (every width is then 0). */
+int   layout_fit_columns(const struct layout_col *, size_t n, int width, int gap,
+          int *width_out);
+
+/* ---- key hints ---- */
+
+struct layout_hint {
+	const char *key;            /* "a", "^R", "Enter" */
+	const char *word;           /* "add" */
+	int         prio;           /* 0 always; higher dropped first */
+};
+/* Picks which hints fit in `width` columns written as "key word" two
+ * blanks apart, in their given order; shown[i] is set to 1 or 0.  Returns
+ * how many are shown. */
+size_t layout_hints_pick(const struct layout_hint *, size_t n, int width,
+           unsigned char *shown);
+/* The chosen hints as one plain line (for tests and monochrome). */
+char  *layout_hints_text(const struct layout_hint *, size_t n, int width); /* caller frees */
+
+/* ---- the chain ---- */
+
+enum layout_row_kind {
+	LROW_ELEMENT,               /* an element */
+	LROW_PORT                   /* the heading of el's side branch */
+};
+struct layout_row {
+	enum layout_row_kind  kind;
+	const struct element *el;       /* borrowed: the element, or the port's owner */
+	const struct element *parent;   /* owner of the branch el is in; NULL on main */
+	enum port             port;     /* LROW_PORT: el's side port */
+	unsigned              depth;    /* indentation level */
+	long                  trace_row;/* index into t->rows; -1 for a port row */
+};
+/* The bench as display rows: every element in path order, and after an
+ * element with a side port a port row, followed by its branch one level
+ * deeper (an empty branch still gets its port row, so elements can be put
+ * into it).  t may be NULL (no trace indices).  Returns the count; *rows is
+ * caller-freed. */
+size_t layout_chain(const struct bench *, const struct trace *, struct layout_row **rows);
+/* The row showing element id (kind LROW_ELEMENT, or the port row of id
+ * when port != 0); -1 when absent. */
+long   layout_chain_find(const struct layout_row *, size_t n, const char *id, int port);
+/* First row to show so that `sel` is visible in `visible` rows of n,
+ * keeping one row of context where there is room. */
+int    layout_scroll(int sel, int top, int visible, int n);
+
+/* ---- values ---- */
+
+/* A key's value as short text that reads back to the same double ("250 mm"
+ * rather than "0.25 m"); the given value or its default.  Caller frees. */
+char  *layout_value_text(const struct element *, enum model_key);
+/* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm". */
+char  *layout_bench_value_text(const struct bench *, const char *key);
+/* The key a new element of this type must be given to be valid, or -1. */
+int    layout_required_key(enum elem_type);
+/* The next free id for a new element of this type ("L2", "BS3"). */
+char  *layout_new_id(const struct bench *, enum elem_type);   /* caller frees */
+/* One line about a type for the add menu. */
+const char *layout_type_help(enum elem_type);
+
+/* The fields of an element's form, in order: id, label, part, side (for
+ * types with side ports), then every key of model_keys the type takes. */
+enum layout_field_kind { LF_ID, LF_LABEL, LF_PART, LF_SIDE, LF_KEY };
+struct layout_field {
+	enum layout_field_kind kind;
+	int                    key;     /* enum model_key for LF_KEY, else -1 */
+	const char            *name;    /* "focal", "damage.fluence", "id" */
+	const char            *help;    /* one line */
+	int                    given;   /* a value is set (not a default) */
+};
+size_t layout_fields(const struct element *, struct layout_field *out, size_t max);
+/* The text a field shows or starts its editor with ("" when unset and
+ * without default).  Caller frees. */
+char  *layout_field_value(const struct element *, const struct layout_field *);
+/* One line of help for a bench-level key. */
+const char *layout_bench_key_help(const char *key);
+
+/* ---- the status line ---- */
+
+/* "worst: W1 109 % OVER  |  safe source power 914 mW  |  unterminated:
+ * 728 µW after S4r (POL1.rejected)"; every part always present ("nothing
+ * rated", "all beams terminated").  Caller frees. */
+char  *layout_status_line(const struct trace *, int ascii);
+
+/* ---- the beam profile ---- */
+
+/* Trace row indices along the path of row `sel`: from the source down the
+ * main path, through each splitter into the side branches that lead to
+ * `sel`, and on to the end of sel's own branch.  Returns the count; *idx is
+ * caller-freed. */
+size_t layout_profile_path(const struct trace *, size_t sel, size_t **idx);
+
+enum layout_glyph {
+	LG_EMPTY, LG_WX, LG_WY, LG_WXY, LG_POWER, LG_FOCUS, LG_SEL, LG_COUNT
+};
+struct layout_mark {
+	int    col;
+	size_t row;                 /* trace row index */
+	int    focus;               /* 1: a focus in the gap `row`, at col */
+};
+struct layout_plot {
+	int                 w, hr, hp;      /* columns, radius rows, power rows */
+	unsigned char      *cell;           /* owned: w * (hr + hp) glyphs, row major */
+	double              z0, z1;         /* z at the left edge and right edge */
+	double              rmax, pmax;     /* top of the radius and power rows */
+	struct layout_mark *mark;           /* owned: elements and foci by column */
+	size_t              nmark;
+	int                 sel_col;        /* column of the selected row, -1 */
+};
+/* Samples both 1/e² radii and the power along `path` (from
+ * layout_profile_path) into a w × (hr + hp) grid: radii in the top hr rows
+ * (row hr-1 is r = 0, the top row rmax, a "nice" value), the power as a
+ * step line in the bottom hp rows (0..pmax).  sel is a trace row index to
+ * mark (or (size_t)-1).  Returns 0, or -1 when w, hr or hp is below 2. */
+int    layout_profile(const struct trace *, const size_t *path, size_t npath,
+           size_t sel, int w, int hr, int hp, struct layout_plot *out);
+void   layout_plot_release(struct layout_plot *);
+/* A "nice" number >= x (1, 2, 2.5, 5 × 10^k); 0 stays 0. */
+double layout_nice_ceil(double x);
+/* Nice tick values inside [lo, hi], at most maxn; returns the count. */
+size_t layout_ticks(double lo, double hi, size_t maxn, double *out);
+/* Column of z in [z0, z1] mapped onto w columns (clamped). */
+int    layout_map_col(double z, double z0, double z1, int w);
+
+#endif

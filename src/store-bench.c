@@ -1,0 +1,955 @@
+/* store-bench.c - benches, their drafts and revisions.  A bench's content
+ * is a head record plus a layout of element records (see store-db.c); the
+ * draft and every revision point at records shared by content, so a commit
+ * copies three small values and a one-value change stores one element. */
+#include <config.h>
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-file.h"
+#include "store-impl.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+/* One stored state: the head record, the layout text and the parts map. */
+struct state {
+	long long head;
+	char     *layout;           /* owned */
+	char     *parts;            /* owned */
+};
+
+static void
+state_release(struct state *st)
+{
+	free(st->layout);
+	free(st->parts);
+	st->layout = st->parts = NULL;
+}
+
+static int
+state_equal(const struct state *a, const struct state *b)
+{
+	return a->head == b->head && strcmp(a->layout, b->layout) == 0;
+}
+
+static char *
+col_text(sqlite3_stmt *st, int i)
+{
+	const unsigned char *t = sqlite3_column_text(st, i);
+
+	return xstrdup(t != NULL ? (const char *)t : "");
+}
+
+/* ---- records ---- */
+
+/* The id of the record holding json, inserting it when new. */
+static long long
+intern(struct store *s, enum store_q find, enum store_q insert, const char *json,
+    char **cause)
+{
+	sqlite3_stmt *st = store_q(s, find, cause);
+	long long id = 0;
+	int rc;
+
+	if (st == NULL)
+		return 0;
+	store_bind_text(st, 1, json);
+	rc = sqlite3_step(st);
+	if (rc == SQLITE_ROW) {
+		id = sqlite3_column_int64(st, 0);
+		store_q_done(st);
+		return id;
+	}
+	store_q_done(st);
+	if (rc != SQLITE_DONE) {
+		store_fail(s, rc, cause, "looking up a record");
+		return 0;
+	}
+	if ((st = store_q(s, insert, cause)) == NULL)
+		return 0;
+	store_bind_text(st, 1, json);
+	rc = sqlite3_step(st);
+	store_q_done(st);
+	if (rc != SQLITE_DONE) {
+		store_fail(s, rc, cause, "storing a record");
+		return 0;
+	}
+	return sqlite3_last_insert_rowid(s->db);
+}
+
+static char *
+head_json(const struct bench *b)
+{
+	json_t *o = bench_head_to_json(b);
+	char *t;
+
+	json_object_del(o, "format");
+	json_object_del(o, "name");
+	t = store_json_text(o);
+	json_decref(o);
+	return t;
+}
+
+static int
+layout_branch(struct store *s, const struct branch *br, struct buf *out, char **cause)
+{
+	buf_addc(out, '[');
+	for (size_t i = 0; i < br->n; i++) {
+		const struct element *el = &br->el[i];
+		json_t *o = bench_element_to_json(el, 0);
+		char *t = store_json_text(o);
+		long long id;
+
+		json_decref(o);
+		id = intern(s, Q_EL_FIND, Q_EL_INSERT, t, cause);
+		free(t);
+		if (id == 0)
+			return -1;
+		if (i > 0)
+			buf_addc(out, ',');
+		if (el->side_port == PORT_NONE) {
+			buf_printf(out, "%lld", id);
+			continue;
+		}
+		buf_printf(out, "[%lld,\"%s\",", id, model_port_name(el->side_port));
+		if (layout_branch(s, &el->side, out, cause) != 0)
+			return -1;
+		buf_addc(out, ']');
+	}
+	buf_addc(out, ']');
+	return 0;
+}
+
+/* Stores the records of a bench and fills st->head and st->layout. */
+static int
+state_of(struct store *s, const struct bench *b, struct state *st, char **cause)
+{
+	char *h = head_json(b);
+	struct buf lay;
+
+	st->head = intern(s, Q_HEAD_FIND, Q_HEAD_INSERT, h, cause);
+	free(h);
+	if (st->head == 0)
+		return -1;
+	buf_init(&lay);
+	if (layout_branch(s, &b->path, &lay, cause) != 0) {
+		buf_release(&lay);
+		return -1;
+	}
+	st->layout = buf_take(&lay);
+	return 0;
+}
+
+static int
+load_element(struct store *s, long long id, struct element *el, size_t depth,
+    char **cause)
+{
+	sqlite3_stmt *st = store_q(s, Q_EL_GET, cause);
+	json_error_t jerr;
+	json_t *o;
+	int rc;
+
+	if (st == NULL)
+		return -1;
+	sqlite3_bind_int64(st, 1, id);
+	rc = sqlite3_step(st);
+	if (rc != SQLITE_ROW) {
+		store_q_done(st);
+		if (rc == SQLITE_DONE)
+			return fail_with(cause, "element record %lld is missing", id);
+		return store_fail(s, rc, cause, "reading an element");
+	}
+	o = json_loads((const char *)sqlite3_column_text(st, 0), 0, &jerr);
+	store_q_done(st);
+	if (o == NULL)
+		return fail_with(cause, "element record %lld is not JSON: %s", id, jerr.text);
+	rc = bench_element_from_json(o, el, 1, 0, depth, cause);
+	json_decref(o);
+	if (rc != 0)
+		cause_prefix(cause, "element record %lld", id);
+	return rc;
+}
+
+static int
+port_parse(const char *t, enum port *p)
+{
+	for (enum port q = PORT_REFLECTED; q <= PORT_REJECTED; q++)
+		if (t != NULL && strcmp(t, model_port_name(q)) == 0) {
+			*p = q;
+			return 0;
+		}
+	return -1;
+}
+
+static int
+load_branch(struct store *s, json_t *arr, struct branch *br, size_t depth, char **cause)
+{
+	size_t i;
+	json_t *v;
+
+	if (!json_is_array(arr) || depth > MODEL_MAX_DEPTH)
+		return fail_with(cause, "a layout is not an array of element ids");
+	json_array_foreach(arr, i, v) {
+		struct element *el = model_branch_push(br);
+		json_t *idv = json_is_array(v) ? json_array_get(v, 0) : v;
+		enum port p = PORT_NONE;
+
+		if (!json_is_integer(idv))
+			return fail_with(cause, "a layout item is not an element id");
+		if (json_is_array(v) && (json_array_size(v) != 3 ||
+		    port_parse(json_string_value(json_array_get(v, 1)), &p) != 0))
+			return fail_with(cause, "a layout item is not [id, port, [...]]");
+		if (load_element(s, json_integer_value(idv), el, depth, cause) != 0)
+			return -1;
+		if (p != PORT_NONE) {
+			el->side_port = p;
+			if (load_branch(s, json_array_get(v, 2), &el->side, depth + 1, cause) != 0)
+				return -1;
+		}
+	}
+	return 0;
+}
+
+static struct bench *
+state_load(struct store *s, const char *name, const struct state *st, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_HEAD_GET, cause);
+	struct bench *b = NULL;
+	json_error_t jerr;
+	json_t *head = NULL, *lay = NULL;
+	int rc;
+
+	if (q == NULL)
+		return NULL;
+	sqlite3_bind_int64(q, 1, st->head);
+	rc = sqlite3_step(q);
+	if (rc != SQLITE_ROW) {
+		store_q_done(q);
+		if (rc == SQLITE_DONE)
+			fail_with(cause, "head record %lld is missing", st->head);
+		else
+			store_fail(s, rc, cause, "reading a bench");
+		goto fail;
+	}
+	head = json_loads((const char *)sqlite3_column_text(q, 0), 0, &jerr);
+	store_q_done(q);
+	if (!json_is_object(head)) {
+		fail_with(cause, "head record %lld is not a JSON object", st->head);
+		goto fail;
+	}
+	json_object_set_new(head, "format", json_string(MODEL_FORMAT));
+	json_object_set_new(head, "name", json_string(name));
+	b = model_bench_new(NULL);
+	if (bench_head_from_json(head, b, cause) != 0)
+		goto fail;
+	lay = json_loads(st->layout, 0, &jerr);
+	if (lay == NULL) {
+		fail_with(cause, "a layout is not JSON: %s", jerr.text);
+		goto fail;
+	}
+	if (load_branch(s, lay, &b->path, 0, cause) != 0 || model_validate(b, cause) != 0)
+		goto fail;
+	json_decref(head);
+	json_decref(lay);
+	return b;
+fail:
+	cause_prefix(cause, "database '%s': bench '%s'", s->path, name);
+	json_decref(head);
+	json_decref(lay);
+	model_bench_free(b);
+	return NULL;
+}
+
+/* ---- rows ---- */
+
+long long
+store_bench_id(struct store *s, const char *name, char **cause)
+{
+	sqlite3_stmt *st = store_q(s, Q_BENCH_ID, cause);
+	long long id = 0;
+	int rc;
+
+	if (st == NULL)
+		return 0;
+	store_bind_text(st, 1, name);
+	rc = sqlite3_step(st);
+	if (rc == SQLITE_ROW)
+		id = sqlite3_column_int64(st, 0);
+	else if (rc == SQLITE_DONE)
+		fail_with(cause, "bench '%s' not found", name);
+	else
+		store_fail(s, rc, cause, "finding a bench");
+	store_q_done(st);
+	return id;
+}
+
+/* The draft of a bench; *base (may be NULL) gets draft_base. */
+static long long
+draft_get(struct store *s, const char *name, struct state *st, int *base, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_BENCH_DRAFT, cause);
+	long long id = 0;
+	int rc;
+
+	if (q == NULL)
+		return 0;
+	store_bind_text(q, 1, name);
+	rc = sqlite3_step(q);
+	if (rc == SQLITE_ROW) {
+		id = sqlite3_column_int64(q, 0);
+		st->head = sqlite3_column_int64(q, 1);
+		st->layout = col_text(q, 2);
+		st->parts = col_text(q, 3);
+		if (base != NULL)
+			*base = sqlite3_column_int(q, 4);
+	} else if (rc == SQLITE_DONE) {
+		fail_with(cause, "bench '%s' not found", name);
+	} else {
+		store_fail(s, rc, cause, "reading a draft");
+	}
+	store_q_done(q);
+	return id;
+}
+
+/* Revision no of bench id; 1 found, 0 missing, -1 error. */
+static int
+rev_get(struct store *s, long long bench, int no, struct state *st, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_REV_GET, cause);
+	int rc;
+
+	if (q == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, bench);
+	sqlite3_bind_int(q, 2, no);
+	rc = sqlite3_step(q);
+	if (rc == SQLITE_ROW) {
+		st->head = sqlite3_column_int64(q, 0);
+		st->layout = col_text(q, 1);
+		st->parts = col_text(q, 2);
+		store_q_done(q);
+		return 1;
+	}
+	store_q_done(q);
+	if (rc == SQLITE_DONE)
+		return 0;
+	return store_fail(s, rc, cause, "reading a revision");
+}
+
+/* Latest revision number (0: none) and, when st is not NULL, its state. */
+static int
+rev_latest(struct store *s, long long bench, int *no, struct state *st, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_REV_LATEST, cause);
+	int rc;
+
+	if (q == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, bench);
+	rc = sqlite3_step(q);
+	*no = 0;
+	if (rc == SQLITE_ROW) {
+		*no = sqlite3_column_int(q, 0);
+		if (st != NULL) {
+			st->head = sqlite3_column_int64(q, 1);
+			st->layout = col_text(q, 2);
+			st->parts = xstrdup("");
+		}
+	}
+	store_q_done(q);
+	if (rc != SQLITE_ROW && rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "reading revisions");
+	return 0;
+}
+
+static int
+pin(struct store *s, const struct state *st, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_HEAD_PIN, cause);
+	int rc;
+
+	if (q == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, st->head);
+	rc = sqlite3_step(q);
+	store_q_done(q);
+	if (rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "marking a record");
+	if ((q = store_q(s, Q_EL_PIN, cause)) == NULL)
+		return -1;
+	store_bind_text(q, 1, st->layout);
+	rc = sqlite3_step(q);
+	store_q_done(q);
+	if (rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "marking records");
+	return 0;
+}
+
+static int
+step_done(struct store *s, sqlite3_stmt *q, char **cause, const char *what)
+{
+	int rc = sqlite3_step(q);
+
+	store_q_done(q);
+	if (rc == SQLITE_CONSTRAINT_UNIQUE || rc == SQLITE_CONSTRAINT_PRIMARYKEY)
+		return fail_with(cause, "%s: already there", what);
+	return rc == SQLITE_DONE ? 0 : store_fail(s, rc, cause, what);
+}
+
+static int
+rev_insert(struct store *s, long long bench, int no, const char *now, const char *author,
+    const char *note, const struct state *st, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_REV_INSERT, cause);
+
+	if (q == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, bench);
+	sqlite3_bind_int(q, 2, no);
+	store_bind_text(q, 3, now);
+	store_bind_text(q, 4, author != NULL && author[0] != '\0' ? author : "unknown");
+	store_bind_text(q, 5, note != NULL ? note : "");
+	sqlite3_bind_int64(q, 6, st->head);
+	store_bind_text(q, 7, st->layout);
+	store_bind_text(q, 8, st->parts);
+	if (step_done(s, q, cause, "storing a revision") != 0)
+		return -1;
+	return pin(s, st, cause);
+}
+
+static int
+draft_set(struct store *s, long long bench, const struct state *st, int base,
+    const char *now, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_BENCH_SET_DRAFT, cause);
+
+	if (q == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, bench);
+	sqlite3_bind_int64(q, 2, st->head);
+	store_bind_text(q, 3, st->layout);
+	store_bind_text(q, 4, st->parts);
+	sqlite3_bind_int(q, 5, base);
+	store_bind_text(q, 6, now);
+	return step_done(s, q, cause, "saving the draft");
+}
+
+int
+store_gc_drafts(struct store *s, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_GC_ELEMENTS, cause);
+
+	if (q == NULL || step_done(s, q, cause, "dropping unused records") != 0)
+		return -1;
+	if ((q = store_q(s, Q_GC_HEADS, cause)) == NULL)
+		return -1;
+	return step_done(s, q, cause, "dropping unused records");
+}
+
+int
+store_gc_full(struct store *s, char **cause)
+{
+	if (store_exec(s, "UPDATE element SET pinned = 0 WHERE pinned = 1 AND id NOT IN "
+	    "(SELECT j.value FROM revision r, json_tree(r.layout) j "
+	    "WHERE j.type = 'integer')", cause) != 0 ||
+	    store_exec(s, "UPDATE head SET pinned = 0 WHERE pinned = 1 AND id NOT IN "
+	    "(SELECT head FROM revision)", cause) != 0)
+		return -1;
+	return store_gc_drafts(s, cause);
+}
+
+/* ---- revisions by name ---- */
+
+static int
+is_rev_number(const char *rev, int *no)
+{
+	char *end;
+	long v;
+
+	if (rev[0] != 'r' || rev[1] < '0' || rev[1] > '9')
+		return 0;
+	v = strtol(rev + 1, &end, 10);
+	if (*end != '\0')
+		return 0;
+	*no = v > 0 && v < 1000000000L ? (int)v : -1;
+	return 1;
+}
+
+static int
+resolve(struct store *s, long long bench, const char *name, const char *rev, int *no,
+    char **cause)
+{
+	sqlite3_stmt *q;
+	int latest, rc;
+
+	if (rev == NULL || strcmp(rev, "draft") == 0) {
+		*no = 0;
+		return 0;
+	}
+	if (rev_latest(s, bench, &latest, NULL, cause) != 0)
+		return -1;
+	if (is_rev_number(rev, no)) {
+		if (*no < 1 || *no > latest)
+			return fail_with(cause, "bench '%s' has no revision '%s' (%s%d)", name,
+			    rev, latest > 0 ? "r1 to r" : "none yet", latest);
+		return 0;
+	}
+	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, bench);
+	store_bind_text(q, 2, rev);
+	rc = sqlite3_step(q);
+	if (rc == SQLITE_ROW)
+		*no = sqlite3_column_int(q, 0);
+	store_q_done(q);
+	if (rc == SQLITE_ROW)
+		return 0;
+	if (rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "finding a label");
+	return fail_with(cause, "bench '%s' has no revision or label '%s' (a revision "
+	    "is rN, a label, or draft)", name, rev);
+}
+
+int
+store_resolve_rev(struct store *s, const char *name, const char *rev, int *rev_no,
+    char **cause)
+{
+	long long id = store_bench_id(s, name, cause);
+
+	if (id == 0)
+		return -1;
+	return resolve(s, id, name, rev, rev_no, cause);
+}
+
+/* The state of bench `name` at rev; returns the bench id or 0. */
+static long long
+state_at(struct store *s, const char *name, const char *rev, int *no, struct state *st,
+    int *base, char **cause)
+{
+	long long id = draft_get(s, name, st, base, cause);
+	int n, rc;
+
+	if (id == 0)
+		return 0;
+	if (resolve(s, id, name, rev, &n, cause) != 0) {
+		state_release(st);
+		return 0;
+	}
+	if (no != NULL)
+		*no = n;
+	if (n == 0)
+		return id;
+	state_release(st);
+	rc = rev_get(s, id, n, st, cause);
+	if (rc <= 0) {
+		if (rc == 0)
+			fail_with(cause, "bench '%s': revision r%d is missing", name, n);
+		return 0;
+	}
+	return id;
+}
+
+/* ---- the API ---- */
+
+int
+store_benches(struct store *s, struct store_bench_row **rows, size_t *n, char **cause)
+{
+	sqlite3_stmt *q = store_q(s, Q_BENCH_LIST, cause);
+	size_t cap = 0;
+	int rc;
+
+	*rows = NULL;
+	*n = 0;
+	if (q == NULL)
+		return -1;
+	while ((rc = sqlite3_step(q)) == SQLITE_ROW) {
+		struct store_bench_row *r;
+
+		if (*n == cap) {
+			cap = cap ? 2 * cap : 8;
+			*rows = xreallocarray(*rows, cap, sizeof **rows);
+		}
+		r = &(*rows)[(*n)++];
+		r->name = col_text(q, 0);
+		r->latest_rev = sqlite3_column_int(q, 1);
+		r->draft_changed = sqlite3_column_int(q, 2) != 0;
+		r->updated = col_text(q, 3);
+	}
+	store_q_done(q);
+	if (rc != SQLITE_DONE) {
+		store_bench_rows_free(*rows, *n);
+		*rows = NULL;
+		*n = 0;
+		return store_fail(s, rc, cause, "listing benches");
+	}
+	return 0;
+}
+
+void
+store_bench_rows_free(struct store_bench_row *rows, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		free(rows[i].name);
+		free(rows[i].updated);
+	}
+	free(rows);
+}
+
+/* A new bench row with the draft and r1 set to st. */
+static int
+create_from_state(struct store *s, const char *name, struct state *st, const char *note,
+    const char *author, char **cause)
+{
+	sqlite3_stmt *q;
+	char *now = NULL;
+	long long id;
+	int rc = -1;
+
+	if (name == NULL || name[0] == '\0')
+		return fail_with(cause, "a bench needs a name");
+	if ((q = store_q(s, Q_BENCH_ID, cause)) == NULL)
+		return -1;
+	store_bind_text(q, 1, name);
+	rc = sqlite3_step(q);
+	store_q_done(q);
+	if (rc == SQLITE_ROW)
+		return fail_with(cause, "bench '%s' already exists", name);
+	if (rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "finding a bench");
+	if ((q = store_q(s, Q_BENCH_INSERT, cause)) == NULL)
+		return -1;
+	now = store_now();
+	store_bind_text(q, 1, name);
+	store_bind_text(q, 2, now);
+	sqlite3_bind_int64(q, 3, st->head);
+	store_bind_text(q, 4, st->layout);
+	store_bind_text(q, 5, st->parts);
+	sqlite3_bind_int(q, 6, 1);
+	rc = step_done(s, q, cause, "creating a bench");
+	id = sqlite3_last_insert_rowid(s->db);
+	if (rc == 0)
+		rc = rev_insert(s, id, 1, now, author, note, st, cause);
+	free(now);
+	return rc;
+}
+
+int
+store_bench_create(struct store *s, const struct bench *b, const char *note,
+    const char *author, char **cause)
+{
+	struct state st = { 0, NULL, NULL };
+	int rc;
+
+	if (b->name == NULL || b->name[0] == '\0')
+		return fail_with(cause, "a bench needs a name");
+	if (model_validate(b, cause) != 0) {
+		cause_prefix(cause, "bench '%s'", b->name);
+		return -1;
+	}
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	rc = state_of(s, b, &st, cause);
+	if (rc == 0)
+		st.parts = store_parts_snapshot(s, b, NULL, cause);
+	if (rc == 0 && st.parts == NULL)
+		rc = -1;
+	if (rc == 0)
+		rc = create_from_state(s, b->name, &st, note, author, cause);
+	state_release(&st);
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_bench_delete(struct store *s, const char *name, char **cause)
+{
+	sqlite3_stmt *q;
+	long long id;
+	int rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	id = store_bench_id(s, name, cause);
+	if (id != 0 && (q = store_q(s, Q_BENCH_DELETE, cause)) != NULL) {
+		sqlite3_bind_int64(q, 1, id);
+		rc = step_done(s, q, cause, "deleting a bench");
+	}
+	if (rc == 0)
+		rc = store_gc_full(s, cause);
+	return store_tx_end(s, rc, cause);
+}
+
+struct bench *
+store_bench_load(struct store *s, const char *name, const char *rev, int *rev_no,
+    char **cause)
+{
+	struct state st = { 0, NULL, NULL };
+	struct bench *b = NULL;
+
+	if (state_at(s, name, rev, rev_no, &st, NULL, cause) != 0)
+		b = state_load(s, name, &st, cause);
+	state_release(&st);
+	return b;
+}
+
+int
+store_draft_save(struct store *s, const char *name, const struct bench *draft,
+    char **cause)
+{
+	struct state old = { 0, NULL, NULL }, st = { 0, NULL, NULL };
+	char *now = NULL;
+	long long id;
+	int base = 0, rc = -1;
+
+	if (draft->name == NULL || strcmp(draft->name, name) != 0)
+		return fail_with(cause, "bench '%s': the draft is named '%s'; a bench "
+		    "cannot be renamed", name, draft->name != NULL ? draft->name : "");
+	if (model_validate(draft, cause) != 0) {
+		cause_prefix(cause, "bench '%s'", name);
+		return -1;
+	}
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	id = draft_get(s, name, &old, &base, cause);
+	if (id != 0 && state_of(s, draft, &st, cause) == 0 &&
+	    (st.parts = store_parts_snapshot(s, draft, old.parts, cause)) != NULL) {
+		if (state_equal(&st, &old) && strcmp(st.parts, old.parts) == 0) {
+			rc = 0;
+		} else {
+			now = store_now();
+			rc = draft_set(s, id, &st, base, now, cause);
+			if (rc == 0)
+				rc = store_gc_drafts(s, cause);
+		}
+	}
+	free(now);
+	state_release(&old);
+	state_release(&st);
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_draft_changed(struct store *s, const char *name, int *changed, char **cause)
+{
+	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
+	long long id = draft_get(s, name, &d, NULL, cause);
+	int no = 0, rc = -1;
+
+	if (id != 0 && rev_latest(s, id, &no, &r, cause) == 0) {
+		*changed = no == 0 || !state_equal(&d, &r);
+		rc = 0;
+	}
+	state_release(&d);
+	state_release(&r);
+	return rc;
+}
+
+int
+store_commit(struct store *s, const char *name, const char *note, const char *author,
+    int *rev_no, char **cause)
+{
+	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
+	char *now = NULL;
+	long long id;
+	int no = 0, rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	id = draft_get(s, name, &d, NULL, cause);
+	if (id != 0 && rev_latest(s, id, &no, &r, cause) == 0) {
+		if (no > 0 && state_equal(&d, &r)) {
+			fail_with(cause, "bench '%s': nothing to commit (the draft equals r%d)",
+			    name, no);
+		} else {
+			now = store_now();
+			rc = rev_insert(s, id, no + 1, now, author, note, &d, cause);
+			if (rc == 0)
+				rc = draft_set(s, id, &d, no + 1, now, cause);
+		}
+	}
+	free(now);
+	state_release(&d);
+	state_release(&r);
+	rc = store_tx_end(s, rc, cause);
+	if (rc == 0 && rev_no != NULL)
+		*rev_no = no + 1;
+	return rc;
+}
+
+int
+store_log(struct store *s, const char *name, struct store_rev **revs, size_t *n,
+    char **cause)
+{
+	long long id = store_bench_id(s, name, cause);
+	sqlite3_stmt *q;
+	size_t cap = 0;
+	int rc;
+
+	*revs = NULL;
+	*n = 0;
+	if (id == 0 || (q = store_q(s, Q_REV_LOG, cause)) == NULL)
+		return -1;
+	sqlite3_bind_int64(q, 1, id);
+	while ((rc = sqlite3_step(q)) == SQLITE_ROW) {
+		struct store_rev *r;
+
+		if (*n == cap) {
+			cap = cap ? 2 * cap : 64;
+			*revs = xreallocarray(*revs, cap, sizeof **revs);
+		}
+		r = &(*revs)[(*n)++];
+		r->no = sqlite3_column_int(q, 0);
+		r->time = col_text(q, 1);
+		r->author = col_text(q, 2);
+		r->note = col_text(q, 3);
+		r->labels = col_text(q, 4);
+	}
+	store_q_done(q);
+	if (rc != SQLITE_DONE) {
+		store_revs_free(*revs, *n);
+		*revs = NULL;
+		*n = 0;
+		return store_fail(s, rc, cause, "reading the log");
+	}
+	return 0;
+}
+
+void
+store_revs_free(struct store_rev *revs, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		free(revs[i].time);
+		free(revs[i].author);
+		free(revs[i].note);
+		free(revs[i].labels);
+	}
+	free(revs);
+}
+
+int
+store_label(struct store *s, const char *name, const char *rev, const char *label,
+    char **cause)
+{
+	sqlite3_stmt *q;
+	char *now;
+	long long id;
+	int no, other, rc;
+
+	if (label == NULL || label[0] == '\0')
+		return fail_with(cause, "a label must not be empty");
+	if (strcmp(label, "draft") == 0 || is_rev_number(label, &other))
+		return fail_with(cause, "label '%s' would read as a revision; choose "
+		    "another name", label);
+	for (const char *p = label; *p != '\0'; p++)
+		if (*p == '@' || (unsigned char)*p < 0x20 || *p == 0x7f)
+			return fail_with(cause, "label '%s': '@' and control characters "
+			    "are not allowed in a label", label);
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	if ((id = store_bench_id(s, name, cause)) == 0 ||
+	    resolve(s, id, name, rev, &no, cause) != 0)
+		return store_tx_end(s, -1, cause);
+	if (no == 0) {
+		fail_with(cause, "bench '%s': a label names a revision, not the draft; "
+		    "commit first", name);
+		return store_tx_end(s, -1, cause);
+	}
+	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
+		return store_tx_end(s, -1, cause);
+	sqlite3_bind_int64(q, 1, id);
+	store_bind_text(q, 2, label);
+	rc = sqlite3_step(q);
+	other = rc == SQLITE_ROW ? sqlite3_column_int(q, 0) : 0;
+	store_q_done(q);
+	if (rc == SQLITE_ROW) {
+		if (other == no)
+			return store_tx_end(s, 0, cause);
+		fail_with(cause, "bench '%s': label '%s' already names r%d", name, label, other);
+		return store_tx_end(s, -1, cause);
+	}
+	if (rc != SQLITE_DONE) {
+		store_fail(s, rc, cause, "finding a label");
+		return store_tx_end(s, -1, cause);
+	}
+	if ((q = store_q(s, Q_LABEL_INSERT, cause)) == NULL)
+		return store_tx_end(s, -1, cause);
+	now = store_now();
+	sqlite3_bind_int64(q, 1, id);
+	store_bind_text(q, 2, label);
+	sqlite3_bind_int(q, 3, no);
+	store_bind_text(q, 4, now);
+	free(now);
+	rc = step_done(s, q, cause, "storing a label");
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_restore(struct store *s, const char *name, const char *rev, int force,
+    char **cause)
+{
+	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL }, b = { 0, NULL, NULL };
+	char *now = NULL;
+	long long id;
+	int base = 0, no = 0, latest = 0, rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	id = draft_get(s, name, &d, &base, cause);
+	if (id == 0 || resolve(s, id, name, rev, &no, cause) != 0)
+		goto done;
+	if (no == 0) {
+		fail_with(cause, "bench '%s': restore takes a revision (rN or a label), "
+		    "not the draft", name);
+		goto done;
+	}
+	if (!force) {
+		int saved = 0;
+
+		if (base > 0 && rev_get(s, id, base, &b, cause) > 0)
+			saved = state_equal(&d, &b);
+		state_release(&b);
+		if (!saved && rev_latest(s, id, &latest, &b, cause) == 0)
+			saved = latest > 0 && state_equal(&d, &b);
+		if (!saved) {
+			fail_with(cause, "bench '%s': the draft has changes that are not "
+			    "committed; commit them, or restore with --force to drop them",
+			    name);
+			goto done;
+		}
+	}
+	if (rev_get(s, id, no, &r, cause) <= 0) {
+		fail_with(cause, "bench '%s': revision r%d is missing", name, no);
+		goto done;
+	}
+	now = store_now();
+	rc = draft_set(s, id, &r, no, now, cause);
+	if (rc == 0)
+		rc = store_gc_drafts(s, cause);
+done:
+	free(now);
+	state_release(&d);
+	state_release(&r);
+	state_release(&b);
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_clone(struct store *s, const char *name, const char *rev, const char *newname,
+    const char *author, char **cause)
+{
+	struct state st = { 0, NULL, NULL };
+	char *note;
+	int no = 0, rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	if (state_at(s, name, rev, &no, &st, NULL, cause) != 0) {
+		note = no > 0 ? xasprintf("cloned from %s@r%d", name, no) :
+		    xasprintf("cloned from the draft of %s", name);
+		rc = create_from_state(s, newname, &st, note, author, cause);
+		free(note);
+	}
+	state_release(&st);
+	return store_tx_end(s, rc, cause);
+}
