@@ -205,8 +205,14 @@ bench_element_from_json(json_t *obj, struct element *el, int need_id,
 				    "exactly one side branch, reflected or transmitted",
 				    el->id, key);
 			el->side_port = port;
-			if (read_branch(v, &el->side, el->id, depth + 1, cause) != 0)
-				return -1;
+			{
+				char *where = xasprintf("%s.%s", el->id, key);
+				int rc = read_branch(v, &el->side, where, depth + 1, cause);
+
+				free(where);
+				if (rc != 0)
+					return rc;
+			}
 			continue;
 		}
 		k = model_key_find(key);
@@ -219,6 +225,9 @@ bench_element_from_json(json_t *obj, struct element *el, int need_id,
 	return 0;
 }
 
+/* Reads a list of elements.  The innermost failing element's position is
+ * put in front of the message once ("BS1.reflected[2]: ..."); callers
+ * further out see -2 and add nothing, so a deep failure stays one line. */
 static int
 read_branch(json_t *arr, struct branch *br, const char *where, size_t depth,
     char **cause)
@@ -234,12 +243,14 @@ read_branch(json_t *arr, struct branch *br, const char *where, size_t depth,
 		    where, MODEL_MAX_DEPTH);
 	json_array_foreach(arr, i, v) {
 		struct element *el = model_branch_push(br);
+		int rc;
 
 		model_element_init(el, EL_SPACE, "");
-		if (bench_element_from_json(v, el, 1, 1, depth, cause) != 0) {
-			cause_prefix(cause, "%s[%zu]", depth ? where : "path", i);
-			return -1;
-		}
+		rc = bench_element_from_json(v, el, 1, 1, depth, cause);
+		if (rc == -1)
+			cause_prefix(cause, "%s[%zu]", where, i);
+		if (rc != 0)
+			return -2;
 	}
 	return 0;
 }

@@ -26,7 +26,8 @@ char         *bench_file_dump(const struct bench *);     /* caller frees */
 
 /* One element, for the parts shelf and the store.  With need_id == 0 the
  * object may lack "id" (a part), and el->id is left empty.  Side branches
- * are read too when allow_branch != 0. */
+ * are read too when allow_branch != 0.  Returns 0, or nonzero (-1, or -2
+ * when a nested element's message already says where) with *cause set. */
 int           bench_element_from_json(json_t *obj, struct element *el,
                   int need_id, int allow_branch, size_t depth, char **cause);
 json_t       *bench_element_to_json(const struct element *, int with_branch); /* caller decrefs */
