@@ -18,6 +18,6 @@ check "only store-* includes sqlite3.h" \
 check "only ui-* includes curses" \
 	"$(grep -lE '#include *[<"](n?curses|ncursesw/)' *.c *.h | grep -v '^ui-')"
 check "every .c includes config.h first" \
-	"$(for f in *.c; do head -20 "$f" | grep -m1 '^#include' | grep -q 'config.h' || echo "$f"; done)"
+	"$(for f in *.c; do grep -m1 '^#include' "$f" | grep -q 'config.h' || echo "$f"; done)"
 echo "1..$n"
 [ "$fail" -eq 0 ]
