@@ -245,7 +245,7 @@ read_branch(json_t *arr, struct branch *br, const char *where, size_t depth,
 		struct element *el = model_branch_push(br);
 		int rc;
 
-		model_element_init(el, EL_SPACE, "");
+		/* The slot is zeroed; bench_element_from_json initialises it. */
 		rc = bench_element_from_json(v, el, 1, 1, depth, cause);
 		if (rc == -1)
 			cause_prefix(cause, "%s[%zu]", where, i);

@@ -8,9 +8,13 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <errno.h>
+#include <sys/stat.h>
+
 #include "bench-demo.h"
 #include "bench-file.h"
 #include "cmd.h"
+#include "cmd-store.h"
 #include "core-trace.h"
 #include "report.h"
 #include "util-err.h"
@@ -37,6 +41,38 @@ cmd_trace_print(const struct bench *b, enum report_format fmt,
 	return rc != 0 ? rc : over;
 }
 
+/* An operand that is not a file: BENCH[@REV] in the database, which must
+ * exist already (a mistyped file name should not create one). */
+static struct bench *
+load_from_db(struct cmd_ctx *ctx, const char *arg, char **cause)
+{
+	char *path = ctx->db_path != NULL && ctx->db_path[0] != '\0' ?
+	    xstrdup(ctx->db_path) : store_default_path();
+	struct stat sb;
+	struct store *s;
+	struct bench *b;
+	char *name = NULL;
+
+	if (stat(path, &sb) != 0) {
+		fail_with(cause, "no file '%s', and no bench database at '%s'", arg, path);
+		free(path);
+		return NULL;
+	}
+	free(path);
+	if ((s = cmd_store_open(ctx)) == NULL)
+		return NULL;
+	b = cmd_bench_load(s, arg, &name, NULL, cause);
+	if (b == NULL && cause != NULL && *cause != NULL) {
+		char *why = xasprintf("no file '%s', and %s", arg, *cause);
+
+		free(*cause);
+		*cause = why;
+	}
+	free(name);
+	store_close(s);
+	return b;
+}
+
 int
 cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 {
@@ -56,10 +92,9 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	char *cause = NULL;
 	int demo = 0, ch, rc;
 
-	(void)ctx;
 	optind = 0;
 	opterr = 0;
-	while ((ch = getopt_long(argc, argv, "+f:", opts, NULL)) != -1) {
+	while ((ch = getopt_long(argc, argv, "f:", opts, NULL)) != -1) {
 		switch (ch) {
 		case 'f':
 			if (report_format_parse(optarg, &fmt) != 0)
@@ -79,8 +114,10 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 			demo = 1;
 			break;
 		case 'h':
-			printf("Usage: " PROG " trace FILE | --demo [--format table|json|csv]"
-			    " [--color WHEN] [--ascii]\n"
+			printf("Usage: " PROG " trace FILE | BENCH[@REV] | --demo"
+			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
+			    "An operand that is not a file names a bench in the database (its\n"
+			    "draft, or revision REV: rN, a label).\n"
 			    "Exit status: 0 nothing over its threshold, 1 something over, 2 trouble.\n");
 			return 0;
 		default:
@@ -89,12 +126,21 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (demo == (optind < argc))
 		return cmd_usage(demo ? "trace: give a file or --demo, not both" :
-		    "trace: which bench? give a file, or --demo");
+		    "trace: which bench? give a file, a bench in the database, or --demo");
 	if (optind + 1 < argc)
 		return cmd_usage("trace: one bench at a time ('%s' is extra)", argv[optind + 1]);
 	ro.color = cmd_color(color);
-	b = demo ? bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause) :
-	    bench_file_read(argv[optind], &cause);
+	if (demo) {
+		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
+	} else {
+		struct stat sb;
+
+		if (strcmp(argv[optind], "-") == 0 || stat(argv[optind], &sb) == 0 ||
+		    errno != ENOENT)
+			b = bench_file_read(argv[optind], &cause);
+		else if ((b = load_from_db(ctx, argv[optind], &cause)) == NULL && cause == NULL)
+			return 2;           /* the database said why already */
+	}
 	if (b == NULL)
 		return cmd_fail(cause);
 	rc = cmd_trace_print(b, fmt, &ro);

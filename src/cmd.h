@@ -32,4 +32,23 @@ int  cmd_print(const char *text);
 int  cmd_trace(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
 
+/* The bench database (cmd-store*.c). */
+int  cmd_import(struct cmd_ctx *, int, char **);
+int  cmd_list(struct cmd_ctx *, int, char **);
+int  cmd_show(struct cmd_ctx *, int, char **);
+int  cmd_add(struct cmd_ctx *, int, char **);
+int  cmd_set(struct cmd_ctx *, int, char **);
+int  cmd_remove(struct cmd_ctx *, int, char **);
+int  cmd_move(struct cmd_ctx *, int, char **);
+int  cmd_commit(struct cmd_ctx *, int, char **);
+int  cmd_log(struct cmd_ctx *, int, char **);
+int  cmd_diff(struct cmd_ctx *, int, char **);
+int  cmd_restore(struct cmd_ctx *, int, char **);
+int  cmd_label(struct cmd_ctx *, int, char **);
+int  cmd_clone(struct cmd_ctx *, int, char **);
+int  cmd_export(struct cmd_ctx *, int, char **);
+int  cmd_delete(struct cmd_ctx *, int, char **);
+int  cmd_parts(struct cmd_ctx *, int, char **);
+int  cmd_check(struct cmd_ctx *, int, char **);
+
 #endif

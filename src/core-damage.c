@@ -102,6 +102,9 @@ damage_limits(const struct element *el, const struct source *src,
 		lim->max_absorbed = el->val[K_MAX_ABSORBED];
 	if (!(lim->flags & DAMAGE_CW_ONLY_PULSED) || damage_rated(lim))
 		lim->flags &= ~(unsigned)DAMAGE_CW_ONLY_PULSED;
+	/* λ scaling only matters when a scaled rating is in use */
+	if (isnan(lim->cw_linear) && isnan(lim->cw_irradiance) && isnan(lim->fluence))
+		lim->flags &= ~(unsigned)DAMAGE_WL_SCALED;
 }
 
 int

@@ -57,6 +57,12 @@ struct layout_col {
 int   layout_fit_columns(const struct layout_col *, size_t n, int width, int gap,
           int *width_out);
 
+/* Breaks s into lines of at most `width` columns at blanks (a word longer
+ * than the width is cut; '\n' always breaks).  starts[i] and lens[i] are
+ * byte offsets and lengths into s.  Returns the number of lines (which may
+ * exceed max; only max are stored). */
+size_t layout_wrap(const char *s, int width, size_t *starts, size_t *lens, size_t max);
+
 /* ---- key hints ---- */
 
 struct layout_hint {
@@ -106,6 +112,9 @@ int    layout_scroll(int sel, int top, int visible, int n);
 char  *layout_value_text(const struct element *, enum model_key);
 /* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm". */
 char  *layout_bench_value_text(const struct bench *, const char *key);
+/* A new, empty bench with a starting source the user then edits:
+ * 1064 nm, CW 1 W, waist 1 mm at the source, M² 1, linear 0°. */
+struct bench *layout_bench_new(const char *name);            /* caller frees */
 /* The key a new element of this type must be given to be valid, or -1. */
 int    layout_required_key(enum elem_type);
 /* The next free id for a new element of this type ("L2", "BS3"). */

@@ -442,8 +442,10 @@ trace_rerun(struct trace *t, const struct bench *b)
 		}
 	}
 	free(stack);
-	if (t->worst >= 0 && t->worst_ratio > 0)
-		t->safe_source_power = b->src.power / (b->safety_factor * t->worst_ratio);
+	/* A worst ratio of 0 (rated, but no power reaches it) allows any power. */
+	if (t->worst >= 0)
+		t->safe_source_power = t->worst_ratio > 0 ?
+		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
 	return t;
 }
 

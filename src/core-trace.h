@@ -76,7 +76,7 @@ struct trace {
 	size_t                nwarn, capwarn;
 	long                  worst;    /* row index, -1 when nothing is rated */
 	double                worst_ratio;
-	double                safe_source_power;   /* NAN when nothing is rated */
+	double                safe_source_power;   /* NAN when nothing is rated; INFINITY when no rated element gets power */
 	double                absorbed, leaving;   /* W: sum of power_lost; sum left on the table */
 };
 

@@ -13,9 +13,33 @@
 #include "util-err.h"
 
 const struct cmd cmd_table[] = {
-	{ "trace", cmd_trace, "FILE | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
+	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
 	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
+	/* The bench database: benches, drafts, revisions, the parts shelf. */
+	{ "import", cmd_import, "FILE [--name NAME]", "a new bench from a bench file" },
+	{ "list", cmd_list, "[--format table|json]",
+	    "benches: latest revision, draft changed?, worst status" },
+	{ "show", cmd_show, "BENCH[@REV]", "the chain as a table" },
+	{ "add", cmd_add, "BENCH TYPE ID [--part NAME] [KEY=VALUE...] "
+	    "[--after ID | --before ID | --into SPLITTER.PORT [--first]]",
+	    "add an element to the draft" },
+	{ "set", cmd_set, "BENCH ID KEY=VALUE... | BENCH --bench KEY=VALUE...",
+	    "change values of an element or of the bench and source" },
+	{ "remove", cmd_remove, "BENCH ID", "remove an element (and its side branch)" },
+	{ "move", cmd_move, "BENCH ID --after ID | --before ID | --into SPLITTER.PORT",
+	    "move an element" },
+	{ "commit", cmd_commit, "BENCH -m NOTE [--author NAME]", "the draft becomes a new revision" },
+	{ "log", cmd_log, "BENCH [--format table|json]", "revisions, newest first, with labels" },
+	{ "diff", cmd_diff, "BENCH REV [REV] [--format text|json]",
+	    "changes and their effect on the damage margins (second REV: the draft)" },
+	{ "restore", cmd_restore, "BENCH REV [--force]", "a revision becomes the draft" },
+	{ "label", cmd_label, "BENCH REV NAME", "name a revision" },
+	{ "clone", cmd_clone, "BENCH[@REV] NEWNAME", "a new bench from a revision of another" },
+	{ "export", cmd_export, "BENCH[@REV] [-o FILE]", "the bench file of a revision or the draft" },
+	{ "delete", cmd_delete, "BENCH --force", "drop a bench and all its revisions" },
+	{ "parts", cmd_parts, "list | add FILE | show NAME", "the shelf of named parts" },
+	{ "check", cmd_check, "", "check the database (integrity, every revision loads)" },
 	{ NULL, NULL, NULL, NULL },
 };
 
@@ -69,7 +93,7 @@ cmd_print(const char *text)
 static void
 usage(void)
 {
-	printf("Usage: " PROG " [--db PATH] [COMMAND [ARGS]]\n"
+	printf("Usage: " PROG " [--db PATH] [--author NAME] [COMMAND [ARGS]]\n"
 	    "Lay out laser beam lines, trace power, beam size, irradiance and fluence\n"
 	    "through every optic, and flag what exceeds its damage threshold.\n\n"
 	    "Commands:\n");
@@ -78,9 +102,13 @@ usage(void)
 	printf("\nOptions:\n"
 	    "  --db PATH      the bench database (default $XDG_DATA_HOME/beamledger/benches.db;\n"
 	    "                 also BEAMLEDGER_DB)\n"
+	    "  --author NAME  who commits, imports and clones (default $USER)\n"
 	    "  --help         show this help and exit\n"
 	    "  --version      show the version and exit\n\n"
-	    "Exit status: 0 no element over its threshold, 1 at least one over, 2 trouble.\n\n"
+	    "BENCH names a bench in the database; BENCH@REV one of its revisions, where\n"
+	    "REV is rN, a label, or draft (the default).\n\n"
+	    "Exit status: 0 fine; 1 trace: at least one element over its threshold\n"
+	    "(check: problems found); 2 trouble.\n\n"
 	    "%s\n"
 	    "See beamledger(1) and beamledger-bench(5).\n", report_safety_text);
 }
@@ -108,6 +136,12 @@ main(int argc, char **argv)
 			ctx.db_path = argv[++i];
 		} else if (strncmp(argv[i], "--db=", 5) == 0) {
 			ctx.db_path = argv[i] + 5;
+		} else if (strcmp(argv[i], "--author") == 0) {
+			if (i + 1 >= argc)
+				return cmd_usage("option '--author' needs a name");
+			ctx.author = argv[++i];
+		} else if (strncmp(argv[i], "--author=", 9) == 0) {
+			ctx.author = argv[i] + 9;
 		} else if (strcmp(argv[i], "--") == 0) {
 			i++;
 			break;

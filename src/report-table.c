@@ -226,9 +226,13 @@ report_table(const struct trace *t, const struct report_opts *o)
 		buf_printf(&b, "Worst: %s at %.0f %% of its threshold (%s).\n", w->el->id,
 		    t->worst_ratio * 100, w->status == STATUS_OVER ? "OVER" :
 		    damage_status_name(w->status));
-		units_format(v, sizeof v, t->safe_source_power, DIM_POWER, 3, a);
-		buf_printf(&b, "Safe source power: %s (every rated element at 1/%g of its threshold).\n",
-		    v, bench->safety_factor);
+		if (isinf(t->safe_source_power)) {
+			buf_add(&b, "Safe source power: no limit (no power reaches a rated element).\n");
+		} else {
+			units_format(v, sizeof v, t->safe_source_power, DIM_POWER, 3, a);
+			buf_printf(&b, "Safe source power: %s (every rated element at 1/%g "
+			    "of its threshold).\n", v, bench->safety_factor);
+		}
 	} else {
 		buf_add(&b, "No element has a damage rating: nothing was checked.\n");
 	}

@@ -262,6 +262,36 @@ fail:
 	return NULL;
 }
 
+/* model_validate checks what spans values; a value put in place without
+ * model_set (range, finiteness) is checked here, so that nothing is stored
+ * that would not load again. */
+static int
+value_check(struct element *el, struct element *parent, size_t depth, void *arg)
+{
+	struct element tmp;
+	int rc = 0;
+
+	(void)parent;
+	(void)depth;
+	model_element_init(&tmp, el->type, el->id);
+	for (int k = 0; k < K_COUNT && rc == 0; k++)
+		if (model_has(el, (enum model_key)k))
+			rc = model_set(&tmp, (enum model_key)k, el->val[k], arg);
+	model_element_release(&tmp);
+	return rc;
+}
+
+static int
+bench_check(const struct bench *b, char **cause)
+{
+	if (model_validate(b, cause) != 0 ||
+	    model_walk((struct branch *)&b->path, value_check, cause) != 0) {
+		cause_prefix(cause, "bench '%s'", b->name);
+		return -1;
+	}
+	return 0;
+}
+
 /* ---- rows ---- */
 
 long long
@@ -644,10 +674,8 @@ store_bench_create(struct store *s, const struct bench *b, const char *note,
 
 	if (b->name == NULL || b->name[0] == '\0')
 		return fail_with(cause, "a bench needs a name");
-	if (model_validate(b, cause) != 0) {
-		cause_prefix(cause, "bench '%s'", b->name);
+	if (bench_check(b, cause) != 0)
 		return -1;
-	}
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	rc = state_of(s, b, &st, cause);
@@ -705,10 +733,8 @@ store_draft_save(struct store *s, const char *name, const struct bench *draft,
 	if (draft->name == NULL || strcmp(draft->name, name) != 0)
 		return fail_with(cause, "bench '%s': the draft is named '%s'; a bench "
 		    "cannot be renamed", name, draft->name != NULL ? draft->name : "");
-	if (model_validate(draft, cause) != 0) {
-		cause_prefix(cause, "bench '%s'", name);
+	if (bench_check(draft, cause) != 0)
 		return -1;
-	}
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	id = draft_get(s, name, &old, &base, cause);
@@ -951,5 +977,21 @@ store_clone(struct store *s, const char *name, const char *rev, const char *newn
 		free(note);
 	}
 	state_release(&st);
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_draft_edit(struct store *s, const char *name, store_edit_fn fn, void *arg,
+    char **cause)
+{
+	struct bench *b;
+	int rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	b = store_bench_load(s, name, "draft", NULL, cause);
+	if (b != NULL && fn(b, arg, cause) == 0)
+		rc = store_draft_save(s, name, b, cause);
+	model_bench_free(b);
 	return store_tx_end(s, rc, cause);
 }

@@ -90,4 +90,27 @@ int   store_part_get(struct store *, const char *name, struct element *out,
           char **cause);                       /* out owned by the caller */
 int   store_parts(struct store *, char ***names, size_t *n, char **cause); /* caller frees each and the array */
 
+/* ---- added with the store (not in the first contract) ---- */
+
+/* Loads the draft of `name`, lets fn change it, and saves it, in one write
+ * transaction, so that no other writer slips in between.  fn returns 0 to
+ * save (nothing is written when the bench did not change), or -1 with
+ * *cause set to store nothing. */
+typedef int (*store_edit_fn)(struct bench *, void *arg, char **cause);
+int   store_draft_edit(struct store *, const char *name, store_edit_fn fn, void *arg,
+          char **cause);
+/* Several shelf entries at once, all or nothing. */
+int   store_parts_put(struct store *, char *const *names, const struct element *els,
+          size_t n, char **cause);
+/* A parts file (format "beamledger-parts-1", see beamledger(1)) onto the
+ * shelf, all or nothing; *n gets the number of parts. */
+int   store_parts_import(struct store *, const char *path, size_t *n, char **cause);
+/* PRAGMA integrity_check and foreign_key_check, then the store's own rules:
+ * every layout names existing element records, revisions are numbered
+ * 1..N, no record is left unused, every revision and draft loads and
+ * validates.  *report gets one line per problem ("" when none; caller
+ * frees).  Returns 0 clean, 1 problems found, -1 (with *cause) when the
+ * check itself could not run. */
+int   store_check(struct store *, char **report, char **cause);
+
 #endif

@@ -29,7 +29,8 @@ void
 buf_reset(struct buf *b)
 {
 	b->len = 0;
-	b->s[0] = '\0';
+	if (b->s != NULL)
+		b->s[0] = '\0';
 }
 
 char *
@@ -37,7 +38,10 @@ buf_take(struct buf *b)
 {
 	char *s = b->s;
 
-	buf_init(b);
+	/* Empty, and allocating nothing until the next append: every caller
+	 * so far drops the buffer after taking its string. */
+	b->s = NULL;
+	b->len = b->cap = 0;
 	return s;
 }
 
@@ -46,6 +50,8 @@ grow(struct buf *b, size_t extra)
 {
 	if (b->len + extra + 1 <= b->cap)
 		return;
+	if (b->cap == 0)
+		b->cap = 64;
 	while (b->len + extra + 1 > b->cap)
 		b->cap *= 2;
 	b->s = xrealloc(b->s, b->cap);
@@ -85,7 +91,8 @@ buf_vprintf(struct buf *b, const char *fmt, va_list ap)
 	n = vsnprintf(b->s + b->len, room, fmt, aq);
 	va_end(aq);
 	if (n < 0) {
-		b->s[b->len] = '\0';
+		if (b->s != NULL)
+			b->s[b->len] = '\0';
 		return;
 	}
 	if ((size_t)n >= room) {
@@ -119,7 +126,7 @@ utf8_cols(const char *s)
 void
 buf_pad(struct buf *b, size_t width, size_t from)
 {
-	size_t have = utf8_cols(b->s + from);
+	size_t have = b->s != NULL ? utf8_cols(b->s + from) : 0;
 
 	while (have++ < width)
 		buf_addc(b, ' ');

@@ -1,3 +1,1370 @@
+/* check_trace.c - end-to-end tests of the trace engine: worked benches
+ * (written as inline bench files, parsed, traced) whose every expected value
+ * is derived by hand or from REFERENCE.md beside it; energy conservation,
+ * power flow and linearity on random benches built with the model API; and
+ * the demo bench. */
 #include <config.h>
+
+#include <check.h>
+#include <complex.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdint.h>
+#include <stdio.h>
 #include <stdlib.h>
-int main(void){return EXIT_SUCCESS;}
+#include <string.h>
+
+#include "bench-demo.h"
+#include "bench-file.h"
+#include "core-model.h"
+#include "core-trace.h"
+
+#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
+
+#define CHECK_REL(got, want, tol) do {					\
+	double g_ = (got), w_ = (want), t_ = (tol);			\
+	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
+	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
+} while (0)
+
+#define CHECK_ABS(got, want, tol) do {					\
+	double g_ = (got), w_ = (want), t_ = (tol);			\
+	ck_assert_msg(fabs(g_ - w_) <= t_,				\
+	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
+} while (0)
+
+/* Bench files are written here with ' for " to keep them readable. */
+#define HEAD "{'format':'beamledger-bench-1','name':'t',"
+#define CW_1W_1MM "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},"
+
+static struct bench *
+bench_text(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
+
+static struct bench *
+bench_text(const char *fmt, ...)
+{
+	char text[8192], *cause = NULL;
+	struct bench *b;
+	va_list ap;
+	int n;
+
+	va_start(ap, fmt);
+	n = vsnprintf(text, sizeof text, fmt, ap);
+	va_end(ap);
+	ck_assert(n > 0 && (size_t)n < sizeof text);
+	for (char *p = text; *p != '\0'; p++)
+		if (*p == '\'')
+			*p = '"';
+	b = bench_file_parse(text, strlen(text), "test", &cause);
+	ck_assert_msg(b != NULL, "bench did not parse: %s\n%s", cause, text);
+	return b;
+}
+
+static const struct trace_row *
+row_of(const struct trace *t, const char *id)
+{
+	for (size_t i = 0; i < t->nrows; i++)
+		if (strcmp(t->rows[i].el->id, id) == 0)
+			return &t->rows[i];
+	ck_abort_msg("no row for element '%s'", id);
+	return NULL;
+}
+
+static size_t
+count_warn(const struct trace *t, enum trace_warn_kind k)
+{
+	size_t n = 0;
+
+	for (size_t i = 0; i < t->nwarn; i++)
+		n += t->warn[i].kind == k;
+	return n;
+}
+
+static const struct trace_warning *
+warn_after(const struct trace *t, enum trace_warn_kind k, const char *after)
+{
+	for (size_t i = 0; i < t->nwarn; i++)
+		if (t->warn[i].kind == k && t->warn[i].after != NULL &&
+		    strcmp(t->warn[i].after->id, after) == 0)
+			return &t->warn[i];
+	ck_abort_msg("no %s warning after '%s'", trace_warn_name(k), after);
+	return NULL;
+}
+
+static void
+check_branch(const struct trace_row *r, const char *want)
+{
+	char buf[128];
+
+	trace_branch_name(r->parent, r->port, buf, sizeof buf);
+	ck_assert_str_eq(buf, want);
+}
+
+/* Self 1983 via REFERENCE §2: the waist after a thin lens, s'' past it,
+ * radius w0', Rayleigh range zR' = m² zR. */
+static void
+self_focus(double lambda, double w0, double m2, double s, double f,
+    double *spp, double *w0p, double *zrp)
+{
+	double zr = M_PI * w0 * w0 / (m2 * lambda), x = s / f - 1, y = zr / f;
+	double den = x * x + y * y, mag = 1 / sqrt(den);
+
+	*spp = f * (1 + x / den);
+	*w0p = mag * w0;
+	*zrp = mag * mag * zr;
+}
+
+/* w(z) = w0 √(1 + ((z - z0)/zR)²), REFERENCE §1. */
+static double
+radius_at(double w0, double zr, double dz)
+{
+	return w0 * sqrt(1 + (dz / zr) * (dz / zr));
+}
+
+/*
+ * (a) Worked benches.
+ */
+
+/* A lens focus, REFERENCE §2 row 1 (1064 nm, w0 1 mm at the start, s = 1 m,
+ * f = 100 mm: w0' = 32.3966 µm, s'' = 100.94459 mm).  The focus is reported
+ * in the space after the lens; the waist at the very start of S1 is no focus
+ * of S1 (trace-conventions.md). */
+START_TEST(test_lens_focus)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'S1','type':'space','length':'1 m'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm'},"
+	    "{'id':'S2','type':'space','length':'300 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *s1 = row_of(t, "S1"), *l1 = row_of(t, "L1");
+	const struct trace_row *s2 = row_of(t, "S2"), *bd = row_of(t, "BD");
+	double zr = M_PI * 1e-6 / 1064e-9, spp, w0p, zrp, wx, wy;
+
+	self_focus(1064e-9, 1e-3, 1, 1.0, 0.1, &spp, &w0p, &zrp);
+	ck_assert_uint_eq(t->nrows, 4);
+	/* S1: at the waist.  REFERENCE §4: 1 W in w = 1 mm is 63.6620 W/cm² */
+	CHECK_ABS(s1->z, 0, 0);
+	CHECK_REL(s1->wx, 1e-3, 1e-12);
+	CHECK_REL(s1->irradiance / 1e4, 63.6620, 1e-6);
+	CHECK_REL(s1->peak_irradiance, s1->irradiance, 1e-15);	/* CW */
+	ck_assert(!s1->has_focus && !(s1->flags & TF_FOCUS));
+	/* L1 at 1 m: w = w0 √(1 + (1/zR)²) (REFERENCE §1) */
+	CHECK_ABS(l1->z, 1.0, 1e-15);
+	CHECK_REL(l1->wx, radius_at(1e-3, zr, 1.0), 1e-9);
+	CHECK_REL(l1->wy, l1->wx, 1e-12);
+	/* S2 holds the focus: Self table row 1, tol 1e-6 (REFERENCE §2) */
+	ck_assert(s2->has_focus && (s2->flags & TF_FOCUS));
+	CHECK_ABS(s2->focus.z, 1.0 + 0.10094459, 1e-6);
+	CHECK_REL(s2->focus.wx, 32.3966e-6, 1e-6);
+	CHECK_REL(s2->focus.wy, 32.3966e-6, 1e-6);
+	/* REFERENCE §4: I0 = 2P/(π w0'²); CW: no breakdown check */
+	CHECK_REL(s2->focus.irradiance, 2 / (M_PI * w0p * w0p), 1e-9);
+	CHECK_REL(s2->focus.peak_irradiance, s2->focus.irradiance, 1e-15);
+	ck_assert(!s2->focus.air_breakdown && !(s2->flags & TF_AIR_BREAKDOWN));
+	/* radius inside the gap at the focus, and at the dump 300 mm on */
+	trace_radius_at(t, s2, spp, &wx, &wy);
+	CHECK_REL(wx, w0p, 1e-9);
+	CHECK_ABS(bd->z, 1.3, 1e-12);
+	CHECK_REL(bd->wx, radius_at(w0p, zrp, 0.3 - spp), 1e-9);
+	/* hand: the dump absorbs the whole watt; nothing leaves */
+	CHECK_REL(bd->power_lost, 1, 1e-15);
+	ck_assert_uint_eq(count_warn(t, TW_UNTERMINATED), 0);
+	CHECK_ABS(t->leaving, 0, 0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A half-wave plate and a polarizing splitter: H through a HWP at 15° is
+ * linear at 30° (REFERENCE §8, φ -> 2θ - φ).  With tp = 0.98, rs = 0.995 and
+ * the defaults ts = 1 - rs, rp = 1 - tp (trace-conventions.md), hand:
+ * transmitted 2 W × (0.98 cos²30° + 0.005 sin²30°) = 1.4725 W,
+ * reflected 2 W × (0.02 cos²30° + 0.995 sin²30°) = 0.5275 W. */
+START_TEST(test_hwp_pbs_split)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'2 W','waist':'1 mm','polarization':0},"
+	    "'path':["
+	    "{'id':'HWP1','type':'waveplate','retardance':0.5,'angle':15},"
+	    "{'id':'PBS1','type':'splitter','polarizing':true,'tp':0.98,'rs':0.995,"
+	    " 'reflected':[{'id':'S1r','type':'space','length':'100 mm'},"
+	    "              {'id':'BD1','type':'dump'}]},"
+	    "{'id':'S2','type':'space','length':'200 mm'},"
+	    "{'id':'BD2','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	static const char *const order[] = { "HWP1", "PBS1", "S1r", "BD1", "S2", "BD2" };
+	const struct trace_row *pbs = row_of(t, "PBS1"), *bd1 = row_of(t, "BD1");
+	const struct trace_row *bd2 = row_of(t, "BD2");
+
+	/* rows in path order, depth first */
+	ck_assert_uint_eq(t->nrows, 6);
+	for (int i = 0; i < 6; i++)
+		ck_assert_str_eq(t->rows[i].el->id, order[i]);
+	/* after the HWP: linear 30°, (2, 2 cos 60°, 2 sin 60°, 0) */
+	CHECK_ABS(pbs->stokes[1], 1.0, 1e-12);
+	CHECK_ABS(pbs->stokes[2], sqrt(3.0), 1e-12);
+	CHECK_REL(bd1->power_in, 0.5275, 1e-12);
+	CHECK_REL(bd2->power_in, 1.4725, 1e-12);
+	CHECK_ABS(pbs->power_lost, 0, 1e-15);
+	/* hand: reflected S1 = ½(rp - rs)·2 + ½(rp + rs)·1 = -0.4675 (mostly s) */
+	CHECK_ABS(bd1->stokes[1], -0.4675, 1e-12);
+	check_branch(bd1, "PBS1.reflected");
+	check_branch(row_of(t, "S1r"), "PBS1.reflected");
+	check_branch(bd2, "main");
+	ck_assert_uint_eq(bd1->depth, 1);
+	ck_assert_uint_eq(bd2->depth, 0);
+	ck_assert_ptr_eq(bd1->parent, pbs->el);
+	ck_assert_int_eq(bd1->port, PORT_REFLECTED);
+	/* z runs along each branch from the source */
+	CHECK_ABS(bd1->z, 0.1, 1e-15);
+	CHECK_ABS(bd2->z, 0.2, 1e-15);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The same splitter with its side branch on the transmitted port: the
+ * reflected light continues along the enclosing list (bench-format.md). */
+START_TEST(test_splitter_transmitted_side)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'2 W','waist':'1 mm','polarization':30},"
+	    "'path':["
+	    "{'id':'BS1','type':'splitter','reflectance':0.3,"
+	    " 'transmitted':[{'id':'T1','type':'target'}]},"
+	    "{'id':'D1','type':'detector'}]}");
+	struct trace *t = trace_run(b);
+
+	/* hand: a non-polarizing splitter passes 1 - R and reflects R */
+	CHECK_REL(row_of(t, "T1")->power_in, 1.4, 1e-12);
+	CHECK_REL(row_of(t, "D1")->power_in, 0.6, 1e-12);
+	check_branch(row_of(t, "T1"), "BS1.transmitted");
+	check_branch(row_of(t, "D1"), "main");
+	/* the reflected port flips S2 (REFERENCE §8): 30° comes back at -30° */
+	CHECK_ABS(row_of(t, "D1")->stokes[2], -0.6 * sin(60 * M_PI / 180), 1e-12);
+	CHECK_ABS(row_of(t, "T1")->stokes[2], 1.4 * sin(60 * M_PI / 180), 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Clipping (REFERENCE §9 table, T = 1 - exp(-2a²/w²), Siegman ch. 17 from
+ * memory): with w = 1 mm at the plane, an iris of 2 mm (a = w) passes
+ * 0.864665: clip_loss 0.135335, "clipping" and "hard_clipping"; an aperture
+ * of 3 mm (a = 1.5 w) passes 0.988891: "clipping" only; 4 mm (a = 2 w)
+ * passes 0.999665: no flag.  The flag levels (1 %, 10 %) are common
+ * practice, no source (REFERENCE §9 [CP]). */
+START_TEST(test_clipping)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'IR1','type':'iris','diameter':'2 mm'},"
+	    "{'id':'M1','type':'mirror','aperture':'3 mm'},"
+	    "{'id':'M2','type':'mirror','aperture':'4 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *ir = row_of(t, "IR1"), *m1 = row_of(t, "M1");
+	const struct trace_row *m2 = row_of(t, "M2"), *bd = row_of(t, "BD");
+
+	CHECK_ABS(ir->clip_loss, 1 - 0.864665, 1e-6);
+	CHECK_ABS(ir->power_lost, 1 - 0.864665, 1e-6);
+	ck_assert(ir->flags & TF_CLIPPING);
+	ck_assert(ir->flags & TF_HARD_CLIP);
+	/* the quantities at the plane are those of the beam arriving */
+	CHECK_REL(ir->power_in, 1, 1e-15);
+	CHECK_REL(m1->power_in, 0.864665, 1e-6);
+	CHECK_ABS(m1->clip_loss, 1 - 0.988891, 1e-6);
+	ck_assert(m1->flags & TF_CLIPPING);
+	ck_assert(!(m1->flags & TF_HARD_CLIP));
+	CHECK_ABS(m2->clip_loss, 1 - 0.999665, 1e-6);
+	ck_assert(!(m2->flags & (TF_CLIPPING | TF_HARD_CLIP)));
+	/* hand: the dump gets 1 W × 0.864665 × 0.988891 × 0.999665 */
+	/* T = 1 - exp(-2a²/w²) with a/w = 1, 1.5, 2: exponents -2, -4.5, -8 */
+	CHECK_REL(bd->power_in, -expm1(-2.0) * -expm1(-4.5) * -expm1(-8.0), 1e-12);
+	CHECK_REL(bd->power_in, 0.864665 * 0.988891 * 0.999665, 2e-6);
+	CHECK_ABS(bd->clip_loss, 0, 0);		/* no aperture: nothing clipped */
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* REFERENCE §9: wx = 1.2 mm, wy = 0.6 mm, a = 1.0 mm passes 0.883459. */
+START_TEST(test_clipping_elliptical)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':['1.2 mm','0.6 mm']},"
+	    "'path':[{'id':'IR1','type':'iris','diameter':'2 mm'}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *ir = row_of(t, "IR1");
+
+	CHECK_ABS(ir->clip_loss, 1 - 0.883459, 1e-6);
+	CHECK_REL(ir->wx, 1.2e-3, 1e-12);
+	CHECK_REL(ir->wy, 0.6e-3, 1e-12);
+	/* hand: REFERENCE §4 elliptical I0 = 2P/(π wx wy); linear density uses
+	 * the smaller diameter (REFERENCE §10) */
+	CHECK_REL(ir->irradiance, 2 / (M_PI * 1.2e-3 * 0.6e-3), 1e-12);
+	CHECK_REL(ir->linear_density, 1 / (2 * 0.6e-3), 1e-12);
+	/* the iris ends the path: what it passes leaves the bench */
+	ck_assert_uint_eq(count_warn(t, TW_UNTERMINATED), 1);
+	CHECK_ABS(warn_after(t, TW_UNTERMINATED, "IR1")->value, 0.883459, 1e-6);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* An ND filter with max_absorbed: od 0.3 passes 10^-0.3 = 0.501187, so
+ * 1 W leaves 0.498813 W in the filter (hand); ratio = absorbed/max_absorbed,
+ * status with SF 2 (trace-conventions.md). */
+static const struct nd_case {
+	const char *filter;	/* keys besides id and type */
+	double absorbed, rating;
+	enum damage_status status;
+} nd_cases[] = {
+	{ "'od':0.3,'max_absorbed':'1 W'", 0.49881276637272776, 1, STATUS_OK },
+	{ "'od':0.3,'max_absorbed':'900 mW'", 0.49881276637272776, 0.9, STATUS_CAUTION },
+	{ "'od':0.3,'max_absorbed':'450 mW'", 0.49881276637272776, 0.45, STATUS_OVER },
+	{ "'transmission':0.25,'max_absorbed':'1 W'", 0.75, 1, STATUS_CAUTION },
+	{ "'od':2,'max_absorbed':'2 W'", 0.99, 2, STATUS_OK },
+	{ "'od':0.3", 0.49881276637272776, NAN, STATUS_UNRATED },
+};
+
+START_TEST(test_nd_filter)
+{
+	const struct nd_case *c = &nd_cases[_i];
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'ND1','type':'filter',%s},{'id':'BD','type':'dump'}]}", c->filter);
+	struct trace *t = trace_run(b);
+	const struct trace_row *nd = row_of(t, "ND1");
+
+	CHECK_REL(nd->power_lost, c->absorbed, 1e-12);
+	CHECK_REL(row_of(t, "BD")->power_in, 1 - c->absorbed, 1e-12);
+	if (isnan(c->rating))
+		ck_assert(isnan(nd->ratio));
+	else
+		CHECK_REL(nd->ratio, c->absorbed / c->rating, 1e-12);
+	ck_assert_int_eq(nd->status, c->status);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A concave mirror at 45° (REFERENCE §3: roc 1 m -> f_x = 0.353553 m,
+ * f_y = 0.707107 m) on a collimated 2 mm beam.  Each axis focuses at Self's
+ * s'' (REFERENCE §2 with s = 0); the focus of wx·wy is found here by a
+ * brute-force scan of the closed forms. */
+START_TEST(test_astigmatic_mirror)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'2 mm'},"
+	    "'path':["
+	    "{'id':'CM1','type':'mirror','roc':'1 m','aoi':45},"
+	    "{'id':'S1','type':'space','length':'1 m'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *s1 = row_of(t, "S1"), *bd = row_of(t, "BD");
+	double fx = 0.5 * cos(M_PI / 4), fy = 0.5 / cos(M_PI / 4);
+	double sx, wxo, zx, sy, wyo, zy, best = 0, bestv = INFINITY;
+
+	self_focus(1064e-9, 2e-3, 1, 0, fx, &sx, &wxo, &zx);
+	self_focus(1064e-9, 2e-3, 1, 0, fy, &sy, &wyo, &zy);
+	for (int i = 0; i <= 1000000; i++) {
+		double z = i * 1e-6;
+		double v = radius_at(wxo, zx, z - sx) * radius_at(wyo, zy, z - sy);
+
+		if (v < bestv) {
+			bestv = v;
+			best = z;
+		}
+	}
+	ck_assert(s1->has_focus);
+	CHECK_ABS(s1->focus.z, best, 2e-6);
+	CHECK_REL(s1->focus.wx * s1->focus.wy, bestv, 1e-9);
+	CHECK_REL(s1->focus.wx, radius_at(wxo, zx, s1->focus.z - sx), 1e-9);
+	CHECK_REL(s1->focus.wy, radius_at(wyo, zy, s1->focus.z - sy), 1e-9);
+	/* the tangential (x) waist is the nearer one */
+	ck_assert(sx < sy);
+	CHECK_REL(bd->wx, radius_at(wxo, zx, 1 - sx), 1e-9);
+	CHECK_REL(bd->wy, radius_at(wyo, zy, 1 - sy), 1e-9);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A flat mirror has no power on either axis; a cylindrical lens (axis x)
+ * focuses x only (bench-format.md). */
+START_TEST(test_flat_mirror_cylinder)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'M1','type':'mirror','aoi':45},"
+	    "{'id':'S1','type':'space','length':'1 m'},"
+	    "{'id':'CL1','type':'lens','focal':'100 mm','axis':'x'},"
+	    "{'id':'S2','type':'space','length':'500 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	double zr = M_PI * 1e-6 / 1064e-9, spp, w0p, zrp;
+
+	self_focus(1064e-9, 1e-3, 1, 1.0, 0.1, &spp, &w0p, &zrp);
+	/* REFERENCE §1: free propagation 1 m from the waist */
+	CHECK_REL(row_of(t, "CL1")->wx, radius_at(1e-3, zr, 1), 1e-9);
+	CHECK_REL(row_of(t, "CL1")->wy, radius_at(1e-3, zr, 1), 1e-9);
+	/* y: 1.5 m of free space; x: Self row 1, 0.5 m past the lens */
+	CHECK_REL(row_of(t, "BD")->wy, radius_at(1e-3, zr, 1.5), 1e-9);
+	CHECK_REL(row_of(t, "BD")->wx, radius_at(w0p, zrp, 0.5 - spp), 1e-9);
+	/* x focuses at s'' while y keeps growing: wx·wy is least just before */
+	ck_assert(row_of(t, "S2")->has_focus);
+	ck_assert(row_of(t, "S2")->focus.z > 1.0 && row_of(t, "S2")->focus.z < 1.0 + spp);
+	ck_assert(!row_of(t, "S1")->has_focus);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Pulsed quantities at the waist (REFERENCE §4): E = 10 mJ, w = 0.5 mm,
+ * 10 ns gaussian at 10 Hz: F0 = 2.54648 J/cm², P_pk = 0.939437 MW; hand:
+ * average power 0.1 W, I_avg = 2·0.1/(π w²), I_pk = 2 P_pk/(π w²), linear
+ * density 0.1 W/(2·0.5 mm) = 100 W/m, field √(2 I_pk/(c ε0)) (REFERENCE §5). */
+START_TEST(test_pulsed_quantities)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','waist':'0.5 mm',"
+	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','shape':'gaussian',"
+	    "           'pulse_energy':'10 mJ'}},"
+	    "'path':[{'id':'M1','type':'mirror'},{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *m = row_of(t, "M1");
+	double w2 = 0.25e-6, ppk = 0.939437e6;
+
+	CHECK_REL(m->power_in, 0.1, 1e-12);
+	CHECK_REL(m->fluence / 1e4, 2.54648, 2e-6);
+	CHECK_REL(m->peak_power, ppk, 1e-6);
+	CHECK_REL(m->irradiance, 2 * 0.1 / (M_PI * w2), 1e-12);
+	CHECK_REL(m->peak_irradiance, 2 * ppk / (M_PI * w2), 1e-6);
+	CHECK_REL(m->linear_density, 100, 1e-12);
+	CHECK_REL(m->field, sqrt(2 * m->peak_irradiance / (299792458.0 * 8.8541878128e-12)),
+	    1e-12);
+	CHECK_REL(m->field, sqrt(2 * 2 * ppk / (M_PI * w2) / (299792458.0 * 8.8541878128e-12)),
+	    1e-6);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Pulse shapes, REFERENCE §4: 1 µJ in 100 fs sech² is 8.81374 MW; hand:
+ * a square 1 mJ, 5 ns pulse is 0.2 MW.  Power given instead of the energy:
+ * E = P/rep_rate (bench-format.md). */
+static const struct shape_case {
+	const char *pulsed;
+	double ppk, fluence;	/* W, J/m² at w = 1 mm */
+} shape_cases[] = {
+	{ "'rep_rate':'1 kHz','pulse_width':'100 fs','shape':'sech2','pulse_energy':'1 uJ'},"
+	    "'waist':'1 mm'", 8.81374e6, 2e-6 / (M_PI * 1e-6) },
+	{ "'rep_rate':'100 Hz','pulse_width':'5 ns','shape':'square','pulse_energy':'1 mJ'},"
+	    "'waist':'1 mm'", 0.2e6, 2e-3 / (M_PI * 1e-6) },
+	{ "'rep_rate':'100 Hz','pulse_width':'5 ns','shape':'square'},'power':'100 mW',"
+	    "'waist':'1 mm'", 0.2e6, 2e-3 / (M_PI * 1e-6) },
+};
+
+START_TEST(test_pulse_shapes)
+{
+	struct bench *b = bench_text(HEAD "'source':{'wavelength':'1030 nm','pulsed':{%s},"
+	    "'path':[{'id':'W1','type':'window'}]}", shape_cases[_i].pulsed);
+	struct trace *t = trace_run(b);
+
+	CHECK_REL(row_of(t, "W1")->peak_power, shape_cases[_i].ppk, 1e-6);
+	CHECK_REL(row_of(t, "W1")->fluence, shape_cases[_i].fluence, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Air breakdown at a pulsed focus (REFERENCE §12 default 1e14 W/m²,
+ * common practice): Self row 1 geometry gives w0' = 32.3966 µm; 10 mJ in
+ * 10 ns gaussian is 0.939437 MW (REFERENCE §4), so the focus peaks at
+ * 2·0.939437 MW/(π w0'²) = 5.70e14 W/m² (hand).  1 mJ gives 5.70e13: none;
+ * a bench level of 1e15 W/m²: none; the same average power CW: never. */
+static const struct spark_case {
+	const char *source, *extra;
+	double ppk;		/* NAN: CW */
+	int spark;
+} spark_cases[] = {
+	{ "'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'10 mJ'}", "",
+	    0.939437e6, 1 },
+	{ "'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'1 mJ'}", "",
+	    0.0939437e6, 0 },
+	{ "'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'10 mJ'}",
+	    "'air_breakdown':1e15,", 0.939437e6, 0 },
+	{ "'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'10 mJ'}",
+	    "'air_breakdown':'1e10 W/cm^2',", 0.939437e6, 1 },
+	{ "'power':'100 mW'", "", NAN, 0 },
+	{ "'power':'100 kW'", "", NAN, 0 },	/* 6e16 W/m² CW: still not checked */
+};
+
+START_TEST(test_air_breakdown)
+{
+	const struct spark_case *c = &spark_cases[_i];
+	struct bench *b = bench_text(HEAD "%s'source':{'wavelength':'1064 nm','waist':'1 mm',%s},"
+	    "'path':[{'id':'S1','type':'space','length':'1 m'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm'},"
+	    "{'id':'S2','type':'space','length':'300 mm'},"
+	    "{'id':'BD','type':'dump'}]}", c->extra, c->source);
+	struct trace *t = trace_run(b);
+	const struct trace_row *s2 = row_of(t, "S2");
+	double w0p = 32.3966e-6;
+
+	ck_assert(s2->has_focus);
+	if (!isnan(c->ppk))
+		CHECK_REL(s2->focus.peak_irradiance, 2 * c->ppk / (M_PI * w0p * w0p), 3e-6);
+	ck_assert_int_eq(s2->focus.air_breakdown, c->spark);
+	ck_assert_int_eq(!!(s2->flags & TF_AIR_BREAKDOWN), c->spark);
+	ck_assert_uint_eq(count_warn(t, TW_AIR_BREAKDOWN), (size_t)c->spark);
+	if (c->spark) {
+		const struct trace_warning *w = warn_after(t, TW_AIR_BREAKDOWN, "S2");
+
+		CHECK_REL(w->value, s2->focus.peak_irradiance, 1e-15);
+	}
+	/* no spark where there is no focus */
+	ck_assert(!(row_of(t, "S1")->flags & TF_AIR_BREAKDOWN));
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/*
+ * B-integral (REFERENCE §11, B = 2π n2 I_pk L/λ; warning level 3 rad,
+ * common practice).  Windows side by side at the waist all see w = w0, so
+ * each adds the same B1, computed here from the source: I_pk =
+ * 2 k E/(τ π w0²) with k = 2√(ln2/π) (REFERENCE §4).  The energy is chosen
+ * so that B1 = 1.25 rad: the sum passes 3 rad at the third window.
+ */
+static double
+b1_energy(double b1, double lambda, double n2, double len, double w0, double tau)
+{
+	double k = 2 * sqrt(log(2.0) / M_PI);
+	double ipk = b1 * lambda / (2 * M_PI * n2 * len);
+
+	return ipk * M_PI * w0 * w0 / 2 * tau / k;
+}
+
+#define WIN(id) "{'id':'" id "','type':'window','thickness':'10 mm','n2':2.7e-20}"
+
+START_TEST(test_b_integral_warning)
+{
+	double e = b1_energy(1.25, 1030e-9, 2.7e-20, 10e-3, 1e-3, 1e-12);
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
+	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'1 ps','pulse_energy':%.17g}},"
+	    "'path':[" WIN("W1") "," WIN("W2") "," WIN("W3") "," WIN("W4") ","
+	    "{'id':'BD','type':'dump'}]}", e);
+	struct trace *t = trace_run(b);
+	const struct trace_warning *w;
+	static const char *const ids[] = { "W1", "W2", "W3", "W4" };
+
+	for (int i = 0; i < 4; i++) {
+		const struct trace_row *r = row_of(t, ids[i]);
+
+		CHECK_REL(r->b_integral, 1.25, 1e-9);
+		CHECK_REL(r->b_total, 1.25 * (i + 1), 1e-9);
+		/* REFERENCE §11 row 4: 1030 nm, n0 = 1.45 (the default index),
+		 * n2 = 2.7e-20: Marburger P_cr = 4.0648 MW; P_pk is far above */
+		CHECK_REL(r->critical_power, 4.0648e6, 2e-5);
+		ck_assert(r->flags & TF_SELF_FOCUSING);
+	}
+	ck_assert_uint_eq(count_warn(t, TW_B_INTEGRAL), 1);
+	w = warn_after(t, TW_B_INTEGRAL, "W3");
+	CHECK_REL(w->value, 3.75, 1e-9);
+	ck_assert_ptr_null(w->parent);
+	/* no thickness, no n2: no B */
+	ck_assert(isnan(row_of(t, "BD")->b_integral));
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Each branch sums its own B from the source.  A 50/50 splitter after W2
+ * (2.5 rad) halves the peak irradiance, so each further window adds
+ * 0.625 rad (hand): the main branch passes 3 rad at W3 (3.125), the
+ * reflected one at W5 (3.125). */
+START_TEST(test_b_integral_branches)
+{
+	double e = b1_energy(1.25, 1030e-9, 2.7e-20, 10e-3, 1e-3, 1e-12);
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
+	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'1 ps','pulse_energy':%.17g}},"
+	    "'path':[" WIN("W1") "," WIN("W2") ","
+	    "{'id':'BS','type':'splitter','reflectance':0.5,'reflected':["
+	    WIN("W5") "," WIN("W6") ",{'id':'BDr','type':'dump'}]},"
+	    WIN("W3") "," WIN("W4") ",{'id':'BD','type':'dump'}]}", e);
+	struct trace *t = trace_run(b);
+	const struct trace_warning *w3, *w5;
+	char br[64];
+
+	ck_assert_uint_eq(count_warn(t, TW_B_INTEGRAL), 2);
+	w3 = warn_after(t, TW_B_INTEGRAL, "W3");
+	w5 = warn_after(t, TW_B_INTEGRAL, "W5");
+	CHECK_REL(w3->value, 3.125, 1e-9);
+	CHECK_REL(w5->value, 3.125, 1e-9);
+	trace_branch_name(w3->parent, w3->port, br, sizeof br);
+	ck_assert_str_eq(br, "main");
+	trace_branch_name(w5->parent, w5->port, br, sizeof br);
+	ck_assert_str_eq(br, "BS.reflected");
+	CHECK_REL(row_of(t, "W6")->b_total, 3.75, 1e-9);
+	CHECK_REL(row_of(t, "W4")->b_total, 3.75, 1e-9);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Below the critical power no self_focusing: 1 W CW in a window with n2
+ * (P_cr ≈ 4 MW, REFERENCE §11); the B of a CW beam uses its irradiance. */
+START_TEST(test_no_self_focusing_cw)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'W1','type':'window','thickness':'10 mm','n2':'2.74e-16 cm^2/W',"
+	    " 'index':1.4496}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *w = row_of(t, "W1");
+
+	ck_assert(!(w->flags & TF_SELF_FOCUSING));
+	ck_assert_uint_eq(count_warn(t, TW_SELF_FOCUSING), 0);
+	/* REFERENCE §11 row 1: 1064 nm, n0 1.4496, n2 2.74e-20: 4.2755 MW */
+	CHECK_REL(w->critical_power, 4.2755e6, 2e-5);
+	/* REFERENCE §11: B = 2π n2 I L/λ, I = 2·1 W/(π (1 mm)²) */
+	CHECK_REL(w->b_integral, 2 * M_PI * 2.74e-20 * (2 / (M_PI * 1e-6)) * 10e-3 / 1064e-9,
+	    1e-9);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Beams that leave the bench (trace-conventions.md): a path ending in a
+ * mirror of R = 0.9 leaves 0.9 W after it (hand); an ideal polarizer on
+ * linear 30° light sends sin² 30° = 0.25 W into its rejected port, which
+ * ends in a space (hand, Malus). */
+START_TEST(test_unterminated)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':30},"
+	    "'path':["
+	    "{'id':'POL1','type':'polarizer','angle':0,"
+	    " 'rejected':[{'id':'S1r','type':'space','length':'80 mm'}]},"
+	    "{'id':'M1','type':'mirror','reflectance':0.9}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_warning *wm, *wr;
+	char br[64];
+
+	ck_assert_uint_eq(count_warn(t, TW_UNTERMINATED), 2);
+	wm = warn_after(t, TW_UNTERMINATED, "M1");
+	wr = warn_after(t, TW_UNTERMINATED, "S1r");
+	CHECK_REL(wm->value, 0.75 * 0.9, 1e-12);
+	CHECK_REL(wr->value, 0.25, 1e-12);
+	trace_branch_name(wr->parent, wr->port, br, sizeof br);
+	ck_assert_str_eq(br, "POL1.rejected");
+	trace_branch_name(wm->parent, wm->port, br, sizeof br);
+	ck_assert_str_eq(br, "main");
+	CHECK_REL(t->leaving, 0.675 + 0.25, 1e-12);
+	/* hand: the mirror absorbs 10 % of 0.75 W */
+	CHECK_REL(row_of(t, "M1")->power_lost, 0.075, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A real polarizer (transmission 0.97, extinction 1000) on linear 30°,
+ * trace-conventions.md: pass t cos² + (t/ER) sin² = 0.7275 + 0.0002425,
+ * reject (1 - t/ER) sin² = 0.2497575, absorb 0.03 × 0.75 = 0.0225 (hand). */
+START_TEST(test_polarizer_ports)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':30},"
+	    "'path':["
+	    "{'id':'POL1','type':'polarizer','angle':0,'transmission':0.97,'extinction':1000,"
+	    " 'rejected':[{'id':'BDr','type':'dump'}]},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+
+	CHECK_REL(row_of(t, "BD")->power_in, 0.7277425, 1e-12);
+	CHECK_REL(row_of(t, "BDr")->power_in, 0.2497575, 1e-12);
+	CHECK_REL(row_of(t, "POL1")->power_lost, 0.0225, 1e-9);
+	ck_assert_uint_eq(count_warn(t, TW_UNTERMINATED), 0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Terminators absorb everything that reaches them (trace-conventions.md):
+ * dump, detector and target alike, and nothing is left on the table. */
+START_TEST(test_terminators)
+{
+	static const char *const types[] = { "dump", "detector", "target" };
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'BS1','type':'splitter','reflectance':0.25,'reflected':[{'id':'E1','type':'%s'}]},"
+	    "{'id':'BS2','type':'splitter','reflectance':0.5,'transmitted':[{'id':'E2','type':'%s'}]},"
+	    "{'id':'E3','type':'%s'}]}", types[_i], types[(_i + 1) % 3], types[(_i + 2) % 3]);
+	struct trace *t = trace_run(b);
+
+	/* hand: 0.25; 0.75 × 0.5 transmitted; 0.75 × 0.5 reflected */
+	CHECK_REL(row_of(t, "E1")->power_lost, 0.25, 1e-12);
+	CHECK_REL(row_of(t, "E2")->power_lost, 0.375, 1e-12);
+	CHECK_REL(row_of(t, "E3")->power_lost, 0.375, 1e-12);
+	for (int i = 1; i <= 3; i++) {
+		char id[4];
+
+		snprintf(id, sizeof id, "E%d", i);
+		CHECK_REL(row_of(t, id)->power_lost, row_of(t, id)->power_in, 1e-15);
+	}
+	ck_assert_uint_eq(t->nwarn, 0);
+	CHECK_REL(t->absorbed, 1, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The worst element and the safe source power (trace-conventions.md),
+ * hand: 10 W CW at a 0.5 mm waist.  M1 (cw_linear 1000 W/cm): LPD =
+ * 10 W/(0.1 cm) = 100 W/cm -> 0.1.  M2 (cw_irradiance 10 kW/cm²): I =
+ * 2·10/(π·0.0025 cm²) = 2546.48 W/cm² -> 0.254648.  BD (max_power 50 W) ->
+ * 0.2.  safe = P/(SF × worst) = 10/(2 × 0.254648) = 19.635 W. */
+static const struct worst_case {
+	double power;
+	enum damage_status m1, m2, bd;
+} worst_cases[] = {
+	{ 10, STATUS_OK, STATUS_OK, STATUS_OK },		/* 0.1, 0.25, 0.2 */
+	{ 20, STATUS_OK, STATUS_CAUTION, STATUS_OK },		/* 0.2, 0.51, 0.4 */
+	{ 25, STATUS_OK, STATUS_CAUTION, STATUS_CAUTION },	/* 0.25, 0.64, 0.5 */
+	{ 40, STATUS_OK, STATUS_OVER, STATUS_CAUTION },		/* 0.4, 1.02, 0.8 */
+	{ 60, STATUS_CAUTION, STATUS_OVER, STATUS_OVER },	/* 0.6, 1.53, 1.2 */
+};
+
+START_TEST(test_worst_and_safe)
+{
+	const struct worst_case *c = &worst_cases[_i];
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':%.17g,'waist':'0.5 mm'},"
+	    "'path':["
+	    "{'id':'M1','type':'mirror','damage':{'cw_linear':'1000 W/cm'}},"
+	    "{'id':'M2','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}},"
+	    "{'id':'BD','type':'dump','max_power':'50 W'}]}", c->power);
+	struct trace *t = trace_run(b);
+	double k = c->power / 10;
+	double r1 = 0.1 * k, r2 = 2 * 10 / (M_PI * 0.0025) / 1e4 * k, r3 = 0.2 * k;
+	enum damage_status want[3];
+
+	/* statuses from the hand ratios and the SF 2 thresholds */
+	want[0] = r1 >= 1 ? STATUS_OVER : r1 >= 0.5 ? STATUS_CAUTION : STATUS_OK;
+	want[1] = r2 >= 1 ? STATUS_OVER : r2 >= 0.5 ? STATUS_CAUTION : STATUS_OK;
+	want[2] = r3 >= 1 ? STATUS_OVER : r3 >= 0.5 ? STATUS_CAUTION : STATUS_OK;
+	CHECK_REL(row_of(t, "M1")->ratio, r1, 1e-12);
+	CHECK_REL(row_of(t, "M2")->ratio, r2, 1e-12);
+	CHECK_REL(row_of(t, "BD")->ratio, r3, 1e-12);
+	ck_assert_int_eq(row_of(t, "M1")->status, want[0]);
+	ck_assert_int_eq(row_of(t, "M2")->status, want[1]);
+	ck_assert_int_eq(row_of(t, "BD")->status, want[2]);
+	ck_assert_int_eq(row_of(t, "M1")->status, c->m1);
+	ck_assert_int_eq(row_of(t, "M2")->status, c->m2);
+	ck_assert_int_eq(row_of(t, "BD")->status, c->bd);
+	ck_assert(t->worst >= 0);
+	ck_assert_str_eq(t->rows[t->worst].el->id, "M2");
+	CHECK_REL(t->worst_ratio, r2, 1e-12);
+	/* REFERENCE §4: 2546.48 W/cm² per 10 W; safe = 10/(2 × 0.254648) */
+	CHECK_REL(t->safe_source_power, 19.634954084936208, 1e-9);
+	CHECK_REL(t->safe_source_power, c->power / (2 * r2), 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Status transitions at the exact thresholds (trace-conventions.md):
+ * a dump rated 1 W; ratio = P/1 W exactly. */
+static const struct edge_case {
+	double power, sf;
+	enum damage_status want;
+} edge_cases[] = {
+	{ 0.4999, 2, STATUS_OK }, { 0.5, 2, STATUS_CAUTION }, { 0.9999, 2, STATUS_CAUTION },
+	{ 1.0, 2, STATUS_OVER }, { 0.25, 4, STATUS_CAUTION }, { 0.2499, 4, STATUS_OK },
+	{ 2.0, 4, STATUS_OVER },
+};
+
+START_TEST(test_status_edges)
+{
+	const struct edge_case *c = &edge_cases[_i];
+	struct bench *b = bench_text(HEAD "'safety_factor':%.17g,"
+	    "'source':{'wavelength':'1064 nm','power':%.17g,'waist':'1 mm'},"
+	    "'path':[{'id':'BD','type':'dump','max_power':'1 W'}]}", c->sf, c->power);
+	struct trace *t = trace_run(b);
+
+	CHECK_REL(row_of(t, "BD")->ratio, c->power, 1e-15);
+	ck_assert_int_eq(row_of(t, "BD")->status, c->want);
+	/* hand: safe = P/(SF × P/1 W) = 1/SF W */
+	CHECK_REL(t->safe_source_power, 1 / c->sf, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Nothing rated: worst -1, safe NAN (core-trace.h). */
+START_TEST(test_nothing_rated)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':[{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+
+	ck_assert_int_eq(t->worst, -1);
+	ck_assert(isnan(t->safe_source_power));
+	ck_assert_int_eq(t->rows[0].status, STATUS_UNRATED);
+	ck_assert(isnan(t->rows[0].ratio));
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Threshold flags in a trace (trace-conventions.md; scaling is common
+ * practice).  A window rated 1.2 J/cm² at 532 nm, 5 ns, on a 1064 nm,
+ * 8 ns beam: hand 1.2 × (1064/532) × √(8/5) = 3.0357865 J/cm². */
+START_TEST(test_scaling_flags)
+{
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','waist':'1 mm',"
+	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'8 ns','pulse_energy':'50 mJ'}},"
+	    "'path':[{'id':'W1','type':'window','damage':{'fluence':'1.2 J/cm^2',"
+	    " 'wavelength':'532 nm','pulse_width':'5 ns'}},"
+	    "{'id':'W2','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'10 ps'}},"
+	    "{'id':'W3','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'8 ns'}}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *w1 = row_of(t, "W1"), *w2 = row_of(t, "W2");
+	const struct trace_row *w3 = row_of(t, "W3");
+	double lim = 1.2e4 * 2 * sqrt(8.0 / 5);
+
+	CHECK_REL(w1->limits.fluence, lim, 1e-12);
+	/* REFERENCE §4: F0 = 2E/(π w²) = 2·50 mJ/(π (1 mm)²) */
+	CHECK_REL(w1->ratio, 2 * 50e-3 / (M_PI * 1e-6) / lim, 1e-12);
+	ck_assert(w1->flags & TF_WAVELENGTH_SCALED);
+	ck_assert(w1->flags & TF_PULSE_SCALED);
+	ck_assert(!(w1->flags & TF_PULSE_RANGE));
+	/* rated at 10 ps: outside 50 ps ... 100 ns */
+	ck_assert(w2->flags & TF_PULSE_SCALED);
+	ck_assert(w2->flags & TF_PULSE_RANGE);
+	ck_assert(!(w2->flags & TF_WAVELENGTH_SCALED));
+	/* rated at the beam's own λ and τ: nothing scaled */
+	ck_assert(!(w3->flags & (TF_PULSE_SCALED | TF_PULSE_RANGE | TF_WAVELENGTH_SCALED)));
+	CHECK_REL(w3->limits.fluence, 1e5, 1e-15);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A fluence rating only, on a CW beam: unrated and flagged (REFERENCE §10,
+ * never scale a pulsed rating to CW). */
+START_TEST(test_pulsed_rating_on_cw)
+{
+	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	    "{'id':'M1','type':'mirror','damage':{'fluence':'10 J/cm^2','pulse_width':'10 ns'}}]}");
+	struct trace *t = trace_run(b);
+	const struct trace_row *m = row_of(t, "M1");
+
+	ck_assert_int_eq(m->status, STATUS_UNRATED);
+	ck_assert(isnan(m->ratio));
+	ck_assert(m->flags & TF_PULSED_RATING_ON_CW);
+	ck_assert(isnan(m->fluence) && isnan(m->peak_power));
+	ck_assert_str_eq(trace_flag_name(TF_PULSED_RATING_ON_CW), "pulsed_rating_on_cw");
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The flag words of trace-conventions.md and core-trace.h. */
+START_TEST(test_flag_names)
+{
+	ck_assert_str_eq(trace_flag_name(TF_CLIPPING), "clipping");
+	ck_assert_str_eq(trace_flag_name(TF_WAVELENGTH_SCALED), "wavelength_scaled");
+	ck_assert_str_eq(trace_flag_name(TF_PULSE_SCALED), "pulse_scaled");
+	ck_assert_str_eq(trace_flag_name(TF_PULSE_RANGE), "pulse_scaling_out_of_range");
+	ck_assert_str_eq(trace_flag_name(TF_SELF_FOCUSING), "self_focusing");
+	ck_assert_str_eq(trace_flag_name(TF_FOCUS), "focus");
+	ck_assert_str_eq(trace_flag_name(TF_AIR_BREAKDOWN), "air_breakdown");
+	ck_assert_str_eq(trace_warn_name(TW_UNTERMINATED), "unterminated");
+	ck_assert_str_eq(trace_warn_name(TW_B_INTEGRAL), "b_integral");
+}
+END_TEST
+
+/* An unpolarized source on a mirror with Rs ≠ Rp reflects ½(Rp + Rs)
+ * (REFERENCE §8: 0.9875 for Rs 0.995, Rp 0.98); circular light the same;
+ * H light Rp = 0.98. */
+START_TEST(test_mirror_polarization)
+{
+	static const char *const pols[] = { "'unpolarized'", "'circular'", "0", "90" };
+	static const double want[] = { 0.9875, 0.9875, 0.98, 0.995 };
+	struct bench *b = bench_text(HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':%s},"
+	    "'path':[{'id':'M1','type':'mirror','rs':0.995,'rp':0.98},"
+	    "{'id':'BD','type':'dump'}]}", pols[_i]);
+	struct trace *t = trace_run(b);
+
+	CHECK_REL(row_of(t, "BD")->power_in, want[_i], 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/*
+ * (b) Random benches: a fixed-seed generator builds valid benches with the
+ * model API, every element type, nested side branches and apertures.
+ */
+struct gen {
+	uint64_t st;
+	unsigned next_id;
+};
+
+static uint64_t
+gen_next(struct gen *g)
+{
+	g->st = g->st * 6364136223846793005ULL + 1442695040888963407ULL;
+	return g->st >> 11;
+}
+
+static double
+gen_uniform(struct gen *g, double lo, double hi)
+{
+	return lo + (hi - lo) * ((double)gen_next(g) / 9007199254740992.0);
+}
+
+static int
+gen_chance(struct gen *g, double p)
+{
+	return gen_uniform(g, 0, 1) < p;
+}
+
+static void
+gen_set(struct element *el, enum model_key k, double v)
+{
+	char *cause = NULL;
+
+	ck_assert_msg(model_set(el, k, v, &cause) == 0, "model_set: %s", cause);
+}
+
+static void gen_branch(struct gen *g, struct branch *br, unsigned depth);
+
+static void
+gen_damage(struct gen *g, struct element *el)
+{
+	if (gen_chance(g, 0.3))
+		gen_set(el, K_DMG_CW_LINEAR, gen_uniform(g, 1e3, 1e6));
+	if (gen_chance(g, 0.3))
+		gen_set(el, K_DMG_CW_IRRADIANCE, gen_uniform(g, 1e6, 1e10));
+	if (gen_chance(g, 0.3)) {
+		gen_set(el, K_DMG_FLUENCE, gen_uniform(g, 1e3, 1e6));
+		gen_set(el, K_DMG_PULSE_WIDTH, pow(10, gen_uniform(g, -13, -6)));
+	}
+	if (gen_chance(g, 0.2))
+		gen_set(el, K_DMG_WAVELENGTH, gen_uniform(g, 300e-9, 2000e-9));
+}
+
+static void
+gen_element(struct gen *g, struct element *el, enum elem_type type, unsigned depth)
+{
+	char id[32];
+
+	snprintf(id, sizeof id, "E%u", g->next_id++);
+	model_element_init(el, type, id);
+	switch (type) {
+	case EL_SPACE:
+		gen_set(el, K_LENGTH, gen_chance(g, 0.1) ? 0 : gen_uniform(g, 0, 0.8));
+		break;
+	case EL_MIRROR:
+		if (gen_chance(g, 0.4))
+			gen_set(el, K_REFLECTANCE, gen_uniform(g, 0.3, 1));
+		else if (gen_chance(g, 0.6)) {
+			gen_set(el, K_RS, gen_uniform(g, 0.3, 1));
+			if (gen_chance(g, 0.7))
+				gen_set(el, K_RP, gen_uniform(g, 0.3, 1));
+		}
+		if (gen_chance(g, 0.4))
+			gen_set(el, K_ROC, gen_uniform(g, 0.2, 4) * (gen_chance(g, 0.7) ? 1 : -1));
+		if (gen_chance(g, 0.6))
+			gen_set(el, K_AOI, gen_uniform(g, 0, 60));
+		break;
+	case EL_LENS:
+	case EL_WINDOW:
+		if (type == EL_LENS) {
+			gen_set(el, K_FOCAL, gen_uniform(g, 0.05, 1.5) * (gen_chance(g, 0.8) ? 1 : -1));
+			if (gen_chance(g, 0.3))
+				gen_set(el, K_AXIS, (double)(gen_next(g) % 3));
+		}
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0.8, 1));
+		if (gen_chance(g, 0.4)) {
+			gen_set(el, K_N2, gen_uniform(g, 1e-20, 5e-20));
+			if (gen_chance(g, 0.8))
+				gen_set(el, K_THICKNESS, gen_uniform(g, 1e-3, 20e-3));
+			if (gen_chance(g, 0.5))
+				gen_set(el, K_INDEX, gen_uniform(g, 1.3, 2.5));
+		}
+		break;
+	case EL_SPLITTER:
+		if (gen_chance(g, 0.5)) {
+			gen_set(el, K_REFLECTANCE, gen_uniform(g, 0, 1));
+		} else {
+			double tp = gen_uniform(g, 0.5, 1), rs = gen_uniform(g, 0.5, 1);
+
+			gen_set(el, K_POLARIZING, 1);
+			if (gen_chance(g, 0.8))
+				gen_set(el, K_TP, tp);
+			else
+				tp = 1;
+			if (gen_chance(g, 0.8))
+				gen_set(el, K_RS, rs);
+			else
+				rs = 1;
+			if (gen_chance(g, 0.4))
+				gen_set(el, K_TS, gen_uniform(g, 0, 1 - rs));
+			if (gen_chance(g, 0.4))
+				gen_set(el, K_RP, gen_uniform(g, 0, 1 - tp));
+		}
+		if (gen_chance(g, 0.3))
+			gen_set(el, K_AOI, gen_uniform(g, 10, 60));
+		el->side_port = gen_chance(g, 0.6) ? PORT_REFLECTED : PORT_TRANSMITTED;
+		if (depth < 4 && !gen_chance(g, 0.05))
+			gen_branch(g, &el->side, depth + 1);
+		break;
+	case EL_FILTER:
+		if (gen_chance(g, 0.6))
+			gen_set(el, K_OD, gen_uniform(g, 0, 3));
+		else if (gen_chance(g, 0.7))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0, 1));
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_MAX_ABSORBED, gen_uniform(g, 0.01, 20));
+		break;
+	case EL_WAVEPLATE:
+		gen_set(el, K_RETARDANCE, gen_chance(g, 0.5) ? 0.5 : gen_uniform(g, 0, 1.5));
+		if (gen_chance(g, 0.8))
+			gen_set(el, K_ANGLE, gen_uniform(g, -180, 180));
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0.9, 1));
+		break;
+	case EL_POLARIZER:
+		if (gen_chance(g, 0.8))
+			gen_set(el, K_ANGLE, gen_uniform(g, -90, 90));
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0.5, 1));
+		if (gen_chance(g, 0.6))
+			gen_set(el, K_EXTINCTION, pow(10, gen_uniform(g, 0, 5)));
+		if (depth < 4 && gen_chance(g, 0.4)) {
+			el->side_port = PORT_REJECTED;
+			if (!gen_chance(g, 0.05))
+				gen_branch(g, &el->side, depth + 1);
+		}
+		break;
+	case EL_IRIS:
+		gen_set(el, K_DIAMETER, gen_uniform(g, 0.3e-3, 15e-3));
+		break;
+	case EL_DUMP:
+	case EL_DETECTOR:
+	case EL_TARGET:
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_MAX_POWER, gen_uniform(g, 0.01, 50));
+		break;
+	default:
+		break;
+	}
+	if (type != EL_SPACE && type != EL_IRIS && gen_chance(g, 0.2))
+		gen_set(el, K_APERTURE, gen_uniform(g, 0.5e-3, 25e-3));
+	if (type != EL_SPACE)
+		gen_damage(g, el);
+}
+
+static void
+gen_branch(struct gen *g, struct branch *br, unsigned depth)
+{
+	static const enum elem_type optics[] = {
+		EL_SPACE, EL_SPACE, EL_SPACE, EL_MIRROR, EL_LENS, EL_SPLITTER,
+		EL_WINDOW, EL_FILTER, EL_WAVEPLATE, EL_POLARIZER, EL_IRIS,
+	};
+	unsigned n = 1 + (unsigned)(gen_next(g) % (depth == 0 ? 14 : 6));
+
+	for (unsigned i = 0; i < n; i++) {
+		enum elem_type t = optics[gen_next(g) % NELEMS(optics)];
+
+		/* the parent slot must not move while its branch is built */
+		gen_element(g, model_branch_push(br), t, depth);
+	}
+	if (gen_chance(g, 0.6))
+		gen_element(g, model_branch_push(br), (enum elem_type)(EL_DUMP +
+		    gen_next(g) % 3), depth);
+}
+
+static struct bench *
+gen_bench(uint64_t seed)
+{
+	struct gen g = { seed * 0x9e3779b97f4a7c15ULL + 1, 0 };
+	struct bench *b = model_bench_new("random");
+	struct source *s = &b->src;
+	char *cause = NULL;
+
+	s->wavelength = gen_uniform(&g, 350e-9, 1700e-9);
+	s->power = gen_uniform(&g, 1e-3, 100);
+	if (gen_chance(&g, 0.5)) {
+		s->pulsed = 1;
+		s->rep_rate = pow(10, gen_uniform(&g, 0, 7));
+		s->pulse_width = pow(10, gen_uniform(&g, -14, -7));
+		s->shape = (enum pulse_shape)(gen_next(&g) % 3);
+		s->pulse_energy = s->power / s->rep_rate;
+	}
+	s->waist[0] = gen_uniform(&g, 0.1e-3, 4e-3);
+	s->waist[1] = gen_chance(&g, 0.3) ? gen_uniform(&g, 0.1e-3, 4e-3) : s->waist[0];
+	s->waist_pair = s->waist[0] != s->waist[1];
+	s->waist_position = gen_uniform(&g, -2, 2);
+	s->m2[0] = gen_uniform(&g, 1, 3);
+	s->m2[1] = gen_chance(&g, 0.3) ? gen_uniform(&g, 1, 3) : s->m2[0];
+	s->m2_pair = s->m2[0] != s->m2[1];
+	s->pol = (enum pol_kind)(gen_next(&g) % 3);
+	if (s->pol == POL_LINEAR)
+		s->pol_angle_deg = gen_uniform(&g, -180, 180);
+	if (gen_chance(&g, 0.3)) {
+		b->safety_factor = gen_uniform(&g, 1.1, 5);
+		b->safety_given = 1;
+	}
+	gen_branch(&g, &b->path, 0);
+	ck_assert_msg(model_validate(b, &cause) == 0, "generated bench %llu invalid: %s",
+	    (unsigned long long)seed, cause);
+	return b;
+}
+
+/* Index of the row of element el. */
+static const struct trace_row *
+row_of_el(const struct trace *t, const struct element *el)
+{
+	for (size_t i = 0; i < t->nrows; i++)
+		if (t->rows[i].el == el)
+			return &t->rows[i];
+	ck_abort_msg("no row for element '%s'", el->id);
+	return NULL;
+}
+
+/* Power that leaves the bench at the end of a branch (0 when none). */
+static double
+leaving_from(const struct trace *t, const struct element *parent, enum port port)
+{
+	for (size_t i = 0; i < t->nwarn; i++)
+		if (t->warn[i].kind == TW_UNTERMINATED && t->warn[i].parent == parent &&
+		    (parent == NULL || t->warn[i].port == port))
+			return t->warn[i].value;
+	return 0;
+}
+
+/* What enters a branch: its first element's power_in, or, for an empty
+ * branch, what leaves the bench straight from its start. */
+static double
+branch_input(const struct trace *t, const struct branch *br,
+    const struct element *parent, enum port port)
+{
+	return br->n ? row_of_el(t, &br->el[0])->power_in : leaving_from(t, parent, port);
+}
+
+/* Flow: every element sends power_out into what follows it on its own
+ * branch and into its side branch, and nothing else. */
+static void
+check_flow(const struct trace *t, const struct branch *br,
+    const struct element *parent, enum port port, double scale)
+{
+	for (size_t i = 0; i < br->n; i++) {
+		const struct element *el = &br->el[i];
+		const struct trace_row *r = row_of_el(t, el);
+		double next, side = 0;
+
+		if (i + 1 < br->n)
+			next = row_of_el(t, &br->el[i + 1])->power_in;
+		else if (model_type_is_terminator(el->type))
+			next = 0;
+		else
+			next = leaving_from(t, parent, port);
+		if (el->side_port != PORT_NONE) {
+			side = branch_input(t, &el->side, el, el->side_port);
+			check_flow(t, &el->side, el, el->side_port, scale);
+		}
+		ck_assert_msg(fabs(r->power_out - (next + side)) <= 1e-12 * scale,
+		    "element '%s': power_out %.17g, but %.17g + %.17g goes on", el->id,
+		    r->power_out, next, side);
+		ck_assert_msg(fabs(r->power_in - r->power_out - r->power_lost) <= 1e-12 * scale,
+		    "element '%s': in %.17g != out %.17g + lost %.17g", el->id,
+		    r->power_in, r->power_out, r->power_lost);
+		ck_assert_msg(r->power_lost >= -1e-12 * scale, "element '%s' makes power: %g",
+		    el->id, -r->power_lost);
+		/* a physical Stokes vector: S0 ≥ |S| */
+		ck_assert_msg(r->stokes[0] * (1 + 1e-9) + 1e-15 * scale >=
+		    sqrt(r->stokes[1] * r->stokes[1] + r->stokes[2] * r->stokes[2] +
+		    r->stokes[3] * r->stokes[3]), "element '%s': unphysical Stokes", el->id);
+	}
+}
+
+static void
+check_conservation(const struct bench *b, const struct trace *t)
+{
+	double p = b->src.power, lost = 0, leave = 0;
+
+	for (size_t i = 0; i < t->nrows; i++)
+		lost += t->rows[i].power_lost;
+	for (size_t i = 0; i < t->nwarn; i++)
+		if (t->warn[i].kind == TW_UNTERMINATED)
+			leave += t->warn[i].value;
+	ck_assert_msg(fabs(p - (lost + leave)) <= 1e-12 * p,
+	    "source %.17g W, absorbed %.17g W + leaving %.17g W = %.17g W", p, lost,
+	    leave, lost + leave);
+	CHECK_REL(t->absorbed, lost, 1e-12);
+	CHECK_ABS(t->leaving, leave, 1e-12 * p);
+	ck_assert_uint_eq(t->nrows, model_count(&b->path));
+	CHECK_REL(t->rows[0].power_in, p, 1e-15);
+	check_flow(t, &b->path, NULL, PORT_NONE, p);
+}
+
+START_TEST(test_random_conservation)
+{
+	for (unsigned k = 0; k < 100; k++) {
+		uint64_t seed = (uint64_t)_i * 100 + k;
+		struct bench *b = gen_bench(seed), *b2;
+		struct trace *t = trace_run(b), *t2;
+
+		check_conservation(b, t);
+
+		/* every ratio is proportional to the source power
+		 * (trace-conventions.md), so doubling it doubles each ratio
+		 * and leaves the safe source power where it was */
+		b2 = model_bench_dup(b);
+		b2->src.power *= 2;
+		b2->src.pulse_energy *= 2;
+		t2 = trace_run(b2);
+		check_conservation(b2, t2);
+		ck_assert_uint_eq(t2->nrows, t->nrows);
+		for (size_t i = 0; i < t->nrows; i++) {
+			const struct trace_row *r = &t->rows[i], *r2 = &t2->rows[i];
+
+			ck_assert_msg(isnan(r->ratio) == isnan(r2->ratio), "element '%s'",
+			    r->el->id);
+			if (!isnan(r->ratio))
+				ck_assert_msg(fabs(r2->ratio - 2 * r->ratio) <= 1e-12 * r->ratio,
+				    "bench %llu, element '%s': ratio %.17g at P, %.17g at 2P",
+				    (unsigned long long)seed, r->el->id, r->ratio, r2->ratio);
+			CHECK_REL(r2->power_in, 2 * r->power_in, 1e-12);
+		}
+		ck_assert_int_eq(t2->worst, t->worst);
+		if (isinf(t->safe_source_power))   /* rated, but no power reaches them */
+			ck_assert(isinf(t2->safe_source_power));
+		else if (!isnan(t->safe_source_power))
+			CHECK_REL(t2->safe_source_power, t->safe_source_power, 1e-12);
+		trace_free(t2);
+		model_bench_free(b2);
+		trace_free(t);
+		model_bench_free(b);
+	}
+}
+END_TEST
+
+/* The generator really produces what it promises: across the seeds used
+ * above, every element type, both splitter ports, rejected branches,
+ * nested branches and apertures appear. */
+START_TEST(test_random_coverage)
+{
+	unsigned types = 0, ports = 0, apertures = 0;
+	size_t deepest = 0;
+
+	for (uint64_t seed = 0; seed < 100; seed++) {
+		struct bench *b = gen_bench(seed);
+		struct trace *t = trace_run(b);
+
+		for (size_t i = 0; i < t->nrows; i++) {
+			const struct element *el = t->rows[i].el;
+
+			types |= EL_BIT(el->type);
+			ports |= 1u << el->side_port;
+			apertures += model_has(el, K_APERTURE);
+			if (t->rows[i].depth > deepest)
+				deepest = t->rows[i].depth;
+		}
+		trace_free(t);
+		model_bench_free(b);
+	}
+	ck_assert_uint_eq(types, (1u << EL_NTYPES) - 1);
+	ck_assert_uint_eq(ports, 0xfu);
+	ck_assert(apertures > 10);
+	ck_assert(deepest >= 3);
+}
+END_TEST
+
+/*
+ * (c) The demo bench.
+ */
+START_TEST(test_demo)
+{
+	char *cause = NULL;
+	struct bench *b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo",
+	    &cause);
+	struct trace *t;
+	unsigned types = 0;
+	int over = 0, caution = 0;
+
+	ck_assert_msg(b != NULL, "demo: %s", cause);
+	t = trace_run(b);
+	ck_assert_uint_eq(t->nrows, model_count(&b->path));
+	for (size_t i = 0; i < t->nrows; i++) {
+		types |= EL_BIT(t->rows[i].el->type);
+		over += t->rows[i].status == STATUS_OVER;
+		caution += t->rows[i].status == STATUS_CAUTION;
+	}
+	ck_assert_msg(over >= 1, "demo: nothing over");
+	ck_assert_msg(caution >= 1, "demo: nothing at caution");
+	ck_assert_msg(types == (1u << EL_NTYPES) - 1, "demo: element types %#x", types);
+	check_conservation(b, t);
+	ck_assert(t->worst >= 0);
+	ck_assert(t->rows[t->worst].status == STATUS_OVER);
+	CHECK_REL(t->safe_source_power, b->src.power / (b->safety_factor * t->worst_ratio),
+	    1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+int
+main(void)
+{
+	Suite *s = suite_create("trace");
+	TCase *tw = tcase_create("worked");
+	TCase *tr = tcase_create("random");
+	SRunner *sr;
+	int nf;
+
+	tcase_add_test(tw, test_lens_focus);
+	tcase_add_test(tw, test_hwp_pbs_split);
+	tcase_add_test(tw, test_splitter_transmitted_side);
+	tcase_add_test(tw, test_clipping);
+	tcase_add_test(tw, test_clipping_elliptical);
+	tcase_add_loop_test(tw, test_nd_filter, 0, NELEMS(nd_cases));
+	tcase_add_test(tw, test_astigmatic_mirror);
+	tcase_add_test(tw, test_flat_mirror_cylinder);
+	tcase_add_test(tw, test_pulsed_quantities);
+	tcase_add_loop_test(tw, test_pulse_shapes, 0, NELEMS(shape_cases));
+	tcase_add_loop_test(tw, test_air_breakdown, 0, NELEMS(spark_cases));
+	tcase_add_test(tw, test_b_integral_warning);
+	tcase_add_test(tw, test_b_integral_branches);
+	tcase_add_test(tw, test_no_self_focusing_cw);
+	tcase_add_test(tw, test_unterminated);
+	tcase_add_test(tw, test_polarizer_ports);
+	tcase_add_loop_test(tw, test_terminators, 0, 3);
+	tcase_add_loop_test(tw, test_worst_and_safe, 0, NELEMS(worst_cases));
+	tcase_add_loop_test(tw, test_status_edges, 0, NELEMS(edge_cases));
+	tcase_add_test(tw, test_nothing_rated);
+	tcase_add_test(tw, test_scaling_flags);
+	tcase_add_test(tw, test_pulsed_rating_on_cw);
+	tcase_add_test(tw, test_flag_names);
+	tcase_add_loop_test(tw, test_mirror_polarization, 0, 4);
+	tcase_add_test(tw, test_demo);
+	tcase_set_timeout(tw, 30);
+	suite_add_tcase(s, tw);
+
+	tcase_add_loop_test(tr, test_random_conservation, 0, 12);
+	tcase_add_test(tr, test_random_coverage);
+	tcase_set_timeout(tr, 120);
+	suite_add_tcase(s, tr);
+
+	sr = srunner_create(s);
+	srunner_run_all(sr, CK_ENV);
+	nf = srunner_ntests_failed(sr);
+	srunner_free(sr);
+	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+}

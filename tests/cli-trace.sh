@@ -1,2 +1,253 @@
 #!/bin/sh
-echo "1..0 # SKIP not written yet"
+# cli-trace.sh - the trace and demo commands of the real program: exit
+# statuses (0 / 1 over / 2 trouble), the table, JSON and CSV forms, the
+# messages for bad input and bad usage, colour, and demo -> trace - .
+. "${srcdir:-.}/tests/lib.sh"
+
+# Keep any bench database of the user out of reach: an operand that is not
+# a file is looked up there.
+BEAMLEDGER_DB="$T_DIR/no-such.db"
+XDG_DATA_HOME="$T_DIR/xdg"
+export BEAMLEDGER_DB XDG_DATA_HOME
+
+HEAD="'format':'beamledger-bench-1','name':'cli test bench'"
+SRC="'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'}"
+
+# --- the demo (bench-demo.c: something over, so exit 1) ---
+
+run demo trace --demo
+check "trace --demo exits 1 (an element is over)" status_is demo 1
+check "trace --demo prints a table header" out_has demo "element"
+check "the table shows the status word OVER" out_has demo "OVER"
+check "the table lists the demo's elements" out_has demo "PBS1"
+check "the table names the worst element" out_has demo "Worst:"
+check "trace --demo writes nothing on stderr" err_empty demo
+check "without a terminator the table carries no colour" no_escape "$T_DIR/demo.out"
+
+run json trace --demo --format json
+check "--format json exits 1 too" status_is json 1
+if have python3; then
+	check "--format json is valid JSON" python3 -c 'import json,sys; json.load(sys.stdin)' \
+		<"$T_DIR/json.out"
+	# bench-format.md, "Trace output": the fields every entry carries.
+	check "JSON has the fields of bench-format.md" python3 -c '
+import json, sys
+t = json.load(sys.stdin)
+for k in ("bench", "elements", "warnings", "worst", "safe_source_power"):
+    assert k in t, k
+assert set(t["worst"]) >= {"id", "ratio"}, t["worst"]
+assert t["safe_source_power"] > 0
+need = ("id", "type", "branch", "z", "power_in", "power_lost", "radius_x", "radius_y",
+        "irradiance", "linear_density", "peak_irradiance", "field", "clip_loss",
+        "ratio", "status", "flags", "fluence", "peak_power")
+for e in t["elements"]:
+    for k in need:
+        assert k in e, (e["id"], k)
+    assert e["status"] in ("ok", "caution", "over", "unrated"), e["status"]
+    assert isinstance(e["flags"], list)
+    assert e["branch"] == "main" or "." in e["branch"], e["branch"]
+    if e["type"] == "space":
+        assert "focus" in e, e["id"]
+        if e["focus"] is not None:
+            assert set(e["focus"]) >= {"z", "radius_x", "radius_y", "irradiance",
+                                       "peak_irradiance", "air_breakdown"}
+    else:
+        assert "focus" not in e or e["focus"] is None
+for w in t["warnings"]:
+    assert set(w) >= {"kind", "branch", "after"}, w
+    if w["kind"] == "unterminated":
+        assert w["power"] > 0
+ids = [e["id"] for e in t["elements"]]
+assert len(ids) == len(set(ids))
+assert t["worst"]["id"] in ids
+assert any(e["status"] == "over" for e in t["elements"])
+' <"$T_DIR/json.out"
+	check "JSON shows the demo's branch names" python3 -c '
+import json, sys
+t = json.load(sys.stdin)
+b = {e["id"]: e["branch"] for e in t["elements"]}
+assert b["BD1"] == "PBS1.reflected" and b["S4r"] == "POL1.rejected" and b["M1"] == "main", b
+' <"$T_DIR/json.out"
+else
+	skip "no python3: JSON validity"
+	skip "no python3: JSON fields"
+	skip "no python3: JSON branches"
+fi
+
+run csv trace --demo --format csv
+check "--format csv exits 1 too" status_is csv 1
+check "CSV header names id, type, branch and status" \
+	sh -c 'head -n 1 "$1" | grep -q "^id,type,branch,.*status"' sh "$T_DIR/csv.out"
+# One line per element: the demo's elements, counted in the bench itself.
+n_el=$(run demo_text demo; grep -c '"id":' "$T_DIR/demo_text.out")
+n_csv=$(($(wc -l <"$T_DIR/csv.out") - 1))
+check "CSV has one line per element ($n_el)" [ "$n_csv" -eq "$n_el" ]
+check "every CSV line has as many fields as the header" sh -c '
+	tr -d "\r" <"$1" | awk -F, "NR == 1 { n = NF } NF != n { bad = 1 } END { exit bad }"' \
+	sh "$T_DIR/csv.out"
+
+# --- bench files ---
+
+bench clean.json "{$HEAD,$SRC,'path':[
+  {'id':'S1','type':'space','length':'100 mm'},
+  {'id':'M1','type':'mirror','damage':{'cw_linear':'1 kW/cm'}},
+  {'id':'BD','type':'dump','max_power':'10 W'}]}"
+run clean trace "$T_DIR/clean.json"
+check "a clean bench exits 0" status_is clean 0
+check "a clean bench prints its table" out_has clean "M1"
+check "a clean bench writes nothing on stderr" err_empty clean
+
+# hand: 1 W into a dump rated 500 mW: ratio 2, over
+bench over.json "{$HEAD,$SRC,'path':[{'id':'BD','type':'dump','max_power':'500 mW'}]}"
+run over trace "$T_DIR/over.json"
+check "a bench with an element over exits 1" status_is over 1
+check "the over bench says OVER" out_has over "OVER"
+
+# hand: 0.6 W into a 1 W dump with SF 2: caution, not over
+bench caution.json "{$HEAD,'source':{'wavelength':'1064 nm','power':'600 mW','waist':'1 mm'},
+  'path':[{'id':'BD','type':'dump','max_power':'1 W'}]}"
+run caution trace "$T_DIR/caution.json"
+check "a bench at caution only exits 0" status_is caution 0
+check "the caution bench says caution" out_has caution "caution"
+
+# --- bad input: exit 2, nothing on stdout, file + element + key on stderr ---
+
+bad_case() {	# NAME TEXT WANT...
+	_n=$1
+	bench "$_n.json" "$2"
+	shift 2
+	run "$_n" trace "$T_DIR/$_n.json"
+	check "$_n: exits 2" status_is "$_n" 2
+	check "$_n: nothing on stdout" out_empty "$_n"
+	check "$_n: stderr names the file" err_has "$_n" "$T_DIR/$_n.json"
+	for _w in "$@"; do
+		check "$_n: stderr names '$_w'" err_has "$_n" "$_w"
+	done
+}
+
+bad_case bad_range "{$HEAD,$SRC,'path':[{'id':'M1','type':'mirror','reflectance':1.2}]}" \
+	M1 reflectance
+bad_case bad_key "{$HEAD,$SRC,'path':[{'id':'L7','type':'lens','focal':'1 m','colour':'red'}]}" \
+	L7 colour
+bad_case bad_unit "{$HEAD,$SRC,'path':[{'id':'BD','type':'dump','max_power':'5 mm'}]}" \
+	BD max_power
+bad_case bad_type "{$HEAD,$SRC,'path':[{'id':'S1','type':'space','length':true}]}" \
+	S1 length
+bad_case bad_dup "{$HEAD,$SRC,'path':[{'id':'M1','type':'mirror'},{'id':'M1','type':'mirror'}]}" \
+	M1 id
+bad_case bad_order "{$HEAD,$SRC,'path':[{'id':'BD','type':'dump'},{'id':'M2','type':'mirror'}]}" \
+	BD M2
+bad_case bad_json "{$HEAD,$SRC,'path':[" "JSON"
+bad_case bad_source "{$HEAD,'source':{'wavelength':'1064 nm','power':'5 mm','waist':'1 mm'},
+  'path':[]}" source power
+
+run missing trace "$T_DIR/no-such-bench.json"
+check "a missing file exits 2" status_is missing 2
+check "a missing file: nothing on stdout" out_empty missing
+check "a missing file is named on stderr" err_has missing "$T_DIR/no-such-bench.json"
+
+# --- usage errors: exit 2, the hint, nothing on stdout ---
+
+usage_case() {	# NAME ARGS...
+	_n=$1
+	shift
+	run "$_n" "$@"
+	check "$_n: exits 2" status_is "$_n" 2
+	check "$_n: says Try 'beamledger --help'" err_has "$_n" "Try 'beamledger --help'"
+	check "$_n: nothing on stdout" out_empty "$_n"
+}
+
+usage_case no_args
+usage_case unknown_opt --bogus
+usage_case unknown_cmd frobnicate
+usage_case trace_no_bench trace
+usage_case trace_unknown_opt trace --bogus --demo
+usage_case bad_format trace --demo --format xml
+usage_case bad_color trace --demo --color=sometimes
+usage_case file_and_demo trace --demo "$T_DIR/clean.json"
+usage_case two_files trace "$T_DIR/clean.json" "$T_DIR/clean.json"
+usage_case demo_args demo extra
+
+# --- help and version ---
+
+run help --help
+check "--help exits 0" status_is help 0
+check "--help prints usage on stdout" out_has help "Usage: beamledger"
+check "--help names the trace command" out_has help "trace"
+check "--help writes nothing on stderr" err_empty help
+
+run version --version
+check "--version exits 0" status_is version 0
+check "--version's first line is 'beamledger 0.1.0'" \
+	[ "$(head -n 1 "$T_DIR/version.out")" = "beamledger 0.1.0" ]
+check "--version writes nothing on stderr" err_empty version
+
+run trace_help trace --help
+check "trace --help exits 0" status_is trace_help 0
+check "trace --help prints on stdout" out_has trace_help "trace"
+
+# --- demo, read back through standard input ---
+
+run demo_file demo
+check "demo exits 0" status_is demo_file 0
+check "demo prints a bench file" out_has demo_file '"format": "beamledger-bench-1"'
+T_STDIN="$T_DIR/demo_file.out"
+run from_stdin trace --format json -
+T_STDIN=
+check "trace - reads the demo from stdin (exit 1: over)" status_is from_stdin 1
+check "trace - gives the same JSON as trace --demo" cmp -s "$T_DIR/from_stdin.out" "$T_DIR/json.out"
+cp "$T_DIR/demo_file.out" "$T_DIR/demo.json"
+run from_file trace --format=json "$T_DIR/demo.json"
+check "the demo written to a file traces the same" cmp -s "$T_DIR/from_file.out" "$T_DIR/json.out"
+# The usage line (trace FILE | --demo [--format ...], main.c and
+# beamledger(1)) puts the options after the bench: they must work there too.
+T_STDIN="$T_DIR/demo_file.out"
+run opt_after trace - --format json
+T_STDIN=
+check "trace - --format json (options after the bench, as in the usage line)" \
+	status_is opt_after 1
+check "trace - --format json gives the same JSON" cmp -s "$T_DIR/opt_after.out" "$T_DIR/json.out"
+run opt_after_file trace "$T_DIR/clean.json" --format csv
+check "trace FILE --format csv exits 0" status_is opt_after_file 0
+check "trace FILE --format csv prints CSV" out_has opt_after_file "id,type,branch"
+T_STDIN="$T_DIR/bad_range.json"
+run bad_stdin trace -
+T_STDIN=
+check "bad input on stdin exits 2" status_is bad_stdin 2
+check "bad input on stdin names <stdin>" err_has bad_stdin "<stdin>"
+
+# --- colour: NO_COLOR and --color=never: none; --color=always: some ---
+
+run c_always trace --demo --color=always
+check "--color=always colours the table" has_escape "$T_DIR/c_always.out"
+check "--color=always keeps the status words" out_has c_always "OVER"
+run c_never trace --demo --color=never
+check "--color=never: no escape bytes" no_escape "$T_DIR/c_never.out"
+NO_COLOR=1
+export NO_COLOR
+run c_nocolor trace --demo
+check "NO_COLOR: no escape bytes" no_escape "$T_DIR/c_nocolor.out"
+run c_nocolor_always trace --demo --color=always
+unset NO_COLOR
+check "--color=always wins over NO_COLOR" has_escape "$T_DIR/c_nocolor_always.out"
+run c_json trace --demo --format json --color=always
+check "JSON never carries colour" no_escape "$T_DIR/c_json.out"
+
+# On a terminal (script(1) gives one), auto colours unless NO_COLOR is set.
+if have script && script -qec true /dev/null >/dev/null 2>&1; then
+	TERM=xterm script -qec "'$BEAMLEDGER' trace --demo" /dev/null \
+		</dev/null >"$T_DIR/tty.out" 2>&1
+	check "on a terminal, auto colours" has_escape "$T_DIR/tty.out"
+	NO_COLOR=1 TERM=xterm script -qec "'$BEAMLEDGER' trace --demo" /dev/null \
+		</dev/null >"$T_DIR/tty_nc.out" 2>&1
+	check "on a terminal, NO_COLOR turns colour off" no_escape "$T_DIR/tty_nc.out"
+	TERM=xterm script -qec "'$BEAMLEDGER' trace --demo --color=never" /dev/null \
+		</dev/null >"$T_DIR/tty_never.out" 2>&1
+	check "on a terminal, --color=never turns colour off" no_escape "$T_DIR/tty_never.out"
+else
+	skip "no script(1): terminal colour"
+	skip "no script(1): NO_COLOR on a terminal"
+	skip "no script(1): --color=never on a terminal"
+fi
+
+done_testing

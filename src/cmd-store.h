@@ -1,0 +1,33 @@
+/* cmd-store.h - what the database commands (cmd-store*.c) share: opening
+ * the database the way every command does, reading BENCH[@REV], and
+ * writing a file atomically.  Private to those files. */
+#ifndef CMD_STORE_H
+#define CMD_STORE_H
+
+#include "cmd.h"
+#include "store.h"
+
+/* Opens ctx->db_path (or the default); says so on stderr when the file is
+ * read-only.  NULL after printing the error. */
+struct store *cmd_store_open(const struct cmd_ctx *);
+/* Prints cause, closes the store; returns 2. */
+int           cmd_store_fail(struct store *, char *cause);
+
+/* A bench reference "BENCH", "BENCH@REV": the whole text when it names a
+ * bench, else split at the last '@'.  *rev is NULL for the draft. */
+void          cmd_bench_ref(struct store *, const char *arg, char **name, char **rev);
+/* Loads a reference; *shown gets "r3", "aligned (r3)" or "draft". */
+struct bench *cmd_bench_load(struct store *, const char *arg, char **name, char **shown,
+                  char **cause);
+/* "r3", "aligned (r3)", "draft" for a REV text and its number. */
+char         *cmd_rev_shown(const char *rev, int no);
+
+/* Writes text to path through a temporary file and rename(2), so that a
+ * reader never sees half a file. */
+int           cmd_write_atomic(const char *path, const char *text, char **cause);
+
+/* getopt_long over argv from index 1, permuting so options may follow the
+ * operands; resets getopt's state first. */
+void          cmd_getopt_reset(void);
+
+#endif

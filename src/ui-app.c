@@ -1,0 +1,545 @@
+/* ui-app.c - the workbench's main loop and its state: the pane stack, the
+ * one place that paints, key dispatch through the panes' tables, and the
+ * open bench with its trace, undo and redo, saved to the draft after every
+ * change so that quitting is always safe.  Owned by the workbench. */
+#include <config.h>
+
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "ui-app.h"
+#include "util-err.h"
+
+#define UNDO_MAX 500
+
+/* ---- messages ---- */
+
+void
+app_msg(struct app *a, int error, const char *fmt, ...)
+{
+	va_list ap;
+
+	free(a->msg);
+	va_start(ap, fmt);
+	a->msg = xvasprintf(fmt, ap);
+	va_end(ap);
+	a->msg_error = error;
+}
+
+void
+app_msg_take(struct app *a, int error, char *cause)
+{
+	free(a->msg);
+	a->msg = cause != NULL ? cause : xstrdup(error ? "failed" : "");
+	a->msg_error = error;
+}
+
+int
+app_refuse_readonly(struct app *a)
+{
+	if (!a->readonly)
+		return 0;
+	app_msg(a, 1, "view only: the database is read-only, nothing can be changed");
+	return 1;
+}
+
+/* ---- panes ---- */
+
+void
+app_push(struct app *a, const struct ui_pane_ops *ops, void *data)
+{
+	struct ui_pane *p = xcalloc(1, sizeof *p);
+
+	p->ops = ops;
+	p->data = data;
+	p->below = a->top;
+	a->top = p;
+}
+
+void
+app_pop(struct app *a)
+{
+	struct ui_pane *p = a->top;
+
+	if (p == NULL)
+		return;
+	a->top = p->below;
+	if (p->ops->release != NULL)
+		p->ops->release(p);
+	free(p);
+	if (a->top != NULL && a->top->ops->enter != NULL)
+		a->top->ops->enter(a, a->top);
+}
+
+/* ---- the open bench ---- */
+
+static void
+free_stack(struct bench **s, size_t *n)
+{
+	for (size_t i = 0; i < *n; i++)
+		model_bench_free(s[i]);
+	*n = 0;
+}
+
+const struct layout_row *
+app_sel_row(const struct app *a)
+{
+	if (a->bench == NULL || a->nrows == 0 || a->sel < 0 || (size_t)a->sel >= a->nrows)
+		return NULL;
+	return &a->rows[a->sel];
+}
+
+const struct trace_row *
+app_sel_trace(const struct app *a)
+{
+	const struct layout_row *r = app_sel_row(a);
+
+	if (r == NULL || r->trace_row < 0 || a->trace == NULL)
+		return NULL;
+	return &a->trace->rows[r->trace_row];
+}
+
+void
+app_select_id(struct app *a, const char *id, int port)
+{
+	long i = layout_chain_find(a->rows, a->nrows, id, port);
+
+	if (i >= 0)
+		a->sel = (int)i;
+}
+
+void
+app_retrace(struct app *a)
+{
+	char *id = NULL;
+	int port = 0, old = a->sel;
+	const struct layout_row *r = app_sel_row(a);
+
+	if (r != NULL) {
+		id = xstrdup(r->el->id);
+		port = r->kind == LROW_PORT;
+	}
+	trace_free(a->trace);
+	free(a->rows);
+	a->trace = trace_run(a->bench);
+	a->nrows = layout_chain(a->bench, a->trace, &a->rows);
+	a->sel = old;
+	if (id != NULL) {
+		long i = layout_chain_find(a->rows, a->nrows, id, port);
+
+		if (i >= 0)
+			a->sel = (int)i;
+	}
+	if (a->sel >= (int)a->nrows)
+		a->sel = (int)a->nrows - 1;
+	if (a->sel < 0)
+		a->sel = 0;
+	free(id);
+}
+
+void
+app_refresh_rev(struct app *a)
+{
+	struct store_rev *revs = NULL;
+	size_t n = 0;
+	char *cause = NULL;
+
+	if (store_log(a->store, a->name, &revs, &n, &cause) == 0) {
+		a->latest_rev = n > 0 ? revs[0].no : 0;
+		store_revs_free(revs, n);
+	}
+	free(cause);
+	cause = NULL;
+	if (store_draft_changed(a->store, a->name, &a->draft_changed, &cause) != 0)
+		a->draft_changed = 1;
+	free(cause);
+}
+
+int
+app_save(struct app *a)
+{
+	char *cause = NULL;
+
+	if (a->bench == NULL || a->readonly)
+		return 0;
+	if (store_draft_save(a->store, a->name, a->bench, &cause) != 0) {
+		free(a->unsaved);
+		a->unsaved = cause != NULL ? cause : xstrdup("the draft could not be saved");
+		app_msg(a, 1, "draft NOT saved: %s (kept in memory; saved again on the next change)",
+		    a->unsaved);
+		return -1;
+	}
+	free(a->unsaved);
+	a->unsaved = NULL;
+	{
+		int ch = 1;
+
+		if (store_draft_changed(a->store, a->name, &ch, &cause) == 0)
+			a->draft_changed = ch;
+		free(cause);
+	}
+	return 0;
+}
+
+int
+app_open_bench(struct app *a, const char *name, char **cause)
+{
+	struct bench *b = store_bench_load(a->store, name, "draft", NULL, cause);
+
+	if (b == NULL)
+		return -1;
+	app_close_bench(a);
+	a->name = xstrdup(name);
+	a->bench = b;
+	a->sel = 0;
+	a->scroll = 0;
+	app_retrace(a);
+	app_refresh_rev(a);
+	return 0;
+}
+
+void
+app_close_bench(struct app *a)
+{
+	if (a->bench != NULL && a->unsaved != NULL)
+		app_save(a);
+	free(a->name);
+	model_bench_free(a->bench);
+	trace_free(a->trace);
+	free(a->rows);
+	free_stack(a->undo, &a->nundo);
+	free_stack(a->redo, &a->nredo);
+	free(a->unsaved);
+	a->name = NULL;
+	a->bench = NULL;
+	a->trace = NULL;
+	a->rows = NULL;
+	a->unsaved = NULL;
+	a->nrows = 0;
+}
+
+static void
+push_snapshot(struct bench ***s, size_t *n, struct bench *b)
+{
+	if (*n == UNDO_MAX) {
+		model_bench_free((*s)[0]);
+		memmove(*s, *s + 1, (*n - 1) * sizeof **s);
+		(*n)--;
+	}
+	*s = xreallocarray(*s, *n + 1, sizeof **s);
+	(*s)[(*n)++] = b;
+}
+
+int
+app_edit(struct app *a, app_edit_fn fn, void *arg, char **cause)
+{
+	struct bench *snap;
+
+	if (a->bench == NULL)
+		return fail_with(cause, "no bench is open");
+	if (a->readonly)
+		return fail_with(cause, "view only: the database is read-only, nothing can be changed");
+	snap = model_bench_dup(a->bench);
+	if (fn(a->bench, arg, cause) != 0) {
+		model_bench_free(snap);
+		return -1;
+	}
+	push_snapshot(&a->undo, &a->nundo, snap);
+	free_stack(a->redo, &a->nredo);
+	app_retrace(a);
+	app_save(a);
+	return 0;
+}
+
+static int
+swap_from(struct app *a, struct bench ***from, size_t *nfrom, struct bench ***to,
+    size_t *nto)
+{
+	if (*nfrom == 0)
+		return -1;
+	push_snapshot(to, nto, a->bench);
+	a->bench = (*from)[--*nfrom];
+	app_retrace(a);
+	app_save(a);
+	return 0;
+}
+
+int
+app_undo(struct app *a)
+{
+	if (app_refuse_readonly(a))
+		return -1;
+	return swap_from(a, &a->undo, &a->nundo, &a->redo, &a->nredo);
+}
+
+int
+app_redo(struct app *a)
+{
+	if (app_refuse_readonly(a))
+		return -1;
+	return swap_from(a, &a->redo, &a->nredo, &a->undo, &a->nundo);
+}
+
+void
+app_replace_bench(struct app *a, struct bench *b)
+{
+	push_snapshot(&a->undo, &a->nundo, a->bench);
+	free_stack(a->redo, &a->nredo);
+	a->bench = b;
+	app_retrace(a);
+	app_refresh_rev(a);
+}
+
+/* ---- painting: the only place ---- */
+
+static void
+draw_too_small(struct app *a, int h, int w)
+{
+	char *t = xasprintf("terminal too small: %d%s%d", w, ui_glyph(a, GL_TIMES), h);
+	char *u = xasprintf("the workbench needs at least %d%s%d", UI_MIN_W,
+	    ui_glyph(a, GL_TIMES), UI_MIN_H);
+	int y = h / 2 - 1;
+
+	if (y < 0)
+		y = 0;
+	ui_put(a, y, 0, w, t, UC_OVER);
+	if (y + 1 < h)
+		ui_put(a, y + 1, 0, w, u, UC_NORMAL);
+	if (y + 2 < h)
+		ui_put(a, y + 2, 0, w, "enlarge the window, or q to quit", UC_DIM);
+	free(t);
+	free(u);
+}
+
+/* Paints from the topmost full-screen pane up through the modal ones. */
+void
+ui_app_frame(struct app *a)
+{
+	struct ui_pane *stack[32], *p;
+	size_t n = 0;
+	int h = LINES, w = COLS;
+
+	a->cursor_y = a->cursor_x = -1;
+	erase();
+	a->too_small = h < UI_MIN_H || w < UI_MIN_W;
+	if (a->too_small) {
+		draw_too_small(a, h, w);
+	} else {
+		for (p = a->top; p != NULL && n < 32; p = p->below) {
+			stack[n++] = p;
+			if (!p->ops->modal)
+				break;
+		}
+		while (n > 0) {
+			p = stack[--n];
+			p->ops->draw(a, p, h, w);
+		}
+	}
+	if (a->cursor_y >= 0) {
+		curs_set(1);
+		move(a->cursor_y, a->cursor_x);
+	} else {
+		curs_set(0);
+	}
+	refresh();
+}
+
+/* ---- keys ---- */
+
+static enum ui_reaction
+global_help(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_help_push(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+global_redraw(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	(void)p;
+	clearok(curscr, TRUE);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+global_quit(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	(void)p;
+	return UI_QUIT;
+}
+
+const struct ui_key ui_global_keys[] = {
+	{ { '?', UI_FKEY(KEY_F(1)) }, "?", "help", 0, "this help: every key, and the laser-safety cautions (also F1)",
+	    global_help, 0 },
+	{ { 'Q' }, "Q", NULL, 0, "quit at once from any screen (the draft is always saved)",
+	    global_quit, 0 },
+	{ { UI_CTRL('l') }, "^L", NULL, 0, "repaint the screen", global_redraw, 0 },
+	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+};
+
+static enum ui_reaction
+run_key(struct app *a, struct ui_pane *p, const struct ui_key *k)
+{
+	if ((k->flags & UI_K_EDITS) && app_refuse_readonly(a))
+		return UI_REDRAW;
+	return k->fn(a, p);
+}
+
+static enum ui_reaction
+dispatch(struct app *a, int key)
+{
+	struct ui_pane *p = a->top;
+	enum ui_reaction r;
+
+	if (p == NULL)
+		return UI_QUIT;
+	if (key == UI_FKEY(KEY_MOUSE)) {
+		MEVENT ev;
+
+		if (getmouse(&ev) != OK || p->ops->click == NULL || a->too_small)
+			return UI_NONE;
+		if (ev.bstate & BUTTON4_PRESSED)
+			key = UI_FKEY(KEY_UP);
+		else if (ev.bstate & BUTTON5_PRESSED)
+			key = UI_FKEY(KEY_DOWN);
+		else
+			return p->ops->click(a, p, ev.y, ev.x,
+			    (ev.bstate & BUTTON1_DOUBLE_CLICKED) != 0);
+	}
+	if (a->too_small)           /* nothing is drawn to act on */
+		return key == 'q' || key == 'Q' ? UI_QUIT : UI_NONE;
+	for (const struct ui_key *k = p->ops->keys; k != NULL && k->fn != NULL; k++)
+		if (ui_key_match(k, key))
+			return run_key(a, p, k);
+	if (p->ops->key != NULL) {
+		r = p->ops->key(a, p, key);
+		if (r != UI_NONE)
+			return r;
+		/* typing panes keep every printable key */
+		if (p->ops->modal)
+			return UI_NONE;
+	}
+	for (const struct ui_key *k = ui_global_keys; k->fn != NULL; k++)
+		if (ui_key_match(k, key))
+			return run_key(a, p, k);
+	return UI_NONE;
+}
+
+int
+ui_app_key(struct app *a, int key)
+{
+	enum ui_reaction r;
+
+	struct ui_pane *by = a->top;
+
+	if (key == UI_FKEY(KEY_RESIZE))
+		return 0;
+	r = dispatch(a, key);
+	/* close the pane that took the key, even if it opened another */
+	if (r & UI_POP) {
+		if (a->top == by) {
+			app_pop(a);
+		} else {
+			for (struct ui_pane *q = a->top; q != NULL; q = q->below)
+				if (q->below == by) {
+					q->below = by->below;
+					if (by->ops->release != NULL)
+						by->ops->release(by);
+					free(by);
+					break;
+				}
+		}
+	}
+	if (r & UI_QUIT)
+		a->quit = 1;
+	if (a->top == NULL)
+		a->quit = 1;
+	return a->quit;
+}
+
+/* ---- life cycle ---- */
+
+struct app *
+ui_app_new(const struct ui_opts *o, char **cause)
+{
+	struct app *a = xcalloc(1, sizeof *a);
+	char *path = o->db_path != NULL ? xstrdup(o->db_path) : store_default_path();
+
+	a->author = xstrdup(o->author != NULL && o->author[0] != '\0' ? o->author : "unknown");
+	a->store = store_open(path, cause);
+	free(path);
+	if (a->store == NULL) {
+		ui_app_free(a);
+		return NULL;
+	}
+	a->readonly = store_readonly(a->store);
+	if (o->bench != NULL && app_open_bench(a, o->bench, cause) != 0) {
+		ui_app_free(a);
+		return NULL;
+	}
+	if (ui_term_open(a, o, cause) != 0) {
+		ui_app_free(a);
+		return NULL;
+	}
+	ui_list_push(a);
+	if (a->bench != NULL)
+		ui_bench_push(a);
+	return a;
+}
+
+void
+ui_app_free(struct app *a)
+{
+	if (a == NULL)
+		return;
+	while (a->top != NULL) {
+		struct ui_pane *p = a->top;
+
+		a->top = p->below;
+		if (p->ops->release != NULL)
+			p->ops->release(p);
+		free(p);
+	}
+	ui_term_close();
+	if (a->screen != NULL)
+		delscreen(a->screen);
+	app_close_bench(a);
+	store_close(a->store);
+	free(a->author);
+	free(a->msg);
+	free(a);
+}
+
+int
+ui_run(const struct ui_opts *o)
+{
+	char *cause = NULL;
+	struct app *a = ui_app_new(o, &cause);
+	int dirty = 1;
+
+	if (a == NULL) {
+		fprintf(stderr, "beamledger: %s\n", cause != NULL ? cause : "cannot start");
+		free(cause);
+		return 2;
+	}
+	while (!a->quit) {
+		int key;
+
+		if (dirty)
+			ui_app_frame(a);
+		dirty = 0;
+		key = ui_read_key(a, 250);
+		if (ui_stop_requested())
+			break;
+		if (key < 0)
+			continue;
+		ui_app_key(a, key);
+		dirty = 1;
+	}
+	ui_app_free(a);
+	return 0;
+}

@@ -1,0 +1,371 @@
+/* ui-draw.c - the terminal under the workbench: opening and restoring it
+ * (on every exit path, signals and out-of-memory included), the colour and
+ * glyph tables, and small drawing helpers that put already-formatted text
+ * on the screen.  Owned by the workbench. */
+#include <config.h>
+
+#include <langinfo.h>
+#include <locale.h>
+#include <signal.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+#include <wchar.h>
+
+#include "ui-app.h"
+#include "util-err.h"
+
+/* The one piece of process state: whether curses owns the terminal, so
+ * that a fatal signal or the out-of-memory hook knows to give it back. */
+static volatile sig_atomic_t term_active;
+/* A polite request to stop (SIGINT, SIGTERM, SIGHUP): the main loop
+ * notices it and leaves the normal way.  The draft is already saved. */
+static volatile sig_atomic_t stop_requested;
+
+int
+ui_stop_requested(void)
+{
+	return stop_requested != 0;
+}
+
+static void
+stop_signal(int sig)
+{
+	(void)sig;
+	stop_requested = 1;
+}
+
+/* ---- colours: one table, with what a monochrome terminal gets instead ---- */
+
+static const struct {
+	short  fg, bg;
+	attr_t with_color;          /* added to the pair */
+	attr_t mono;                /* without colour */
+} color_table[UC_COUNT] = {
+	[UC_NORMAL]  = { -1, -1, 0, 0 },
+	[UC_TITLE]   = { COLOR_BLACK, COLOR_CYAN, A_BOLD, A_REVERSE | A_BOLD },
+	[UC_HEADER]  = { COLOR_CYAN, -1, A_BOLD, A_UNDERLINE },
+	[UC_SELECT]  = { COLOR_BLACK, COLOR_WHITE, 0, A_REVERSE },
+	[UC_OK]      = { COLOR_GREEN, -1, 0, 0 },
+	[UC_CAUTION] = { COLOR_YELLOW, -1, A_BOLD, A_BOLD },
+	[UC_OVER]    = { COLOR_RED, -1, A_BOLD, A_BOLD | A_UNDERLINE },
+	[UC_UNRATED] = { -1, -1, A_DIM, A_DIM },
+	[UC_DIM]     = { -1, -1, A_DIM, A_DIM },
+	[UC_KEY]     = { COLOR_CYAN, -1, A_BOLD, A_BOLD },
+	[UC_ERROR]   = { COLOR_WHITE, COLOR_RED, A_BOLD, A_BOLD | A_REVERSE },
+	[UC_INFO]    = { COLOR_GREEN, -1, 0, 0 },
+	[UC_STATUS]  = { COLOR_WHITE, COLOR_BLUE, 0, A_REVERSE },
+	[UC_WX]      = { COLOR_CYAN, -1, A_BOLD, 0 },
+	[UC_WY]      = { COLOR_MAGENTA, -1, A_BOLD, 0 },
+	[UC_POWER]   = { COLOR_YELLOW, -1, 0, 0 },
+	[UC_FOCUS]   = { COLOR_RED, -1, A_BOLD, A_BOLD },
+	[UC_FRAME]   = { COLOR_CYAN, -1, 0, 0 },
+	[UC_INPUT]   = { COLOR_BLACK, COLOR_YELLOW, 0, A_UNDERLINE | A_BOLD },
+};
+
+void
+ui_colors_init(struct app *a)
+{
+	const char *nc = getenv("NO_COLOR");
+
+	if (a->color < 0)
+		a->color = !(nc != NULL && nc[0] != '\0') && has_colors();
+	if (a->color && !has_colors())
+		a->color = 0;
+	if (!a->color)
+		return;
+	start_color();
+	use_default_colors();
+	for (int i = 1; i < UC_COUNT; i++)
+		init_pair((short)i, color_table[i].fg, color_table[i].bg);
+}
+
+attr_t
+ui_attr(const struct app *a, enum ui_color c)
+{
+	if ((unsigned)c >= UC_COUNT)
+		return 0;
+	if (!a->color)
+		return color_table[c].mono;
+	return (c == UC_NORMAL ? 0 : COLOR_PAIR(c)) | color_table[c].with_color;
+}
+
+attr_t
+ui_status_attr(const struct app *a, enum damage_status s)
+{
+	static const enum ui_color by_status[] = { UC_UNRATED, UC_OK, UC_CAUTION, UC_OVER };
+
+	return ui_attr(a, by_status[(unsigned)s < 4 ? s : 0]);
+}
+
+/* ---- glyphs ---- */
+
+static const char *const glyphs[GL_COUNT][2] = {
+	[GL_BRANCH]    = { "\u2514 ", "`-" },
+	[GL_VBAR]      = { "\u2502", "|" },
+	[GL_HBAR]      = { "\u2500", "-" },
+	[GL_UPDOWN]    = { "\u2191\u2193", "Up/Dn" },
+	[GL_LEFTRIGHT] = { "\u2190\u2192", "Lt/Rt" },
+	[GL_ARROW]     = { "\u2192", "->" },
+	[GL_DOT]       = { "\u00b7", "." },
+	[GL_WX]        = { "x", "x" },
+	[GL_WY]        = { "y", "y" },
+	[GL_WXY]       = { "\u25cf", "*" },
+	[GL_POWER]     = { "\u2580", "=" },
+	[GL_FOCUS]     = { "\u25c6", "F" },
+	[GL_MARK]      = { "\u2502", "|" },
+	[GL_ELLIPSIS]  = { "\u2026", "~" },
+	[GL_TIMES]     = { "\u00d7", "x" },
+};
+
+const char *
+ui_glyph(const struct app *a, enum ui_glyph g)
+{
+	return (unsigned)g < GL_COUNT ? glyphs[g][a->ascii ? 1 : 0] : "?";
+}
+
+/* ---- drawing helpers ---- */
+
+void
+ui_put_attr(struct app *a, int y, int x, int w, const char *s, attr_t at)
+{
+	char buf[1024];
+
+	if (w <= 0)
+		return;
+	if (w > 250)
+		w = 250;
+	layout_fit_text(buf, sizeof buf, s != NULL ? s : "", w, LAYOUT_LEFT, a->ascii);
+	attrset(at);
+	mvaddstr(y, x, buf);
+	attrset(A_NORMAL);
+}
+
+void
+ui_put(struct app *a, int y, int x, int w, const char *s, enum ui_color c)
+{
+	ui_put_attr(a, y, x, w, s, ui_attr(a, c));
+}
+
+void
+ui_put_right(struct app *a, int y, int x, int w, const char *s, attr_t at)
+{
+	char buf[1024];
+
+	if (w <= 0)
+		return;
+	if (w > 250)
+		w = 250;
+	layout_fit_text(buf, sizeof buf, s != NULL ? s : "", w, LAYOUT_RIGHT, a->ascii);
+	attrset(at);
+	mvaddstr(y, x, buf);
+	attrset(A_NORMAL);
+}
+
+void
+ui_fill(struct app *a, int y, int x, int w, attr_t at)
+{
+	(void)a;
+	attrset(at);
+	for (int i = 0; i < w; i++)
+		mvaddch(y, x + i, ' ');
+	attrset(A_NORMAL);
+}
+
+size_t
+ui_table_hints(const struct ui_key *k, struct layout_hint *h, size_t max)
+{
+	size_t n = 0;
+
+	for (; k->fn != NULL; k++)
+		if (k->hint != NULL && n < max)
+			h[n++] = (struct layout_hint){ k->label, k->hint, k->prio };
+	return n;
+}
+
+void
+ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
+{
+	unsigned char shown[64];
+	int x = 0;
+
+	if (n > sizeof shown)
+		n = sizeof shown;
+	layout_hints_pick(h, n, w - 1, shown);
+	move(y, 0);
+	clrtoeol();
+	for (size_t i = 0; i < n; i++) {
+		int kl, wl;
+
+		if (!shown[i])
+			continue;
+		if (x > 0)
+			x += 2;
+		kl = (int)utf8_cols(h[i].key);
+		wl = (int)utf8_cols(h[i].word);
+		ui_put(a, y, x, kl, h[i].key, UC_KEY);
+		ui_put(a, y, x + kl + 1, wl, h[i].word, UC_NORMAL);
+		x += kl + 1 + wl;
+	}
+}
+
+void
+ui_box(struct app *a, int y, int x, int h, int w, const char *title)
+{
+	attr_t at = ui_attr(a, UC_FRAME);
+
+	for (int r = y; r < y + h; r++)
+		ui_fill(a, r, x, w, A_NORMAL);
+	attrset(at);
+	if (a->ascii) {
+		mvaddch(y, x, '+');
+		mvaddch(y, x + w - 1, '+');
+		mvaddch(y + h - 1, x, '+');
+		mvaddch(y + h - 1, x + w - 1, '+');
+		mvhline(y, x + 1, '-', w - 2);
+		mvhline(y + h - 1, x + 1, '-', w - 2);
+		mvvline(y + 1, x, '|', h - 2);
+		mvvline(y + 1, x + w - 1, '|', h - 2);
+	} else {
+		mvaddstr(y, x, "\u250c");
+		mvaddstr(y, x + w - 1, "\u2510");
+		mvaddstr(y + h - 1, x, "\u2514");
+		mvaddstr(y + h - 1, x + w - 1, "\u2518");
+		for (int i = 1; i < w - 1; i++) {
+			mvaddstr(y, x + i, "\u2500");
+			mvaddstr(y + h - 1, x + i, "\u2500");
+		}
+		for (int r = 1; r < h - 1; r++) {
+			mvaddstr(y + r, x, "\u2502");
+			mvaddstr(y + r, x + w - 1, "\u2502");
+		}
+	}
+	attrset(A_NORMAL);
+	if (title != NULL) {
+		char *t = xasprintf(" %s ", title);
+
+		ui_put(a, y, x + 2, (int)utf8_cols(t) < w - 4 ? (int)utf8_cols(t) : w - 4, t,
+		    UC_HEADER);
+		free(t);
+	}
+}
+
+int
+ui_key_match(const struct ui_key *k, int key)
+{
+	for (int i = 0; i < 4 && k->codes[i] != 0; i++)
+		if (k->codes[i] == key)
+			return 1;
+	return 0;
+}
+
+int
+ui_read_key(struct app *a, int timeout_ms)
+{
+	wint_t wc;
+	int rc;
+
+	(void)a;
+	timeout(timeout_ms);
+	rc = get_wch(&wc);
+	if (rc == ERR)
+		return -1;
+	if (rc == KEY_CODE_YES)
+		return UI_FKEY((int)wc);
+	return (int)wc;
+}
+
+/* ---- the terminal ---- */
+
+void
+ui_term_restore(void)
+{
+	if (term_active) {
+		term_active = 0;
+		endwin();
+	}
+}
+
+static void
+fatal_signal(int sig)
+{
+	/* Give the terminal back, then die of the same signal. */
+	ui_term_restore();
+	signal(sig, SIG_DFL);
+	raise(sig);
+}
+
+static void
+install_fatal_handlers(void)
+{
+	static const int sigs[] = { SIGSEGV, SIGBUS, SIGFPE, SIGILL, SIGABRT };
+
+	for (size_t i = 0; i < sizeof sigs / sizeof *sigs; i++) {
+		struct sigaction sa;
+
+		memset(&sa, 0, sizeof sa);
+		sa.sa_handler = fatal_signal;
+		sigemptyset(&sa.sa_mask);
+		sa.sa_flags = SA_RESETHAND;
+		sigaction(sigs[i], &sa, NULL);
+	}
+	{
+		static const int stops[] = { SIGINT, SIGTERM, SIGHUP };
+
+		for (size_t i = 0; i < sizeof stops / sizeof *stops; i++) {
+			struct sigaction sa;
+
+			memset(&sa, 0, sizeof sa);
+			sa.sa_handler = stop_signal;
+			sigemptyset(&sa.sa_mask);
+			sigaction(stops[i], &sa, NULL);
+		}
+	}
+}
+
+int
+ui_term_open(struct app *a, const struct ui_opts *o, char **cause)
+{
+	const char *cs;
+
+	setlocale(LC_ALL, "");
+	cs = nl_langinfo(CODESET);
+	a->ascii = o->ascii >= 0 ? o->ascii : !(cs != NULL && strcmp(cs, "UTF-8") == 0);
+	a->color = o->color;
+	install_fatal_handlers();   /* before curses, so it keeps ours */
+	if (o->out != NULL) {
+		a->screen = newterm(o->term, o->out, o->in != NULL ? o->in : stdin);
+		if (a->screen == NULL)
+			return fail_with(cause, "cannot open terminal type '%s'",
+			    o->term != NULL ? o->term : "?");
+		set_term(a->screen);
+	} else {
+		if (!isatty(STDIN_FILENO) || !isatty(STDOUT_FILENO))
+			return fail_with(cause, "the workbench needs a terminal; "
+			    "for scripts use the commands (see --help)");
+		a->screen = newterm(NULL, stdout, stdin);
+		if (a->screen == NULL)
+			return fail_with(cause, "cannot use terminal type '%s' (is TERM right?)",
+			    getenv("TERM") != NULL ? getenv("TERM") : "");
+		set_term(a->screen);
+	}
+	term_active = 1;
+	util_set_oom_hook(ui_term_restore);
+	cbreak();
+	noecho();
+	nonl();
+	keypad(stdscr, TRUE);
+	set_escdelay(25);
+	curs_set(0);
+	ui_colors_init(a);
+	a->mouse = mousemask(BUTTON1_CLICKED | BUTTON1_DOUBLE_CLICKED | BUTTON1_PRESSED |
+	    BUTTON4_PRESSED | BUTTON5_PRESSED, NULL) != 0;
+	mouseinterval(200);
+	return 0;
+}
+
+void
+ui_term_close(void)
+{
+	ui_term_restore();
+}
