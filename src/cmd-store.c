@@ -397,6 +397,8 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	struct bench *b;
 	struct buf out;
 	struct show_ctx c;
+	struct store_part_ref *refs = NULL;
+	size_t nrefs = 0;
 	char *cause = NULL, *name = NULL, *shown = NULL, *src;
 	int changed = 0, rc;
 
@@ -415,6 +417,21 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (strcmp(shown, "draft") == 0)
 		store_draft_changed(s, name, &changed, NULL);
+	{
+		char *rev = NULL, *nm = NULL;
+
+		cmd_bench_ref(s, argv[1], &nm, &rev);
+		if (store_bench_parts(s, nm, rev, &refs, &nrefs, &cause) != 0) {
+			free(nm);
+			free(rev);
+			free(name);
+			free(shown);
+			model_bench_free(b);
+			return cmd_store_fail(s, cause);
+		}
+		free(nm);
+		free(rev);
+	}
 	store_close(s);
 	buf_init(&out);
 	buf_printf(&out, "Bench %s @ %s%s\n", b->name, shown,
@@ -454,6 +471,18 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 		buf_add(&out, "values\n");
 	}
 	show_rows(&c, &b->path, 0);
+	if (nrefs > 0)
+		buf_add(&out, "\nPlaced from the parts shelf:\n");
+	for (size_t i = 0; i < nrefs; i++) {
+		buf_printf(&out, "  %s: version %d", refs[i].name, refs[i].placed);
+		if (refs[i].current == 0)
+			buf_add(&out, " (no longer on the shelf)\n");
+		else if (refs[i].current != refs[i].placed)
+			buf_printf(&out, " (the shelf now has version %d)\n", refs[i].current);
+		else
+			buf_add(&out, " (as on the shelf now)\n");
+	}
+	store_part_refs_free(refs, nrefs);
 	rc = cmd_print(out.s);
 	buf_release(&out);
 	model_bench_free(b);

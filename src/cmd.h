@@ -51,4 +51,8 @@ int  cmd_delete(struct cmd_ctx *, int, char **);
 int  cmd_parts(struct cmd_ctx *, int, char **);
 int  cmd_check(struct cmd_ctx *, int, char **);
 
+/* The terminal workbench (cmd-ui.c): `open [BENCH]`, and no command at all. */
+int  cmd_open(struct cmd_ctx *, int, char **);
+int  cmd_workbench(struct cmd_ctx *);
+
 #endif

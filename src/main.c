@@ -16,6 +16,8 @@ const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
 	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
+	{ "open", cmd_open, "[BENCH] [--ascii]",
+	    "the terminal workbench (also with no command); BENCH opens that bench" },
 	/* The bench database: benches, drafts, revisions, the parts shelf. */
 	{ "import", cmd_import, "FILE [--name NAME]", "a new bench from a bench file" },
 	{ "list", cmd_list, "[--format table|json]",
@@ -150,7 +152,7 @@ main(int argc, char **argv)
 		}
 	}
 	if (i >= argc)
-		return cmd_usage("no command given (the workbench is not built yet)");
+		return cmd_workbench(&ctx);
 	for (const struct cmd *c = cmd_table; c->name != NULL; c++)
 		if (strcmp(argv[i], c->name) == 0)
 			return c->fn(&ctx, argc - i, argv + i);

@@ -995,3 +995,76 @@ store_draft_edit(struct store *s, const char *name, store_edit_fn fn, void *arg,
 	model_bench_free(b);
 	return store_tx_end(s, rc, cause);
 }
+
+static int
+ref_cmp(const void *a, const void *b)
+{
+	return strcmp(((const struct store_part_ref *)a)->name,
+	    ((const struct store_part_ref *)b)->name);
+}
+
+int
+store_bench_parts(struct store *s, const char *name, const char *rev,
+    struct store_part_ref **refs, size_t *n, char **cause)
+{
+	struct state st = { 0, NULL, NULL };
+	sqlite3_stmt *q = NULL;
+	json_t *map = NULL, *v;
+	const char *pname;
+	int rc = -1;
+
+	*refs = NULL;
+	*n = 0;
+	if (state_at(s, name, rev, NULL, &st, NULL, cause) == 0)
+		goto done;
+	map = json_loads(st.parts, 0, NULL);
+	if (!json_is_object(map)) {
+		fail_with(cause, "bench '%s': its part snapshot is not a JSON object", name);
+		goto done;
+	}
+	rc = sqlite3_prepare_v2(s->db, "SELECT (SELECT count(*) FROM part_version "
+	    "WHERE name = ?1 AND id <= ?2), (SELECT count(*) FROM part_version "
+	    "WHERE name = ?1 AND id <= (SELECT version FROM part WHERE name = ?1))",
+	    -1, &q, NULL);
+	if (rc != SQLITE_OK) {
+		rc = store_fail(s, rc, cause, "reading part versions");
+		goto done;
+	}
+	*refs = xcalloc(json_object_size(map) + 1, sizeof **refs);
+	json_object_foreach(map, pname, v) {
+		struct store_part_ref *r = &(*refs)[*n];
+
+		sqlite3_reset(q);
+		store_bind_text(q, 1, pname);
+		sqlite3_bind_int64(q, 2, json_integer_value(v));
+		rc = sqlite3_step(q);
+		if (rc != SQLITE_ROW) {
+			rc = store_fail(s, rc, cause, "reading part versions");
+			goto done;
+		}
+		r->name = xstrdup(pname);
+		r->placed = sqlite3_column_int(q, 0);
+		r->current = sqlite3_column_int(q, 1);
+		(*n)++;
+	}
+	qsort(*refs, *n, sizeof **refs, ref_cmp);
+	rc = 0;
+done:
+	if (rc != 0) {
+		store_part_refs_free(*refs, *n);
+		*refs = NULL;
+		*n = 0;
+	}
+	sqlite3_finalize(q);
+	json_decref(map);
+	state_release(&st);
+	return rc;
+}
+
+void
+store_part_refs_free(struct store_part_ref *refs, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		free(refs[i].name);
+	free(refs);
+}

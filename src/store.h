@@ -105,6 +105,16 @@ int   store_parts_put(struct store *, char *const *names, const struct element *
 /* A parts file (format "beamledger-parts-1", see beamledger(1)) onto the
  * shelf, all or nothing; *n gets the number of parts. */
 int   store_parts_import(struct store *, const char *path, size_t *n, char **cause);
+/* The shelf parts a revision's (or the draft's) elements were placed from:
+ * the version each had then and the shelf's version now (1, 2, ... per
+ * name; current 0: no longer on the shelf).  Sorted by name. */
+struct store_part_ref {
+	char *name;                 /* owned */
+	int   placed, current;
+};
+int   store_bench_parts(struct store *, const char *name, const char *rev,
+          struct store_part_ref **refs, size_t *n, char **cause);
+void  store_part_refs_free(struct store_part_ref *, size_t n);
 /* PRAGMA integrity_check and foreign_key_check, then the store's own rules:
  * every layout names existing element records, revisions are numbered
  * 1..N, no record is left unused, every revision and draft loads and

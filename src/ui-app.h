@@ -157,6 +157,8 @@ void        ui_colors_init(struct app *);
 attr_t      ui_attr(const struct app *, enum ui_color);
 attr_t      ui_status_attr(const struct app *, enum damage_status);
 const char *ui_glyph(const struct app *, enum ui_glyph);
+/* A key label as this terminal can show it ("Up/Dn" for the arrows in ASCII). */
+const char *ui_key_label(const struct app *, const char *label);
 /* Text at (y, x) fitted to exactly w columns. */
 void        ui_put(struct app *, int y, int x, int w, const char *s, enum ui_color);
 void        ui_put_attr(struct app *, int y, int x, int w, const char *s, attr_t);

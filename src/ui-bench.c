@@ -461,7 +461,7 @@ static void prompt_add(struct app *, const char *, const char *, struct add_arg 
 static void
 type_chosen(struct app *a, void *arg, int choice)
 {
-	struct add_state *st = arg;
+	const int *before = arg;
 	struct add_arg *x = xcalloc(1, sizeof *x);
 	enum elem_type t = (enum elem_type)choice;
 	char *id = layout_new_id(a->bench, t), *cause = NULL;
@@ -474,7 +474,7 @@ type_chosen(struct app *a, void *arg, int choice)
 		return;
 	}
 	free(id);
-	place_for(a, st->before, x);
+	place_for(a, *before, x);
 	if (k < 0) {
 		if (wb_add_element(a, x, &cause) != 0)
 			app_msg_take(a, 1, cause);
@@ -531,7 +531,7 @@ open_type_menu(struct app *a, struct wb *d, int before)
 		snprintf(title, sizeof title, "add into %s.%s", r->el->id, model_port_name(r->port));
 	else
 		snprintf(title, sizeof title, "add %s %s", before ? "before" : "after", r->el->id);
-	ui_menu(a, title, (const char *const *)items, EL_NTYPES, type_chosen, &d->add);
+	ui_menu(a, title, (const char *const *)items, EL_NTYPES, type_chosen, &d->add.before);
 	for (int t = 0; t < EL_NTYPES; t++)
 		free(items[t]);
 	return UI_REDRAW;

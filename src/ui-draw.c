@@ -172,6 +172,22 @@ ui_fill(struct app *a, int y, int x, int w, attr_t at)
 	attrset(A_NORMAL);
 }
 
+const char *
+ui_key_label(const struct app *a, const char *l)
+{
+	static const struct { const char *u, *asc; } map[] = {
+		{ "\u2191\u2193", "Up/Dn" }, { "\u2190\u2192", "Lt/Rt" },
+		{ "\u2191", "Up" }, { "\u2193", "Dn" }, { "\u2192", "Rt" },
+	};
+
+	if (!a->ascii)
+		return l;
+	for (size_t i = 0; i < sizeof map / sizeof *map; i++)
+		if (strcmp(l, map[i].u) == 0)
+			return map[i].asc;
+	return l;
+}
+
 size_t
 ui_table_hints(const struct ui_key *k, struct layout_hint *h, size_t max)
 {
@@ -187,10 +203,17 @@ void
 ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
 {
 	unsigned char shown[64];
+	struct layout_hint hh[64];
 	int x = 0;
 
 	if (n > sizeof shown)
 		n = sizeof shown;
+	memset(hh, 0, sizeof hh);
+	for (size_t i = 0; i < n; i++) {
+		hh[i] = h[i];
+		hh[i].key = ui_key_label(a, h[i].key);
+	}
+	h = hh;
 	layout_hints_pick(h, n, w - 1, shown);
 	move(y, 0);
 	clrtoeol();

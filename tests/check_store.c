@@ -596,9 +596,13 @@ START_TEST(test_clone_delete)
 	ck_assert_uint_eq(n, 1);
 	ck_assert_str_eq(revs[0].note, "cloned from orig@r1");
 	store_revs_free(revs, n);
+	ck_assert_int_eq(store_label(st, "orig", "r2", "aligned", NULL), 0);
 	invariants();
 	ck_assert_int_eq(store_bench_delete(st, "orig", NULL), 0);
 	invariants();
+	/* Foreign keys are on: the revisions and the label went with the bench. */
+	ck_assert_int_eq(count_rows("revision"), 1);
+	ck_assert_int_eq(count_rows("label"), 0);
 	ck_assert_ptr_null(store_bench_load(st, "orig", "r1", NULL, &cause));
 	ck_assert_str_eq(cause, "bench 'orig' not found");
 	free(cause);
@@ -737,6 +741,22 @@ START_TEST(test_parts)
 	r2 = store_bench_load(st, "pb", "r2", NULL, NULL);
 	ck_assert_double_eq(model_find(r2, "M9", NULL, NULL, NULL)->val[K_REFLECTANCE], 0.999);
 	model_bench_free(r2);
+	/* The revision remembers the shelf version it was placed from; the
+	 * demo's own M1 names a part that was never on the shelf. */
+	{
+		struct store_part_ref *refs;
+		size_t nr;
+
+		ck_assert_int_eq(store_bench_parts(st, "pb", "r2", &refs, &nr, &cause), 0);
+		ck_assert_uint_eq(nr, 1);
+		ck_assert_str_eq(refs[0].name, "m2in-45");
+		ck_assert_int_eq(refs[0].placed, 1);
+		ck_assert_int_eq(refs[0].current, 2);
+		store_part_refs_free(refs, nr);
+		ck_assert_int_eq(store_bench_parts(st, "pb", "r1", &refs, &nr, &cause), 0);
+		ck_assert_uint_eq(nr, 0);
+		store_part_refs_free(refs, nr);
+	}
 	ck_assert_int_eq(store_part_get(st, "m2in-45", &got, NULL), 0);
 	ck_assert_double_eq(got.val[K_REFLECTANCE], 0.5);
 	model_element_release(&got);

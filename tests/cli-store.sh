@@ -228,8 +228,12 @@ check "add --part of another type: refused" trouble "part 'm2in-1064-45' is a mi
 run add $B mirror M21 --part nosuch
 check "add --part unknown: refused" trouble "part 'nosuch' is not on the shelf"
 run commit $B -m "M20 from the shelf"
+run show $B@r3
+check "show: the part as placed, version 1" out_has "m2in-1064-45: version 1 (as on the shelf now)"
 sed 's/"rs": 0.998/"rs": 0.5/' parts.json > parts2.json
 run parts add parts2.json
+run show $B@r3
+check "show: the shelf moved on since" out_has "m2in-1064-45: version 1 (the shelf now has version 2)"
 run export $B@r3
 check "a changed part leaves the revision alone" \
 	sh -c "grep '\"id\": \"M20\"' '$T_DIR/out' | grep -q '\"rs\": 0.99,'"

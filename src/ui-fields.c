@@ -1,0 +1,438 @@
+/* ui-fields.c - the lower half of the workbench: the selected element's
+ * values (or the source and bench settings) as fields edited in place,
+ * with units, beside what the element sees.  A refused value stays in the
+ * field with the same message a bench file would get, and nothing is
+ * stored.  Owned by the workbench. */
+#include <config.h>
+
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-edit.h"
+#include "report.h"
+#include "ui-bench.h"
+#include "util-err.h"
+
+#define MAX_FIELDS 48
+
+struct fld {
+	const char *name;           /* borrowed: key as edit_set / edit_set_bench take it */
+	const char *help;           /* borrowed */
+	char       *value;          /* owned: as shown and as the editor starts */
+	int         given;
+	int         fixed;          /* shown, not editable */
+};
+
+static const struct layout_row *
+field_row(const struct app *a)
+{
+	return app_sel_row(a);
+}
+
+/* The fields of the current mode; returns the count, values owned by out. */
+static size_t
+fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
+{
+	size_t n = 0;
+
+	if (d->mode == WB_SETTINGS) {
+		for (const char *const *k = edit_bench_keys; *k != NULL && n < max; k++, n++) {
+			out[n].name = *k;
+			out[n].help = layout_bench_key_help(*k);
+			out[n].value = layout_bench_value_text(a->bench, *k);
+			out[n].given = out[n].value[0] != '\0';
+			out[n].fixed = strcmp(*k, "name") == 0;
+		}
+		return n;
+	} else {
+		const struct layout_row *r = field_row(a);
+		struct layout_field f[MAX_FIELDS];
+		size_t nf;
+
+		if (r == NULL)
+			return 0;
+		nf = layout_fields(r->el, f, MAX_FIELDS);
+		if (nf > MAX_FIELDS)
+			nf = MAX_FIELDS;
+		for (size_t i = 0; i < nf && n < max; i++, n++) {
+			out[n].name = f[i].name;
+			out[n].help = f[i].help;
+			out[n].value = layout_field_value(r->el, &f[i]);
+			out[n].given = f[i].given;
+			out[n].fixed = 0;
+		}
+		return n;
+	}
+}
+
+static void
+fields_free(struct fld *f, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		free(f[i].value);
+}
+
+static void
+clamp_field(struct wb *d, size_t n)
+{
+	if (d->field >= (int)n)
+		d->field = (int)n - 1;
+	if (d->field < 0)
+		d->field = 0;
+}
+
+void
+wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
+{
+	struct fld f[MAX_FIELDS];
+	size_t n = fields_get(a, d, f, MAX_FIELDS);
+	const struct layout_row *r = field_row(a);
+	int lw = w * 11 / 20, y = g->detail_y, rows = g->detail_h, err_lines = 0;
+	char *title;
+	size_t est[4], eln[4];
+
+	/* the separator names what is shown and says what the focused field is */
+	if (d->mode == WB_SETTINGS)
+		title = xasprintf("bench '%s': source and settings", a->name);
+	else if (r == NULL)
+		title = xstrdup("no element");
+	else if (r->kind == LROW_PORT)
+		title = xasprintf("%s %s (owner of %s.%s)", model_type_name(r->el->type), r->el->id,
+		    r->el->id, model_port_name(r->port));
+	else
+		title = xasprintf("%s %s%s%s%s", model_type_name(r->el->type), r->el->id,
+		    r->el->label != NULL ? " \"" : "", r->el->label != NULL ? r->el->label : "",
+		    r->el->label != NULL ? "\"" : "");
+	ui_fill(a, g->sep_y, 0, w, ui_attr(a, UC_HEADER));
+	for (int i = 0; i < w; i++)
+		mvaddstr(g->sep_y, i, ui_glyph(a, GL_HBAR));
+	{
+		char *t = xasprintf(" %s ", title);
+
+		ui_put(a, g->sep_y, 2, (int)utf8_cols(t) < lw - 2 ? (int)utf8_cols(t) : lw - 2, t,
+		    UC_HEADER);
+		free(t);
+	}
+	free(title);
+	clamp_field(d, n);
+	if (d->focus == WB_FIELDS && n > 0) {
+		char *t = xasprintf(" %s: %s ", f[d->field].name, f[d->field].help);
+		int tw = (int)utf8_cols(t);
+
+		if (tw > w - lw - 1)
+			tw = w - lw - 1;
+		ui_put(a, g->sep_y, w - tw - 1, tw, t, UC_KEY);
+		free(t);
+	} else if (d->mode == WB_ELEMENT) {
+		ui_put(a, g->sep_y, lw + 2, 9, " results ", UC_HEADER);
+	}
+	/* the error of a refused value sits right under its field */
+	if (d->editing && d->error != NULL) {
+		err_lines = (int)layout_wrap(d->error, lw - 4, est, eln, 4);
+		if (err_lines > 3)
+			err_lines = 3;
+	}
+	if (d->field < d->field_top)
+		d->field_top = d->field;
+	if (d->field + err_lines >= d->field_top + rows)
+		d->field_top = d->field + err_lines - rows + 1;
+	if (d->field_top < 0)
+		d->field_top = 0;
+	for (int i = 0, line = 0; line < rows && d->field_top + i < (int)n; i++) {
+		int fi = d->field_top + i, yy = y + line;
+		int here = d->focus == WB_FIELDS && fi == d->field;
+		attr_t at = here ? ui_attr(a, UC_SELECT) : A_NORMAL;
+		const struct fld *x = &f[fi];
+
+		ui_fill(a, yy, 0, lw, at);
+		ui_put_attr(a, yy, 1, 20, x->name, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+		if (here && d->editing) {
+			ui_line_draw(a, &d->line, yy, 22, lw - 23);
+		} else {
+			char *v = x->fixed ? xasprintf("%s (fixed; clone to rename)", x->value) :
+			    x->value[0] == '\0' ? xstrdup("-") :
+			    !x->given ? xasprintf("%s (default)", x->value) : xstrdup(x->value);
+
+			ui_put_attr(a, yy, 22, lw - 23, v, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+			free(v);
+		}
+		line++;
+		if (here && d->editing && d->error != NULL)
+			for (int e = 0; e < err_lines && line < rows; e++, line++) {
+				char *t = xstrdup(d->error + est[e]);
+
+				t[eln[e]] = '\0';
+				ui_put(a, y + line, 3, lw - 4, t, UC_ERROR);
+				free(t);
+			}
+	}
+	if (n > (size_t)rows && d->field_top + rows < (int)n)
+		ui_put(a, y + rows - 1, lw - 1, 1, a->ascii ? "v" : "\u25bc", UC_DIM);
+	for (int i = 0; i < rows; i++)
+		ui_put(a, y + i, lw, 1, ui_glyph(a, GL_VBAR), UC_DIM);
+	if (d->mode == WB_ELEMENT) {
+		wb_draw_results(a, y, lw + 2, rows, w - lw - 3);
+	} else {
+		/* the settings' effect: the warnings of the whole bench */
+		int line = 0;
+		char t[64], u[64];
+		char *s;
+
+		units_format(t, sizeof t, a->trace->absorbed, DIM_POWER, 3, a->ascii);
+		units_format(u, sizeof u, a->trace->leaving, DIM_POWER, 3, a->ascii);
+		s = xasprintf("absorbed on the bench %s, leaving it %s", t, u);
+		ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_NORMAL);
+		free(s);
+		for (size_t i = 0; i < a->trace->nwarn && line < rows; i++) {
+			s = report_warning_text(a->trace, &a->trace->warn[i], a->ascii);
+			ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_CAUTION);
+			free(s);
+		}
+	}
+	fields_free(f, n);
+}
+
+/* ---- keys ---- */
+
+static enum ui_reaction
+begin_edit(struct app *a, struct wb *d, const char *initial)
+{
+	struct fld f[MAX_FIELDS];
+	size_t n;
+
+	if (app_refuse_readonly(a))
+		return UI_REDRAW;
+	n = fields_get(a, d, f, MAX_FIELDS);
+	clamp_field(d, n);
+	if (n == 0) {
+		fields_free(f, n);
+		return UI_NONE;
+	}
+	if (f[d->field].fixed) {
+		app_msg(a, 1, "the bench's name is its key in the database: C on the bench "
+		    "list clones it under a new name");
+		fields_free(f, n);
+		return UI_REDRAW;
+	}
+	d->editing = 1;
+	free(d->error);
+	d->error = NULL;
+	ui_line_set(&d->line, initial != NULL ? initial : f[d->field].given ? f[d->field].value : "");
+	app_msg(a, 0, "%s: %s", f[d->field].name, f[d->field].help);
+	fields_free(f, n);
+	return UI_REDRAW;
+}
+
+struct set_arg {
+	const char *id, *key, *text;
+	int         bench;
+};
+
+static int
+do_set(struct bench *b, void *arg, char **cause)
+{
+	struct set_arg *s = arg;
+
+	return s->bench ? edit_set_bench(b, s->key, s->text, cause) :
+	    edit_set(b, s->id, s->key, s->text, cause);
+}
+
+static enum ui_reaction
+apply_edit(struct app *a, struct wb *d)
+{
+	struct fld f[MAX_FIELDS];
+	size_t n = fields_get(a, d, f, MAX_FIELDS);
+	const struct layout_row *r = field_row(a);
+	struct set_arg s;
+	char *cause = NULL, *id = NULL, *text = xstrdup(d->line.s != NULL ? d->line.s : "");
+
+	clamp_field(d, n);
+	memset(&s, 0, sizeof s);
+	s.bench = d->mode == WB_SETTINGS;
+	if (!s.bench) {
+		if (r == NULL) {
+			fields_free(f, n);
+			free(text);
+			return UI_NONE;
+		}
+		id = xstrdup(r->el->id);
+	}
+	s.id = id;
+	s.key = f[d->field].name;
+	s.text = text;
+	if (app_edit(a, do_set, &s, &cause) != 0) {
+		free(d->error);
+		d->error = cause != NULL ? cause : xstrdup("refused");
+		app_msg(a, 1, "refused, nothing stored: %s", d->error);
+	} else {
+		if (!s.bench && strcmp(s.key, "id") == 0)
+			app_select_id(a, text, 0);
+		d->editing = 0;
+		free(d->error);
+		d->error = NULL;
+		if (s.bench)
+			app_msg(a, 0, "%s = %s (u undoes)", s.key, text[0] ? text : "(unset)");
+		else
+			app_msg(a, 0, "%s %s = %s (u undoes)", strcmp(s.key, "id") == 0 ? text : id,
+			    s.key, text[0] ? text : "(unset)");
+	}
+	fields_free(f, n);
+	free(id);
+	free(text);
+	return UI_REDRAW;
+}
+
+enum ui_reaction
+wb_edit_key(struct app *a, struct wb *d, int key)
+{
+	switch (key) {
+	case '\r':
+	case '\n':
+	case UI_FKEY(KEY_ENTER):
+		return apply_edit(a, d);
+	case UI_ESC:
+		d->editing = 0;
+		free(d->error);
+		d->error = NULL;
+		app_msg(a, 0, "not changed");
+		return UI_REDRAW;
+	case '\t':
+		return apply_edit(a, d);
+	default:
+		ui_line_key(&d->line, key);
+		return UI_REDRAW;        /* every key is the editor's while it is open */
+	}
+}
+
+enum ui_reaction
+wb_k_fields(struct app *a, struct ui_pane *p)
+{
+	struct wb *d = p->data;
+	const struct layout_row *r = app_sel_row(a);
+	struct layout_field f[MAX_FIELDS];
+	size_t n;
+
+	if (r == NULL) {
+		app_msg(a, 1, "no element to edit: a adds one");
+		return UI_REDRAW;
+	}
+	d->focus = WB_FIELDS;
+	d->mode = WB_ELEMENT;
+	d->field = 0;
+	d->field_top = 0;
+	n = layout_fields(r->el, f, MAX_FIELDS);
+	for (size_t i = 0; i < n && i < MAX_FIELDS; i++)
+		if (f[i].kind == LF_KEY) {
+			d->field = (int)i;
+			break;
+		}
+	app_msg(a, 0, "%s: %s Enter edits it; Tab or Esc goes back to the chain",
+	    f[d->field].name, f[d->field].help);
+	return UI_REDRAW;
+}
+
+enum ui_reaction
+wb_k_settings(struct app *a, struct ui_pane *p)
+{
+	struct wb *d = p->data;
+
+	d->focus = WB_FIELDS;
+	d->mode = WB_SETTINGS;
+	d->field = 4;               /* source.wavelength */
+	d->field_top = 0;
+	app_msg(a, 0, "source and bench settings: Enter edits a value; Esc goes back to the chain");
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+f_move(struct app *a, struct ui_pane *p, int by)
+{
+	struct wb *d = p->data;
+	struct fld f[MAX_FIELDS];
+	size_t n = fields_get(a, d, f, MAX_FIELDS);
+
+	d->field += by;
+	clamp_field(d, n);
+	if (n > 0)
+		app_msg(a, 0, "%s: %s", f[d->field].name, f[d->field].help);
+	fields_free(f, n);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+f_up(struct app *a, struct ui_pane *p)
+{
+	return f_move(a, p, -1);
+}
+
+static enum ui_reaction
+f_down(struct app *a, struct ui_pane *p)
+{
+	return f_move(a, p, 1);
+}
+
+static enum ui_reaction
+f_edit(struct app *a, struct ui_pane *p)
+{
+	return begin_edit(a, p->data, NULL);
+}
+
+static enum ui_reaction
+f_clear(struct app *a, struct ui_pane *p)
+{
+	return begin_edit(a, p->data, "");
+}
+
+static enum ui_reaction
+f_back(struct app *a, struct ui_pane *p)
+{
+	struct wb *d = p->data;
+
+	d->focus = WB_CHAIN;
+	d->mode = WB_ELEMENT;
+	free(a->msg);
+	a->msg = NULL;
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+f_undo(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	if (app_undo(a) != 0)
+		app_msg(a, 1, "nothing to undo");
+	else
+		app_msg(a, 0, "undone");
+	return UI_REDRAW;
+}
+
+const struct ui_key ui_bench_field_keys[] = {
+	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "field", 1, "choose a value (also k, j)", f_up, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next value", f_down, 0 },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'e' }, "Enter", "edit value", 0,
+	    "edit the value: type it with units (\"250 mm\", \"5 kW/cm\"); an empty value unsets it",
+	    f_edit, UI_K_EDITS },
+	{ { UI_FKEY(KEY_DC), UI_FKEY(KEY_BACKSPACE), 127 }, "Del", "clear", 3,
+	    "edit the value starting from an empty field", f_clear, UI_K_EDITS },
+	{ { 'u' }, "u", "undo", 2, "undo the last change", f_undo, UI_K_EDITS },
+	{ { '\t', UI_ESC, 'q', UI_FKEY(KEY_LEFT) }, "Esc", "back to chain", 0,
+	    "back to the chain (also Tab, q)", f_back, 0 },
+	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+};
+
+enum ui_reaction
+wb_click_fields(struct app *a, struct wb *d, int row, int dbl, struct ui_pane *p)
+{
+	struct fld f[MAX_FIELDS];
+	size_t n;
+
+	if (app_sel_row(a) == NULL && d->mode == WB_ELEMENT)
+		return UI_NONE;
+	n = fields_get(a, d, f, MAX_FIELDS);
+	fields_free(f, n);
+	if (d->field_top + row >= (int)n)
+		return UI_NONE;
+	d->focus = WB_FIELDS;
+	d->field = d->field_top + row;
+	return dbl ? f_edit(a, p) : UI_REDRAW;
+}

@@ -1,0 +1,238 @@
+/* ui-profile.c - the beam profile: both 1/e² radii and the power along the
+ * path from the source to the end of the selected element's branch,
+ * scaled to the window, with every element marked under the axis and the
+ * foci shown.  The grid comes from layout_profile(); this only paints it.
+ * Owned by the workbench. */
+#include <config.h>
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "ui-app.h"
+#include "util-err.h"
+
+#define LABEL_W 10
+
+static size_t
+sel_trace_row(const struct app *a)
+{
+	const struct layout_row *r = app_sel_row(a);
+
+	if (r == NULL)
+		return 0;
+	if (r->trace_row >= 0)
+		return (size_t)r->trace_row;
+	/* a port row: its owner */
+	for (size_t i = 0; i < a->trace->nrows; i++)
+		if (a->trace->rows[i].el == r->el)
+			return i;
+	return 0;
+}
+
+static void
+branch_of(const struct app *a, size_t row, char *buf, size_t n)
+{
+	const struct trace_row *r = &a->trace->rows[row];
+
+	trace_branch_name(r->parent, r->port, buf, n);
+}
+
+static void
+profile_draw(struct app *a, struct ui_pane *p, int h, int w)
+{
+	size_t sel = sel_trace_row(a), *path, np;
+	const struct trace_row *sr = &a->trace->rows[sel];
+	int hp = (h - 7) / 4, hr = h - 7 - hp, pw = w - LABEL_W - 1, y0 = 2;
+	struct layout_plot pl;
+	char t1[64], t2[64], t3[64], pct[32], br[160], *t;
+	double ticks[32];
+	size_t nt;
+
+	(void)p;
+	np = layout_profile_path(a->trace, sel, &path);
+	branch_of(a, sel, br, sizeof br);
+	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
+	t = xasprintf(" beamledger %s %s %s beam profile to the end of branch %s", ui_glyph(a, GL_VBAR),
+	    a->name, ui_glyph(a, GL_VBAR), br);
+	ui_put(a, 0, 0, w, t, UC_TITLE);
+	free(t);
+	layout_radius_text(t1, sizeof t1, sr->wx, sr->wy, a->ascii);
+	units_format(t2, sizeof t2, sr->power_in, DIM_POWER, 3, a->ascii);
+	units_format(t3, sizeof t3, sr->z, DIM_LENGTH, 3, a->ascii);
+	layout_percent(pct, sizeof pct, sr->ratio);
+	t = xasprintf("%s %s at z = %s: radius %s, power %s, %s %s", model_type_name(sr->el->type),
+	    sr->el->id, t3, t1, t2, pct, layout_status_word(sr->status));
+	ui_put_attr(a, 1, 1, w - 2, t, ui_status_attr(a, sr->status) | A_BOLD);
+	free(t);
+	if (layout_profile(a->trace, path, np, sel, pw, hr, hp, &pl) != 0) {
+		ui_put(a, 3, 1, w - 2, "nothing to plot", UC_DIM);
+		free(path);
+		return;
+	}
+	/* y labels: radius top and zero; power top and zero */
+	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
+	ui_put_right(a, y0, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+	units_format(t1, sizeof t1, pl.rmax / 2, DIM_LENGTH, 3, a->ascii);
+	ui_put_right(a, y0 + (hr - 1) / 2, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+	ui_put_right(a, y0 + hr - 1, 0, LABEL_W - 1, "0", ui_attr(a, UC_DIM));
+	units_format(t1, sizeof t1, pl.pmax, DIM_POWER, 3, a->ascii);
+	ui_put_right(a, y0 + hr + 3, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+	ui_put_right(a, y0 + hr + 3 + hp - 1, 0, LABEL_W - 1, "0 W", ui_attr(a, UC_DIM));
+	for (int r = 0; r < hr; r++)
+		ui_put(a, y0 + r, LABEL_W, 1, ui_glyph(a, GL_VBAR), UC_DIM);
+	for (int r = 0; r < hp; r++)
+		ui_put(a, y0 + hr + 3 + r, LABEL_W, 1, ui_glyph(a, GL_VBAR), UC_DIM);
+	/* the grid */
+	for (int band = 0; band < 2; band++) {
+		int rows = band == 0 ? hr : hp, base = band == 0 ? 0 : hr;
+		int sy = band == 0 ? y0 : y0 + hr + 3;
+
+		for (int r = 0; r < rows; r++)
+			for (int c = 0; c < pw; c++) {
+				unsigned char g = pl.cell[(size_t)(base + r) * (size_t)pw + (size_t)c];
+				static const struct { enum ui_glyph gl; enum ui_color co; } map[LG_COUNT] = {
+					[LG_WX] = { GL_WX, UC_WX }, [LG_WY] = { GL_WY, UC_WY },
+					[LG_WXY] = { GL_WXY, UC_WX }, [LG_POWER] = { GL_POWER, UC_POWER },
+					[LG_FOCUS] = { GL_FOCUS, UC_FOCUS }, [LG_SEL] = { GL_DOT, UC_DIM },
+				};
+
+				if (g == LG_EMPTY)
+					continue;
+				ui_put(a, sy + r, LABEL_W + 1 + c, 1, ui_glyph(a, map[g].gl), map[g].co);
+			}
+	}
+	/* the axis: element marks, foci, z ticks, ids */
+	{
+		int ay = y0 + hr, next_free = 0;
+
+		for (int c = 0; c < pw; c++)
+			ui_put(a, ay, LABEL_W + 1 + c, 1, ui_glyph(a, GL_HBAR), UC_DIM);
+		for (size_t i = 0; i < pl.nmark; i++) {
+			const struct layout_mark *m = &pl.mark[i];
+			int is_sel = m->row == sel && !m->focus;
+
+			ui_put(a, ay, LABEL_W + 1 + m->col, 1,
+			    m->focus ? ui_glyph(a, GL_FOCUS) : a->ascii ? "+" : "\u253c",
+			    m->focus ? UC_FOCUS : is_sel ? UC_KEY : UC_NORMAL);
+		}
+		/* ids under their marks, the selected first, then left to right */
+		{
+			const char *id = sr->el->id;
+			int c = pl.sel_col >= 0 ? pl.sel_col : -1, len = (int)utf8_cols(id);
+			int lo = -1, hi = -1;
+
+			if (c >= 0) {
+				lo = c;
+				hi = c + len;
+				if (hi > pw) {
+					lo = pw - len;
+					hi = pw;
+				}
+				ui_put_attr(a, ay + 1, LABEL_W + 1 + lo, len, id,
+				    ui_attr(a, UC_SELECT));
+			}
+			for (size_t i = 0; i < pl.nmark; i++) {
+				const struct layout_mark *m = &pl.mark[i];
+				const char *mid = a->trace->rows[m->row].el->id;
+				int l = (int)utf8_cols(mid);
+
+				if (m->focus || m->row == sel || m->col < next_free ||
+				    m->col + l > pw || (lo >= 0 && m->col + l >= lo && m->col <= hi))
+					continue;
+				ui_put(a, ay + 1, LABEL_W + 1 + m->col, l, mid,
+				    a->trace->rows[m->row].status >= STATUS_CAUTION ?
+				    (a->trace->rows[m->row].status == STATUS_OVER ? UC_OVER : UC_CAUTION) :
+				    UC_NORMAL);
+				next_free = m->col + l + 1;
+			}
+		}
+		nt = layout_ticks(pl.z0, pl.z1, (size_t)(pw / 12 > 1 ? pw / 12 : 2), ticks);
+		ui_put(a, ay + 2, 0, LABEL_W, "z", UC_DIM);
+		for (size_t i = 0; i < nt; i++) {
+			int c = layout_map_col(ticks[i], pl.z0, pl.z1, pw);
+
+			units_format(t1, sizeof t1, ticks[i], DIM_LENGTH, 3, a->ascii);
+			if (c + (int)utf8_cols(t1) <= pw)
+				ui_put(a, ay + 2, LABEL_W + 1 + c, (int)utf8_cols(t1), t1, UC_DIM);
+		}
+	}
+	t = xasprintf("%s radius x  %s radius y  %s both  %s focus  %s power  %s selected "
+	    "(1/e%s radii, scale 0..%s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
+	    ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
+	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", (units_format(t1, sizeof t1,
+	    pl.rmax, DIM_LENGTH, 3, a->ascii), t1));
+	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
+	free(t);
+	{
+		struct layout_hint hints[16];
+		size_t nh = ui_table_hints(ui_profile_ops.keys, hints, 15);
+
+		hints[nh++] = (struct layout_hint){ "?", "help", 0 };
+		ui_hints(a, h - 1, w, hints, nh);
+	}
+	layout_plot_release(&pl);
+	free(path);
+}
+
+/* Steps the selection to the previous or next non-space element on the
+ * plotted path. */
+static enum ui_reaction
+step(struct app *a, int by)
+{
+	size_t sel = sel_trace_row(a), *path, np = layout_profile_path(a->trace, sel, &path);
+	long at = -1;
+
+	for (size_t i = 0; i < np; i++)
+		if (path[i] == sel)
+			at = (long)i;
+	for (long i = at + by; at >= 0 && i >= 0 && i < (long)np; i += by)
+		if (a->trace->rows[path[i]].el->type != EL_SPACE) {
+			app_select_id(a, a->trace->rows[path[i]].el->id, 0);
+			break;
+		}
+	free(path);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+p_prev(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	return step(a, -1);
+}
+
+static enum ui_reaction
+p_next(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	return step(a, 1);
+}
+
+static enum ui_reaction
+p_back(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	(void)p;
+	return UI_POP | UI_REDRAW;
+}
+
+static const struct ui_key profile_keys[] = {
+	{ { UI_FKEY(KEY_LEFT), 'h', UI_FKEY(KEY_UP), 'k' }, "\u2190\u2192", "element", 0,
+	    "previous or next element along the path (also h, l)", p_prev, 0 },
+	{ { UI_FKEY(KEY_RIGHT), 'l', UI_FKEY(KEY_DOWN), 'j' }, "\u2192", NULL, 0,
+	    "next element along the path", p_next, 0 },
+	{ { UI_ESC, 'q', 'p', '\r' }, "Esc", "back to the chain", 0,
+	    "back to the workbench, the element you reached selected (also q, p, Enter)", p_back, 0 },
+	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+};
+
+const struct ui_pane_ops ui_profile_ops = {
+	"beam profile", 0, profile_keys, profile_draw, NULL, NULL, NULL, NULL, NULL,
+};
+
+void
+ui_profile_push(struct app *a)
+{
+	app_push(a, &ui_profile_ops, NULL);
+}
