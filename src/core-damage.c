@@ -47,6 +47,16 @@ damage_critical_power(double lambda, double n0, double n2)
 }
 
 double
+damage_self_focus_distance(double lambda, double n0, double w, double p_ratio)
+{
+	double a = sqrt(p_ratio) - 0.852, d = a * a - 0.0219;
+
+	if (!(p_ratio > 1) || !(d > 0))
+		return INFINITY;
+	return 0.367 * (2 * M_PI * n0 / lambda) * w * w / sqrt(d);
+}
+
+double
 damage_b_integral(double lambda, double n2, double irradiance, double thickness)
 {
 	return 2 * M_PI / lambda * n2 * irradiance * thickness;

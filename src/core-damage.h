@@ -19,6 +19,11 @@ double damage_peak_field(double irradiance);                        /* √(2I/(c
 double damage_linear_density(double power, double wx, double wy);   /* P/(2 min w) */
 /* Marburger: P_cr = 3.77 λ² / (8π n0 n2). */
 double damage_critical_power(double lambda, double n0, double n2);
+/* Distance after which a collimated Gaussian beam of radius w carrying
+ * p_ratio = P/P_cr collapses (Marburger's fit, as quoted by Couairon &
+ * Mysyrowicz 2007): 0.367 k w² / √{[(P/P_cr)^½ − 0.852]² − 0.0219},
+ * k = 2π n0/λ.  INFINITY when the beam does not collapse. */
+double damage_self_focus_distance(double lambda, double n0, double w, double p_ratio);
 /* On-axis nonlinear phase of a thin plate: (2π/λ)·n2·I·L. */
 double damage_b_integral(double lambda, double n2, double irradiance, double thickness);
 

@@ -84,6 +84,7 @@ warn(struct trace *t, enum trace_warn_kind kind, const struct cursor *c,
 	w->port = c->port;
 	w->after = after;
 	w->value = value;
+	w->distance = NAN;
 }
 
 static void
@@ -269,7 +270,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->irradiance = damage_peak_irradiance(p, row->wx, row->wy);
 	row->linear_density = damage_linear_density(p, row->wx, row->wy);
 	row->fluence = row->peak_power = NAN;
-	row->b_integral = row->critical_power = NAN;
+	row->b_integral = row->critical_power = row->collapse_distance = NAN;
 	row->b_total = st->b_total;
 	if (src->pulsed) {
 		double e = p / src->rep_rate;
@@ -316,8 +317,12 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 
 		row->critical_power = damage_critical_power(lam, model_get(el, K_INDEX),
 		    el->val[K_N2]);
-		if (row->critical_power > 0 && ppk > row->critical_power)
+		if (row->critical_power > 0 && ppk > row->critical_power) {
 			row->flags |= TF_SELF_FOCUSING;
+			row->collapse_distance = damage_self_focus_distance(lam,
+			    model_get(el, K_INDEX), sqrt(row->wx * row->wy),
+			    ppk / row->critical_power);
+		}
 		if (model_has(el, K_THICKNESS)) {
 			row->b_integral = damage_b_integral(lam, el->val[K_N2],
 			    row->peak_irradiance, el->val[K_THICKNESS]);
@@ -328,8 +333,10 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 				warn(t, TW_B_INTEGRAL, c, el, st->b_total);
 			}
 		}
-		if (row->flags & TF_SELF_FOCUSING)
+		if (row->flags & TF_SELF_FOCUSING) {
 			warn(t, TW_SELF_FOCUSING, c, el, ppk);
+			t->warn[t->nwarn - 1].distance = row->collapse_distance;
+		}
 	}
 	side->b_total = st->b_total;
 	side->b_warned = st->b_warned;

@@ -50,6 +50,7 @@ struct trace_row {
 	double                fluence, peak_power;        /* NAN for CW */
 	double                b_integral, b_total;        /* NAN where no n2/thickness */
 	double                critical_power;             /* NAN without n2 */
+	double                collapse_distance;          /* m; NAN below P_cr or without n2 */
 	double                ratio;                      /* NAN: unrated */
 	struct damage_limits  limits;
 	enum damage_status    status;
@@ -65,7 +66,8 @@ struct trace_warning {
 	const struct element *parent;   /* branch owner; NULL: main */
 	enum port             port;
 	const struct element *after;    /* borrowed; NULL: straight after the source */
-	double                value;    /* W (unterminated), rad, W/m² */
+	double                value;    /* W (unterminated, self_focusing), rad, W/m² */
+	double                distance; /* self_focusing: collapse distance, m */
 };
 
 struct trace {

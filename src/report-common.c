@@ -119,9 +119,16 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		units_format(v, sizeof v, w->value, DIM_IRRADIANCE, 3, ascii);
 		return xasprintf("air_breakdown: the focus in %s reaches %s peak: a spark "
 		    "in air (UV, noise, ozone)", after, v);
-	default:
+	default: {
+		char d[48], th[48];
+
 		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		units_format(d, sizeof d, w->distance, DIM_LENGTH, 2, ascii);
+		units_format(th, sizeof th, w->after != NULL ?
+		    model_get(w->after, K_THICKNESS) : NAN, DIM_LENGTH, 2, ascii);
 		return xasprintf("self_focusing: peak power %s in %s is above the critical "
-		    "power (branch %s)", v, after, br);
+		    "power; a collimated beam would collapse after about %s of it "
+		    "(thickness %s; Marburger)", v, after, d, th);
+	}
 	}
 }

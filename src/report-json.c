@@ -64,6 +64,7 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 	}
 	if (!isnan(r->critical_power)) {
 		knum(b, "critical_power", r->critical_power);
+		knum(b, "collapse_distance", r->collapse_distance);
 		knum(b, "b_integral", r->b_integral);
 	}
 	knum(b, "b_total", r->b_total);
@@ -156,6 +157,10 @@ report_json(const struct trace *t)
 			buf_add(&b, "null");
 		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED ? "power" : "value");
 		json_put_number(&b, x->value);
+		if (x->kind == TW_SELF_FOCUSING) {
+			buf_add(&b, ", \"distance\": ");
+			json_put_number(&b, x->distance);
+		}
 		buf_addc(&b, '}');
 	}
 	buf_add(&b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");

@@ -531,6 +531,22 @@ START_TEST(test_silica_range)
 }
 END_TEST
 
+/* Self-focusing distance of a collimated beam: Marburger's fit as quoted by
+ * Couairon & Mysyrowicz, Phys. Rep. 441, 47 (2007) [from memory], worked
+ * example in REFERENCE §11: 1030 nm, P/P_cr = 21.6828, w = 1.01916 mm,
+ * n0 = 1.45 gives z_sf = 0.886941 m (tol 1e-5). */
+START_TEST(test_collapse_distance)
+{
+	double z = damage_self_focus_distance(1030e-9, 1.45, 1.01916e-3, 21.6828);
+
+	ck_assert_double_eq_tol(z, 0.886941, 0.886941 * 1e-5);
+	/* below the critical power there is no collapse (Marburger) */
+	ck_assert(isinf(damage_self_focus_distance(1030e-9, 1.45, 1e-3, 0.9)));
+	/* the distance falls as the power rises */
+	ck_assert(damage_self_focus_distance(1030e-9, 1.45, 1.01916e-3, 40) < z);
+}
+END_TEST
+
 int
 main(void)
 {
@@ -555,6 +571,7 @@ main(void)
 	tcase_add_test(tc, test_status_names);
 	tcase_add_loop_test(tc, test_critical_power, 0, NELEMS(pcr_cases));
 	tcase_add_test(tc, test_b_integral);
+	tcase_add_test(tc, test_collapse_distance);
 	suite_add_tcase(s, tc);
 
 	tcase_add_loop_test(tm, test_fresnel, 0, NELEMS(fresnel_cases));
