@@ -311,35 +311,35 @@ hint_cols(const struct layout_hint *h)
 size_t
 layout_hints_pick(const struct layout_hint *h, size_t n, int width, unsigned char *shown)
 {
-	int maxprio = 0;
+	int total = 0;
 	size_t count = 0;
 
-	for (size_t i = 0; i < n; i++)
-		if (h[i].prio > maxprio)
-			maxprio = h[i].prio;
-	for (int cut = maxprio; cut >= 0; cut--) {
-		int total = 0;
+	for (size_t i = 0; i < n; i++) {
+		shown[i] = 1;
+		total += (count ? 2 : 0) + hint_cols(&h[i]);
+		count++;
+	}
+	/* drop one at a time: the least important, the rightmost of equals */
+	while (total > width && count > 0) {
+		size_t drop = n;
 
-		count = 0;
-		for (size_t i = 0; i < n; i++) {
-			shown[i] = h[i].prio <= cut;
-			if (shown[i]) {
-				total += (count ? 2 : 0) + hint_cols(&h[i]);
-				count++;
-			}
-		}
-		if (total <= width)
-			return count;
+		for (size_t i = 0; i < n; i++)
+			if (shown[i] && h[i].prio > 0 && (drop == n || h[i].prio >= h[drop].prio))
+				drop = i;
+		if (drop == n)
+			break;
+		shown[drop] = 0;
+		total -= hint_cols(&h[drop]) + (count > 1 ? 2 : 0);
+		count--;
 	}
 	/* not even the essentials: as many from the left as fit */
-	{
-		int total = 0;
-
+	if (total > width) {
+		total = 0;
 		count = 0;
 		for (size_t i = 0; i < n; i++) {
 			int need = (count ? 2 : 0) + hint_cols(&h[i]);
 
-			shown[i] = h[i].prio == 0 && total + need <= width;
+			shown[i] = shown[i] && total + need <= width;
 			if (shown[i]) {
 				total += need;
 				count++;
@@ -726,10 +726,12 @@ layout_field_value(const struct element *el, const struct layout_field *f)
 
 /* ---- the status line ---- */
 
-char *
-layout_status_line(const struct trace *t, int ascii)
+/* One form of the status line; `level` makes it shorter. */
+static char *
+status_text(const struct trace *t, int ascii, int level)
 {
-	const char *sep = ascii ? "  |  " : "  \u2502  ";
+	const char *sep = level >= 1 ? (ascii ? " | " : " \u2502 ") :
+	    (ascii ? "  |  " : "  \u2502  ");
 	struct buf b;
 	char pct[32], v[48], br[160];
 	size_t nun = 0;
@@ -746,9 +748,9 @@ layout_status_line(const struct trace *t, int ascii)
 	buf_add(&b, sep);
 	if (isfinite(t->safe_source_power)) {
 		units_format(v, sizeof v, t->safe_source_power, DIM_POWER, 3, ascii);
-		buf_printf(&b, "safe source power %s", v);
+		buf_printf(&b, level >= 3 ? "safe power %s" : "safe source power %s", v);
 	} else {
-		buf_add(&b, "safe source power: no ratings");
+		buf_add(&b, level >= 3 ? "safe power: no ratings" : "safe source power: no ratings");
 	}
 	buf_add(&b, sep);
 	for (size_t i = 0; i < t->nwarn; i++)
@@ -766,12 +768,27 @@ layout_status_line(const struct trace *t, int ascii)
 			if (w->kind != TW_UNTERMINATED)
 				continue;
 			units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
-			trace_branch_name(w->parent, w->port, br, sizeof br);
-			buf_printf(&b, "%s%s after %s (%s)", k++ ? ", " : "", v,
-			    w->after != NULL ? w->after->id : "the source", br);
+			buf_printf(&b, "%s%s after %s", k++ ? ", " : "", v,
+			    w->after != NULL ? w->after->id : "the source");
+			if (level < 2) {
+				trace_branch_name(w->parent, w->port, br, sizeof br);
+				buf_printf(&b, " (%s)", br);
+			}
 		}
 	}
 	return buf_take(&b);
+}
+
+char *
+layout_status_line(const struct trace *t, int ascii, int width)
+{
+	for (int level = 0;; level++) {
+		char *s = status_text(t, ascii, level);
+
+		if (level == 3 || (int)utf8_cols(s) <= width)
+			return s;
+		free(s);
+	}
 }
 
 /* ---- the beam profile ---- */

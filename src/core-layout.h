@@ -71,8 +71,10 @@ struct layout_hint {
 	int         prio;           /* 0 always; higher dropped first */
 };
 /* Picks which hints fit in `width` columns written as "key word" two
- * blanks apart, in their given order; shown[i] is set to 1 or 0.  Returns
- * how many are shown. */
+ * blanks apart, in their given order: the least important are dropped one
+ * at a time (of equal prio, the rightmost first); prio 0 is dropped only
+ * when nothing else is left, from the right.  shown[i] is set to 1 or 0.
+ * Returns how many are shown. */
 size_t layout_hints_pick(const struct layout_hint *, size_t n, int width,
            unsigned char *shown);
 /* The chosen hints as one plain line (for tests and monochrome). */
@@ -143,8 +145,11 @@ const char *layout_bench_key_help(const char *key);
 
 /* "worst: W1 109 % OVER  |  safe source power 914 mW  |  unterminated:
  * 728 µW after S4r (POL1.rejected)"; every part always present ("nothing
- * rated", "all beams terminated").  Caller frees. */
-char  *layout_status_line(const struct trace *, int ascii);
+ * rated", "all beams terminated").  When that is wider than `width` it
+ * gets shorter in steps (narrow separators, no branch names, "safe
+ * power"); the last step is returned even if still too wide.  Caller
+ * frees. */
+char  *layout_status_line(const struct trace *, int ascii, int width);
 
 /* ---- the beam profile ---- */
 

@@ -16,6 +16,8 @@
 	EL_BIT(EL_WINDOW) | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | \
 	EL_BIT(EL_POLARIZER) | EL_BIT(EL_IRIS) | EL_BIT(EL_DUMP) | \
 	EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
+/* bench-format.md: every element may have an aperture and a damage rating */
+#define ALL_TYPES (ALL_OPTICS | EL_BIT(EL_SPACE))
 #define TRANSMISSIVE (EL_BIT(EL_LENS) | EL_BIT(EL_WINDOW))
 #define TERMINATORS (EL_BIT(EL_DUMP) | EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
 
@@ -68,17 +70,17 @@ const struct model_key_def model_keys[K_COUNT] = {
 	[K_MAX_POWER] = { "max_power", KIND_QUANTITY, DIM_POWER, 0, INFINITY, 1, 1, 0,
 	    TERMINATORS, NAN, "power rating" },
 	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS & ~EL_BIT(EL_IRIS), NAN, "clear-aperture diameter" },
+	    ALL_TYPES, NAN, "clear-aperture diameter" },
 	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS, NAN, "CW LIDT, linear power density (kW/cm)" },
+	    ALL_TYPES, NAN, "CW LIDT, linear power density (kW/cm)" },
 	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS, NAN, "CW LIDT, irradiance (kW/cm^2)" },
+	    ALL_TYPES, NAN, "CW LIDT, irradiance (kW/cm^2)" },
 	[K_DMG_FLUENCE] = { "fluence", KIND_QUANTITY, DIM_FLUENCE, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS, NAN, "pulsed LIDT, peak fluence (J/cm^2)" },
+	    ALL_TYPES, NAN, "pulsed LIDT, peak fluence (J/cm^2)" },
 	[K_DMG_WAVELENGTH] = { "wavelength", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS, NAN, "wavelength the LIDT was measured at" },
+	    ALL_TYPES, NAN, "wavelength the LIDT was measured at" },
 	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 0, INFINITY, 1, 1, 0,
-	    ALL_OPTICS, NAN, "pulse width the fluence LIDT was measured at" },
+	    ALL_TYPES, NAN, "pulse width the fluence LIDT was measured at" },
 };
 
 static const char *const type_names[EL_NTYPES] = {

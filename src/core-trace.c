@@ -216,9 +216,11 @@ element_optics(const struct element *el, struct state *st)
 	}
 }
 
+/* st is the beam after any clipping at the gap's start. */
 static void
 gap_focus(const struct bench *b, struct trace_row *row, const struct state *st)
 {
+	double p = st->s[0];
 	double dz, wx, wy, lam = b->src.wavelength;
 
 	if (!beam_gap_focus(&st->x, &st->y, lam, row->el->val[K_LENGTH], &dz, &wx, &wy))
@@ -228,9 +230,9 @@ gap_focus(const struct bench *b, struct trace_row *row, const struct state *st)
 	row->focus.z = st->z + dz;
 	row->focus.wx = wx;
 	row->focus.wy = wy;
-	row->focus.irradiance = damage_peak_irradiance(row->power_in, wx, wy);
+	row->focus.irradiance = damage_peak_irradiance(p, wx, wy);
 	if (b->src.pulsed) {
-		double e = row->power_in / b->src.rep_rate;
+		double e = p / b->src.rep_rate;
 		double ppk = damage_peak_factor(b->src.shape) * e / b->src.pulse_width;
 
 		row->focus.peak_irradiance = damage_peak_irradiance(ppk, wx, wy);
@@ -240,6 +242,17 @@ gap_focus(const struct bench *b, struct trace_row *row, const struct state *st)
 	} else {
 		row->focus.peak_irradiance = row->focus.irradiance;
 	}
+}
+
+/* Matrix round-off leaves ~1e-17 of the source (even negative) where an
+ * ideal crossed polarizer passes nothing; below 1e-15 of the source power
+ * (a femtowatt from a watt) a beam is taken to be gone, so that round-off
+ * raises no unterminated-beam warning. */
+static void
+settle(double s[4], double source_power)
+{
+	if (s[0] <= 1e-15 * source_power)
+		s[0] = s[1] = s[2] = s[3] = 0;
 }
 
 /* Fills one row and advances the state through the element; returns the
@@ -284,8 +297,10 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->field = damage_peak_field(row->peak_irradiance);
 
 	/* Clip first, then let the element act. */
-	a = el->type == EL_IRIS ? el->val[K_DIAMETER] :
-	    model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+	/* An iris in a mount clips at the smaller of its opening and the mount. */
+	a = model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+	if (el->type == EL_IRIS && !(a < el->val[K_DIAMETER]))
+		a = el->val[K_DIAMETER];
 	if (!isnan(a)) {
 		double tr = beam_clip_transmission(row->wx, row->wy, a / 2);
 
@@ -302,8 +317,10 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		if (el->side_port != PORT_NONE) {
 			*side = *st;
 			polar_apply(&ms, st->s, side->s);
+			settle(side->s, src->power);
 		}
 		polar_apply(&mm, st->s, st->s);
+		settle(st->s, src->power);
 		element_optics(el, st);
 		side->x = st->x;
 		side->y = st->y;
@@ -312,7 +329,8 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->power_lost = p - row->power_out;
 
 	/* Nonlinear phase and self-focusing in transmissive parts. */
-	if ((el->type == EL_LENS || el->type == EL_WINDOW) && model_has(el, K_N2)) {
+	if ((el->type == EL_LENS || el->type == EL_WINDOW) && model_has(el, K_N2) &&
+	    model_has(el, K_THICKNESS)) {
 		double ppk = src->pulsed ? row->peak_power : p;
 
 		row->critical_power = damage_critical_power(lam, model_get(el, K_INDEX),
@@ -323,15 +341,13 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 			    model_get(el, K_INDEX), sqrt(row->wx * row->wy),
 			    ppk / row->critical_power);
 		}
-		if (model_has(el, K_THICKNESS)) {
-			row->b_integral = damage_b_integral(lam, el->val[K_N2],
-			    row->peak_irradiance, el->val[K_THICKNESS]);
-			st->b_total += row->b_integral;
-			row->b_total = st->b_total;
-			if (st->b_total > B_WARN_RAD && !st->b_warned) {
-				st->b_warned = 1;
-				warn(t, TW_B_INTEGRAL, c, el, st->b_total);
-			}
+		row->b_integral = damage_b_integral(lam, el->val[K_N2],
+		    row->peak_irradiance, el->val[K_THICKNESS]);
+		st->b_total += row->b_integral;
+		row->b_total = st->b_total;
+		if (st->b_total > B_WARN_RAD && !st->b_warned) {
+			st->b_warned = 1;
+			warn(t, TW_B_INTEGRAL, c, el, st->b_total);
 		}
 		if (row->flags & TF_SELF_FOCUSING) {
 			warn(t, TW_SELF_FOCUSING, c, el, ppk);

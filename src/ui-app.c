@@ -436,8 +436,11 @@ ui_app_key(struct app *a, int key)
 
 	struct ui_pane *by = a->top;
 
-	if (key == UI_FKEY(KEY_RESIZE))
+	if (key == UI_FKEY(KEY_RESIZE)) {
+		/* the terminal may have kept or reflowed old cells: repaint all */
+		clearok(curscr, TRUE);
 		return 0;
+	}
 	r = dispatch(a, key);
 	/* close the pane that took the key, even if it opened another */
 	if (r & UI_POP) {

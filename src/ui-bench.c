@@ -43,14 +43,14 @@ chain_cols(const struct app *a, struct layout_col *c)
 {
 	int pulsed = a->bench->src.pulsed;
 
-	c[C_ELEM] = (struct layout_col){ "element", 10, 18, 0 };
+	c[C_ELEM] = (struct layout_col){ "element", 8, 12, 0 };
 	c[C_TYPE] = (struct layout_col){ "type", 9, 9, 4 };
 	c[C_Z] = (struct layout_col){ "z", 8, 8, 3 };
 	c[C_POWER] = (struct layout_col){ "power", 8, 9, 1 };
-	c[C_RADIUS] = (struct layout_col){ "radius x/y", 12, 15, 2 };
+	c[C_RADIUS] = (struct layout_col){ "radius x/y", 14, 15, 2 };
 	c[C_PEAK] = (struct layout_col){ "peak irr.", 11, 11, pulsed ? 3 : 2 };
 	c[C_FLUENCE] = (struct layout_col){ "fluence", 11, 11, pulsed ? 2 : 99 };
-	c[C_BAR] = (struct layout_col){ "margin used", 8, 14, 1 };
+	c[C_BAR] = (struct layout_col){ "to LIDT", 8, 14, 1 };
 	c[C_RATIO] = (struct layout_col){ "ratio", 7, 7, 0 };
 	c[C_STATUS] = (struct layout_col){ "status", 7, 7, 0 };
 	c[C_FLAGS] = (struct layout_col){ "flags", 6, -1, 5 };
@@ -305,22 +305,21 @@ draw_title(struct app *a, int w)
 		snprintf(rev, sizeof rev, "draft = r%d", a->latest_rev);
 	t = xasprintf(" beamledger %s %s %s %s %s %zu elements", ui_glyph(a, GL_VBAR), a->name,
 	    ui_glyph(a, GL_VBAR), rev, ui_glyph(a, GL_VBAR), model_count(&a->bench->path));
-	ui_put(a, 0, 0, w - 22, t, UC_TITLE);
+	ui_put(a, 0, 0, w - 17, t, UC_TITLE);
 	free(t);
 	if (a->readonly)
-		ui_put_right(a, 0, w - 22, 21, "VIEW ONLY (read-only)", ui_attr(a, UC_TITLE));
+		ui_put_right(a, 0, w - 17, 16, "VIEW ONLY ", ui_attr(a, UC_TITLE));
 	else if (a->unsaved != NULL)
-		ui_put_right(a, 0, w - 22, 21, "DRAFT NOT SAVED", ui_attr(a, UC_ERROR));
+		ui_put_right(a, 0, w - 17, 16, "DRAFT NOT SAVED ", ui_attr(a, UC_ERROR));
 	else
-		ui_put_right(a, 0, w - 22, 21, "saved", ui_attr(a, UC_TITLE));
+		ui_put_right(a, 0, w - 17, 16, "draft saved ", ui_attr(a, UC_TITLE));
 }
 
 void
 wb_draw_status(struct app *a, int y, int w)
 {
-	char *s = layout_status_line(a->trace, a->ascii);
-	const char *sep = a->ascii ? "  |  " : "  \u2502  ";
-	const char *cut = strstr(s, sep);
+	char *s = layout_status_line(a->trace, a->ascii, w - 1);
+	const char *cut = strstr(s, a->ascii ? " |" : " \u2502");
 	enum damage_status worst = a->trace->worst >= 0 ?
 	    a->trace->rows[a->trace->worst].status : STATUS_UNRATED;
 
@@ -896,20 +895,20 @@ const struct ui_key ui_bench_chain_keys[] = {
 	    "edit the selected element's values in place (also e, Tab)", wb_k_fields, 0 },
 	{ { 'a' }, "a", "add", 1, "add an element after the selection (on a port row: into that branch)", k_add, UI_K_EDITS },
 	{ { 'i' }, "i", "insert", 3, "insert an element before the selection", k_insert, UI_K_EDITS },
-	{ { 'x', UI_FKEY(KEY_DC) }, "x", "delete", 2, "delete the selected element and its side branch (also Del)", k_delete, UI_K_EDITS },
+	{ { 'x', UI_FKEY(KEY_DC) }, "x", "delete", 1, "delete the selected element and its side branch (also Del)", k_delete, UI_K_EDITS },
 	{ { 'm' }, "m", "move", 3, "move the selection: pick a row, then Enter", k_move, UI_K_EDITS },
 	{ { '[', '-' }, "[", NULL, 0, "move the selection one place up its branch", k_nudge_up, UI_K_EDITS },
 	{ { ']', '+' }, "]", NULL, 0, "move the selection one place down its branch", k_nudge_down, UI_K_EDITS },
 	{ { 'u' }, "u", "undo", 1, "undo the last change to the draft", k_undo, UI_K_EDITS },
 	{ { 'U', UI_CTRL('r') }, "U", "redo", 4, "redo (also ^R)", k_redo, UI_K_EDITS },
 	{ { 's' }, "s", "source", 2, "edit the source and bench settings (wavelength, power, pulse, waist, M\u00b2, ...)", wb_k_settings, 0 },
-	{ { 'w' }, "w", "worst", 4, "jump to the worst element", k_worst, 0 },
+	{ { 'w' }, "w", "worst", 3, "jump to the worst element", k_worst, 0 },
 	{ { 'n' }, "n", NULL, 0, "jump to the next element at caution or over", k_next_problem, 0 },
 	{ { 'p' }, "p", "profile", 2, "beam profile along the selected element's branch", k_profile, 0 },
 	{ { 'P' }, "P", "parts", 3, "the parts shelf: place a part, keep an element as a part", k_parts, 0 },
 	{ { 'h' }, "h", "history", 2, "revisions: diff, restore, label", k_history, 0 },
-	{ { 'c' }, "c", "commit", 2, "commit the draft as a new revision, with a note", k_commit, UI_K_EDITS },
-	{ { 'q', UI_ESC }, "q", "benches", 1, "back to the bench list (the draft is saved)", k_back, 0 },
+	{ { 'c' }, "c", "commit", 1, "commit the draft as a new revision, with a note", k_commit, UI_K_EDITS },
+	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved)", k_back, 0 },
 	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
 };
 

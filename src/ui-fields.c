@@ -87,7 +87,7 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	struct fld f[MAX_FIELDS];
 	size_t n = fields_get(a, d, f, MAX_FIELDS);
 	const struct layout_row *r = field_row(a);
-	int lw = w * 11 / 20, y = g->detail_y, rows = g->detail_h, err_lines = 0;
+	int lw = w * 2 / 5 < 38 ? 38 : w * 2 / 5 > 56 ? 56 : w * 2 / 5, y = g->detail_y, rows = g->detail_h, err_lines = 0;
 	char *title;
 	size_t est[4], eln[4];
 
@@ -115,6 +115,10 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	}
 	free(title);
 	clamp_field(d, n);
+	if (d->focus == WB_CHAIN) {
+		/* an overview: the values from the top */
+		d->field_top = 0;
+	}
 	if (d->focus == WB_FIELDS && n > 0) {
 		char *t = xasprintf(" %s: %s ", f[d->field].name, f[d->field].help);
 		int tw = (int)utf8_cols(t);

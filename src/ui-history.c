@@ -69,7 +69,7 @@ hist_draw(struct app *a, struct ui_pane *p, int h, int w)
 	ui_put(a, 2, 1, 6, "rev", UC_HEADER);
 	ui_put(a, 2, 8, 19, "time (UTC)", UC_HEADER);
 	ui_put(a, 2, 28, 12, "author", UC_HEADER);
-	ui_put(a, 2, 41, w - 42, "note  [labels]", UC_HEADER);
+	ui_put(a, 2, 41, w - 42, "[labels] note", UC_HEADER);
 	d->top = layout_scroll(d->sel, d->top, rows, (int)d->n + 1);
 	for (int r = 0; r < rows && d->top + r <= (int)d->n; r++) {
 		int i = d->top + r;
@@ -94,7 +94,7 @@ hist_draw(struct app *a, struct ui_pane *p, int h, int w)
 
 			ui_put_attr(a, y, 8, 19, v->time, at);
 			ui_put_attr(a, y, 28, 12, v->author, at);
-			note = v->labels[0] != '\0' ? xasprintf("%s  [%s]", v->note, v->labels) :
+			note = v->labels[0] != '\0' ? xasprintf("[%s] %s", v->labels, v->note) :
 			    xstrdup(v->note);
 			ui_put_attr(a, y, 41, w - 42, note, at);
 			free(note);

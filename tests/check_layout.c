@@ -187,7 +187,22 @@ static const struct { int width; const char *want; } hint_cases[] = {
 	{ 30, "a add  Enter edit  ? help" },
 	{ 18, "Enter edit  ? help" },
 	{ 12, "Enter edit" },       /* not even prio 0 fits: from the left */
+	{ 38, "a add  x delete  Enter edit  ? help" },
 };
+
+/* Of equal priority the rightmost goes first, one at a time. */
+static const struct layout_hint tie_hints[] = {
+	{ "a", "add", 1 }, { "u", "undo", 1 }, { "c", "commit", 1 }, { "?", "help", 0 },
+};
+
+START_TEST(test_hints_ties)
+{
+	char *s = layout_hints_text(tie_hints, 4, 21);
+
+	ck_assert_str_eq(s, "a add  u undo  ? help");
+	free(s);
+}
+END_TEST
 
 START_TEST(test_hints)
 {
@@ -474,7 +489,8 @@ START_TEST(test_status_line)
 {
 	struct bench *b = demo();
 	struct trace *t = trace_run(b);
-	char *s = layout_status_line(t, 0), *a = layout_status_line(t, 1);
+	char *s = layout_status_line(t, 0, 200), *a = layout_status_line(t, 1, 200);
+	char *n80 = layout_status_line(t, 0, 79), *tiny = layout_status_line(t, 1, 10);
 	char *cause = NULL;
 
 	ck_assert_ptr_nonnull(strstr(s, "worst: W1 109 % OVER"));
@@ -483,8 +499,17 @@ START_TEST(test_status_line)
 	ck_assert_ptr_nonnull(strstr(a, "728 uW after S4r"));
 	for (const char *p = a; *p; p++)
 		ck_assert_int_lt((unsigned char)*p, 128);
+	/* at 80 columns all three parts still fit, shorter */
+	ck_assert_int_le((int)utf8_cols(n80), 79);
+	ck_assert_ptr_nonnull(strstr(n80, "worst: W1 109 % OVER"));
+	ck_assert_ptr_nonnull(strstr(n80, "914 mW"));
+	ck_assert_ptr_nonnull(strstr(n80, "unterminated: 728 \u00b5W after S4r"));
+	/* the shortest form comes back even when it is too wide */
+	ck_assert_str_eq(tiny, "worst: W1 109 % OVER | safe power 914 mW | unterminated: 728 uW after S4r");
 	free(s);
 	free(a);
+	free(n80);
+	free(tiny);
 	trace_free(t);
 	/* terminate the rejected beam: the line says so */
 	{
@@ -495,7 +520,7 @@ START_TEST(test_status_line)
 		ck_assert_int_eq(edit_add(b, &el, &pl, &cause), 0);
 	}
 	t = trace_run(b);
-	s = layout_status_line(t, 0);
+	s = layout_status_line(t, 0, 200);
 	ck_assert_ptr_nonnull(strstr(s, "all beams terminated"));
 	free(s);
 	trace_free(t);
@@ -507,7 +532,7 @@ START_TEST(test_status_unrated)
 {
 	struct bench *b = bare();
 	struct trace *t = trace_run(b);
-	char *s = layout_status_line(t, 1);
+	char *s = layout_status_line(t, 1, 200);
 
 	ck_assert_ptr_nonnull(strstr(s, "worst: nothing rated"));
 	ck_assert_ptr_nonnull(strstr(s, "safe source power: no ratings"));
@@ -680,6 +705,7 @@ main(void)
 	LOOP(tc, test_fit_text, fit_cases);
 	LOOP(tc, test_fit_columns, colfit_cases);
 	LOOP(tc, test_hints, hint_cases);
+	tcase_add_test(tc, test_hints_ties);
 	LOOP(tc, test_wrap, wrap_cases);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("chain");
