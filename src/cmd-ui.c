@@ -5,9 +5,21 @@
 
 #include <stdio.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cmd.h"
 #include "ui.h"
+
+/* Without a terminal (a script, a pipe) the workbench is a usage error,
+ * told before any database is opened or created. */
+static int
+start(const struct ui_opts *o)
+{
+	if (!isatty(STDIN_FILENO) || !isatty(STDOUT_FILENO))
+		return cmd_usage("the workbench needs a terminal (for scripts, use the "
+		    "commands listed by --help)");
+	return ui_run(o);
+}
 
 int
 cmd_open(struct cmd_ctx *ctx, int argc, char **argv)
@@ -31,7 +43,7 @@ cmd_open(struct cmd_ctx *ctx, int argc, char **argv)
 			return cmd_usage("open: one bench at a time ('%s' is one too many)", argv[i]);
 		}
 	}
-	return ui_run(&o);
+	return start(&o);
 }
 
 int
@@ -39,5 +51,5 @@ cmd_workbench(struct cmd_ctx *ctx)
 {
 	struct ui_opts o = { ctx->db_path, NULL, ctx->author, NULL, NULL, NULL, -1, -1 };
 
-	return ui_run(&o);
+	return start(&o);
 }

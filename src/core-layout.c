@@ -142,6 +142,41 @@ layout_radius_text(char *buf, size_t n, double wx, double wy, int ascii)
 
 /* ---- text in columns ---- */
 
+static const struct { const char *u, *a; } ascii_map[] = {
+	{ "\u00b5", "u" }, { "\u03bc", "u" }, { "\u00b2", "^2" }, { "\u00b3", "^3" },
+	{ "\u00b0", " deg" }, { "\u2192", "->" }, { "\u2190", "<-" }, { "\u2191", "^" },
+	{ "\u2193", "v" }, { "\u00d7", "x" }, { "\u2026", "~" }, { "\u2502", "|" },
+	{ "\u2500", "-" }, { "\u2514", "`" }, { "\u251c", "|" }, { "\u253c", "+" },
+	{ "\u00b7", "." }, { "\u2588", "#" }, { "\u25b6", ">" }, { "\u25c6", "F" },
+	{ "\u25cf", "*" }, { "\u2580", "=" }, { "\u2264", "<=" }, { "\u2265", ">=" },
+	{ "\u00b1", "+/-" }, { "\u2014", "-" }, { "\u2013", "-" }, { "\u25b2", "^" },
+	{ "\u25bc", "v" }, { "\u00b9", "1" },
+};
+
+char *
+layout_ascii(const char *s)
+{
+	struct buf b;
+
+	buf_init(&b);
+	while (*s != '\0') {
+		size_t l = 1, i;
+
+		if ((unsigned char)*s < 0x80) {
+			buf_addc(&b, *s++);
+			continue;
+		}
+		while (((unsigned char)s[l] & 0xc0) == 0x80)
+			l++;
+		for (i = 0; i < sizeof ascii_map / sizeof *ascii_map; i++)
+			if (strlen(ascii_map[i].u) == l && memcmp(s, ascii_map[i].u, l) == 0)
+				break;
+		buf_add(&b, i < sizeof ascii_map / sizeof *ascii_map ? ascii_map[i].a : "?");
+		s += l;
+	}
+	return buf_take(&b);
+}
+
 /* Byte length of the first `cols` code points of s. */
 static size_t
 utf8_prefix(const char *s, int cols)

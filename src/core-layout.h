@@ -37,6 +37,12 @@ void  layout_radius_text(char *buf, size_t n, double wx, double wy, int ascii);
 
 /* ---- text in columns ---- */
 
+/* s with every non-ASCII character replaced for a terminal that cannot
+ * show UTF-8: the symbols the program prints get their ASCII forms ("µ"
+ * "u", "²" "^2", "°" " deg", "→" "->", box lines "|" "-"), anything else
+ * (a label typed in another script) becomes "?".  Caller frees. */
+char *layout_ascii(const char *s);
+
 enum layout_align { LAYOUT_LEFT, LAYOUT_RIGHT };
 /* s fitted to exactly `cols` columns: padded, or cut with "…" ("~" in
  * ASCII).  UTF-8 safe (counts code points, as utf8_cols).  Returns buf. */

@@ -364,12 +364,34 @@ global_redraw(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
+static void
+quit_anyway(struct app *a, void *arg, int yes)
+{
+	(void)arg;
+	if (yes)
+		a->quit = 1;
+}
+
+enum ui_reaction
+app_quit(struct app *a)
+{
+	char *q;
+
+	/* the draft is saved on every change; only a failed save can lose work */
+	if (a->unsaved == NULL || app_save(a) == 0)
+		return UI_QUIT;
+	q = xasprintf("The draft of '%s' could not be saved (%s). Quit anyway and lose "
+	    "the changes since the last save?", a->name, a->unsaved);
+	ui_confirm(a, q, quit_anyway, NULL);
+	free(q);
+	return UI_REDRAW;
+}
+
 static enum ui_reaction
 global_quit(struct app *a, struct ui_pane *p)
 {
-	(void)a;
 	(void)p;
-	return UI_QUIT;
+	return app_quit(a);
 }
 
 const struct ui_key ui_global_keys[] = {

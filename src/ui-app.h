@@ -147,6 +147,8 @@ const struct layout_row *app_sel_row(const struct app *);
 const struct trace_row  *app_sel_trace(const struct app *);
 void  app_select_id(struct app *, const char *id, int port);
 int   app_refuse_readonly(struct app *);
+/* UI_QUIT, or a question first when the draft could not be saved. */
+enum ui_reaction app_quit(struct app *);
 
 /* ---- ui-draw.c: terminal, colours, glyphs, drawing helpers ---- */
 int         ui_term_open(struct app *, const struct ui_opts *, char **cause);

@@ -179,116 +179,6 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		ui_put(a, g->chain_y + g->chain_h - 1, w - 1, 1, a->ascii ? "v" : "\u25bc", UC_DIM);
 }
 
-/* ---- the results of the selected element ---- */
-
-static void
-qty(struct app *a, double v, enum unit_dim dim, char *buf, size_t n)
-{
-	units_format(buf, n, v, dim, 3, a->ascii);
-}
-
-static int
-result_line(struct app *a, int y, int x, int w, const char *label, const char *text,
-    attr_t at)
-{
-	ui_put(a, y, x, 11, label, UC_DIM);
-	ui_put_attr(a, y, x + 11, w - 11, text, at);
-	return 1;
-}
-
-void
-wb_draw_results(struct app *a, int y, int x, int h, int w)
-{
-	const struct layout_row *row = app_sel_row(a);
-	const struct trace_row *r = app_sel_trace(a);
-	char t1[64], t2[64], t3[64], line[320];
-	int n = 0;
-
-	if (row == NULL)
-		return;
-	if (row->kind == LROW_PORT) {
-		snprintf(line, sizeof line, "side branch %s.%s: %zu element(s)", row->el->id,
-		    model_port_name(row->port), row->el->side.n);
-		ui_put(a, y, x, w, line, UC_NORMAL);
-		ui_put(a, y + 1, x, w, "a or i put a new element at its start; m then Enter here "
-		    "moves one into it", UC_DIM);
-		return;
-	}
-	if (r == NULL)
-		return;
-	qty(a, r->power_in, DIM_POWER, t1, sizeof t1);
-	qty(a, r->power_out, DIM_POWER, t2, sizeof t2);
-	qty(a, r->power_lost, DIM_POWER, t3, sizeof t3);
-	snprintf(line, sizeof line, "%s in, %s out, %s lost", t1, t2, t3);
-	n += result_line(a, y + n, x, w, "power", line, A_NORMAL);
-	layout_radius_text(t1, sizeof t1, r->wx, r->wy, a->ascii);
-	qty(a, r->z, DIM_LENGTH, t2, sizeof t2);
-	snprintf(line, sizeof line, "%s (1/e%s) at z = %s", t1, a->ascii ? "^2" : "\u00b2", t2);
-	n += result_line(a, y + n, x, w, "radius", line, A_NORMAL);
-	qty(a, r->peak_irradiance, DIM_IRRADIANCE, t1, sizeof t1);
-	qty(a, r->linear_density, DIM_LINEAR, t2, sizeof t2);
-	if (!isnan(r->fluence)) {
-		qty(a, r->fluence, DIM_FLUENCE, t3, sizeof t3);
-		snprintf(line, sizeof line, "peak %s, fluence %s", t1, t3);
-	} else {
-		snprintf(line, sizeof line, "peak %s, linear %s", t1, t2);
-	}
-	n += result_line(a, y + n, x, w, "irradiance", line, A_NORMAL);
-	if (n < h) {
-		char bar[128], pct[32];
-
-		layout_bar(bar, sizeof bar, r->ratio, 1 / a->bench->safety_factor, 12, a->ascii);
-		layout_percent(pct, sizeof pct, r->ratio);
-		if (isnan(r->ratio))
-			snprintf(line, sizeof line, "unrated: no damage threshold given "
-			    "(Enter, then damage.* keys)");
-		else
-			snprintf(line, sizeof line, "%s %s of threshold: %s", bar, pct,
-			    layout_status_word(r->status));
-		n += result_line(a, y + n, x, w, "damage", line, ui_status_attr(a, r->status));
-	}
-	if (n < h && damage_rated(&r->limits)) {
-		struct buf b;
-
-		buf_init(&b);
-		if (!isnan(r->limits.fluence)) {
-			qty(a, r->limits.fluence, DIM_FLUENCE, t1, sizeof t1);
-			buf_printf(&b, "fluence %s ", t1);
-		}
-		if (!isnan(r->limits.cw_irradiance)) {
-			qty(a, r->limits.cw_irradiance, DIM_IRRADIANCE, t1, sizeof t1);
-			buf_printf(&b, "cw %s ", t1);
-		}
-		if (!isnan(r->limits.cw_linear)) {
-			qty(a, r->limits.cw_linear, DIM_LINEAR, t1, sizeof t1);
-			buf_printf(&b, "cw %s ", t1);
-		}
-		if (!isnan(r->limits.max_power)) {
-			qty(a, r->limits.max_power, DIM_POWER, t1, sizeof t1);
-			buf_printf(&b, "max %s ", t1);
-		}
-		if (!isnan(r->limits.max_absorbed)) {
-			qty(a, r->limits.max_absorbed, DIM_POWER, t1, sizeof t1);
-			buf_printf(&b, "absorbed %s ", t1);
-		}
-		n += result_line(a, y + n, x, w, "limits", b.s, A_NORMAL);
-		buf_release(&b);
-	}
-	if (n < h && r->flags != 0) {
-		report_flags(r->flags, line, sizeof line, ", ");
-		n += result_line(a, y + n, x, w, "flags", line, ui_attr(a, UC_CAUTION));
-	}
-	if (n < h && r->has_focus) {
-		qty(a, r->focus.z, DIM_LENGTH, t1, sizeof t1);
-		layout_radius_text(t2, sizeof t2, r->focus.wx, r->focus.wy, a->ascii);
-		qty(a, r->focus.peak_irradiance, DIM_IRRADIANCE, t3, sizeof t3);
-		snprintf(line, sizeof line, "at z = %s: %s, peak %s%s", t1, t2, t3,
-		    r->focus.air_breakdown ? "  AIR BREAKDOWN" : "");
-		n += result_line(a, y + n, x, w, "focus", line,
-		    r->focus.air_breakdown ? ui_attr(a, UC_OVER) : A_NORMAL);
-	}
-}
-
 /* ---- the frame around it ---- */
 
 static void
@@ -840,12 +730,30 @@ k_next_problem(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
+static void
+leave_anyway(struct app *a, void *arg, int yes)
+{
+	(void)arg;
+	if (yes) {
+		free(a->unsaved);
+		a->unsaved = NULL;
+		app_pop(a);             /* the workbench, now on top again */
+	}
+}
+
 static enum ui_reaction
 k_back(struct app *a, struct ui_pane *p)
 {
-	(void)a;
+	char *q;
+
 	(void)p;
-	return UI_POP | UI_REDRAW;
+	if (a->unsaved == NULL || app_save(a) == 0)
+		return UI_POP | UI_REDRAW;
+	q = xasprintf("The draft could not be saved (%s). Leave the bench anyway and lose "
+	    "the changes since the last save?", a->unsaved);
+	ui_confirm(a, q, leave_anyway, NULL);
+	free(q);
+	return UI_REDRAW;
 }
 
 static enum ui_reaction

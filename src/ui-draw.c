@@ -126,19 +126,32 @@ ui_glyph(const struct app *a, enum ui_glyph g)
 
 /* ---- drawing helpers ---- */
 
-void
-ui_put_attr(struct app *a, int y, int x, int w, const char *s, attr_t at)
+/* Text fitted to w columns, in ASCII when the terminal needs it. */
+static void
+put_fitted(struct app *a, int y, int x, int w, const char *s, attr_t at,
+    enum layout_align al)
 {
-	char buf[1024];
+	char buf[1024], *asc = NULL;
 
 	if (w <= 0)
 		return;
 	if (w > 250)
 		w = 250;
-	layout_fit_text(buf, sizeof buf, s != NULL ? s : "", w, LAYOUT_LEFT, a->ascii);
+	if (s == NULL)
+		s = "";
+	if (a->ascii)
+		s = asc = layout_ascii(s);
+	layout_fit_text(buf, sizeof buf, s, w, al, a->ascii);
+	free(asc);
 	attrset(at);
 	mvaddstr(y, x, buf);
 	attrset(A_NORMAL);
+}
+
+void
+ui_put_attr(struct app *a, int y, int x, int w, const char *s, attr_t at)
+{
+	put_fitted(a, y, x, w, s, at, LAYOUT_LEFT);
 }
 
 void
@@ -150,16 +163,7 @@ ui_put(struct app *a, int y, int x, int w, const char *s, enum ui_color c)
 void
 ui_put_right(struct app *a, int y, int x, int w, const char *s, attr_t at)
 {
-	char buf[1024];
-
-	if (w <= 0)
-		return;
-	if (w > 250)
-		w = 250;
-	layout_fit_text(buf, sizeof buf, s != NULL ? s : "", w, LAYOUT_RIGHT, a->ascii);
-	attrset(at);
-	mvaddstr(y, x, buf);
-	attrset(A_NORMAL);
+	put_fitted(a, y, x, w, s, at, LAYOUT_RIGHT);
 }
 
 void

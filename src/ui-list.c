@@ -357,9 +357,8 @@ list_delete(struct app *a, struct ui_pane *p)
 static enum ui_reaction
 list_quit(struct app *a, struct ui_pane *p)
 {
-	(void)a;
 	(void)p;
-	return UI_QUIT;
+	return app_quit(a);
 }
 
 static enum ui_reaction

@@ -137,14 +137,16 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 				const char *mid = a->trace->rows[m->row].el->id;
 				int l = (int)utf8_cols(mid);
 
-				if (m->focus || m->row == sel || m->col < next_free ||
-				    m->col + l > pw || (lo >= 0 && m->col + l >= lo && m->col <= hi))
+				int at = m->col + l > pw ? pw - l : m->col;   /* the last ones shift left */
+
+				if (m->focus || m->row == sel || at < next_free || at < 0 ||
+				    (lo >= 0 && at + l >= lo && at <= hi))
 					continue;
-				ui_put(a, ay + 1, LABEL_W + 1 + m->col, l, mid,
+				ui_put(a, ay + 1, LABEL_W + 1 + at, l, mid,
 				    a->trace->rows[m->row].status >= STATUS_CAUTION ?
 				    (a->trace->rows[m->row].status == STATUS_OVER ? UC_OVER : UC_CAUTION) :
 				    UC_NORMAL);
-				next_free = m->col + l + 1;
+				next_free = at + l + 1;
 			}
 		}
 		nt = layout_ticks(pl.z0, pl.z1, (size_t)(pw / 12 > 1 ? pw / 12 : 2), ticks);
@@ -157,11 +159,11 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 				ui_put(a, ay + 2, LABEL_W + 1 + c, (int)utf8_cols(t1), t1, UC_DIM);
 		}
 	}
+	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
 	t = xasprintf("%s radius x  %s radius y  %s both  %s focus  %s power  %s selected "
 	    "(1/e%s radii, scale 0..%s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
 	    ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
-	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", (units_format(t1, sizeof t1,
-	    pl.rmax, DIM_LENGTH, 3, a->ascii), t1));
+	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
 	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
 	free(t);
 	{

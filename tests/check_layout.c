@@ -118,6 +118,24 @@ START_TEST(test_fit_text)
 }
 END_TEST
 
+static const struct { const char *in, *want; } ascii_cases[] = {
+	{ "1.2 \u00b5m", "1.2 um" }, { "10 J/cm\u00b2", "10 J/cm^2" },
+	{ "linear 0\u00b0", "linear 0 deg" }, { "r1 \u2192 r2", "r1 -> r2" },
+	{ "\u2588\u2588\u258e\u00b7", "##?." },        /* a partial block has no twin */
+	{ "caf\u00e9", "caf?" }, { "plain", "plain" }, { "", "" },
+};
+
+START_TEST(test_ascii)
+{
+	char *s = layout_ascii(ascii_cases[_i].in);
+
+	ck_assert_str_eq(s, ascii_cases[_i].want);
+	for (const char *p = s; *p; p++)
+		ck_assert_int_lt((unsigned char)*p, 128);
+	free(s);
+}
+END_TEST
+
 static const struct layout_col cols[] = {
 	{ "element", 6, 12, 0 }, { "type", 9, 9, 3 }, { "power", 8, 8, 1 },
 	{ "bar", 5, 12, 2 }, { "status", 7, 7, 0 }, { "flags", 5, -1, 4 },
@@ -703,6 +721,7 @@ main(void)
 	LOOP(tc, test_percent, pct_cases);
 	LOOP(tc, test_radius_text, radius_cases);
 	LOOP(tc, test_fit_text, fit_cases);
+	LOOP(tc, test_ascii, ascii_cases);
 	LOOP(tc, test_fit_columns, colfit_cases);
 	LOOP(tc, test_hints, hint_cases);
 	tcase_add_test(tc, test_hints_ties);

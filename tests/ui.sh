@@ -156,6 +156,12 @@ check "q goes back to the list" wait_for direct "updated (UTC)"
 t_keys direct q
 check "and quits" wait_exit direct 5
 
+# ---- a bench that is not there: said before the screen is taken ----
+t_start nosuch 80 24 sh -c '"$0" --db "$1" open no-such-bench 2>"$2"' "$BL" "$DB" "$T_DIR/nosuch.err"
+check "open of a missing bench exits" wait_exit nosuch 5
+check "with status 2" [ "$(t_status nosuch)" = 2 ]
+check "and says which bench" grep -q "bench 'no-such-bench' not found" "$T_DIR/nosuch.err"
+
 # ---- a read-only database opens view-only ----
 cp "$DB" "$T_DIR/ro.db"
 chmod 0444 "$T_DIR/ro.db"
@@ -181,6 +187,6 @@ check "export: the lens before S2 again (restored)" sh -c 'printf "%s" "$1" | tr
 "$BL" --db "$DB" diff focus-test r2 r3 >"$T_DIR/diff.txt" 2>&1
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
 check "demo bench is in the database" sh -c '"$1" --db "$2" list | grep -q table3-ablation' _ "$BL" "$DB"
-check "database check passes" "$BL" --db "$DB" check
+check "database check passes" sh -c '"$1" --db "$2" check >/dev/null' _ "$BL" "$DB"
 
 done_testing
