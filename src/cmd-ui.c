@@ -7,7 +7,12 @@
 #include <string.h>
 #include <unistd.h>
 
+#include <stdlib.h>
+
+#include "bench-demo.h"
+#include "bench-file.h"
 #include "cmd.h"
+#include "store.h"
 #include "ui.h"
 
 /* Without a terminal (a script, a pipe) the workbench is a usage error,
@@ -21,18 +26,63 @@ start(const struct ui_opts *o)
 	return ui_run(o);
 }
 
+/* Puts the demo bench into the database unless a bench of its name is
+ * there already (then that one, with whatever was done to it, opens). */
+static int
+ensure_demo(const char *db_path, const char *author, char **name)
+{
+	char *path = db_path != NULL ? NULL : store_default_path(), *cause = NULL;
+	struct store *st = store_open(db_path != NULL ? db_path : path, &cause);
+	struct bench *b = NULL;
+	int rc = -1;
+
+	free(path);
+	if (st == NULL)
+		return cmd_fail(cause), -1;
+	b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
+	if (b == NULL)
+		goto out;
+	*name = strdup(b->name);
+	if (*name == NULL) {
+		cause = strdup("out of memory");
+		goto out;
+	}
+	{
+		struct bench *have = store_bench_load(st, b->name, NULL, NULL, NULL);
+
+		if (have != NULL) {
+			model_bench_free(have);
+			rc = 0;
+			goto out;
+		}
+	}
+	if (store_bench_create(st, b, "demo bench", author, &cause) == 0)
+		rc = 0;
+out:
+	model_bench_free(b);
+	store_close(st);
+	if (rc != 0)
+		cmd_fail(cause);
+	return rc;
+}
+
 int
 cmd_open(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct ui_opts o = { ctx->db_path, NULL, ctx->author, NULL, NULL, NULL, -1, -1 };
+	char *demo = NULL;
+	int want_demo = 0, rc;
 
 	for (int i = 1; i < argc; i++) {
 		if (strcmp(argv[i], "--help") == 0 || strcmp(argv[i], "-h") == 0) {
-			printf("Usage: " PROG " [--db PATH] open [BENCH] [--ascii]\n"
+			printf("Usage: " PROG " [--db PATH] open [BENCH | --demo] [--ascii]\n"
 			    "The terminal workbench: lay out a bench, watch every optic's damage\n"
 			    "margin as you edit, commit and compare revisions.  With BENCH it opens\n"
-			    "that bench at once.  Press ? inside for every key.\n");
+			    "that bench at once; --demo puts the demo bench into the database\n"
+			    "(unless it is there) and opens it.  Press ? inside for every key.\n");
 			return 0;
+		} else if (strcmp(argv[i], "--demo") == 0) {
+			want_demo = 1;
 		} else if (strcmp(argv[i], "--ascii") == 0) {
 			o.ascii = 1;
 		} else if (argv[i][0] == '-' && argv[i][1] != '\0') {
@@ -43,7 +93,18 @@ cmd_open(struct cmd_ctx *ctx, int argc, char **argv)
 			return cmd_usage("open: one bench at a time ('%s' is one too many)", argv[i]);
 		}
 	}
-	return start(&o);
+	if (want_demo && o.bench != NULL)
+		return cmd_usage("open: give a bench or --demo, not both");
+	if (want_demo) {
+		if (!isatty(STDIN_FILENO) || !isatty(STDOUT_FILENO))
+			return start(&o);       /* the usage error, before any database */
+		if (ensure_demo(ctx->db_path, ctx->author, &demo) != 0)
+			return 2;
+		o.bench = demo;
+	}
+	rc = start(&o);
+	free(demo);
+	return rc;
 }
 
 int

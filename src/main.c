@@ -16,7 +16,7 @@ const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
 	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
-	{ "open", cmd_open, "[BENCH] [--ascii]",
+	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
 	    "the terminal workbench (also with no command); BENCH opens that bench" },
 	/* The bench database: benches, drafts, revisions, the parts shelf. */
 	{ "import", cmd_import, "FILE [--name NAME]", "a new bench from a bench file" },

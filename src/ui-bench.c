@@ -794,7 +794,7 @@ k_parts(struct app *a, struct ui_pane *p)
 
 const struct ui_key ui_bench_chain_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "select", 5, "select an element (also k, j; mouse click)", k_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next element", k_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, k_down, 0 },
 	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "a page up", k_pgup, 0 },
 	{ { UI_FKEY(KEY_NPAGE) }, "PgDn", NULL, 0, "a page down", k_pgdn, 0 },
 	{ { UI_FKEY(KEY_HOME), 'g' }, "Home", NULL, 0, "first element (also g)", k_home, 0 },
@@ -822,7 +822,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 
 const struct ui_key ui_bench_move_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose place", 0, "choose where the element goes", k_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next row", k_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, k_down, 0 },
 	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'm' }, "Enter", "put it after this row", 0,
 	    "drop the moving element after this row (a port row: first in that branch)", k_drop, UI_K_EDITS },
 	{ { UI_ESC, 'q' }, "Esc", "cancel move", 0, "leave it where it was", k_move_cancel, 0 },

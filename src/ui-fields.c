@@ -524,7 +524,7 @@ f_undo(struct app *a, struct ui_pane *p)
 
 const struct ui_key ui_bench_field_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "field", 1, "choose a value (also k, j)", f_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next value", f_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, f_down, 0 },
 	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'e' }, "Enter", "edit value", 0,
 	    "edit the value: type it with units (\"250 mm\", \"5 kW/cm\"); an empty value unsets it",
 	    f_edit, UI_K_EDITS },

@@ -20,6 +20,8 @@ section(struct buf *b, const struct app *a, const char *title, const struct ui_k
 	for (; k->fn != NULL; k++) {
 		size_t from = b->len;
 
+		if (k->help == NULL)        /* a companion key told with its pair (↑↓) */
+			continue;
 		buf_printf(b, "  %s", ui_key_label(a, k->label));
 		buf_pad(b, 12, from);
 		buf_printf(b, "%s\n", k->help);

@@ -347,7 +347,7 @@ h_enter(struct app *a, struct ui_pane *p)
 
 static const struct ui_key hist_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 3, "choose a revision (also k, j)", h_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next revision", h_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, h_down, 0 },
 	{ { ' ' }, "Space", "mark", 1, "mark a revision; d then compares it with the selected one", h_mark, 0 },
 	{ { 'd', '\r', '\n', UI_FKEY(KEY_ENTER) }, "d", "diff", 0,
 	    "what changed and what it did to the margins (also Enter)", h_diff, 0 },

@@ -688,13 +688,13 @@ text_right(struct app *a, struct ui_pane *p)
 
 const struct ui_key ui_text_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "scroll", 1, "scroll a line (also k, j)", text_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "scroll down a line", text_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, text_down, 0 },
 	{ { UI_FKEY(KEY_PPAGE), 'b' }, "PgUp", NULL, 0, "scroll up a page (also b)", text_pgup, 0 },
 	{ { UI_FKEY(KEY_NPAGE), ' ' }, "PgDn", "page", 2, "scroll down a page (also Space)", text_pgdn, 0 },
 	{ { UI_FKEY(KEY_HOME), 'g' }, "Home", NULL, 0, "go to the top (also g)", text_home, 0 },
 	{ { UI_FKEY(KEY_END), 'G' }, "End", NULL, 0, "go to the end (also G)", text_end, 0 },
 	{ { UI_FKEY(KEY_LEFT) }, "\u2190\u2192", "sideways", 3, "scroll sideways (long lines)", text_left, 0 },
-	{ { UI_FKEY(KEY_RIGHT) }, "\u2192", NULL, 0, "scroll right", text_right, 0 },
+	{ { UI_FKEY(KEY_RIGHT) }, "\u2192", NULL, 0, NULL, text_right, 0 },
 	{ { UI_ESC, 'q', UI_FKEY(KEY_BACKSPACE), 127 }, "Esc", "back", 0, "back (also q)", prompt_cancel, 0 },
 	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
 };

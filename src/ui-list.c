@@ -383,7 +383,7 @@ list_enter(struct app *a, struct ui_pane *p)
 
 static const struct ui_key list_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 2, "choose a bench (also k, j; the mouse)", list_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next bench", list_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, list_down, 0 },
 	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'o' }, "Enter", "open", 0, "open the bench on the workbench (also o)", list_open, 0 },
 	{ { 'n' }, "n", "new", 1, "a new bench (name it; it starts with a 1 W CW source)", list_new, UI_K_EDITS },
 	{ { 'd' }, "d", "demo", 1, "load the demo bench (invented ablation line)", list_demo, UI_K_EDITS },

@@ -368,7 +368,7 @@ s_back(struct app *a, struct ui_pane *p)
 
 static const struct ui_key shelf_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 3, "choose a part, or a value (also k, j)", s_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next", s_down, 0 },
+	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, s_down, 0 },
 	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "place", 0,
 	    "place the part after the workbench's selection (on the values: edit one)", s_enter, UI_K_EDITS },
 	{ { 's' }, "s", "keep selected as part", 1, "keep the workbench's selected element on the shelf", s_keep, UI_K_EDITS },

@@ -223,7 +223,7 @@ static const struct ui_key profile_keys[] = {
 	{ { UI_FKEY(KEY_LEFT), 'h', UI_FKEY(KEY_UP), 'k' }, "\u2190\u2192", "element", 0,
 	    "previous or next element along the path (also h, l)", p_prev, 0 },
 	{ { UI_FKEY(KEY_RIGHT), 'l', UI_FKEY(KEY_DOWN), 'j' }, "\u2192", NULL, 0,
-	    "next element along the path", p_next, 0 },
+	    NULL, p_next, 0 },
 	{ { UI_ESC, 'q', 'p', '\r' }, "Esc", "back to the chain", 0,
 	    "back to the workbench, the element you reached selected (also q, p, Enter)", p_back, 0 },
 	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },

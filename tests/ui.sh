@@ -172,6 +172,17 @@ check "edits refused in view-only mode" wait_for ro "view only: the database is 
 t_keys ro Q
 check "view-only quits" wait_exit ro 5
 
+# ---- open --demo: the README's first command, on an empty database ----
+t_start demo 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$T_DIR/demo.db" open --demo
+check "open --demo shows the demo bench" wait_for demo "draft = r1"
+check "with its over-threshold window" wait_for demo "worst: W1"
+t_keys demo Q
+check "open --demo quits" wait_exit demo 5
+check "the demo is now r1 in that database" sh -c '"$1" --db "$2" log table3-ablation | grep -q "^r1 "' _ "$BL" "$T_DIR/demo.db"
+"$BL" --db "$T_DIR/nodemo.db" open --demo </dev/null >/dev/null 2>&1
+check "open --demo without a terminal is a usage error" [ $? -eq 2 ]
+check "and creates no database" [ ! -e "$T_DIR/nodemo.db" ]
+
 # ---- the database, checked with the CLI ----
 log=$("$BL" --db "$DB" log focus-test 2>&1)
 check "log: r3 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
