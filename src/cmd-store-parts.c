@@ -17,23 +17,6 @@
 #include "util-buf.h"
 #include "util-err.h"
 
-static void
-part_values(struct buf *b, const struct element *el)
-{
-	int first = 1;
-
-	for (int k = 0; k < K_COUNT; k++) {
-		char *v;
-
-		if (!model_has(el, (enum model_key)k))
-			continue;
-		v = diff_key_show(el, (enum model_key)k, 0);
-		buf_printf(b, "%s%s %s", first ? "" : ", ", model_key_path((enum model_key)k), v);
-		free(v);
-		first = 0;
-	}
-}
-
 static int
 parts_list(struct store *s)
 {
@@ -91,7 +74,7 @@ parts_show(struct store *s, const char *name)
 	buf_init(&out);
 	buf_printf(&out, "part:   %s\ntype:   %s\nlabel:  %s\nvalues: ", name,
 	    model_type_name(el.type), el.label != NULL ? el.label : "-");
-	part_values(&out, &el);
+	cmd_values_line(&out, &el);
 	buf_addc(&out, '\n');
 	model_element_release(&el);
 	rc = cmd_print(out.s);

@@ -325,8 +325,8 @@ struct show_ctx {
 	size_t      wid, wtype, wpart, wlabel;
 };
 
-static void
-values_line(struct buf *b, const struct element *el)
+void
+cmd_values_line(struct buf *b, const struct element *el)
 {
 	int first = 1;
 
@@ -379,7 +379,7 @@ show_rows(struct show_ctx *c, const struct branch *br, size_t depth)
 		buf_pad(b, x += c->wpart + 2, start);
 		buf_add(b, el->label != NULL ? el->label : "-");
 		buf_pad(b, x += c->wlabel + 2, start);
-		values_line(b, el);
+		cmd_values_line(b, el);
 		buf_addc(b, '\n');
 		if (el->side_port != PORT_NONE) {
 			for (size_t d = 0; d < depth; d++)

@@ -29,5 +29,8 @@ int           cmd_write_atomic(const char *path, const char *text, char **cause)
 /* getopt_long over argv from index 1, permuting so options may follow the
  * operands; resets getopt's state first. */
 void          cmd_getopt_reset(void);
+/* An element's given values, "focal 250 mm, damage.fluence 10 J/cm²", into b. */
+struct buf;
+void          cmd_values_line(struct buf *b, const struct element *el);
 
 #endif

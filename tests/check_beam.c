@@ -14,46 +14,7 @@
 
 #include "core-beam.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
-
-/* |got - want| <= tol·|want| */
-#define CHECK_REL(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
-	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-/* |got - want| <= tol */
-#define CHECK_ABS(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_,				\
-	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-/* A table value printed with `dec` decimals: half a unit of its last
- * digit, plus a hair for the binary representation. */
-static double
-half_digit(int dec)
-{
-	return 0.5 * pow(10, -dec) * (1 + 1e-9);
-}
-
-/* A fixed-seed generator (Knuth's MMIX LCG constants), so every run and
- * every machine sees the same "random" cases. */
-static uint64_t
-lcg_next(uint64_t *state)
-{
-	*state = *state * 6364136223846793005ULL + 1442695040888963407ULL;
-	return *state;
-}
-
-static double
-lcg_uniform(uint64_t *state, double lo, double hi)
-{
-	double u = (double)(lcg_next(state) >> 11) / 9007199254740992.0;	/* 2^53 */
-
-	return lo + (hi - lo) * u;
-}
+#include "check-util.h"
 
 /*
  * §1: Rayleigh range, radius, curvature, far-field angle.
@@ -641,8 +602,6 @@ main(void)
 	TCase *tc = tcase_create("gauss");
 	TCase *tf = tcase_create("focus");
 	TCase *tk = tcase_create("clip");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_loop_test(tc, test_gauss_table, 0, NELEMS(gauss_cases));
 	tcase_add_test(tc, test_far_field_m2);
@@ -669,9 +628,5 @@ main(void)
 	tcase_set_timeout(tk, 60);
 	suite_add_tcase(s, tk);
 
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

@@ -22,7 +22,8 @@
 #include "core-model.h"
 #include "core-trace.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
+#include "check-bench-util.h"
+#include "check-util.h"
 
 /* Bench files are written with ' for " to keep them readable. */
 #define FMT	"'format':'beamledger-bench-1'"
@@ -38,9 +39,7 @@ dq(const char *text)
 	char *s = strdup(text);
 
 	ck_assert_ptr_nonnull(s);
-	for (char *p = s; *p != '\0'; p++)
-		if (*p == '\'')
-			*p = '"';
+	bench_quote(s);
 	return s;
 }
 
@@ -74,12 +73,6 @@ val(struct bench *b, const char *id, enum model_key k)
 	ck_assert_msg(model_has(el, k), "'%s': %s not set", id, model_key_path(k));
 	return el->val[k];
 }
-
-#define CHECK_REL(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
-	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
-} while (0)
 
 /*
  * Every field of the spec.  Unit conversions are those of bench-format.md
@@ -671,30 +664,6 @@ END_TEST
 
 /* Random benches through the model API, with full-precision doubles and
  * awkward strings. */
-struct gen {
-	uint64_t st;
-	unsigned next_id;
-};
-
-static uint64_t
-gen_next(struct gen *g)
-{
-	g->st = g->st * 6364136223846793005ULL + 1442695040888963407ULL;
-	return g->st >> 11;
-}
-
-static double
-gen_uniform(struct gen *g, double lo, double hi)
-{
-	return lo + (hi - lo) * ((double)gen_next(g) / 9007199254740992.0);
-}
-
-static int
-gen_chance(struct gen *g, double p)
-{
-	return gen_uniform(g, 0, 1) < p;
-}
-
 /* A random value in the key's own range. */
 static double
 gen_value(struct gen *g, enum model_key k)
@@ -949,8 +918,6 @@ main(void)
 	TCase *tr = tcase_create("read");
 	TCase *tb = tcase_create("bad");
 	TCase *tx = tcase_create("export");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_test(tr, test_full_bench);
 	tcase_add_test(tr, test_defaults);
@@ -973,9 +940,5 @@ main(void)
 	tcase_set_timeout(tx, 120);
 	suite_add_tcase(s, tx);
 
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

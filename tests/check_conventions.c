@@ -26,19 +26,8 @@
 #include "core-trace.h"
 #include "report.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
-
-#define CHECK_REL(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
-	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-#define CHECK_ABS(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_,				\
-	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
-} while (0)
+#include "check-bench-util.h"
+#include "check-util.h"
 
 /* Bench files are written here with ' for " to keep them readable. */
 #define HEAD "{'format':'beamledger-bench-1','name':'conv',"
@@ -60,14 +49,6 @@ radius_at(double w0, double zr, double dz)
 	return w0 * sqrt(1 + (dz / zr) * (dz / zr));
 }
 
-static void
-quote(char *text)
-{
-	for (char *p = text; *p != '\0'; p++)
-		if (*p == '\'')
-			*p = '"';
-}
-
 /* Parses a bench or returns NULL with *cause set (the caller asserts). */
 static struct bench *
 bench_try(char **cause, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
@@ -83,50 +64,9 @@ bench_try(char **cause, const char *fmt, ...)
 	n = vsnprintf(text, sizeof text, fmt, ap);
 	va_end(ap);
 	ck_assert(n > 0 && (size_t)n < sizeof text);
-	quote(text);
+	bench_quote(text);
 	*cause = NULL;
 	return bench_file_parse(text, strlen(text), "conv", cause);
-}
-
-static struct bench *
-bench_text(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
-
-static struct bench *
-bench_text(const char *fmt, ...)
-{
-	char text[8192], *cause = NULL;
-	struct bench *b;
-	va_list ap;
-	int n;
-
-	va_start(ap, fmt);
-	n = vsnprintf(text, sizeof text, fmt, ap);
-	va_end(ap);
-	ck_assert(n > 0 && (size_t)n < sizeof text);
-	quote(text);
-	b = bench_file_parse(text, strlen(text), "conv", &cause);
-	ck_assert_msg(b != NULL, "bench did not parse: %s\n%s", cause, text);
-	return b;
-}
-
-static const struct trace_row *
-row_of(const struct trace *t, const char *id)
-{
-	for (size_t i = 0; i < t->nrows; i++)
-		if (strcmp(t->rows[i].el->id, id) == 0)
-			return &t->rows[i];
-	ck_abort_msg("no row for element '%s'", id);
-	return NULL;
-}
-
-static size_t
-count_warn(const struct trace *t, enum trace_warn_kind k)
-{
-	size_t n = 0;
-
-	for (size_t i = 0; i < t->nwarn; i++)
-		n += t->warn[i].kind == k;
-	return n;
 }
 
 static void
@@ -163,7 +103,7 @@ static const struct wp_case {
 START_TEST(test_waist_position_sign)
 {
 	const struct wp_case *c = &wp_cases[_i];
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'0.1 mm','waist_position':%s},"
 	    "'path':[{'id':'S1','type':'space','length':'1 m'},{'id':'BD','type':'dump'}]}", c->wp);
 	struct trace *t = trace_run(b);
@@ -199,7 +139,7 @@ END_TEST
 START_TEST(test_m2_pair)
 {
 	static const char *const m2s[] = { "[1, 1.5]", "[1.5, 1]" };
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','m2':%s},"
 	    "'path':[{'id':'S1','type':'space','length':'10 m'},{'id':'BD','type':'dump'}]}",
 	    m2s[_i]);
@@ -227,7 +167,7 @@ END_TEST
  * with the two waist radii (hand, from REFERENCE §1 w(z)); I = 2P/(π wx wy). */
 START_TEST(test_m2_pair_common_waist)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':['1 mm','0.5 mm'],"
 	    " 'm2':[1, 2],'waist_position':'400 mm'},"
 	    "'path':[{'id':'S1','type':'space','length':'1 m'},{'id':'BD','type':'dump'}]}");
@@ -257,7 +197,7 @@ END_TEST
  */
 START_TEST(test_zero_length_space)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'S0','type':'space','length':0},"
 	    "{'id':'S1','type':'space','length':'1 m'},"
 	    "{'id':'L1','type':'lens','focal':'100 mm'},"
@@ -300,7 +240,7 @@ END_TEST
  */
 START_TEST(test_zero_power_branch)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'BS1','type':'splitter','reflectance':1,'reflected':["
 	    " {'id':'M2','type':'mirror'%s},{'id':'BDr','type':'dump'}]},"
 	    "{'id':'M1','type':'mirror','damage':{'cw_irradiance':'1 kW/cm^2'}},"
@@ -348,7 +288,7 @@ static const struct crossed_case {
 START_TEST(test_crossed_polarizer_no_residue)
 {
 	const struct crossed_case *c = &crossed_cases[_i];
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':%g},"
 	    "'path':[{'id':'POL1','type':'polarizer','angle':%g,"
 	    " 'rejected':[{'id':'BDr','type':'dump'}]}]}", c->pol, c->axis);
@@ -374,7 +314,7 @@ static const double hwp_angles[] = { 45, 22.5, 30, 15, 37.5, 10 };
 START_TEST(test_hwp_crossed_no_residue)
 {
 	double th = hwp_angles[_i];
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'HWP1','type':'waveplate','retardance':0.5,'angle':%.17g},"
 	    "{'id':'POL1','type':'polarizer','angle':%.17g,"
 	    " 'rejected':[{'id':'BDr','type':'dump'}]}]}", th, 2 * th + 90);
@@ -403,7 +343,7 @@ END_TEST
  */
 START_TEST(test_focus_waist_at_gap_end_decimal)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','waist_position':'300 mm'},"
 	    "'path':[{'id':'S1','type':'space','length':'100 mm'},"
 	    "{'id':'S2','type':'space','length':'200 mm'},"
@@ -421,7 +361,7 @@ END_TEST
 
 START_TEST(test_focus_waist_at_gap_end_lens)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'S1','type':'space','length':'100 mm'},"
 	    "{'id':'L1','type':'lens','focal':'100 mm'},"
 	    "{'id':'S2','type':'space','length':'100 mm'},"
@@ -438,7 +378,7 @@ END_TEST
 
 START_TEST(test_focus_waist_at_gap_end_binary)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','waist_position':0.5},"
 	    "'path':[{'id':'S1','type':'space','length':0.25},"
 	    "{'id':'S2','type':'space','length':0.25},"
@@ -480,7 +420,7 @@ static const struct ellipse_case {
 START_TEST(test_clip_very_elliptical)
 {
 	const struct ellipse_case *c = &ellipse_cases[_i];
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':%s},"
 	    "'path':[{'id':'IR1','type':'iris','diameter':'%g m'},{'id':'BD','type':'dump'}]}",
 	    c->waist, c->wlong);
@@ -510,7 +450,7 @@ END_TEST
  */
 START_TEST(test_self_focusing_needs_thickness)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'10 ps','shape':'sech2','pulse_energy':'1 mJ'}},"
 	    "'path':[{'id':'W2','type':'window','n2':2.7e-20,'thickness':'5 mm'},"
@@ -623,7 +563,7 @@ END_TEST
  */
 START_TEST(test_reflected_port_handedness)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':0},"
 	    "'path':[{'id':'POL1','type':'polarizer','angle':45,"
 	    " 'rejected':[{'id':'BDr','type':'dump'}]},{'id':'BD','type':'dump'}]}");
@@ -640,7 +580,7 @@ START_TEST(test_reflected_port_handedness)
 	trace_free(t);
 	model_bench_free(b);
 
-	b = bench_text(HEAD
+	b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':'circular'},"
 	    "'path':[{'id':'BS1','type':'splitter','reflectance':0.4,"
 	    " 'reflected':[{'id':'BDr','type':'dump'}]},"
@@ -654,7 +594,7 @@ START_TEST(test_reflected_port_handedness)
 	trace_free(t);
 	model_bench_free(b);
 
-	b = bench_text(HEAD
+	b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':45},"
 	    "'path':[{'id':'PBS1','type':'splitter','polarizing':true,"
 	    " 'reflected':[{'id':'BDr','type':'dump'}]},{'id':'BD','type':'dump'}]}");
@@ -683,7 +623,7 @@ END_TEST
  */
 START_TEST(test_convex_mirror_defaults)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'CM1','type':'mirror','roc':'-2 m'},"
 	    "{'id':'S1','type':'space','length':'1 m'},"
 	    "{'id':'POL1','type':'polarizer','angle':90},{'id':'BD','type':'dump'}]}");
@@ -723,7 +663,7 @@ static const struct range_case {
 START_TEST(test_pulse_range_edges)
 {
 	const struct range_case *c = &range_cases[_i];
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'%s','pulse_energy':'1 mJ'}},"
 	    "'path':[{'id':'M1','type':'mirror','damage':{'fluence':'10 J/cm^2',"
@@ -749,7 +689,7 @@ END_TEST
  */
 START_TEST(test_clip_flag_edge)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'M1','type':'mirror','aperture':'3.04 mm'},{'id':'BD','type':'dump'}]}");
 	struct trace *t = trace_run(b);
 
@@ -759,7 +699,7 @@ START_TEST(test_clip_flag_edge)
 	trace_free(t);
 	model_bench_free(b);
 
-	b = bench_text(HEAD CW_1W_1MM "'path':["
+	b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'M1','type':'mirror','aperture':'3.03 mm'},{'id':'BD','type':'dump'}]}");
 	t = trace_run(b);
 	CHECK_REL(row_of(t, "M1")->clip_loss, exp(-2 * 1.515 * 1.515), 1e-9);
@@ -786,7 +726,7 @@ END_TEST
  */
 START_TEST(test_ratio_powers)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'F1','type':'filter','od':0,'aperture':'2 mm','max_absorbed':'500 mW'},"
 	    "{'id':'BS1','type':'splitter','reflectance':0.5,'reflected':["
 	    " {'id':'BDr','type':'dump'}]},"
@@ -805,7 +745,7 @@ START_TEST(test_ratio_powers)
 	trace_free(t);
 	model_bench_free(b);
 
-	b = bench_text(HEAD CW_1W_1MM "'path':["
+	b = bench_text("conv", HEAD CW_1W_1MM "'path':["
 	    "{'id':'BD','type':'dump','aperture':'2 mm','max_power':'1.5 W'}]}");
 	t = trace_run(b);
 	CHECK_REL(row_of(t, "BD")->ratio, 1 / 1.5, 1e-12);
@@ -814,7 +754,7 @@ START_TEST(test_ratio_powers)
 	trace_free(t);
 	model_bench_free(b);
 
-	b = bench_text(HEAD
+	b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1064 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'10 mJ'}},"
 	    "'path':[{'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 W/cm^2'}},"
@@ -863,7 +803,7 @@ START_TEST(test_json_fields)
 	    "fluence", "peak_power" };
 	static const char *const focus[] = { "z", "radius_x", "radius_y", "irradiance",
 	    "peak_irradiance", "air_breakdown" };
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'1 ps','pulse_energy':'2 mJ'}},"
 	    "'path':[{'id':'W1','type':'window','thickness':'10 mm','n2':2.7e-20},"
@@ -947,8 +887,6 @@ main(void)
 	TCase *tb = tcase_create("beam");
 	TCase *tp = tcase_create("power");
 	TCase *tf = tcase_create("format");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_loop_test(tb, test_waist_position_sign, 0, NELEMS(wp_cases));
 	tcase_add_loop_test(tb, test_m2_pair, 0, 2);
@@ -978,9 +916,5 @@ main(void)
 	tcase_add_test(tf, test_json_fields);
 	suite_add_tcase(s, tf);
 
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

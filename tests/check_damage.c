@@ -14,26 +14,7 @@
 #include "core-material.h"
 #include "core-model.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
-
-#define CHECK_REL(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
-	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-#define CHECK_ABS(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_,				\
-	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-/* Half a unit of the last printed digit of a table value. */
-static double
-half_digit(int dec)
-{
-	return 0.5 * pow(10, -dec) * (1 + 1e-9);
-}
+#include "check-util.h"
 
 /*
  * §4: peak irradiance I0 = 2P/(π wx wy), fluence F0 = 2E/(π wx wy)
@@ -553,8 +534,6 @@ main(void)
 	Suite *s = suite_create("damage");
 	TCase *tc = tcase_create("damage");
 	TCase *tm = tcase_create("material");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_test(tc, test_peak_irradiance);
 	tcase_add_test(tc, test_fluence_area);
@@ -581,9 +560,5 @@ main(void)
 	tcase_add_test(tm, test_silica_range);
 	suite_add_tcase(s, tm);
 
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

@@ -17,16 +17,8 @@
 #include "report-diff.h"
 #include "util-err.h"
 
-static struct bench *
-demo(void)
-{
-	char *cause = NULL;
-	struct bench *b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo",
-	    &cause);
-
-	ck_assert_msg(b != NULL, "%s", cause);
-	return b;
-}
+#include "check-bench-util.h"
+#include "check-util.h"
 
 static void
 set(struct bench *b, const char *id, const char *key, const char *val)
@@ -323,8 +315,6 @@ main(void)
 {
 	Suite *s = suite_create("diff");
 	TCase *tc = tcase_create("diff");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_test(tc, test_identical);
 	tcase_add_test(tc, test_value_changed);
@@ -333,12 +323,8 @@ main(void)
 	tcase_add_test(tc, test_reversed_long);
 	tcase_add_test(tc, test_settings_labels);
 	tcase_add_test(tc, test_report_text_json);
-	tcase_add_loop_test(tc, test_value_show, 0, sizeof show_cases / sizeof *show_cases);
+	tcase_add_loop_test(tc, test_value_show, 0, NELEMS(show_cases));
 	tcase_add_test(tc, test_key_show);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

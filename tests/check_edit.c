@@ -13,16 +13,8 @@
 #include "core-edit.h"
 #include "core-trace.h"
 
-static struct bench *
-demo(void)
-{
-	char *cause = NULL;
-	struct bench *b = bench_file_parse(bench_demo_text, strlen(bench_demo_text),
-	    "demo", &cause);
-
-	ck_assert_msg(b != NULL, "%s", cause);
-	return b;
-}
+#include "check-bench-util.h"
+#include "check-util.h"
 
 /* Edits that must be refused, each with a word its message must contain. */
 static const struct { const char *id, *key, *value, *word; } bad_sets[] = {
@@ -186,19 +178,12 @@ main(void)
 {
 	Suite *s = suite_create("edit");
 	TCase *tc = tcase_create("core");
-	SRunner *sr;
-	int nf;
 
-	tcase_add_loop_test(tc, test_refused_set_changes_nothing, 0,
-	    (int)(sizeof bad_sets / sizeof *bad_sets));
+	tcase_add_loop_test(tc, test_refused_set_changes_nothing, 0, NELEMS(bad_sets));
 	tcase_add_test(tc, test_set_and_unset);
 	tcase_add_test(tc, test_add_places);
 	tcase_add_test(tc, test_move_and_remove);
 	tcase_add_test(tc, test_bench_settings);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

@@ -15,6 +15,8 @@
 #include "core-layout.h"
 #include "core-trace.h"
 
+#include "check-util.h"
+
 static struct bench *
 demo(void)
 {
@@ -714,8 +716,6 @@ main(void)
 {
 	Suite *s = suite_create("layout");
 	TCase *tc = tcase_create("format");
-	SRunner *sr;
-	int nf;
 
 	LOOP(tc, test_bar, bar_cases);
 	LOOP(tc, test_percent, pct_cases);
@@ -749,9 +749,5 @@ main(void)
 	LOOP(tc, test_ticks, tick_cases);
 	LOOP(tc, test_map_col, map_cases);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

@@ -11,28 +11,10 @@
 
 #include "core-polar.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
+#include "check-util.h"
+
 #define TOL		1e-9	/* REFERENCE §8: tol 1e-9 abs */
 #define DEG		(M_PI / 180)
-
-#define CHECK_ABS(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_,				\
-	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-static uint64_t
-lcg_next(uint64_t *state)
-{
-	*state = *state * 6364136223846793005ULL + 1442695040888963407ULL;
-	return *state;
-}
-
-static double
-lcg_uniform(uint64_t *state, double lo, double hi)
-{
-	return lo + (hi - lo) * ((double)(lcg_next(state) >> 11) / 9007199254740992.0);
-}
 
 static void
 check_stokes(const double got[4], double s0, double s1, double s2, double s3,
@@ -450,8 +432,6 @@ main(void)
 {
 	Suite *s = suite_create("polar");
 	TCase *tc = tcase_create("stokes");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_test(tc, test_states);
 	tcase_add_test(tc, test_hwp_pbs);
@@ -469,9 +449,5 @@ main(void)
 	tcase_add_test(tc, test_mul_order);
 	tcase_add_test(tc, test_scalar);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

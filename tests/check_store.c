@@ -20,6 +20,8 @@
 #include "store.h"
 #include "util-err.h"
 
+#include "check-util.h"
+
 static char dir[64];
 static char path[128];
 static struct store *st;
@@ -814,15 +816,12 @@ main(void)
 {
 	Suite *s = suite_create("store");
 	TCase *tc = tcase_create("store");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_checked_fixture(tc, setup, teardown);
 	tcase_set_timeout(tc, 20);
 	tcase_add_test(tc, test_open_schema);
 	tcase_add_test(tc, test_refuse_not_database);
-	tcase_add_loop_test(tc, test_refuse_foreign, 0,
-	    sizeof foreign_cases / sizeof *foreign_cases);
+	tcase_add_loop_test(tc, test_refuse_foreign, 0, NELEMS(foreign_cases));
 	tcase_add_test(tc, test_empty_file_initialised);
 	tcase_add_test(tc, test_readonly);
 	tcase_add_test(tc, test_default_path);
@@ -834,15 +833,11 @@ main(void)
 	tcase_add_test(tc, test_labels_resolve);
 	tcase_add_test(tc, test_restore);
 	tcase_add_test(tc, test_clone_delete);
-	tcase_add_loop_test(tc, test_odd_names, 0, sizeof odd_names / sizeof *odd_names);
+	tcase_add_loop_test(tc, test_odd_names, 0, NELEMS(odd_names));
 	tcase_add_test(tc, test_draft_edit);
 	tcase_add_test(tc, test_draft_save_checks);
 	tcase_add_test(tc, test_parts);
 	tcase_add_test(tc, test_parts_import_all_or_nothing);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

@@ -19,66 +19,12 @@
 #include "core-model.h"
 #include "core-trace.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
-
-#define CHECK_REL(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_ * fabs(w_),			\
-	    "%s = %.17g, want %.17g (rel tol %g)", #got, g_, w_, t_);	\
-} while (0)
-
-#define CHECK_ABS(got, want, tol) do {					\
-	double g_ = (got), w_ = (want), t_ = (tol);			\
-	ck_assert_msg(fabs(g_ - w_) <= t_,				\
-	    "%s = %.17g, want %.17g (abs tol %g)", #got, g_, w_, t_);	\
-} while (0)
+#include "check-bench-util.h"
+#include "check-util.h"
 
 /* Bench files are written here with ' for " to keep them readable. */
 #define HEAD "{'format':'beamledger-bench-1','name':'t',"
 #define CW_1W_1MM "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},"
-
-static struct bench *
-bench_text(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
-
-static struct bench *
-bench_text(const char *fmt, ...)
-{
-	char text[8192], *cause = NULL;
-	struct bench *b;
-	va_list ap;
-	int n;
-
-	va_start(ap, fmt);
-	n = vsnprintf(text, sizeof text, fmt, ap);
-	va_end(ap);
-	ck_assert(n > 0 && (size_t)n < sizeof text);
-	for (char *p = text; *p != '\0'; p++)
-		if (*p == '\'')
-			*p = '"';
-	b = bench_file_parse(text, strlen(text), "test", &cause);
-	ck_assert_msg(b != NULL, "bench did not parse: %s\n%s", cause, text);
-	return b;
-}
-
-static const struct trace_row *
-row_of(const struct trace *t, const char *id)
-{
-	for (size_t i = 0; i < t->nrows; i++)
-		if (strcmp(t->rows[i].el->id, id) == 0)
-			return &t->rows[i];
-	ck_abort_msg("no row for element '%s'", id);
-	return NULL;
-}
-
-static size_t
-count_warn(const struct trace *t, enum trace_warn_kind k)
-{
-	size_t n = 0;
-
-	for (size_t i = 0; i < t->nwarn; i++)
-		n += t->warn[i].kind == k;
-	return n;
-}
 
 static const struct trace_warning *
 warn_after(const struct trace *t, enum trace_warn_kind k, const char *after)
@@ -131,7 +77,7 @@ radius_at(double w0, double zr, double dz)
  * of S1 (trace-conventions.md). */
 START_TEST(test_lens_focus)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'S1','type':'space','length':'1 m'},"
 	    "{'id':'L1','type':'lens','focal':'100 mm'},"
 	    "{'id':'S2','type':'space','length':'300 mm'},"
@@ -183,7 +129,7 @@ END_TEST
  * reflected 2 W × (0.02 cos²30° + 0.995 sin²30°) = 0.5275 W. */
 START_TEST(test_hwp_pbs_split)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'2 W','waist':'1 mm','polarization':0},"
 	    "'path':["
 	    "{'id':'HWP1','type':'waveplate','retardance':0.5,'angle':15},"
@@ -228,7 +174,7 @@ END_TEST
  * reflected light continues along the enclosing list (bench-format.md). */
 START_TEST(test_splitter_transmitted_side)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'2 W','waist':'1 mm','polarization':30},"
 	    "'path':["
 	    "{'id':'BS1','type':'splitter','reflectance':0.3,"
@@ -257,7 +203,7 @@ END_TEST
  * practice, no source (REFERENCE §9 [CP]). */
 START_TEST(test_clipping)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'IR1','type':'iris','diameter':'2 mm'},"
 	    "{'id':'M1','type':'mirror','aperture':'3 mm'},"
 	    "{'id':'M2','type':'mirror','aperture':'4 mm'},"
@@ -291,7 +237,7 @@ END_TEST
 /* REFERENCE §9: wx = 1.2 mm, wy = 0.6 mm, a = 1.0 mm passes 0.883459. */
 START_TEST(test_clipping_elliptical)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':['1.2 mm','0.6 mm']},"
 	    "'path':[{'id':'IR1','type':'iris','diameter':'2 mm'}]}");
 	struct trace *t = trace_run(b);
@@ -331,7 +277,7 @@ static const struct nd_case {
 START_TEST(test_nd_filter)
 {
 	const struct nd_case *c = &nd_cases[_i];
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'ND1','type':'filter',%s},{'id':'BD','type':'dump'}]}", c->filter);
 	struct trace *t = trace_run(b);
 	const struct trace_row *nd = row_of(t, "ND1");
@@ -354,7 +300,7 @@ END_TEST
  * brute-force scan of the closed forms. */
 START_TEST(test_astigmatic_mirror)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'2 mm'},"
 	    "'path':["
 	    "{'id':'CM1','type':'mirror','roc':'1 m','aoi':45},"
@@ -394,7 +340,7 @@ END_TEST
  * focuses x only (bench-format.md). */
 START_TEST(test_flat_mirror_cylinder)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'M1','type':'mirror','aoi':45},"
 	    "{'id':'S1','type':'space','length':'1 m'},"
 	    "{'id':'CL1','type':'lens','focal':'100 mm','axis':'x'},"
@@ -425,7 +371,7 @@ END_TEST
  * density 0.1 W/(2·0.5 mm) = 100 W/m, field √(2 I_pk/(c ε0)) (REFERENCE §5). */
 START_TEST(test_pulsed_quantities)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','waist':'0.5 mm',"
 	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','shape':'gaussian',"
 	    "           'pulse_energy':'10 mJ'}},"
@@ -466,7 +412,7 @@ static const struct shape_case {
 
 START_TEST(test_pulse_shapes)
 {
-	struct bench *b = bench_text(HEAD "'source':{'wavelength':'1030 nm','pulsed':{%s},"
+	struct bench *b = bench_text("test", HEAD "'source':{'wavelength':'1030 nm','pulsed':{%s},"
 	    "'path':[{'id':'W1','type':'window'}]}", shape_cases[_i].pulsed);
 	struct trace *t = trace_run(b);
 
@@ -502,7 +448,7 @@ static const struct spark_case {
 START_TEST(test_air_breakdown)
 {
 	const struct spark_case *c = &spark_cases[_i];
-	struct bench *b = bench_text(HEAD "%s'source':{'wavelength':'1064 nm','waist':'1 mm',%s},"
+	struct bench *b = bench_text("test", HEAD "%s'source':{'wavelength':'1064 nm','waist':'1 mm',%s},"
 	    "'path':[{'id':'S1','type':'space','length':'1 m'},"
 	    "{'id':'L1','type':'lens','focal':'100 mm'},"
 	    "{'id':'S2','type':'space','length':'300 mm'},"
@@ -550,7 +496,7 @@ b1_energy(double b1, double lambda, double n2, double len, double w0, double tau
 START_TEST(test_b_integral_warning)
 {
 	double e = b1_energy(1.25, 1030e-9, 2.7e-20, 10e-3, 1e-3, 1e-12);
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'1 ps','pulse_energy':%.17g}},"
 	    "'path':[" WIN("W1") "," WIN("W2") "," WIN("W3") "," WIN("W4") ","
@@ -587,7 +533,7 @@ END_TEST
 START_TEST(test_b_integral_branches)
 {
 	double e = b1_energy(1.25, 1030e-9, 2.7e-20, 10e-3, 1e-3, 1e-12);
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'1 ps','pulse_energy':%.17g}},"
 	    "'path':[" WIN("W1") "," WIN("W2") ","
@@ -618,7 +564,7 @@ END_TEST
  * (P_cr ≈ 4 MW, REFERENCE §11); the B of a CW beam uses its irradiance. */
 START_TEST(test_no_self_focusing_cw)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'W1','type':'window','thickness':'10 mm','n2':'2.74e-16 cm^2/W',"
 	    " 'index':1.4496}]}");
 	struct trace *t = trace_run(b);
@@ -642,7 +588,7 @@ END_TEST
  * ends in a space (hand, Malus). */
 START_TEST(test_unterminated)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':30},"
 	    "'path':["
 	    "{'id':'POL1','type':'polarizer','angle':0,"
@@ -674,7 +620,7 @@ END_TEST
  * reject (1 - t/ER) sin² = 0.2497575, absorb 0.03 × 0.75 = 0.0225 (hand). */
 START_TEST(test_polarizer_ports)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':30},"
 	    "'path':["
 	    "{'id':'POL1','type':'polarizer','angle':0,'transmission':0.97,'extinction':1000,"
@@ -696,7 +642,7 @@ END_TEST
 START_TEST(test_terminators)
 {
 	static const char *const types[] = { "dump", "detector", "target" };
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'BS1','type':'splitter','reflectance':0.25,'reflected':[{'id':'E1','type':'%s'}]},"
 	    "{'id':'BS2','type':'splitter','reflectance':0.5,'transmitted':[{'id':'E2','type':'%s'}]},"
 	    "{'id':'E3','type':'%s'}]}", types[_i], types[(_i + 1) % 3], types[(_i + 2) % 3]);
@@ -738,7 +684,7 @@ static const struct worst_case {
 START_TEST(test_worst_and_safe)
 {
 	const struct worst_case *c = &worst_cases[_i];
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':%.17g,'waist':'0.5 mm'},"
 	    "'path':["
 	    "{'id':'M1','type':'mirror','damage':{'cw_linear':'1000 W/cm'}},"
@@ -787,7 +733,7 @@ static const struct edge_case {
 START_TEST(test_status_edges)
 {
 	const struct edge_case *c = &edge_cases[_i];
-	struct bench *b = bench_text(HEAD "'safety_factor':%.17g,"
+	struct bench *b = bench_text("test", HEAD "'safety_factor':%.17g,"
 	    "'source':{'wavelength':'1064 nm','power':%.17g,'waist':'1 mm'},"
 	    "'path':[{'id':'BD','type':'dump','max_power':'1 W'}]}", c->sf, c->power);
 	struct trace *t = trace_run(b);
@@ -804,7 +750,7 @@ END_TEST
 /* Nothing rated: worst -1, safe NAN (core-trace.h). */
 START_TEST(test_nothing_rated)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':[{'id':'BD','type':'dump'}]}");
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':[{'id':'BD','type':'dump'}]}");
 	struct trace *t = trace_run(b);
 
 	ck_assert_int_eq(t->worst, -1);
@@ -821,7 +767,7 @@ END_TEST
  * 8 ns beam: hand 1.2 × (1064/532) × √(8/5) = 3.0357865 J/cm². */
 START_TEST(test_scaling_flags)
 {
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'8 ns','pulse_energy':'50 mJ'}},"
 	    "'path':[{'id':'W1','type':'window','damage':{'fluence':'1.2 J/cm^2',"
@@ -855,7 +801,7 @@ END_TEST
  * never scale a pulsed rating to CW). */
 START_TEST(test_pulsed_rating_on_cw)
 {
-	struct bench *b = bench_text(HEAD CW_1W_1MM "'path':["
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
 	    "{'id':'M1','type':'mirror','damage':{'fluence':'10 J/cm^2','pulse_width':'10 ns'}}]}");
 	struct trace *t = trace_run(b);
 	const struct trace_row *m = row_of(t, "M1");
@@ -892,7 +838,7 @@ START_TEST(test_mirror_polarization)
 {
 	static const char *const pols[] = { "'unpolarized'", "'circular'", "0", "90" };
 	static const double want[] = { 0.9875, 0.9875, 0.98, 0.995 };
-	struct bench *b = bench_text(HEAD
+	struct bench *b = bench_text("test", HEAD
 	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':%s},"
 	    "'path':[{'id':'M1','type':'mirror','rs':0.995,'rp':0.98},"
 	    "{'id':'BD','type':'dump'}]}", pols[_i]);
@@ -908,30 +854,6 @@ END_TEST
  * (b) Random benches: a fixed-seed generator builds valid benches with the
  * model API, every element type, nested side branches and apertures.
  */
-struct gen {
-	uint64_t st;
-	unsigned next_id;
-};
-
-static uint64_t
-gen_next(struct gen *g)
-{
-	g->st = g->st * 6364136223846793005ULL + 1442695040888963407ULL;
-	return g->st >> 11;
-}
-
-static double
-gen_uniform(struct gen *g, double lo, double hi)
-{
-	return lo + (hi - lo) * ((double)gen_next(g) / 9007199254740992.0);
-}
-
-static int
-gen_chance(struct gen *g, double p)
-{
-	return gen_uniform(g, 0, 1) < p;
-}
-
 static void
 gen_set(struct element *el, enum model_key k, double v)
 {
@@ -1326,8 +1248,6 @@ main(void)
 	Suite *s = suite_create("trace");
 	TCase *tw = tcase_create("worked");
 	TCase *tr = tcase_create("random");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_test(tw, test_lens_focus);
 	tcase_add_test(tw, test_hwp_pbs_split);
@@ -1362,9 +1282,5 @@ main(void)
 	tcase_set_timeout(tr, 120);
 	suite_add_tcase(s, tr);
 
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }

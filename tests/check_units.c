@@ -13,7 +13,7 @@
 
 #include "core-units.h"
 
-#define NELEMS(a)	((int)(sizeof (a) / sizeof (a)[0]))
+#include "check-util.h"
 
 /* A value units_parse must not touch when it fails. */
 #define UNTOUCHED	-42.0
@@ -492,17 +492,6 @@ START_TEST(test_format_truncate)
 }
 END_TEST
 
-/*
- * A fixed-seed generator, so the "random" values are the same everywhere
- * (Knuth's MMIX LCG constants; the high bits are the good ones).
- */
-static uint64_t
-lcg_next(uint64_t *state)
-{
-	*state = *state * 6364136223846793005ULL + 1442695040888963407ULL;
-	return *state;
-}
-
 /* Finite doubles spread over every magnitude: bit patterns for half
  * (every other one with a zero exponent field, i.e. subnormal), bench-sized
  * mantissas times 10^-20..10^21 for the rest. */
@@ -641,8 +630,6 @@ main(void)
 {
 	Suite *s = suite_create("units");
 	TCase *tc = tcase_create("core");
-	SRunner *sr;
-	int nf;
 
 	tcase_add_loop_test(tc, test_parse_prefix, 0, NELEMS(prefix_cases));
 	tcase_add_loop_test(tc, test_parse_unit, 0, NELEMS(unit_cases));
@@ -657,9 +644,5 @@ main(void)
 	tcase_add_loop_test(tc, test_exact_edges, 0, NELEMS(edge_values));
 	tcase_add_test(tc, test_exact_random);
 	suite_add_tcase(s, tc);
-	sr = srunner_create(s);
-	srunner_run_all(sr, CK_ENV);
-	nf = srunner_ntests_failed(sr);
-	srunner_free(sr);
-	return nf ? EXIT_FAILURE : EXIT_SUCCESS;
+	return run_suite(s);
 }
