@@ -79,19 +79,17 @@ row_line(struct buf *b, const struct trace *t, const struct trace_row *r,
 	units_format(v1, sizeof v1, r->power_in, DIM_POWER, 3, a);
 	col(b, s, x += W_P, v1, 1);
 	units_format(v1, sizeof v1, r->wx, DIM_LENGTH, 3, a);
-	if (fabs(r->wx - r->wy) <= 5e-4 * r->wx) {
+	units_format(v2, sizeof v2, r->wy, DIM_LENGTH, 3, a);
+	if (strcmp(v1, v2) == 0) {          /* round beam, as far as shown */
 		col(b, s, x += W_R, v1, 1);
 	} else {
-		units_format(v2, sizeof v2, r->wy, DIM_LENGTH, 3, a);
 		/* "1.20/0.600 mm" when both share a unit */
-		{
-			const char *u1 = strchr(v1, ' '), *u2 = strchr(v2, ' ');
+		const char *u1 = strchr(v1, ' '), *u2 = strchr(v2, ' ');
 
-			if (u1 != NULL && u2 != NULL && strcmp(u1, u2) == 0)
-				snprintf(tmp, sizeof tmp, "%.*s/%s", (int)(u1 - v1), v1, v2);
-			else
-				snprintf(tmp, sizeof tmp, "%s/%s", v1, v2);
-		}
+		if (u1 != NULL && u2 != NULL && strcmp(u1, u2) == 0)
+			snprintf(tmp, sizeof tmp, "%.*s/%s", (int)(u1 - v1), v1, v2);
+		else
+			snprintf(tmp, sizeof tmp, "%s/%s", v1, v2);
 		col(b, s, x += W_R, tmp, 1);
 	}
 	units_format(v1, sizeof v1, r->peak_irradiance, DIM_IRRADIANCE, 3, a);
