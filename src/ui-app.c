@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "bench-file.h"
 #include "ui-app.h"
 #include "util-err.h"
 
@@ -20,19 +21,29 @@ app_msg(struct app *a, int error, const char *fmt, ...)
 {
 	va_list ap;
 
+	/* A failure told while handling this key (a draft that could not be
+	 * saved) outranks the action's own report of success. */
+	if (!error && a->msg_error && a->msg != NULL && a->msg_seq == a->key_seq)
+		return;
 	free(a->msg);
 	va_start(ap, fmt);
 	a->msg = xvasprintf(fmt, ap);
 	va_end(ap);
 	a->msg_error = error;
+	a->msg_seq = a->key_seq;
 }
 
 void
 app_msg_take(struct app *a, int error, char *cause)
 {
+	if (!error && a->msg_error && a->msg != NULL && a->msg_seq == a->key_seq) {
+		free(cause);
+		return;
+	}
 	free(a->msg);
 	a->msg = cause != NULL ? cause : xstrdup(error ? "failed" : "");
 	a->msg_error = error;
+	a->msg_seq = a->key_seq;
 }
 
 int
@@ -156,14 +167,60 @@ app_refresh_rev(struct app *a)
 	free(cause);
 }
 
+/* Inside the store's write transaction: the stored draft is replaced only
+ * if it is still the one this workbench last saw. */
+struct save_ctx {
+	const struct app *a;
+	int               conflict;
+};
+
+static int
+save_if_unchanged(struct bench *stored, void *arg, char **cause)
+{
+	struct save_ctx *c = arg;
+	char *now = bench_file_dump(stored);
+	struct bench *copy, tmp;
+	int same = c->a->stored == NULL || strcmp(now, c->a->stored) == 0;
+
+	free(now);
+	if (!same) {
+		c->conflict = 1;
+		return fail_with(cause, "another beamledger changed this bench's draft; "
+		    "this change is kept here but not saved (your next change replaces "
+		    "theirs; q and reopen the bench to take theirs instead)");
+	}
+	copy = model_bench_dup(c->a->bench);
+	tmp = *stored;
+	*stored = *copy;
+	*copy = tmp;
+	model_bench_free(copy);
+	return 0;
+}
+
+static void
+remember_stored(struct app *a)
+{
+	free(a->stored);
+	a->stored = a->bench != NULL ? bench_file_dump(a->bench) : NULL;
+}
+
 int
 app_save(struct app *a)
 {
+	struct save_ctx ctx = { a, 0 };
 	char *cause = NULL;
 
 	if (a->bench == NULL || a->readonly)
 		return 0;
-	if (store_draft_save(a->store, a->name, a->bench, &cause) != 0) {
+	if (store_draft_edit(a->store, a->name, save_if_unchanged, &ctx, &cause) != 0) {
+		if (ctx.conflict) {
+			/* told once: what is stored now is what the next change replaces */
+			struct bench *theirs = store_bench_load(a->store, a->name, "draft", NULL, NULL);
+
+			free(a->stored);
+			a->stored = theirs != NULL ? bench_file_dump(theirs) : NULL;
+			model_bench_free(theirs);
+		}
 		free(a->unsaved);
 		a->unsaved = cause != NULL ? cause : xstrdup("the draft could not be saved");
 		app_msg(a, 1, "draft NOT saved: %s (kept in memory; saved again on the next change)",
@@ -172,6 +229,7 @@ app_save(struct app *a)
 	}
 	free(a->unsaved);
 	a->unsaved = NULL;
+	remember_stored(a);
 	{
 		int ch = 1;
 
@@ -194,6 +252,7 @@ app_open_bench(struct app *a, const char *name, char **cause)
 	a->bench = b;
 	a->sel = 0;
 	a->scroll = 0;
+	remember_stored(a);
 	app_retrace(a);
 	app_refresh_rev(a);
 	return 0;
@@ -211,6 +270,8 @@ app_close_bench(struct app *a)
 	free_stack(a->undo, &a->nundo);
 	free_stack(a->redo, &a->nredo);
 	free(a->unsaved);
+	free(a->stored);
+	a->stored = NULL;
 	a->name = NULL;
 	a->bench = NULL;
 	a->trace = NULL;
@@ -287,6 +348,7 @@ app_replace_bench(struct app *a, struct bench *b)
 	push_snapshot(&a->undo, &a->nundo, a->bench);
 	free_stack(a->redo, &a->nredo);
 	a->bench = b;
+	remember_stored(a);
 	app_retrace(a);
 	app_refresh_rev(a);
 }
@@ -562,6 +624,7 @@ ui_run(const struct ui_opts *o)
 			break;
 		if (key < 0)
 			continue;
+		a->key_seq++;
 		ui_app_key(a, key);
 		dirty = 1;
 	}

@@ -105,6 +105,8 @@ struct app {
 	int                too_small;
 	char              *msg;         /* owned: last message */
 	int                msg_error;
+	unsigned           key_seq;     /* keys handled so far */
+	unsigned           msg_seq;     /* key_seq when msg was set */
 
 	/* the open bench (bench == NULL: none) */
 	char              *name;        /* owned */
@@ -118,6 +120,9 @@ struct app {
 	int                latest_rev;  /* 0: none */
 	int                draft_changed;
 	char              *unsaved;     /* owned: why the last save failed, NULL when saved */
+	char              *stored;      /* owned: bench-file text of the draft as last
+	                                 * loaded or saved here, to notice another
+	                                 * writer's change before overwriting it */
 	int                cursor_y, cursor_x;  /* where the terminal cursor goes, -1: hidden */
 };
 

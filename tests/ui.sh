@@ -156,6 +156,23 @@ check "q goes back to the list" wait_for direct "updated (UTC)"
 t_keys direct q
 check "and quits" wait_exit direct 5
 
+# ---- another writer changes the draft while the workbench is open ----
+"$BL" --db "$DB" clone focus-test two-writers >/dev/null 2>&1
+t_start two 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open two-writers
+check "second bench open" wait_for two "two-writers"
+"$BL" --db "$DB" set two-writers S1 'length=321 mm' >/dev/null 2>&1
+t_keys two x
+check "an edit over another writer's change is not saved, and says so" \
+	wait_for two "another beamledger changed"
+check "the other writer's value is still stored" \
+	sh -c '"$1" --db "$2" export two-writers | grep -q "\"length\": 0.321"' _ "$BL" "$DB"
+t_keys two u
+check "the next change replaces it, as the message said" wait_for two "draft saved"
+check "now the workbench's draft is stored" \
+	sh -c '! "$1" --db "$2" export two-writers | grep -q "\"length\": 0.321"' _ "$BL" "$DB"
+t_keys two Q
+check "and quits" wait_exit two 5
+
 # ---- a bench that is not there: said before the screen is taken ----
 t_start nosuch 80 24 sh -c '"$0" --db "$1" open no-such-bench 2>"$2"' "$BL" "$DB" "$T_DIR/nosuch.err"
 check "open of a missing bench exits" wait_exit nosuch 5
