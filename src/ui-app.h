@@ -92,6 +92,7 @@ struct ui_pane {
 struct ui_line {
 	char   *s;                  /* owned */
 	size_t  len, cap, cur;
+	int     fresh;              /* text as set, untouched: typing replaces it */
 };
 
 struct app {

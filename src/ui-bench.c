@@ -803,18 +803,18 @@ const struct ui_key ui_bench_chain_keys[] = {
 	    "edit the selected element's values in place (also e, Tab)", wb_k_fields, 0 },
 	{ { 'a' }, "a", "add", 1, "add an element after the selection (on a port row: into that branch)", k_add, UI_K_EDITS },
 	{ { 'i' }, "i", "insert", 3, "insert an element before the selection", k_insert, UI_K_EDITS },
-	{ { 'x', UI_FKEY(KEY_DC) }, "x", "delete", 1, "delete the selected element and its side branch (also Del)", k_delete, UI_K_EDITS },
+	{ { 'x', UI_FKEY(KEY_DC) }, "x", "del", 2, "delete the selected element and its side branch (also Del)", k_delete, UI_K_EDITS },
 	{ { 'm' }, "m", "move", 3, "move the selection: pick a row, then Enter", k_move, UI_K_EDITS },
 	{ { '[', '-' }, "[", NULL, 0, "move the selection one place up its branch", k_nudge_up, UI_K_EDITS },
 	{ { ']', '+' }, "]", NULL, 0, "move the selection one place down its branch", k_nudge_down, UI_K_EDITS },
 	{ { 'u' }, "u", "undo", 1, "undo the last change to the draft", k_undo, UI_K_EDITS },
 	{ { 'U', UI_CTRL('r') }, "U", "redo", 4, "redo (also ^R)", k_redo, UI_K_EDITS },
-	{ { 's' }, "s", "source", 2, "edit the source and bench settings (wavelength, power, pulse, waist, M\u00b2, ...)", wb_k_settings, 0 },
+	{ { 's' }, "s", "source", 3, "edit the source and bench settings (wavelength, power, pulse, waist, M\u00b2, ...)", wb_k_settings, 0 },
 	{ { 'w' }, "w", "worst", 3, "jump to the worst element", k_worst, 0 },
 	{ { 'n' }, "n", NULL, 0, "jump to the next element at caution or over", k_next_problem, 0 },
-	{ { 'p' }, "p", "profile", 2, "beam profile along the selected element's branch", k_profile, 0 },
+	{ { 'p' }, "p", "profile", 1, "beam profile along the selected element's branch", k_profile, 0 },
 	{ { 'P' }, "P", "parts", 3, "the parts shelf: place a part, keep an element as a part", k_parts, 0 },
-	{ { 'h' }, "h", "history", 2, "revisions: diff, restore, label", k_history, 0 },
+	{ { 'h' }, "h", "history", 1, "revisions: diff, restore, label", k_history, 0 },
 	{ { 'c' }, "c", "commit", 1, "commit the draft as a new revision, with a note", k_commit, UI_K_EDITS },
 	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved)", k_back, 0 },
 	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
@@ -846,6 +846,8 @@ wb_key(struct app *a, struct ui_pane *p, int key)
 				return UI_REDRAW;
 			return k->fn(a, p);
 		}
+	if (d->focus == WB_FIELDS && d->moving == NULL)
+		return wb_fields_type(a, d, key);
 	return UI_NONE;
 }
 

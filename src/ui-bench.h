@@ -38,6 +38,7 @@ int    wb_place(struct app *, struct element *el, char **cause);
 enum ui_reaction wb_k_fields(struct app *, struct ui_pane *);
 enum ui_reaction wb_k_settings(struct app *, struct ui_pane *);
 enum ui_reaction wb_edit_key(struct app *, struct wb *, int key);
+enum ui_reaction wb_fields_type(struct app *, struct wb *, int key);   /* typing at a field edits it */
 enum ui_reaction wb_click_fields(struct app *, struct wb *, int row, int dbl, struct ui_pane *);
 extern const struct ui_key ui_bench_field_keys[];
 extern const struct ui_key ui_bench_chain_keys[];

@@ -499,6 +499,20 @@ f_clear(struct app *a, struct ui_pane *p)
 	return begin_edit(a, p->data, "");
 }
 
+/* A value typed straight at a chosen field ("150 mm") starts editing it. */
+enum ui_reaction
+wb_fields_type(struct app *a, struct wb *d, int key)
+{
+	enum ui_reaction r;
+
+	if (!((key >= '0' && key <= '9') || key == '-' || key == '+' || key == '.'))
+		return UI_NONE;
+	r = begin_edit(a, d, "");
+	if (d->editing)
+		ui_line_key(&d->line, key);
+	return r;
+}
+
 static enum ui_reaction
 f_back(struct app *a, struct ui_pane *p)
 {

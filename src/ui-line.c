@@ -30,6 +30,7 @@ ui_line_set(struct ui_line *l, const char *s)
 	line_reserve(l, n);
 	memcpy(l->s, s != NULL ? s : "", n + 1);
 	l->len = l->cur = n;
+	l->fresh = n > 0;
 }
 
 void
@@ -68,8 +69,14 @@ cut(struct ui_line *l, size_t a, size_t b)
 int
 ui_line_key(struct ui_line *l, int key)
 {
+	int fresh;
+
 	if (l->s == NULL)
 		ui_line_set(l, "");
+	/* A value shown as it was set is replaced by what is typed, as in a
+	 * form; moving or deleting first keeps it for editing. */
+	fresh = l->fresh;
+	l->fresh = 0;
 	switch (key) {
 	case UI_FKEY(KEY_LEFT):
 	case UI_CTRL('b'):
@@ -118,8 +125,14 @@ ui_line_key(struct ui_line *l, int key)
 	default:
 		break;
 	}
-	if (UI_IS_FKEY(key) || key < 32 || key == 127)
+	if (UI_IS_FKEY(key) || key < 32 || key == 127) {
+		l->fresh = fresh;
 		return 0;
+	}
+	if (fresh) {
+		l->len = l->cur = 0;
+		l->s[0] = '\0';
+	}
 	{
 		char mb[8];
 		mbstate_t ps;
@@ -169,7 +182,7 @@ ui_line_draw(struct app *a, struct ui_line *l, int y, int x, int w)
 	vis = l->s + start;
 	ui_fill(a, y, x, w, ui_attr(a, UC_INPUT));
 	shown = (int)utf8_cols(vis);
-	ui_put(a, y, x, shown < w ? shown : w, vis, UC_INPUT);
+	ui_put(a, y, x, shown < w ? shown : w, vis, l->fresh ? UC_SELECT : UC_INPUT);
 	a->cursor_y = y;
 	a->cursor_x = x + before;
 }

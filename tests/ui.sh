@@ -79,6 +79,14 @@ t_keys ui C-u
 t_keys ui -l "1 kW/cm^2"
 step "rating stored" ui "W1 damage.cw_irradiance = 1 kW/cm^2" Enter
 check "window ok far from the focus" wait_line ui '^ W1 .* ok *$'
+# a value shown in the editor is replaced by typing, not appended to
+t_keys ui Enter
+wait_for ui "Enter apply" >/dev/null
+t_keys ui -l "2 kW/cm^2"
+step "typing replaces the shown value" ui "W1 damage.cw_irradiance = 2 kW/cm^2" Enter
+# and typing a number at a chosen field starts editing it
+t_keys ui -l "1 kW/cm^2"
+step "typing at a field edits it" ui "W1 damage.cw_irradiance = 1 kW/cm^2" Enter
 t_keys ui Escape
 check "back on the chain" wait_for ui "a add"
 check "add a space before the end" add s "50 mm" "added space S4"
