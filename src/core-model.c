@@ -249,6 +249,25 @@ parse_plain(const char *text, double *v)
 	return *end == '\0' && isfinite(*v) ? 0 : -1;
 }
 
+/* A value of the wrong dimension is often meant for a sibling key (an
+ * irradiance typed into damage.cw_linear): the key of this type that takes
+ * the dimension the text has, if there is one. */
+static const char *
+other_key(enum elem_type t, enum model_key k, const char *text)
+{
+	for (int j = 0; j < K_COUNT; j++) {
+		double v;
+
+		if (j == (int)k || model_keys[j].kind != KIND_QUANTITY ||
+		    model_keys[j].dim == model_keys[k].dim ||
+		    !model_key_applies((enum model_key)j, t))
+			continue;
+		if (units_parse(text, model_keys[j].dim, &v, NULL) == 0 && v != 0)
+			return model_key_path((enum model_key)j);
+	}
+	return NULL;
+}
+
 int
 model_set_text(struct element *el, enum model_key k, const char *text, char **cause)
 {
@@ -262,8 +281,11 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 	switch (d->kind) {
 	case KIND_QUANTITY:
 		if (units_parse(text, d->dim, &v, &why) != 0) {
-			fail_with(cause, "element '%s': %s: %s", el->id,
-			    model_key_path(k), why);
+			const char *hint = other_key(el->type, k, text);
+
+			fail_with(cause, "element '%s': %s: %s%s%s%s", el->id,
+			    model_key_path(k), why, hint != NULL ? " (for that, use " : "",
+			    hint != NULL ? hint : "", hint != NULL ? ")" : "");
 			free(why);
 			return -1;
 		}

@@ -31,6 +31,9 @@ static const struct { const char *id, *key, *value, *word; } bad_sets[] = {
 	{ "BS1", "side", "rejected", "no rejected port" },
 	{ "BS1", "side", "none", "remove them first" },
 	{ "PD1", "bogus", "1", "unknown key 'bogus'" },
+	/* a value of a sibling key's dimension names that key */
+	{ "W1", "damage.cw_linear", "500 kW/cm^2", "use damage.cw_irradiance" },
+	{ "W1", "damage.wavelength", "10 ns", "use damage.pulse_width" },
 };
 
 START_TEST(test_refused_set_changes_nothing)
