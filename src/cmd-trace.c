@@ -44,7 +44,7 @@ cmd_trace_print(const struct bench *b, enum report_format fmt,
 /* An operand that is not a file: BENCH[@REV] in the database, which must
  * exist already (a mistyped file name should not create one). */
 static struct bench *
-load_from_db(struct cmd_ctx *ctx, const char *arg, char **cause)
+load_from_db(struct cmd_ctx *ctx, const char *arg, char **shown, char **cause)
 {
 	char *path = ctx->db_path != NULL && ctx->db_path[0] != '\0' ?
 	    xstrdup(ctx->db_path) : store_default_path();
@@ -61,7 +61,7 @@ load_from_db(struct cmd_ctx *ctx, const char *arg, char **cause)
 	free(path);
 	if ((s = cmd_store_open(ctx)) == NULL)
 		return NULL;
-	b = cmd_bench_load(s, arg, &name, NULL, cause);
+	b = cmd_bench_load(s, arg, &name, shown, cause);
 	if (b == NULL && cause != NULL && *cause != NULL) {
 		char *why = xasprintf("no file '%s', and %s", arg, *cause);
 
@@ -86,10 +86,10 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		{ NULL, 0, NULL, 0 },
 	};
 	enum report_format fmt = REPORT_TABLE;
-	struct report_opts ro = { 0, 0 };
+	struct report_opts ro = { 0, 0, NULL };
 	const char *color = "auto";
 	struct bench *b;
-	char *cause = NULL;
+	char *cause = NULL, *origin = NULL;
 	int demo = 0, ch, rc;
 
 	optind = 0;
@@ -128,7 +128,9 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		return cmd_usage(demo ? "trace: give a file or --demo, not both" :
 		    "trace: which bench? give a file, a bench in the database, or --demo");
 	if (optind + 1 < argc)
-		return cmd_usage("trace: one bench at a time ('%s' is extra)", argv[optind + 1]);
+		return cmd_usage("trace: one bench at a time ('%s' is extra%s)", argv[optind + 1],
+		    argv[optind + 1][0] == 'r' || strcmp(argv[optind + 1], "draft") == 0 ?
+		    "; for a revision write BENCH@REV" : "");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
@@ -138,13 +140,16 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		if (strcmp(argv[optind], "-") == 0 || stat(argv[optind], &sb) == 0 ||
 		    errno != ENOENT)
 			b = bench_file_read(argv[optind], &cause);
-		else if ((b = load_from_db(ctx, argv[optind], &cause)) == NULL && cause == NULL)
+		else if ((b = load_from_db(ctx, argv[optind], &origin, &cause)) == NULL &&
+		    cause == NULL)
 			return 2;           /* the database said why already */
 	}
 	if (b == NULL)
 		return cmd_fail(cause);
+	ro.origin = origin;
 	rc = cmd_trace_print(b, fmt, &ro);
 	model_bench_free(b);
+	free(origin);
 	return rc;
 }
 

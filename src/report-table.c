@@ -189,7 +189,10 @@ report_table(const struct trace *t, const struct report_opts *o)
 
 	buf_init(&b);
 	src = report_source_line(bench, a);
-	buf_printf(&b, "Bench %s: %s\n", bench->name, src);
+	if (o->origin != NULL)
+		buf_printf(&b, "Bench %s @ %s: %s\n", bench->name, o->origin, src);
+	else
+		buf_printf(&b, "Bench %s: %s\n", bench->name, src);
 	free(src);
 	buf_printf(&b, "Safety factor %g: caution from %.0f %% of a threshold, over from 100 %%.\n\n",
 	    bench->safety_factor, 100 / bench->safety_factor);

@@ -11,6 +11,7 @@ enum report_format { REPORT_TABLE, REPORT_JSON, REPORT_CSV };
 struct report_opts {
 	int color;                  /* ANSI colour as an extra, never alone */
 	int ascii;                  /* no UTF-8 symbols */
+	const char *origin;         /* borrowed, may be NULL: "draft", "r3" (from the database) */
 };
 
 int   report_format_parse(const char *s, enum report_format *out);   /* 0 / -1 */
