@@ -18,7 +18,7 @@
 /* ---- geometry ---- */
 
 void
-wb_geometry(int h, struct wb_geom *g)
+wb_geometry(int h, size_t nrows, struct wb_geom *g)
 {
 	int rest = h - 7;           /* title, source, header, separator, msg, status, hints */
 
@@ -27,6 +27,10 @@ wb_geometry(int h, struct wb_geom *g)
 		g->detail_h = 6;
 	if (g->detail_h > 14)
 		g->detail_h = 14;
+	/* A short chain leaves its empty rows to the values and results,
+	 * which are what a person reads while laying it out. */
+	if ((int)nrows + 1 < rest - g->detail_h)
+		g->detail_h = rest - ((int)nrows + 1 > 4 ? (int)nrows + 1 : 4);
 	g->chain_y = 3;
 	g->chain_h = rest - g->detail_h;
 	g->sep_y = g->chain_y + g->chain_h;
@@ -193,8 +197,12 @@ draw_title(struct app *a, int w)
 		snprintf(rev, sizeof rev, "draft: changed since r%d", a->latest_rev);
 	else
 		snprintf(rev, sizeof rev, "draft = r%d", a->latest_rev);
-	t = xasprintf(" beamledger %s %s %s %s %s %zu elements", ui_glyph(a, GL_VBAR), a->name,
-	    ui_glyph(a, GL_VBAR), rev, ui_glyph(a, GL_VBAR), model_count(&a->bench->path));
+	{
+		size_t n = model_count(&a->bench->path);
+
+		t = xasprintf(" beamledger %s %s %s %s %s %zu element%s", ui_glyph(a, GL_VBAR),
+		    a->name, ui_glyph(a, GL_VBAR), rev, ui_glyph(a, GL_VBAR), n, n == 1 ? "" : "s");
+	}
 	ui_put(a, 0, 0, w - 17, t, UC_TITLE);
 	free(t);
 	if (a->readonly)
@@ -232,7 +240,7 @@ draw_wb(struct app *a, struct ui_pane *p, int h, int w)
 	struct layout_hint hints[40];
 	size_t nh;
 
-	wb_geometry(h, &g);
+	wb_geometry(h, a->nrows, &g);
 	draw_title(a, w);
 	src = report_source_line(a->bench, a->ascii);
 	t = xasprintf("source: %s; safety factor %g", src, a->bench->safety_factor);
@@ -670,7 +678,7 @@ k_pgup(struct app *a, struct ui_pane *p)
 	struct wb_geom g;
 
 	(void)p;
-	wb_geometry(LINES, &g);
+	wb_geometry(LINES, a->nrows, &g);
 	return sel_by(a, -(g.chain_h - 1));
 }
 
@@ -680,7 +688,7 @@ k_pgdn(struct app *a, struct ui_pane *p)
 	struct wb_geom g;
 
 	(void)p;
-	wb_geometry(LINES, &g);
+	wb_geometry(LINES, a->nrows, &g);
 	return sel_by(a, g.chain_h - 1);
 }
 
@@ -859,7 +867,7 @@ wb_click(struct app *a, struct ui_pane *p, int y, int x, int dbl)
 	int i;
 
 	(void)x;
-	wb_geometry(LINES, &g);
+	wb_geometry(LINES, a->nrows, &g);
 	if (d->editing)
 		return UI_NONE;
 	if (y >= g.chain_y && y < g.chain_y + g.chain_h) {

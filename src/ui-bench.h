@@ -26,7 +26,7 @@ struct wb {
 	struct { int before; } add;         /* the add menu's argument */
 };
 
-void   wb_geometry(int h, struct wb_geom *);
+void   wb_geometry(int h, size_t nrows, struct wb_geom *);
 void   wb_draw_detail(struct app *, struct wb *, const struct wb_geom *, int w);
 void   wb_draw_results(struct app *, int y, int x, int h, int w);
 void   wb_draw_status(struct app *, int y, int w);

@@ -62,8 +62,8 @@ hist_draw(struct app *a, struct ui_pane *p, int h, int w)
 	char *t;
 
 	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s %s %s history: %zu revision(s)", ui_glyph(a, GL_VBAR),
-	    a->name, ui_glyph(a, GL_VBAR), d->n);
+	t = xasprintf(" beamledger %s %s %s history: %zu revision%s", ui_glyph(a, GL_VBAR),
+	    a->name, ui_glyph(a, GL_VBAR), d->n, d->n == 1 ? "" : "s");
 	ui_put(a, 0, 0, w, t, UC_TITLE);
 	free(t);
 	ui_put(a, 2, 1, 6, "rev", UC_HEADER);
