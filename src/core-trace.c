@@ -36,6 +36,7 @@ trace_warn_name(enum trace_warn_kind k)
 {
 	static const char *const names[] = {
 		"unterminated", "b_integral", "air_breakdown", "self_focusing",
+		"unrated_dump",
 	};
 
 	return names[k];
@@ -387,12 +388,18 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 /* A branch has ended: what is left either went into its terminator or
  * leaves the bench. */
 static void
-branch_end(struct trace *t, const struct cursor *c)
+branch_end(struct trace *t, const struct cursor *c, const struct trace_row *prev)
 {
 	const struct element *last = c->br->n ? &c->br->el[c->br->n - 1] : c->parent;
 
-	if (c->br->n && model_type_is_terminator(last->type))
+	if (c->br->n && model_type_is_terminator(last->type)) {
+		/* a beam must end in a dump rated for it (the usual caution) */
+		/* the terminator, having no side port, is the row just made */
+		if (last->type == EL_DUMP && !model_has(last, K_MAX_POWER) &&
+		    prev != NULL && prev->el == last && prev->power_in > 0)
+			warn(t, TW_UNRATED_DUMP, c, last, prev->power_in);
 		return;
+	}
 	if (c->st.s[0] > 0) {
 		warn(t, TW_UNTERMINATED, c, last, c->st.s[0]);
 		t->leaving += c->st.s[0];
@@ -437,7 +444,7 @@ trace_rerun(struct trace *t, const struct bench *b)
 		struct trace_row *row;
 
 		if (c->i >= c->br->n) {
-			branch_end(t, c);
+			branch_end(t, c, nrow > 0 ? &t->rows[nrow - 1] : NULL);
 			top--;
 			continue;
 		}

@@ -59,7 +59,8 @@ struct trace_row {
 	struct trace_focus    focus;
 };
 
-enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING };
+enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING,
+	TW_UNRATED_DUMP };   /* a dump with no max_power takes power */
 
 struct trace_warning {
 	enum trace_warn_kind  kind;

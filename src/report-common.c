@@ -119,6 +119,10 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		units_format(v, sizeof v, w->value, DIM_IRRADIANCE, 3, ascii);
 		return xasprintf("air_breakdown: the focus in %s reaches %s peak: a spark "
 		    "in air (UV, noise, ozone)", after, v);
+	case TW_UNRATED_DUMP:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("unrated_dump: %s goes into %s, which has no max_power: "
+		    "give its rating to check it (branch %s)", v, after, br);
 	default: {
 		char d[48], th[48];
 

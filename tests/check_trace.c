@@ -658,8 +658,36 @@ START_TEST(test_terminators)
 		snprintf(id, sizeof id, "E%d", i);
 		CHECK_REL(row_of(t, id)->power_lost, row_of(t, id)->power_in, 1e-15);
 	}
-	ck_assert_uint_eq(t->nwarn, 0);
+	ck_assert_uint_eq(count_warn(t, TW_UNTERMINATED), 0);
+	/* the one dump has no max_power: the caution "terminate every beam in
+	 * a dump rated for it" (REFERENCE §13, common practice) warns once */
+	ck_assert_uint_eq(count_warn(t, TW_UNRATED_DUMP), 1);
+	ck_assert_uint_eq(t->nwarn, 1);
 	CHECK_REL(t->absorbed, 1, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A rated dump, or an unrated one that gets no power, raises no warning. */
+START_TEST(test_unrated_dump)
+{
+	struct bench *b = bench_text("test", HEAD CW_1W_1MM "'path':["
+	    "{'id':'POL','type':'polarizer','angle':90,'rejected':[{'id':'BDr','type':'dump'}]},"
+	    "{'id':'BD','type':'dump','max_power':'5 W'}]}");
+	struct trace *t = trace_run(b);
+
+	/* hand: horizontal light, pass axis vertical: all 1 W goes to BDr, 0 to BD */
+	ck_assert_uint_eq(count_warn(t, TW_UNRATED_DUMP), 1);
+	ck_assert_str_eq(t->warn[0].after->id, "BDr");
+	CHECK_REL(t->warn[0].value, 1, 1e-12);
+	trace_free(t);
+	model_bench_free(b);
+	b = bench_text("test", HEAD CW_1W_1MM "'path':["
+	    "{'id':'POL','type':'polarizer','angle':0,'rejected':[{'id':'BDr','type':'dump'}]},"
+	    "{'id':'BD','type':'dump','max_power':'5 W'}]}");
+	t = trace_run(b);
+	ck_assert_uint_eq(t->nwarn, 0);
 	trace_free(t);
 	model_bench_free(b);
 }
@@ -1266,6 +1294,7 @@ main(void)
 	tcase_add_test(tw, test_unterminated);
 	tcase_add_test(tw, test_polarizer_ports);
 	tcase_add_loop_test(tw, test_terminators, 0, 3);
+	tcase_add_test(tw, test_unrated_dump);
 	tcase_add_loop_test(tw, test_worst_and_safe, 0, NELEMS(worst_cases));
 	tcase_add_loop_test(tw, test_status_edges, 0, NELEMS(edge_cases));
 	tcase_add_test(tw, test_nothing_rated);
