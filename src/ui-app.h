@@ -175,6 +175,10 @@ void        ui_fill(struct app *, int y, int x, int w, attr_t);
 void        ui_hints(struct app *, int y, int w, const struct layout_hint *, size_t n);
 /* Key hints from a table (entries with a hint word). */
 size_t      ui_table_hints(const struct ui_key *, struct layout_hint *, size_t max);
+/* A pane's key line (its hints and "? help") at row y. */
+void        ui_key_line(struct app *, const struct ui_key *, int y, int w);
+/* The message at row h-2 and the key line at h-1. */
+void        ui_footer(struct app *, const struct ui_key *, int h, int w);
 void        ui_box(struct app *, int y, int x, int h, int w, const char *title);
 int         ui_read_key(struct app *, int timeout_ms);   /* -1: none */
 int         ui_key_match(const struct ui_key *, int key);

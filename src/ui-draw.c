@@ -204,6 +204,24 @@ ui_table_hints(const struct ui_key *k, struct layout_hint *h, size_t max)
 }
 
 void
+ui_key_line(struct app *a, const struct ui_key *keys, int y, int w)
+{
+	struct layout_hint hints[40];
+	size_t nh = ui_table_hints(keys, hints, 39);
+
+	hints[nh++] = (struct layout_hint){ "?", "help", 0 };
+	ui_hints(a, y, w, hints, nh);
+}
+
+void
+ui_footer(struct app *a, const struct ui_key *keys, int h, int w)
+{
+	if (a->msg != NULL)
+		ui_put(a, h - 2, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
+	ui_key_line(a, keys, h - 1, w);
+}
+
+void
 ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
 {
 	unsigned char shown[64];

@@ -102,8 +102,6 @@ list_draw(struct app *a, struct ui_pane *p, int h, int w)
 	struct list *d = p->data;
 	int cw[NLIST_COLS], x, y;
 	char *t;
-	struct layout_hint hints[24];
-	size_t nh;
 
 	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
 	t = xasprintf(" beamledger %s benches in %s", ui_glyph(a, GL_VBAR), store_path(a->store));
@@ -150,11 +148,7 @@ list_draw(struct app *a, struct ui_pane *p, int h, int w)
 			x += cw[c] + 2;
 		}
 	}
-	if (a->msg != NULL)
-		ui_put(a, h - 2, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
-	nh = ui_table_hints(p->ops->keys, hints, 20);
-	hints[nh++] = (struct layout_hint){ "?", "help", 0 };
-	ui_hints(a, h - 1, w, hints, nh);
+	ui_footer(a, p->ops->keys, h, w);
 }
 
 /* ---- actions ---- */

@@ -128,15 +128,7 @@ shelf_draw(struct app *a, struct ui_pane *p, int h, int w)
 			free(v);
 		}
 	}
-	if (a->msg != NULL)
-		ui_put(a, h - 2, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
-	{
-		struct layout_hint hints[20];
-		size_t nh = ui_table_hints(p->ops->keys, hints, 19);
-
-		hints[nh++] = (struct layout_hint){ "?", "help", 0 };
-		ui_hints(a, h - 1, w, hints, nh);
-	}
+	ui_footer(a, p->ops->keys, h, w);
 }
 
 static enum ui_reaction

@@ -166,13 +166,7 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
 	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
 	free(t);
-	{
-		struct layout_hint hints[16];
-		size_t nh = ui_table_hints(ui_profile_ops.keys, hints, 15);
-
-		hints[nh++] = (struct layout_hint){ "?", "help", 0 };
-		ui_hints(a, h - 1, w, hints, nh);
-	}
+	ui_key_line(a, ui_profile_ops.keys, h - 1, w);
 	layout_plot_release(&pl);
 	free(path);
 }
