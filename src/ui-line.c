@@ -623,6 +623,7 @@ text_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ui_put(a, 1 + r, 0, w, vis, c);
 		free(line);
 	}
+	ui_key_line(a, p->ops->keys, h - 1, w);
 }
 
 static enum ui_reaction
