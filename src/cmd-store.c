@@ -97,19 +97,31 @@ cmd_bench_load(struct store *s, const char *arg, char **name, char **shown, char
 int
 cmd_write_atomic(const char *path, const char *text, char **cause)
 {
-	char *tmp = xasprintf("%s.XXXXXX", path);
+	char *tmp;
 	size_t len = strlen(text), off = 0;
-	mode_t mask = umask(0);
+	mode_t mask = umask(0), mode;
+	struct stat sb;
 	int fd;
 
 	umask(mask);
+	mode = 0666 & ~mask;
+	/* rename(2) would replace a file its owner made read-only, or a
+	 * non-file; keep to what writing in place would be allowed to do */
+	if (stat(path, &sb) == 0) {
+		if (!S_ISREG(sb.st_mode))
+			return fail_with(cause, "%s: not a regular file; nothing written", path);
+		if ((sb.st_mode & 0222) == 0 || access(path, W_OK) != 0)
+			return fail_with(cause, "%s: the file is read-only; nothing written", path);
+		mode = sb.st_mode & 07777;
+	}
+	tmp = xasprintf("%s.XXXXXX", path);
 	fd = mkstemp(tmp);
 	if (fd < 0) {
 		fail_with(cause, "%s: cannot create a temporary file: %s", path, strerror(errno));
 		free(tmp);
 		return -1;
 	}
-	(void)fchmod(fd, 0666 & ~mask);
+	(void)fchmod(fd, mode);
 	while (off < len) {
 		ssize_t w = write(fd, text + off, len - off);
 

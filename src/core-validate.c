@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "core-model.h"
+#include "util-buf.h"
 #include "util-err.h"
 
 /* An open-addressing set of borrowed id strings, so that a 10^5-element
@@ -115,6 +116,9 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 	(void)parent;
 	if (el->id == NULL || el->id[0] == '\0')
 		return fail_with(cause, "a %s has an empty id", model_type_name(el->type));
+	if (!utf8_valid(el->id) || !utf8_valid(el->label) || !utf8_valid(el->part))
+		return fail_with(cause, "element '%s': id, label or part is not valid UTF-8",
+		    utf8_valid(el->id) ? el->id : "?");
 	if (idset_add(&v->ids, el->id))
 		return fail_with(cause, "element '%s': id used twice", el->id);
 	if (depth > MODEL_MAX_DEPTH)
@@ -233,6 +237,8 @@ model_validate(const struct bench *bench, char **cause)
 
 	if (b->name == NULL || b->name[0] == '\0')
 		return fail_with(cause, "name: the bench needs a name");
+	if (!utf8_valid(b->name) || !utf8_valid(b->notes))
+		return fail_with(cause, "name or notes: not valid UTF-8 text");
 	if (!(b->safety_factor > 1) || !isfinite(b->safety_factor))
 		return fail_with(cause, "safety_factor %g must be > 1", b->safety_factor);
 	if (!(b->air_breakdown > 0) || !isfinite(b->air_breakdown))

@@ -639,6 +639,13 @@ create_from_state(struct store *s, const char *name, struct state *st, const cha
 
 	if (name == NULL || name[0] == '\0')
 		return fail_with(cause, "a bench needs a name");
+	/* '@' separates BENCH@REV: a name holding one would make a reference
+	 * to another bench's revision ambiguous */
+	if (strchr(name, '@') != NULL || !utf8_valid(name))
+		return fail_with(cause, "bench name '%s': '@' and text that is not UTF-8 are "
+		    "not allowed in a bench name", utf8_valid(name) ? name : "?");
+	if (!utf8_valid(note) || !utf8_valid(author))
+		return fail_with(cause, "note or author: not valid UTF-8 text");
 	if ((q = store_q(s, Q_BENCH_ID, cause)) == NULL)
 		return -1;
 	store_bind_text(q, 1, name);
@@ -780,6 +787,8 @@ store_commit(struct store *s, const char *name, const char *note, const char *au
 	long long id;
 	int no = 0, rc = -1;
 
+	if (!utf8_valid(note) || !utf8_valid(author))
+		return fail_with(cause, "note or author: not valid UTF-8 text");
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	id = draft_get(s, name, &d, NULL, cause);
@@ -867,6 +876,8 @@ store_label(struct store *s, const char *name, const char *rev, const char *labe
 	if (strcmp(label, "draft") == 0 || is_rev_number(label, &other))
 		return fail_with(cause, "label '%s' would read as a revision; choose "
 		    "another name", label);
+	if (!utf8_valid(label))
+		return fail_with(cause, "a label must be UTF-8 text");
 	for (const char *p = label; *p != '\0'; p++)
 		if (*p == '@' || (unsigned char)*p < 0x20 || *p == 0x7f)
 			return fail_with(cause, "label '%s': '@' and control characters "

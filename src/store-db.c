@@ -481,6 +481,14 @@ store_open(const char *path, char **cause)
 	int rc, exists, flags;
 
 	s->path = path != NULL ? xstrdup(path) : store_default_path();
+	/* SQLite reads "file:..." as a URI, which stat(2) would not see: make
+	 * it a plain relative path so the checks below look at the same file. */
+	if (strncmp(s->path, "file:", 5) == 0) {
+		char *rel = xasprintf("./%s", s->path);
+
+		free(s->path);
+		s->path = rel;
+	}
 	exists = stat(s->path, &sb) == 0;
 	if (exists && !S_ISREG(sb.st_mode)) {
 		fail_with(cause, "'%s' is not a regular file", s->path);
@@ -489,6 +497,18 @@ store_open(const char *path, char **cause)
 	if (exists && sb.st_size > 0) {
 		if (probe_file(s->path, &p, cause) != 0 || check_probe(s->path, &p, cause) != 0)
 			goto fail;
+	} else if (exists) {
+		/* An empty file is someone's, unless our own new database's
+		 * write-ahead log is beside it. */
+		char *wal = xasprintf("%s-wal", s->path);
+		int ours = access(wal, F_OK) == 0;
+
+		free(wal);
+		if (!ours) {
+			fail_with(cause, "'%s' is an empty file, not a beamledger database; it "
+			    "was left untouched (remove it, or name a new file)", s->path);
+			goto fail;
+		}
 	}
 	if (!exists && make_parent(s->path, cause) != 0)
 		goto fail;

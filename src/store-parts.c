@@ -130,7 +130,8 @@ store_parts_put(struct store *s, char *const *names, const struct element *els, 
 		return -1;
 	}
 	for (size_t i = 0; i < n && rc == 0; i++)
-		rc = put_one(s, names[i], &els[i], now, cause);
+		rc = utf8_valid(names[i]) ? put_one(s, names[i], &els[i], now, cause) :
+		    fail_with(cause, "a part name must be UTF-8 text");
 	free(now);
 	return store_tx_end(s, rc, cause);
 }

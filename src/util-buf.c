@@ -131,3 +131,38 @@ buf_pad(struct buf *b, size_t width, size_t from)
 	while (have++ < width)
 		buf_addc(b, ' ');
 }
+
+int
+utf8_valid(const char *str)
+{
+	const unsigned char *s = (const unsigned char *)str;
+
+	if (s == NULL)
+		return 1;
+	while (*s != '\0') {
+		unsigned c = *s, n, cp;
+
+		if (c < 0x80) {
+			s++;
+			continue;
+		}
+		if (c >= 0xc2 && c <= 0xdf)
+			n = 1, cp = c & 0x1f;
+		else if (c >= 0xe0 && c <= 0xef)
+			n = 2, cp = c & 0x0f;
+		else if (c >= 0xf0 && c <= 0xf4)
+			n = 3, cp = c & 0x07;
+		else
+			return 0;
+		for (unsigned i = 1; i <= n; i++) {
+			if ((s[i] & 0xc0) != 0x80)
+				return 0;
+			cp = cp << 6 | (s[i] & 0x3f);
+		}
+		if ((n == 2 && cp < 0x800) || (n == 3 && (cp < 0x10000 || cp > 0x10ffff)) ||
+		    (cp >= 0xd800 && cp <= 0xdfff))
+			return 0;
+		s += n + 1;
+	}
+	return 1;
+}

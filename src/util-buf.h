@@ -29,5 +29,8 @@ void  buf_pad(struct buf *, size_t width_cols, size_t from);  /* pad with spaces
 /* Columns a UTF-8 string takes on a terminal (every code point counts one:
  * the program prints no wide or combining characters of its own). */
 size_t utf8_cols(const char *s);
+/* 1 when s is well-formed UTF-8 (no overlongs, surrogates or bytes past
+ * U+10FFFF), NULL included; text the program stores must be. */
+int    utf8_valid(const char *s);
 
 #endif

@@ -319,4 +319,32 @@ for c in import list show add set remove move commit log diff restore label clon
 done
 ok "every database command has --help"
 
+# ---- text that would not load again is refused, and nothing is stored ----
+"$BEAMLEDGER" export $B > utf8-before.json
+run add $B space "$(printf 'S\377')" "length=10 mm" --after S0
+check "an id that is not UTF-8 is refused" trouble "not valid UTF-8"
+run set $B --bench "$(printf 'notes=\377')"
+check "notes that are not UTF-8 are refused" trouble "not valid UTF-8"
+run commit $B -m "$(printf 'bad \377 note')"
+check "a note that is not UTF-8 is refused" trouble "not valid UTF-8"
+"$BEAMLEDGER" export $B > utf8-after.json
+check "... and the bench is unchanged" same_file utf8-before.json utf8-after.json
+run clone $B 'lab@good'
+check "a bench name with '@' is refused (BENCH@REV would be ambiguous)" trouble "'@'"
+# ---- files that are not ours: an empty one, a read-only export target ----
+: > empty.db
+run --db empty.db list
+check "an empty file is not taken for a database" trouble "is an empty file"
+check "... and is left empty" [ ! -s empty.db ]
+echo keep > ro-target.txt
+chmod 0444 ro-target.txt
+run export $B -o ro-target.txt
+check "export does not replace a read-only file" trouble "read-only"
+check "... which still holds what it held" sh -c 'grep -qx keep ro-target.txt && [ "$(stat -c %a ro-target.txt)" = 444 ]'
+cp "$DB" uri.db
+chmod 0444 uri.db
+run --db "file:uri.db" set $B --bench notes=changed
+check "a --db starting with file: is a plain file name, not an SQLite URI" \
+	sh -c '[ "$(stat -c %a uri.db)" = 444 ] && cmp -s "$1" uri.db' _ "$DB"
+
 done_testing
