@@ -497,18 +497,6 @@ store_open(const char *path, char **cause)
 	if (exists && sb.st_size > 0) {
 		if (probe_file(s->path, &p, cause) != 0 || check_probe(s->path, &p, cause) != 0)
 			goto fail;
-	} else if (exists) {
-		/* An empty file is someone's, unless our own new database's
-		 * write-ahead log is beside it. */
-		char *wal = xasprintf("%s-wal", s->path);
-		int ours = access(wal, F_OK) == 0;
-
-		free(wal);
-		if (!ours) {
-			fail_with(cause, "'%s' is an empty file, not a beamledger database; it "
-			    "was left untouched (remove it, or name a new file)", s->path);
-			goto fail;
-		}
 	}
 	if (!exists && make_parent(s->path, cause) != 0)
 		goto fail;

@@ -620,8 +620,21 @@ END_TEST
 
 static const char *const odd_names[] = {
 	"it's \"quoted\"", "a; DROP TABLE bench; --", "Ablation Tisch 3 – Strahlweg ü",
-	"光路", "x@y",
+	"光路",
 };
+
+/* '@' separates BENCH@REV, so a bench name may not hold one. */
+START_TEST(test_at_in_name_refused)
+{
+	struct bench *b = demo("x@y");
+	char *cause = NULL;
+
+	ck_assert_int_ne(store_bench_create(st, b, "n", "a", &cause), 0);
+	ck_assert_ptr_nonnull(strstr(cause, "'@'"));
+	free(cause);
+	model_bench_free(b);
+}
+END_TEST
 
 START_TEST(test_odd_names)
 {
@@ -823,6 +836,7 @@ main(void)
 	tcase_add_test(tc, test_refuse_not_database);
 	tcase_add_loop_test(tc, test_refuse_foreign, 0, NELEMS(foreign_cases));
 	tcase_add_test(tc, test_empty_file_initialised);
+	tcase_add_test(tc, test_at_in_name_refused);
 	tcase_add_test(tc, test_readonly);
 	tcase_add_test(tc, test_default_path);
 	tcase_add_test(tc, test_creates_directories);
