@@ -721,9 +721,11 @@ store_bench_load(struct store *s, const char *name, const char *rev, int *rev_no
 {
 	struct state st = { 0, NULL, NULL };
 	struct bench *b = NULL;
+	int began = store_read_begin(s);
 
 	if (state_at(s, name, rev, rev_no, &st, NULL, cause) != 0)
 		b = state_load(s, name, &st, cause);
+	store_read_end(s, began);
 	state_release(&st);
 	return b;
 }

@@ -236,6 +236,24 @@ store_tx_begin(struct store *s, char **cause)
 	return 0;
 }
 
+/* A read of several statements sees one snapshot (WAL), so that a writer
+ * between them cannot make it mix two states.  Inside a write transaction
+ * it is already one. */
+int
+store_read_begin(struct store *s)
+{
+	if (s->depth > 0 || !sqlite3_get_autocommit(s->db))
+		return 0;
+	return sqlite3_exec(s->db, "BEGIN", NULL, NULL, NULL) == SQLITE_OK;
+}
+
+void
+store_read_end(struct store *s, int began)
+{
+	if (began)
+		sqlite3_exec(s->db, "COMMIT", NULL, NULL, NULL);
+}
+
 int
 store_tx_end(struct store *s, int rc, char **cause)
 {

@@ -51,6 +51,10 @@ int           store_exec(struct store *, const char *sql, char **cause);
  * outermost transaction (an inner failure poisons it). */
 int           store_tx_begin(struct store *, char **cause);
 int           store_tx_end(struct store *, int rc, char **cause);
+/* One snapshot for a multi-statement read: returns whether it began a
+ * transaction, which store_read_end then ends. */
+int           store_read_begin(struct store *);
+void          store_read_end(struct store *, int began);
 
 /* Binds text (NULL binds NULL). */
 int           store_bind_text(sqlite3_stmt *, int i, const char *);
