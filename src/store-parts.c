@@ -153,6 +153,9 @@ part_from_json(const char *name, const char *text, struct element *out, char **c
 
 	if (o == NULL)
 		return fail_with(cause, "part '%s': the stored record is not JSON", name);
+	/* a record without a type fails before the element is initialised:
+	 * zero it so the release below frees nothing that is not ours */
+	memset(out, 0, sizeof *out);
 	rc = bench_element_from_json(o, out, 0, 0, 0, cause);
 	json_decref(o);
 	if (rc != 0) {
