@@ -270,7 +270,7 @@ new_bench(struct app *a, void *arg, const char *text, char **cause)
 	if (text[0] == '\0')
 		return fail_with(cause, "a bench needs a name");
 	b = layout_bench_new(text);
-	rc = create_and_open(a, b, "new bench", cause);
+	rc = create_and_open(a, b, "new bench: the source alone, no elements yet", cause);
 	model_bench_free(b);
 	if (rc == 0)
 		app_msg(a, 0, "new bench '%s': s sets the source (it starts at 1064 nm, CW 1 W), "
