@@ -57,7 +57,7 @@ cmd_diff(struct cmd_ctx *ctx, int argc, char **argv)
 	name = argv[optind];
 	revs[0] = argv[optind + 1];
 	revs[1] = argc - optind == 3 ? argv[optind + 2] : "draft";
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	for (int i = 0; i < 2; i++) {
 		int no = 0;

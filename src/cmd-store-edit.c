@@ -79,7 +79,7 @@ unknown(const char *cmd, int argc, char **argv)
 static int
 edit_draft(struct cmd_ctx *ctx, const char *name, store_edit_fn fn, void *arg)
 {
-	struct store *s = cmd_store_open(ctx);
+	struct store *s = cmd_store_open_existing(ctx);
 	char *cause = NULL;
 
 	if (s == NULL)
@@ -177,7 +177,7 @@ cmd_add(struct cmd_ctx *ctx, int argc, char **argv)
 	a.kv = argv + optind + 3;
 	a.nkv = (size_t)(argc - optind - 3);
 	a.pl = &po.pl;
-	if ((a.s = cmd_store_open(ctx)) == NULL)
+	if ((a.s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_draft_edit(a.s, argv[optind], add_fn, &a, &cause) != 0) {
 		if (strncmp(cause, "bench '", 7) != 0 && strncmp(cause, "database", 8) != 0)

@@ -43,6 +43,23 @@ cmd_store_open(const struct cmd_ctx *ctx)
 	return s;
 }
 
+struct store *
+cmd_store_open_existing(const struct cmd_ctx *ctx)
+{
+	char *path = ctx->db_path != NULL && ctx->db_path[0] != '\0' ?
+	    xstrdup(ctx->db_path) : store_default_path();
+	struct stat sb;
+
+	if (stat(path, &sb) != 0 && errno == ENOENT) {
+		fprintf(stderr, PROG ": no bench database at '%s' (import a bench first, or "
+		    "check --db)\n", path);
+		free(path);
+		return NULL;
+	}
+	free(path);
+	return cmd_store_open(ctx);
+}
+
 int
 cmd_store_fail(struct store *s, char *cause)
 {
@@ -421,7 +438,7 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	if (argc != 2)
 		return cmd_usage(argc < 2 ? "show: which bench?" :
 		    "show: one bench at a time ('%s' is extra)", argv[2]);
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if ((b = cmd_bench_load(s, argv[1], &name, &shown, &cause)) == NULL) {
 		free(name);
@@ -533,7 +550,7 @@ cmd_export(struct cmd_ctx *ctx, int argc, char **argv)
 	if (optind + 1 != argc)
 		return cmd_usage(optind >= argc ? "export: which bench?" :
 		    "export: one bench at a time ('%s' is extra)", argv[optind + 1]);
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	b = cmd_bench_load(s, argv[optind], &name, NULL, &cause);
 	free(name);
@@ -566,7 +583,7 @@ cmd_clone(struct cmd_ctx *ctx, int argc, char **argv)
 		return cmd_usage("clone: give BENCH[@REV] and NEWNAME");
 	if (argv[2][0] == '\0')
 		return cmd_usage("clone: the new name must not be empty");
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	cmd_bench_ref(s, argv[1], &name, &rev);
 	rc = store_clone(s, name, rev, argv[2], ctx->author, &cause);
@@ -602,7 +619,7 @@ cmd_delete(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (name == NULL)
 		return cmd_usage("delete: which bench?");
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_log(s, name, &revs, &n, &cause) != 0)
 		return cmd_store_fail(s, cause);
@@ -651,7 +668,7 @@ cmd_commit(struct cmd_ctx *ctx, int argc, char **argv)
 		    "commit: one bench at a time ('%s' is extra)", argv[optind + 1]);
 	if (note == NULL)
 		return cmd_usage("commit: say what changed with -m NOTE");
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_commit(s, argv[optind], note, author, &no, &cause) != 0)
 		return cmd_store_fail(s, cause);
@@ -691,7 +708,7 @@ cmd_log(struct cmd_ctx *ctx, int argc, char **argv)
 	if (optind + 1 != argc)
 		return cmd_usage(optind >= argc ? "log: which bench?" :
 		    "log: one bench at a time ('%s' is extra)", argv[optind + 1]);
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_log(s, argv[optind], &revs, &n, &cause) != 0)
 		return cmd_store_fail(s, cause);
@@ -745,7 +762,7 @@ cmd_label(struct cmd_ctx *ctx, int argc, char **argv)
 		    "its bench and may stand wherever a REV goes.\n"), 0;
 	if (argc != 4)
 		return cmd_usage("label: give BENCH, REV and NAME");
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_label(s, argv[1], argv[2], argv[3], &cause) != 0 ||
 	    store_resolve_rev(s, argv[1], argv[3], &no, &cause) != 0)
@@ -777,7 +794,7 @@ cmd_restore(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (npos != 2)
 		return cmd_usage("restore: give BENCH and REV");
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_restore(s, pos[0], pos[1], force, &cause) != 0 ||
 	    store_resolve_rev(s, pos[0], pos[1], &no, &cause) != 0)
@@ -803,7 +820,7 @@ cmd_check(struct cmd_ctx *ctx, int argc, char **argv)
 		    "problems found (listed), 2 trouble.\n"), 0;
 	if (argc != 1)
 		return cmd_usage("check: takes no operands ('%s')", argv[1]);
-	if ((s = cmd_store_open(ctx)) == NULL)
+	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	rc = store_check(s, &report, &cause);
 	if (rc < 0)

@@ -10,6 +10,9 @@
 /* Opens ctx->db_path (or the default); says so on stderr when the file is
  * read-only.  NULL after printing the error. */
 struct store *cmd_store_open(const struct cmd_ctx *);
+/* The same for commands that only act on benches already there: a missing
+ * file is an error, not a new database (a mistyped --db makes nothing). */
+struct store *cmd_store_open_existing(const struct cmd_ctx *);
 /* Prints cause, closes the store; returns 2. */
 int           cmd_store_fail(struct store *, char *cause);
 

@@ -343,4 +343,9 @@ run --db "file:uri.db" set $B --bench notes=changed
 check "a --db starting with file: is a plain file name, not an SQLite URI" \
 	sh -c '[ "$(stat -c %a uri.db)" = 444 ] && cmp -s "$1" uri.db' _ "$DB"
 
+# ---- a mistyped --db makes nothing ----
+run --db "$T_DIR/typo/sub/x.db" show $B
+check "show on a missing database: trouble, said plainly" trouble "no bench database at"
+check "... and no file or directory was made" [ ! -e "$T_DIR/typo" ]
+
 done_testing
