@@ -9,6 +9,7 @@
 
 #include "core-diff.h"
 #include "report-diff.h"
+#include "bench-file.h"
 #include "ui-app.h"
 #include "util-err.h"
 
@@ -237,6 +238,20 @@ h_restore(struct app *a, struct ui_pane *p)
 		return UI_REDRAW;
 	}
 	row_ref(d, d->sel, ref, sizeof ref);
+	{
+		/* nothing to ask when the draft already is that revision */
+		struct bench *rb = store_bench_load(a->store, a->name, ref, NULL, NULL);
+		char *rt = rb != NULL ? bench_file_dump(rb) : NULL, *dt = bench_file_dump(a->bench);
+		int same = rt != NULL && strcmp(rt, dt) == 0;
+
+		free(rt);
+		free(dt);
+		model_bench_free(rb);
+		if (same) {
+			app_msg(a, 0, "the draft already is %s: nothing to restore", ref);
+			return UI_REDRAW;
+		}
+	}
 	q = xasprintf("Make %s the draft?%s", ref, a->draft_changed ?
 	    " The draft's uncommitted changes are replaced (u on the workbench brings them back "
 	    "while it stays open)." : "");

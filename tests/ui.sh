@@ -139,6 +139,11 @@ step "undo on the workbench brings the old draft back" ui "undone" u
 check "window OVER after undoing the restore" wait_line ui '^ W1 .* OVER'
 step "and redo restores again" ui "redone" U
 check "window ok again" wait_line ui '^ W1 .* ok *$'
+step "history again" ui "d compares" h
+t_keys ui j j
+step "restoring the revision the draft already is asks nothing" ui "the draft already is r2" r
+t_keys ui Escape
+check "back on the workbench" wait_for ui "a add"
 
 # ---- resize ----
 t resize-window -t ui -x 60 -y 20
