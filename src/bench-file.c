@@ -307,15 +307,7 @@ read_pulsed(json_t *obj, struct source *s, char **cause)
 				return -1;
 			have_energy = 1;
 		} else if (strcmp(key, "shape") == 0) {
-			const char *t = json_string_value(v);
-
-			if (t != NULL && strcmp(t, "gaussian") == 0)
-				s->shape = PULSE_GAUSSIAN;
-			else if (t != NULL && strcmp(t, "sech2") == 0)
-				s->shape = PULSE_SECH2;
-			else if (t != NULL && strcmp(t, "square") == 0)
-				s->shape = PULSE_SQUARE;
-			else
+			if (model_shape_parse(json_string_value(v), &s->shape) != 0)
 				return fail_with(cause, "source: pulsed.shape: expected "
 				    "\"gaussian\", \"sech2\" or \"square\"");
 		} else {
@@ -594,7 +586,6 @@ bench_head_to_json(const struct bench *b)
 {
 	const struct source *s = &b->src;
 	json_t *o = json_object(), *src = json_object();
-	static const char *const shapes[] = { "gaussian", "sech2", "square" };
 
 	json_object_set_new(o, "format", json_string(MODEL_FORMAT));
 	json_object_set_new(o, "name", json_string(b->name));
@@ -612,7 +603,7 @@ bench_head_to_json(const struct bench *b)
 
 		json_object_set_new(p, "rep_rate", json_real(s->rep_rate));
 		json_object_set_new(p, "pulse_width", json_real(s->pulse_width));
-		json_object_set_new(p, "shape", json_string(shapes[s->shape]));
+		json_object_set_new(p, "shape", json_string(model_shape_name(s->shape)));
 		if (s->energy_given)
 			json_object_set_new(p, "pulse_energy", json_real(s->pulse_energy));
 		json_object_set_new(src, "pulsed", p);

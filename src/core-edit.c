@@ -431,13 +431,7 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 			return fail_with(cause, "%s: '%s' is not true or false", key, text);
 		}
 	} else if (strcmp(key, "source.shape") == 0) {
-		if (strcmp(text, "gaussian") == 0)
-			s->shape = PULSE_GAUSSIAN;
-		else if (strcmp(text, "sech2") == 0)
-			s->shape = PULSE_SECH2;
-		else if (strcmp(text, "square") == 0)
-			s->shape = PULSE_SQUARE;
-		else
+		if (model_shape_parse(text, &s->shape) != 0)
 			return fail_with(cause, "%s: '%s' is not gaussian, sech2 or square", key, text);
 	} else if (strcmp(key, "source.waist") == 0) {
 		return pair(key, text, DIM_LENGTH, s->waist, &s->waist_pair, cause);
@@ -478,7 +472,6 @@ char *
 edit_bench_value(const struct bench *b, const char *key)
 {
 	const struct source *s = &b->src;
-	static const char *const shapes[] = { "gaussian", "sech2", "square" };
 	char t1[64], t2[64];
 
 	if (strcmp(key, "name") == 0)
@@ -518,7 +511,7 @@ edit_bench_value(const struct bench *b, const char *key)
 		return xstrdup(t1);
 	}
 	if (strcmp(key, "source.shape") == 0)
-		return xstrdup(shapes[s->shape]);
+		return xstrdup(model_shape_name(s->shape));
 	if (strcmp(key, "source.waist") == 0) {
 		units_format_exact(t1, sizeof t1, s->waist[0], DIM_LENGTH);
 		if (!s->waist_pair)

@@ -110,6 +110,25 @@ model_type_parse(const char *s, enum elem_type *out)
 	return -1;
 }
 
+static const char *const shape_names[] = { "gaussian", "sech2", "square" };
+
+const char *
+model_shape_name(enum pulse_shape sh)
+{
+	return (unsigned)sh < 3 ? shape_names[sh] : "?";
+}
+
+int
+model_shape_parse(const char *s, enum pulse_shape *out)
+{
+	for (int i = 0; s != NULL && i < 3; i++)
+		if (strcmp(s, shape_names[i]) == 0) {
+			*out = (enum pulse_shape)i;
+			return 0;
+		}
+	return -1;
+}
+
 const char *
 model_port_name(enum port p)
 {

@@ -79,6 +79,8 @@ struct element {
 };
 
 enum pulse_shape { PULSE_GAUSSIAN, PULSE_SECH2, PULSE_SQUARE };
+const char *model_shape_name(enum pulse_shape);              /* "gaussian", ... */
+int         model_shape_parse(const char *s, enum pulse_shape *out);  /* 0 / -1; NULL s: -1 */
 enum pol_kind { POL_LINEAR, POL_CIRCULAR, POL_UNPOLARIZED };
 
 struct source {

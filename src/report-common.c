@@ -56,7 +56,6 @@ char *
 report_source_line(const struct bench *b, int ascii)
 {
 	const struct source *s = &b->src;
-	static const char *const shapes[] = { "gaussian", "sech2", "square" };
 	char t1[48], t2[48], t3[48], t4[48];
 	struct buf out;
 
@@ -69,7 +68,7 @@ report_source_line(const struct bench *b, int ascii)
 		units_format(t3, sizeof t3, s->pulse_energy, DIM_ENERGY, 3, ascii);
 		units_format(t4, sizeof t4, s->power, DIM_POWER, 3, ascii);
 		buf_printf(&out, ", pulsed %s, %s %s, %s a pulse (%s average)",
-		    t1, t2, shapes[s->shape], t3, t4);
+		    t1, t2, model_shape_name(s->shape), t3, t4);
 	} else {
 		units_format(t1, sizeof t1, s->power, DIM_POWER, 3, ascii);
 		buf_printf(&out, ", CW %s", t1);
