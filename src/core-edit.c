@@ -472,6 +472,15 @@ char *
 edit_bench_value(const struct bench *b, const char *key)
 {
 	const struct source *s = &b->src;
+	const struct { const char *key; double v; enum unit_dim dim; } qty[] = {
+		{ "air_breakdown", b->air_breakdown, DIM_IRRADIANCE },
+		{ "source.wavelength", s->wavelength, DIM_LENGTH },
+		{ "source.power", s->power, DIM_POWER },
+		{ "source.pulse_energy", s->pulse_energy, DIM_ENERGY },
+		{ "source.rep_rate", s->rep_rate, DIM_FREQUENCY },
+		{ "source.pulse_width", s->pulse_width, DIM_TIME },
+		{ "source.waist_position", s->waist_position, DIM_LENGTH },
+	};
 	char t1[64], t2[64];
 
 	if (strcmp(key, "name") == 0)
@@ -480,36 +489,17 @@ edit_bench_value(const struct bench *b, const char *key)
 		return xstrdup(b->notes != NULL ? b->notes : "");
 	if (strcmp(key, "safety_factor") == 0)
 		return xasprintf("%.17g", b->safety_factor);
-	if (strcmp(key, "air_breakdown") == 0) {
-		units_format_exact(t1, sizeof t1, b->air_breakdown, DIM_IRRADIANCE);
-		return xstrdup(t1);
-	}
-	if (strcmp(key, "source.wavelength") == 0) {
-		units_format_exact(t1, sizeof t1, s->wavelength, DIM_LENGTH);
-		return xstrdup(t1);
-	}
-	if (strcmp(key, "source.power") == 0) {
-		units_format_exact(t1, sizeof t1, s->power, DIM_POWER);
-		return xstrdup(t1);
-	}
 	if (strcmp(key, "source.pulsed") == 0)
 		return xstrdup(s->pulsed ? "true" : "false");
 	if (!s->pulsed && (strcmp(key, "source.pulse_energy") == 0 ||
 	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0 ||
 	    strcmp(key, "source.shape") == 0))
 		return xstrdup("");
-	if (strcmp(key, "source.pulse_energy") == 0) {
-		units_format_exact(t1, sizeof t1, s->pulse_energy, DIM_ENERGY);
-		return xstrdup(t1);
-	}
-	if (strcmp(key, "source.rep_rate") == 0) {
-		units_format_exact(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY);
-		return xstrdup(t1);
-	}
-	if (strcmp(key, "source.pulse_width") == 0) {
-		units_format_exact(t1, sizeof t1, s->pulse_width, DIM_TIME);
-		return xstrdup(t1);
-	}
+	for (size_t i = 0; i < sizeof qty / sizeof *qty; i++)
+		if (strcmp(key, qty[i].key) == 0) {
+			units_format_exact(t1, sizeof t1, qty[i].v, qty[i].dim);
+			return xstrdup(t1);
+		}
 	if (strcmp(key, "source.shape") == 0)
 		return xstrdup(model_shape_name(s->shape));
 	if (strcmp(key, "source.waist") == 0) {
@@ -518,10 +508,6 @@ edit_bench_value(const struct bench *b, const char *key)
 			return xstrdup(t1);
 		units_format_exact(t2, sizeof t2, s->waist[1], DIM_LENGTH);
 		return xasprintf("%s, %s", t1, t2);
-	}
-	if (strcmp(key, "source.waist_position") == 0) {
-		units_format_exact(t1, sizeof t1, s->waist_position, DIM_LENGTH);
-		return xstrdup(t1);
 	}
 	if (strcmp(key, "source.m2") == 0)
 		return s->m2_pair ? xasprintf("%.17g, %.17g", s->m2[0], s->m2[1]) :
