@@ -1,7 +1,7 @@
 /* bench_store.c - the store's speed and size on the issue's scale: a
- * 50-element bench with 10,000 revisions, each changing one value.  Prints
- * commit, log, diff and open times and the bytes one revision adds to the
- * file; asserts nothing.  Usage: bench_store [REVISIONS] [DIR]. */
+ * 50-element bench with 10,000 setups, each changing one value.  Prints
+ * record, history, compare and open times and the bytes one setup adds to
+ * the file; asserts nothing.  Usage: bench_store [SETUPS] [DIR]. */
 #include <config.h>
 
 #include <math.h>
@@ -123,7 +123,7 @@ main(int argc, char **argv)
 		return 2;
 	}
 	snprintf(path, sizeof path, "%s/bench.db", dir);
-	printf("bench_store: %zu elements, %d revisions, database %s\n",
+	printf("bench_store: %zu elements, %d setups, database %s\n",
 	    model_count(&b->path), nrev, path);
 	if ((s = store_open(path, &cause)) == NULL)
 		die("open", cause);
@@ -155,7 +155,7 @@ main(int argc, char **argv)
 			die("draft save", cause);
 		t0 = now_ms();
 		if (store_commit(s, "bench-50", "one value", "bench", &no, &cause) != 0)
-			die("commit", cause);
+			die("record", cause);
 		t1 = t0 - t1;
 		t0 = now_ms() - t0;
 		if (r > mid) {
@@ -186,7 +186,7 @@ main(int argc, char **argv)
 	t0 = now_ms();
 	for (int i = 0; i < nlog; i++) {
 		if (store_log(s, "bench-50", &revs, &n, &cause) != 0)
-			die("log", cause);
+			die("history", cause);
 		store_revs_free(revs, n);
 	}
 	log_ms = (now_ms() - t0) / nlog;
@@ -195,8 +195,8 @@ main(int argc, char **argv)
 	for (int i = 0; i < ndiff; i++) {
 		struct diff *d;
 
-		snprintf(rev, sizeof rev, "r%d", 1 + rand() % nrev);
-		snprintf(rev2, sizeof rev2, "r%d", 1 + rand() % nrev);
+		snprintf(rev, sizeof rev, "%d", 1 + rand() % nrev);
+		snprintf(rev2, sizeof rev2, "%d", 1 + rand() % nrev);
 		if ((x = store_bench_load(s, "bench-50", rev, NULL, &cause)) == NULL ||
 		    (y = store_bench_load(s, "bench-50", rev2, NULL, &cause)) == NULL)
 			die("load", cause);
@@ -209,7 +209,7 @@ main(int argc, char **argv)
 
 	t0 = now_ms();
 	for (int i = 0; i < ndiff; i++) {
-		snprintf(rev, sizeof rev, "r%d", 1 + rand() % nrev);
+		snprintf(rev, sizeof rev, "%d", 1 + rand() % nrev);
 		if ((x = store_bench_load(s, "bench-50", rev, NULL, &cause)) == NULL)
 			die("load", cause);
 		model_bench_free(x);
@@ -217,15 +217,15 @@ main(int argc, char **argv)
 	load_ms = (now_ms() - t0) / ndiff;
 	store_close(s);
 
-	printf("commit:   %.3f ms mean, %.3f ms max over the last %d commits "
+	printf("record:   %.3f ms mean, %.3f ms max over the last %d records "
 	    "(limit 5 ms)\n", commit_ms / tail, commit_max, tail);
-	printf("draft:    %.3f ms mean to save the draft before each commit\n", save_ms / tail);
-	printf("log:      %.3f ms for %d revisions (limit 50 ms)\n", log_ms, nrev);
-	printf("diff:     %.3f ms for two random revisions: load both, compare, "
+	printf("draft:    %.3f ms mean to save the draft before each record\n", save_ms / tail);
+	printf("history:  %.3f ms for %d setups (limit 50 ms)\n", log_ms, nrev);
+	printf("compare:  %.3f ms for two random setups: load both, compare, "
 	    "trace both (limit 5 ms)\n", diff_ms);
-	printf("load:     %.3f ms for one revision\n", load_ms);
+	printf("load:     %.3f ms for one setup\n", load_ms);
 	printf("open:     %.3f ms (limit 20 ms)\n", open_ms);
-	printf("size:     %.0f bytes per one-value revision over the last %d "
+	printf("size:     %.0f bytes per one-value setup over the last %d "
 	    "(limit 2048); file %lld bytes\n", (double)(size_end - size_mid) / tail, tail,
 	    size_end);
 	model_bench_free(b);

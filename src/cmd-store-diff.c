@@ -1,5 +1,5 @@
-/* cmd-store-diff.c - `beamledger diff BENCH REV [REV]`: what changed in the
- * chain between two states of a bench and what it did to the damage
+/* cmd-store-diff.c - `beamledger compare BENCH SETUP [SETUP]`: what changed
+ * in the chain between two states of a bench and what it did to the damage
  * margins.  core-diff computes, report-diff formats; this file only loads
  * the two sides and prints. */
 #include <config.h>
@@ -15,7 +15,7 @@
 #include "util-err.h"
 
 int
-cmd_diff(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_compare(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	static const struct option opts[] = {
 		{ "format", required_argument, NULL, 'f' },
@@ -37,23 +37,24 @@ cmd_diff(struct cmd_ctx *ctx, int argc, char **argv)
 			else if (strcmp(optarg, "text") == 0 || strcmp(optarg, "table") == 0)
 				json = 0;
 			else
-				return cmd_usage("diff: --format must be text or json, not '%s'",
+				return cmd_usage("compare: --format must be text or json, not '%s'",
 				    optarg);
 		} else if (ch == 'h') {
-			printf("Usage: " PROG " diff BENCH REV [REV] [--format text|json]\n"
-			    "What changed from the first REV to the second (default: the draft):\n"
+			printf("Usage: " PROG " compare BENCH SETUP [SETUP] [--format text|json]\n"
+			    "What changed from the first SETUP to the second (default: the draft):\n"
 			    "elements added, removed or moved, each value old -> new, the bench\n"
 			    "settings; then the effect on the results per element (power, peak\n"
 			    "irradiance or fluence, ratio to the threshold and status).\n"
-			    "REV is rN, a label or draft.  Exit status: 0, or 2 on trouble.\n");
+			    "SETUP is a number (2 or #2), a name or draft.  Exit status: 0, or 2\n"
+			    "on trouble.\n");
 			return 0;
 		} else {
-			return cmd_usage("diff: unknown option or missing value in '%s'",
+			return cmd_usage("compare: unknown option or missing value in '%s'",
 			    optind - 1 < argc ? argv[optind - 1] : "?");
 		}
 	}
 	if (argc - optind < 2 || argc - optind > 3)
-		return cmd_usage("diff: give BENCH, REV and optionally a second REV");
+		return cmd_usage("compare: give BENCH, SETUP and optionally a second SETUP");
 	name = argv[optind];
 	revs[0] = argv[optind + 1];
 	revs[1] = argc - optind == 3 ? argv[optind + 2] : "draft";
@@ -62,7 +63,8 @@ cmd_diff(struct cmd_ctx *ctx, int argc, char **argv)
 	for (int i = 0; i < 2; i++) {
 		int no = 0;
 
-		side[i] = store_bench_load(s, name, revs[i], &no, &cause);
+		side[i] = cmd_rev_check(revs[i], &cause) == 0 ?
+		    store_bench_load(s, name, revs[i], &no, &cause) : NULL;
 		if (side[i] == NULL) {
 			model_bench_free(side[0]);
 			free(shown[0]);

@@ -1,4 +1,4 @@
-/* cmd-store-edit.c - add, set, remove and move: the edits of a bench's
+/* cmd-store-edit.c - place, set, lift and shift: the edits of a bench's
  * draft from the shell.  Each goes through core-edit (the same checks and
  * messages as bench files and the workbench) inside one write transaction
  * (store_draft_edit), so a refused edit stores nothing. */
@@ -94,7 +94,7 @@ edit_draft(struct cmd_ctx *ctx, const char *name, store_edit_fn fn, void *arg)
 	return 0;
 }
 
-/* ---- add ---- */
+/* ---- place ---- */
 
 struct add_arg {
 	struct store      *s;
@@ -140,7 +140,7 @@ add_fn(struct bench *b, void *arg, char **cause)
 }
 
 int
-cmd_add(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_place(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct place_opts po = { { NULL, NULL, NULL, 0 }, 0 };
 	struct add_arg a;
@@ -155,23 +155,23 @@ cmd_add(struct cmd_ctx *ctx, int argc, char **argv)
 		if (ch == O_PART) {
 			a.part = optarg;
 		} else if (ch == O_HELP) {
-			printf("Usage: " PROG " add BENCH TYPE ID [--part NAME] [KEY=VALUE...]\n"
+			printf("Usage: " PROG " place BENCH TYPE ID [--part NAME] [KEY=VALUE...]\n"
 			    "          [--after ID | --before ID | --into SPLITTER.PORT [--first]]\n"
-			    "Adds an element to the draft: at the end of the main path, or where the\n"
-			    "option says.  Values as in bench files, with units (focal=250 mm,\n"
+			    "Puts an element into the draft: at the end of the main path, or where\n"
+			    "the option says.  Values as in bench files, with units (focal=250 mm,\n"
 			    "damage.fluence=10 J/cm^2, label=fold 1).  --part NAME starts from the\n"
 			    "shelf part NAME (its type must be TYPE) and records part=NAME; the\n"
 			    "pairs then override its values.  A splitter gets an empty reflected\n"
 			    "branch unless side=transmitted.\n");
 			return 0;
 		} else {
-			return unknown("add", argc, argv);
+			return unknown("place", argc, argv);
 		}
 	}
-	if (place_check("add", &po) != 0)
+	if (place_check("place", &po) != 0)
 		return 2;
 	if (argc - optind < 3)
-		return cmd_usage("add: give BENCH, TYPE and ID");
+		return cmd_usage("place: give BENCH, TYPE and ID");
 	a.type = argv[optind + 1];
 	a.id = argv[optind + 2];
 	a.kv = argv + optind + 3;
@@ -185,7 +185,7 @@ cmd_add(struct cmd_ctx *ctx, int argc, char **argv)
 		return cmd_store_fail(a.s, cause);
 	}
 	store_close(a.s);
-	printf("bench '%s': added %s %s\n", argv[optind], a.type, a.id);
+	printf("bench '%s': placed %s %s\n", argv[optind], a.type, a.id);
 	return 0;
 }
 
@@ -211,8 +211,9 @@ set_fn(struct bench *b, void *arg, char **cause)
 		if (val == NULL)
 			rc = fail_with(cause, "'%s' is not KEY=VALUE", a->kv[i]);
 		else if (strcmp(pair, "name") == 0)
-			rc = fail_with(cause, "name: a bench cannot be renamed (clone it "
-			    "under the new name)");
+			/* store_draft_edit renames the bench in the same transaction */
+			rc = val[0] == '\0' ? fail_with(cause, "name: a bench needs a name") :
+			    (free(b->name), b->name = xstrdup(val), 0);
 		else
 			rc = edit_set_bench(b, pair, val, cause);
 		free(pair);
@@ -237,7 +238,8 @@ cmd_set(struct cmd_ctx *ctx, int argc, char **argv)
 			    "       " PROG " set BENCH --bench KEY=VALUE...\n"
 			    "Changes values of an element of the draft (every key of bench files,\n"
 			    "damage.* included, and label, part, id, side), or with --bench the\n"
-			    "bench's settings: notes, safety_factor, air_breakdown, source.wavelength,\n"
+			    "bench's settings: name (renames the bench, its draft and every setup),\n"
+			    "notes, safety_factor, air_breakdown, source.wavelength,\n"
 			    "source.power, source.pulsed, source.pulse_energy, source.rep_rate,\n"
 			    "source.pulse_width, source.shape, source.waist, source.waist_position,\n"
 			    "source.m2, source.polarization.  An empty value unsets an optional key.\n"
@@ -258,12 +260,12 @@ cmd_set(struct cmd_ctx *ctx, int argc, char **argv)
 	a.nkv = (size_t)(argc - first);
 	rc = edit_draft(ctx, argv[optind], set_fn, &a);
 	if (rc == 0)
-		printf("bench '%s': set %zu value(s) on %s\n", argv[optind], a.nkv,
-		    bench ? "the bench" : a.id);
+		printf("bench '%s': set %zu %s on %s\n", argv[optind], a.nkv,
+		    a.nkv == 1 ? "value" : "values", bench ? "the bench" : a.id);
 	return rc;
 }
 
-/* ---- remove, move ---- */
+/* ---- lift, shift ---- */
 
 struct id_arg {
 	const char        *id;
@@ -284,24 +286,24 @@ remove_fn(struct bench *b, void *arg, char **cause)
 }
 
 int
-cmd_remove(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_lift(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct id_arg a = { NULL, NULL, 0 };
 	int rc;
 
 	if (argc == 2 && strcmp(argv[1], "--help") == 0)
-		return printf("Usage: " PROG " remove BENCH ID\n"
-		    "Removes an element (with its side branch) from the draft.\n"), 0;
+		return printf("Usage: " PROG " lift BENCH ID\n"
+		    "Takes an element (with its side branch) out of the draft.\n"), 0;
 	if (argc != 3)
-		return cmd_usage("remove: give BENCH and ID");
+		return cmd_usage("lift: give BENCH and ID");
 	a.id = argv[2];
 	rc = edit_draft(ctx, argv[1], remove_fn, &a);
 	if (rc == 0) {
 		if (a.removed > 1)
-			printf("bench '%s': removed %s and the %zu element(s) of its side branch\n",
-			    argv[1], a.id, a.removed - 1);
+			printf("bench '%s': lifted %s and the %zu %s of its side branch\n",
+			    argv[1], a.id, a.removed - 1, a.removed == 2 ? "element" : "elements");
 		else
-			printf("bench '%s': removed %s\n", argv[1], a.id);
+			printf("bench '%s': lifted %s\n", argv[1], a.id);
 	}
 	return rc;
 }
@@ -315,7 +317,7 @@ move_fn(struct bench *b, void *arg, char **cause)
 }
 
 int
-cmd_move(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_shift(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct place_opts po = { { NULL, NULL, NULL, 0 }, 0 };
 	struct id_arg a = { NULL, NULL, 0 };
@@ -326,22 +328,24 @@ cmd_move(struct cmd_ctx *ctx, int argc, char **argv)
 		if ((ch = place_opt(ch, &po)) == 0)
 			continue;
 		if (ch == O_HELP)
-			return printf("Usage: " PROG " move BENCH ID --after ID | --before ID |"
+			return printf("Usage: " PROG " shift BENCH ID --after ID | --before ID |"
 			    " --into SPLITTER.PORT [--first]\n"
-			    "Moves an element (with its side branch) within the draft.\n"), 0;
-		return unknown("move", argc, argv);
+			    "Puts an element (with its side branch) somewhere else in the "
+			    "draft's chain.\n"), 0;
+		return unknown("shift", argc, argv);
 	}
-	if (place_check("move", &po) != 0)
+	if (place_check("shift", &po) != 0)
 		return 2;
 	if (argc - optind != 2)
-		return cmd_usage("move: give BENCH and ID, and where (--after, --before or --into)");
+		return cmd_usage("shift: give BENCH and ID, and where (--after, --before or "
+		    "--into)");
 	if (po.n == 0)
-		return cmd_usage("move: where to? give --after ID, --before ID or --into "
+		return cmd_usage("shift: where to? give --after ID, --before ID or --into "
 		    "SPLITTER.PORT");
 	a.id = argv[optind + 1];
 	a.pl = &po.pl;
 	rc = edit_draft(ctx, argv[optind], move_fn, &a);
 	if (rc == 0)
-		printf("bench '%s': moved %s\n", argv[optind], a.id);
+		printf("bench '%s': shifted %s\n", argv[optind], a.id);
 	return rc;
 }

@@ -101,7 +101,7 @@ cmd_parts(struct cmd_ctx *ctx, int argc, char **argv)
 		    "each part an element of a bench file without id; a label becomes the\n"
 		    "label of elements placed from it.  A file goes on whole or not at all;\n"
 		    "a name already there gets the new values (placed elements keep theirs).\n"
-		    "Place a part with '" PROG " add BENCH TYPE ID --part NAME'.\n");
+		    "Place a part with '" PROG " place BENCH TYPE ID --part NAME'.\n");
 		return 0;
 	}
 	if (strcmp(argv[1], "list") == 0) {
@@ -123,7 +123,7 @@ cmd_parts(struct cmd_ctx *ctx, int argc, char **argv)
 	} else if (store_parts_import(s, argv[2], &n, &cause) != 0) {
 		rc = cmd_fail(cause);
 	} else {
-		printf("added %zu part(s) from %s\n", n, argv[2]);
+		printf("added %zu %s from %s\n", n, n == 1 ? "part" : "parts", argv[2]);
 		rc = 0;
 	}
 	store_close(s);

@@ -1,6 +1,6 @@
 /* cmd-store.c - the database commands that read or move whole benches:
- * import, list, show, export, clone, delete, commit, log, label, restore,
- * check; and the helpers every database command shares.  Each command
+ * import, list, chain, export, copy, delete, record, history, mark,
+ * reinstate, check; and the helpers every database command shares.  Each command
  * opens the database, does one thing in one transaction, and prints only
  * once it has succeeded. */
 #include <config.h>
@@ -90,10 +90,42 @@ cmd_rev_shown(const char *rev, int no)
 
 	if (no == 0)
 		return xstrdup("draft");
-	snprintf(tmp, sizeof tmp, "r%d", no);
-	if (rev == NULL || strcmp(rev, tmp) == 0)
+	snprintf(tmp, sizeof tmp, "#%d", no);
+	if (rev == NULL || strcmp(rev, tmp) == 0 || strcmp(rev, tmp + 1) == 0)
 		return xstrdup(tmp);
 	return xasprintf("%s (%s)", rev, tmp);
+}
+
+int
+cmd_rev_check(const char *rev, char **cause)
+{
+	const char *p = rev;
+
+	/* setups used to be written r1, r2; the store still reads that for
+	 * old callers, but the command line speaks of setups only */
+	if (p == NULL || p[0] != 'r' || p[1] < '0' || p[1] > '9')
+		return 0;
+	for (p++; *p >= '0' && *p <= '9'; p++)
+		;
+	if (*p != '\0')
+		return 0;
+	return fail_with(cause, "'%s' is not a setup: setups are numbered, write %s (or #%s)",
+	    rev, rev + 1, rev + 1);
+}
+
+char *
+cmd_draft_words(struct store *s, const char *name, char **cause)
+{
+	struct store_draft_status ds;
+
+	if (store_draft_status(s, name, &ds, cause) != 0)
+		return NULL;
+	if (ds.same_as > 0)
+		return xasprintf("draft = #%d", ds.same_as);
+	if (ds.base > 0)
+		return xasprintf("draft: changed since #%d, not recorded", ds.base);
+	return xstrdup(ds.latest > 0 ? "draft: changed, not recorded" :
+	    "draft: not recorded yet");
 }
 
 struct bench *
@@ -104,6 +136,10 @@ cmd_bench_load(struct store *s, const char *arg, char **name, char **shown, char
 	int no = 0;
 
 	cmd_bench_ref(s, arg, name, &rev);
+	if (cmd_rev_check(rev, cause) != 0) {
+		free(rev);
+		return NULL;
+	}
 	b = store_bench_load(s, *name, rev, &no, cause);
 	if (b != NULL && shown != NULL)
 		*shown = cmd_rev_shown(rev, no);
@@ -207,7 +243,7 @@ cmd_import(struct cmd_ctx *ctx, int argc, char **argv)
 		else if (ch == 'h')
 			return printf("Usage: " PROG " import FILE [--name NAME]\n"
 			    "A new bench from a bench file (- reads standard input); its draft "
-			    "and r1 hold the file.\n"), 0;
+			    "and setup #1 hold the file.\n"), 0;
 		else
 			return bad_option("import", argc, argv);
 	}
@@ -229,9 +265,12 @@ cmd_import(struct cmd_ctx *ctx, int argc, char **argv)
 	note = xasprintf("imported from %s", argv[optind]);
 	rc = store_bench_create(s, b, note, ctx->author, &cause);
 	free(note);
-	if (rc == 0)
-		printf("imported bench '%s' as r1 (%zu elements)\n", b->name,
-		    model_count(&b->path));
+	if (rc == 0) {
+		size_t n = model_count(&b->path);
+
+		printf("imported bench '%s': recorded #1 (%zu %s)\n", b->name, n,
+		    n == 1 ? "element" : "elements");
+	}
 	model_bench_free(b);
 	if (rc != 0)
 		return cmd_store_fail(s, cause);
@@ -276,7 +315,7 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 				return 2;
 		} else if (ch == 'h') {
 			return printf("Usage: " PROG " list [--format table|json]\n"
-			    "Every bench: latest revision, whether the draft changed since, "
+			    "Every bench: its latest setup, whether the draft changed since, "
 			    "the worst damage status of the draft.\n"), 0;
 		} else {
 			return bad_option("list", argc, argv);
@@ -298,11 +337,16 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 		buf_printf(&out, "%-*s  latest  draft      worst    updated (UTC)\n", (int)w, "bench");
 	for (size_t i = 0; i < n && rc == 0; i++) {
 		struct bench *b = store_bench_load(s, rows[i].name, "draft", NULL, &cause);
+		struct store_draft_status ds;
 		struct trace *t;
 		enum damage_status worst;
-		char rev[24];
+		char rev[24], draft[24];
 		size_t start;
 
+		if (b != NULL && store_draft_status(s, rows[i].name, &ds, &cause) != 0) {
+			model_bench_free(b);
+			b = NULL;
+		}
 		if (b == NULL) {
 			rc = -1;
 			break;
@@ -311,7 +355,10 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 		worst = diff_trace_worst(t);
 		trace_free(t);
 		model_bench_free(b);
-		snprintf(rev, sizeof rev, "r%d", rows[i].latest_rev);
+		if (rows[i].latest_rev > 0)
+			snprintf(rev, sizeof rev, "#%d", rows[i].latest_rev);
+		else
+			snprintf(rev, sizeof rev, "none");
 		if (json) {
 			json_array_append_new(arr, json_pack("{s:s,s:i,s:b,s:s,s:s}", "name",
 			    rows[i].name, "latest", rows[i].latest_rev, "draft_changed",
@@ -322,8 +369,11 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 		start = out.len;
 		buf_add(&out, rows[i].name);
 		buf_pad(&out, w + 2, start);
-		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev,
-		    rows[i].draft_changed ? "changed" : "same", damage_status_name(worst),
+		if (ds.same_as > 0)
+			snprintf(draft, sizeof draft, "= #%d", ds.same_as);
+		else
+			snprintf(draft, sizeof draft, "changed");
+		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev, draft, damage_status_name(worst),
 		    rows[i].updated);
 	}
 	store_bench_rows_free(rows, n);
@@ -347,7 +397,7 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 	return rc;
 }
 
-/* ---- show ---- */
+/* ---- chain ---- */
 
 struct show_ctx {
 	struct buf *out;
@@ -420,7 +470,7 @@ show_rows(struct show_ctx *c, const struct branch *br, size_t depth)
 }
 
 int
-cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_chain(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct store *s;
 	struct bench *b;
@@ -428,16 +478,17 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	struct show_ctx c;
 	struct store_part_ref *refs = NULL;
 	size_t nrefs = 0;
-	char *cause = NULL, *name = NULL, *shown = NULL, *src;
-	int changed = 0, rc;
+	char *cause = NULL, *name = NULL, *shown = NULL, *src, *words = NULL;
+	int rc;
 
 	if (argc == 2 && strcmp(argv[1], "--help") == 0)
-		return printf("Usage: " PROG " show BENCH[@REV]\n"
+		return printf("Usage: " PROG " chain BENCH[@SETUP]\n"
 		    "The chain as a table: ids (side branches indented under their port), "
-		    "type, part, label, values.\nREV is rN, a label or draft (the default).\n"), 0;
+		    "type, part, label, values.\nSETUP is a setup's number (2 or #2), its "
+		    "name, or draft (the default).\n"), 0;
 	if (argc != 2)
-		return cmd_usage(argc < 2 ? "show: which bench?" :
-		    "show: one bench at a time ('%s' is extra)", argv[2]);
+		return cmd_usage(argc < 2 ? "chain: which bench?" :
+		    "chain: one bench at a time ('%s' is extra)", argv[2]);
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if ((b = cmd_bench_load(s, argv[1], &name, &shown, &cause)) == NULL) {
@@ -445,7 +496,7 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 		return cmd_store_fail(s, cause);
 	}
 	if (strcmp(shown, "draft") == 0)
-		store_draft_changed(s, name, &changed, NULL);
+		words = cmd_draft_words(s, name, NULL);
 	{
 		char *rev = NULL, *nm = NULL;
 
@@ -455,6 +506,7 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 			free(rev);
 			free(name);
 			free(shown);
+			free(words);
 			model_bench_free(b);
 			return cmd_store_fail(s, cause);
 		}
@@ -463,9 +515,11 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	store_close(s);
 	buf_init(&out);
-	buf_printf(&out, "Bench %s @ %s%s\n", b->name, shown,
-	    strcmp(shown, "draft") == 0 ? changed ? " (changed since the latest revision)" :
-	    " (same as the latest revision)" : "");
+	if (words != NULL)
+		buf_printf(&out, "Bench %s @ %s (%s)\n", b->name, shown, words);
+	else
+		buf_printf(&out, "Bench %s @ %s\n", b->name, shown);
+	free(words);
 	src = report_source_line(b, 0);
 	buf_printf(&out, "Source: %s\n", src);
 	free(src);
@@ -520,7 +574,7 @@ cmd_show(struct cmd_ctx *ctx, int argc, char **argv)
 	return rc;
 }
 
-/* ---- export, clone, delete ---- */
+/* ---- export, copy, delete ---- */
 
 int
 cmd_export(struct cmd_ctx *ctx, int argc, char **argv)
@@ -542,8 +596,10 @@ cmd_export(struct cmd_ctx *ctx, int argc, char **argv)
 			outpath = optarg;
 		else if (ch == 'h')
 			return printf("Usage: " PROG " export BENCH[@REV] [-o FILE]\n"
-			    "The bench file of a revision or the draft (the default), on "
-			    "standard output or written atomically to FILE.\n"), 0;
+			    "The bench file of a setup or the draft (the default), on "
+			    "standard output or written atomically to FILE.  Values carry\n"
+			    "their units as a person would type them (\"1064 nm\", \"5 W\") and read\n"
+			    "back to the same numbers.\n"), 0;
 		else
 			return bad_option("export", argc, argv);
 	}
@@ -569,30 +625,32 @@ cmd_export(struct cmd_ctx *ctx, int argc, char **argv)
 }
 
 int
-cmd_clone(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_copy(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct store *s;
 	char *cause = NULL, *name, *rev;
 	int rc;
 
 	if (argc == 2 && strcmp(argv[1], "--help") == 0)
-		return printf("Usage: " PROG " clone BENCH[@REV] NEWNAME\n"
-		    "A new bench whose draft and r1 are a revision (or the draft) of another.\n"),
-		    0;
+		return printf("Usage: " PROG " copy BENCH[@SETUP] NEWNAME\n"
+		    "A new bench whose draft and setup #1 are a setup (or the draft) of "
+		    "another.\n"), 0;
 	if (argc != 3)
-		return cmd_usage("clone: give BENCH[@REV] and NEWNAME");
+		return cmd_usage("copy: give BENCH[@SETUP] and NEWNAME");
 	if (argv[2][0] == '\0')
-		return cmd_usage("clone: the new name must not be empty");
+		return cmd_usage("copy: the new name must not be empty");
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	cmd_bench_ref(s, argv[1], &name, &rev);
-	rc = store_clone(s, name, rev, argv[2], ctx->author, &cause);
+	rc = cmd_rev_check(rev, &cause);
+	if (rc == 0)
+		rc = store_clone(s, name, rev, argv[2], ctx->author, &cause);
 	free(name);
 	free(rev);
 	if (rc != 0)
 		return cmd_store_fail(s, cause);
 	store_close(s);
-	printf("cloned %s into bench '%s' (r1)\n", argv[1], argv[2]);
+	printf("copied %s into bench '%s': recorded #1\n", argv[1], argv[2]);
 	return 0;
 }
 
@@ -611,7 +669,7 @@ cmd_delete(struct cmd_ctx *ctx, int argc, char **argv)
 			force = 1;
 		else if (strcmp(argv[i], "--help") == 0)
 			return printf("Usage: " PROG " delete BENCH --force\n"
-			    "Drops a bench with its draft, every revision and label.\n"), 0;
+			    "Drops a bench with its draft, every setup and their names.\n"), 0;
 		else if (name == NULL)
 			name = argv[i];
 		else
@@ -626,21 +684,21 @@ cmd_delete(struct cmd_ctx *ctx, int argc, char **argv)
 	store_revs_free(revs, n);
 	if (!force)
 		return cmd_store_fail(s, xasprintf("bench '%s': deleting it drops its %zu "
-		    "revision(s) and draft; add --force to do so", name, n));
+		    "%s and draft; add --force to do so", name, n, n == 1 ? "setup" : "setups"));
 	if (store_bench_delete(s, name, &cause) != 0)
 		return cmd_store_fail(s, cause);
 	store_close(s);
-	printf("deleted bench '%s' (%zu revision(s))\n", name, n);
+	printf("deleted bench '%s' (%zu %s)\n", name, n, n == 1 ? "setup" : "setups");
 	return 0;
 }
 
-/* ---- commit, log, label, restore ---- */
+/* ---- record, history, mark, reinstate ---- */
 
 int
-cmd_commit(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_record(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	static const struct option opts[] = {
-		{ "message", required_argument, NULL, 'm' },
+		{ "note", required_argument, NULL, 'n' },
 		{ "author", required_argument, NULL, 'a' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
@@ -651,35 +709,36 @@ cmd_commit(struct cmd_ctx *ctx, int argc, char **argv)
 	int ch, no = 0;
 
 	cmd_getopt_reset();
-	while ((ch = getopt_long(argc, argv, "m:a:", opts, NULL)) != -1) {
-		if (ch == 'm')
+	while ((ch = getopt_long(argc, argv, "n:a:", opts, NULL)) != -1) {
+		if (ch == 'n')
 			note = optarg;
 		else if (ch == 'a')
 			author = optarg;
 		else if (ch == 'h')
-			return printf("Usage: " PROG " commit BENCH -m NOTE [--author NAME]\n"
-			    "The draft becomes the next revision, with UTC time, author "
-			    "($USER unless --author) and note.\n"), 0;
+			return printf("Usage: " PROG " record BENCH --note NOTE [--author NAME]\n"
+			    "The draft becomes the next numbered setup (#1, #2, ...), with UTC "
+			    "time, author\n($USER, else the login name, unless --author) and "
+			    "note (-n NOTE for short).\n"), 0;
 		else
-			return bad_option("commit", argc, argv);
+			return bad_option("record", argc, argv);
 	}
 	if (optind + 1 != argc)
-		return cmd_usage(optind >= argc ? "commit: which bench?" :
-		    "commit: one bench at a time ('%s' is extra)", argv[optind + 1]);
+		return cmd_usage(optind >= argc ? "record: which bench?" :
+		    "record: one bench at a time ('%s' is extra)", argv[optind + 1]);
 	if (note == NULL)
-		return cmd_usage("commit: say what changed with -m NOTE");
+		return cmd_usage("record: say what this setup is with --note NOTE");
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_commit(s, argv[optind], note, author, &no, &cause) != 0)
 		return cmd_store_fail(s, cause);
 	store_close(s);
-	printf("committed bench '%s' as r%d\n", argv[optind], no);
+	printf("bench '%s': recorded #%d\n", argv[optind], no);
 	fflush(stdout);
 	return 0;
 }
 
 int
-cmd_log(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	static const struct option opts[] = {
 		{ "format", required_argument, NULL, 'f' },
@@ -689,29 +748,34 @@ cmd_log(struct cmd_ctx *ctx, int argc, char **argv)
 	struct store_rev *revs;
 	struct store *s;
 	struct buf out;
-	char *cause = NULL;
-	size_t n, wa = 6;
+	char *cause = NULL, *words;
+	size_t n, wa = 6, wn = 4;
 	int ch, json = 0, rc;
 
 	cmd_getopt_reset();
 	while ((ch = getopt_long(argc, argv, "f:", opts, NULL)) != -1) {
 		if (ch == 'f') {
-			if (format_opt("log", optarg, &json) != 0)
+			if (format_opt("history", optarg, &json) != 0)
 				return 2;
 		} else if (ch == 'h') {
-			return printf("Usage: " PROG " log BENCH [--format table|json]\n"
-			    "Revisions, newest first: number, UTC time, author, labels, note.\n"), 0;
+			return printf("Usage: " PROG " history BENCH [--format table|json]\n"
+			    "The setups, newest first: number, UTC time, author, names, note; "
+			    "then where the draft stands.\n"), 0;
 		} else {
-			return bad_option("log", argc, argv);
+			return bad_option("history", argc, argv);
 		}
 	}
 	if (optind + 1 != argc)
-		return cmd_usage(optind >= argc ? "log: which bench?" :
-		    "log: one bench at a time ('%s' is extra)", argv[optind + 1]);
+		return cmd_usage(optind >= argc ? "history: which bench?" :
+		    "history: one bench at a time ('%s' is extra)", argv[optind + 1]);
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_log(s, argv[optind], &revs, &n, &cause) != 0)
 		return cmd_store_fail(s, cause);
+	if ((words = cmd_draft_words(s, argv[optind], &cause)) == NULL) {
+		store_revs_free(revs, n);
+		return cmd_store_fail(s, cause);
+	}
 	store_close(s);
 	buf_init(&out);
 	if (json) {
@@ -719,30 +783,39 @@ cmd_log(struct cmd_ctx *ctx, int argc, char **argv)
 		char *t;
 
 		for (size_t i = 0; i < n; i++)
-			json_array_append_new(arr, json_pack("{s:i,s:s,s:s,s:s,s:s}", "rev",
+			json_array_append_new(arr, json_pack("{s:i,s:s,s:s,s:s,s:s}", "setup",
 			    revs[i].no, "time", revs[i].time, "author", revs[i].author,
-			    "labels", revs[i].labels, "note", revs[i].note));
+			    "names", revs[i].labels, "note", revs[i].note));
 		t = json_dumps(arr, JSON_INDENT(2) | JSON_PRESERVE_ORDER);
 		buf_printf(&out, "%s\n", t);
 		free(t);
 		json_decref(arr);
+	} else if (n == 0) {
+		buf_printf(&out, "no setup recorded yet (%s)\n", words);
 	} else {
-		for (size_t i = 0; i < n; i++)
+		for (size_t i = 0; i < n; i++) {
 			if (utf8_cols(revs[i].author) > wa)
 				wa = utf8_cols(revs[i].author);
+			if (utf8_cols(revs[i].labels) > wn)
+				wn = utf8_cols(revs[i].labels);
+		}
+		buf_printf(&out, "setup  recorded (UTC)       %-*s  %-*s  note\n", (int)wa, "author",
+		    (int)wn, "name");
 		for (size_t i = 0; i < n; i++) {
 			char rev[24];
 			size_t start = out.len;
 
-			snprintf(rev, sizeof rev, "r%d", revs[i].no);
+			snprintf(rev, sizeof rev, "#%d", revs[i].no);
 			buf_printf(&out, "%-6s %s  ", rev, revs[i].time);
 			buf_add(&out, revs[i].author);
 			buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2, start);
-			if (revs[i].labels[0] != '\0')
-				buf_printf(&out, "[%s] ", revs[i].labels);
+			buf_add(&out, revs[i].labels[0] != '\0' ? revs[i].labels : "-");
+			buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2 + wn + 2, start);
 			buf_printf(&out, "%s\n", revs[i].note);
 		}
+		buf_printf(&out, "%s\n", words);
 	}
+	free(words);
 	store_revs_free(revs, n);
 	rc = cmd_print(out.s);
 	buf_release(&out);
@@ -750,33 +823,35 @@ cmd_log(struct cmd_ctx *ctx, int argc, char **argv)
 }
 
 int
-cmd_label(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_mark(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct store *s;
 	char *cause = NULL;
 	int no = 0;
 
 	if (argc == 2 && strcmp(argv[1], "--help") == 0)
-		return printf("Usage: " PROG " label BENCH REV NAME\n"
-		    "Names a revision (\"aligned\", \"before-upgrade\"); a label is unique in "
-		    "its bench and may stand wherever a REV goes.\n"), 0;
+		return printf("Usage: " PROG " mark BENCH SETUP NAME\n"
+		    "Gives a setup a name (\"aligned\", \"before-upgrade\"); a name is unique in "
+		    "its bench\nand may stand wherever a SETUP goes: BENCH@aligned.\n"), 0;
 	if (argc != 4)
-		return cmd_usage("label: give BENCH, REV and NAME");
+		return cmd_usage("mark: give BENCH, SETUP and NAME");
+	if (cmd_rev_check(argv[2], &cause) != 0)
+		return cmd_fail(cause);
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_label(s, argv[1], argv[2], argv[3], &cause) != 0 ||
 	    store_resolve_rev(s, argv[1], argv[3], &no, &cause) != 0)
 		return cmd_store_fail(s, cause);
 	store_close(s);
-	printf("bench '%s': r%d is labelled '%s'\n", argv[1], no, argv[3]);
+	printf("bench '%s': #%d is named '%s'\n", argv[1], no, argv[3]);
 	return 0;
 }
 
 int
-cmd_restore(struct cmd_ctx *ctx, int argc, char **argv)
+cmd_reinstate(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	struct store *s;
-	char *cause = NULL;
+	char *cause = NULL, *words;
 	const char *pos[2] = { NULL, NULL };
 	int force = 0, npos = 0, no = 0;
 
@@ -784,23 +859,27 @@ cmd_restore(struct cmd_ctx *ctx, int argc, char **argv)
 		if (strcmp(argv[i], "--force") == 0 || strcmp(argv[i], "-f") == 0)
 			force = 1;
 		else if (strcmp(argv[i], "--help") == 0)
-			return printf("Usage: " PROG " restore BENCH REV [--force]\n"
-			    "Copies a revision into the draft.  Refuses when the draft holds "
-			    "changes no revision has, unless --force.\n"), 0;
+			return printf("Usage: " PROG " reinstate BENCH SETUP [--force]\n"
+			    "Makes a setup the draft again.  Refuses when the draft holds "
+			    "changes no setup has,\nunless --force.\n"), 0;
 		else if (npos < 2)
 			pos[npos++] = argv[i];
 		else
-			return cmd_usage("restore: '%s' is extra", argv[i]);
+			return cmd_usage("reinstate: '%s' is extra", argv[i]);
 	}
 	if (npos != 2)
-		return cmd_usage("restore: give BENCH and REV");
+		return cmd_usage("reinstate: give BENCH and SETUP");
+	if (cmd_rev_check(pos[1], &cause) != 0)
+		return cmd_fail(cause);
 	if ((s = cmd_store_open_existing(ctx)) == NULL)
 		return 2;
 	if (store_restore(s, pos[0], pos[1], force, &cause) != 0 ||
-	    store_resolve_rev(s, pos[0], pos[1], &no, &cause) != 0)
+	    store_resolve_rev(s, pos[0], pos[1], &no, &cause) != 0 ||
+	    (words = cmd_draft_words(s, pos[0], &cause)) == NULL)
 		return cmd_store_fail(s, cause);
 	store_close(s);
-	printf("bench '%s': the draft is now r%d\n", pos[0], no);
+	printf("bench '%s': #%d reinstated (%s)\n", pos[0], no, words);
+	free(words);
 	return 0;
 }
 
@@ -816,7 +895,7 @@ cmd_check(struct cmd_ctx *ctx, int argc, char **argv)
 	if (argc == 2 && strcmp(argv[1], "--help") == 0)
 		return printf("Usage: " PROG " check\n"
 		    "Checks the database: SQLite's integrity_check and foreign_key_check, "
-		    "then that every revision and draft loads.\nExit status: 0 sound, 1 "
+		    "then that every setup and draft loads.\nExit status: 0 sound, 1 "
 		    "problems found (listed), 2 trouble.\n"), 0;
 	if (argc != 1)
 		return cmd_usage("check: takes no operands ('%s')", argv[1]);

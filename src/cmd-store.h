@@ -16,14 +16,20 @@ struct store *cmd_store_open_existing(const struct cmd_ctx *);
 /* Prints cause, closes the store; returns 2. */
 int           cmd_store_fail(struct store *, char *cause);
 
-/* A bench reference "BENCH", "BENCH@REV": the whole text when it names a
+/* A bench reference "BENCH", "BENCH@SETUP": the whole text when it names a
  * bench, else split at the last '@'.  *rev is NULL for the draft. */
 void          cmd_bench_ref(struct store *, const char *arg, char **name, char **rev);
-/* Loads a reference; *shown gets "r3", "aligned (r3)" or "draft". */
+/* Loads a reference; *shown gets "#3", "aligned (#3)" or "draft". */
 struct bench *cmd_bench_load(struct store *, const char *arg, char **name, char **shown,
                   char **cause);
-/* "r3", "aligned (r3)", "draft" for a REV text and its number. */
+/* "#3", "aligned (#3)", "draft" for a SETUP text and its number. */
 char         *cmd_rev_shown(const char *rev, int no);
+/* Refuses the retired spelling "r3" of a setup with a message that says
+ * how to write it; 0 for anything else (NULL too). */
+int           cmd_rev_check(const char *rev, char **cause);
+/* "draft = #3", "draft: changed since #3, not recorded", "draft: not
+ * recorded yet" for a bench (caller frees; NULL with *cause). */
+char         *cmd_draft_words(struct store *, const char *name, char **cause);
 
 /* Writes text to path through a temporary file and rename(2), so that a
  * reader never sees half a file. */

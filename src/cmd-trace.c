@@ -114,10 +114,10 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 			demo = 1;
 			break;
 		case 'h':
-			printf("Usage: " PROG " trace FILE | BENCH[@REV] | --demo"
+			printf("Usage: " PROG " trace FILE | BENCH[@SETUP] | --demo"
 			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
-			    "An operand that is not a file names a bench in the database (its\n"
-			    "draft, or revision REV: rN, a label).\n"
+			    "An operand that is not a file names a bench in the database: its\n"
+			    "draft, or with @SETUP a recorded setup (a number, 2 or #2, or a name).\n"
 			    "Exit status: 0 nothing over its threshold, 1 something over, 2 trouble.\n");
 			return 0;
 		default:
@@ -129,8 +129,9 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		    "trace: which bench? give a file, a bench in the database, or --demo");
 	if (optind + 1 < argc)
 		return cmd_usage("trace: one bench at a time ('%s' is extra%s)", argv[optind + 1],
-		    argv[optind + 1][0] == 'r' || strcmp(argv[optind + 1], "draft") == 0 ?
-		    "; for a revision write BENCH@REV" : "");
+		    (argv[optind + 1][0] >= '0' && argv[optind + 1][0] <= '9') ||
+		    argv[optind + 1][0] == '#' || strcmp(argv[optind + 1], "draft") == 0 ?
+		    "; for a setup write BENCH@SETUP" : "");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);

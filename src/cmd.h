@@ -1,6 +1,6 @@
 /* cmd.h - the command table behind main(): one function per command, each
  * in a cmd-*.c file.  A command returns the process exit status: 0 fine,
- * 1 something over threshold (trace, diff), 2 trouble. */
+ * 1 something over threshold (trace), 2 trouble. */
 #ifndef CMD_H
 #define CMD_H
 
@@ -8,7 +8,7 @@
 
 struct cmd_ctx {
 	const char *db_path;        /* --db or BEAMLEDGER_DB; NULL: default */
-	const char *author;         /* --author or $USER */
+	const char *author;         /* --author, $USER, the login name or "unknown" */
 };
 
 struct cmd {
@@ -29,23 +29,26 @@ int  cmd_color(const char *when);
 /* Writes text to stdout; returns 0, or 2 after a message when it fails. */
 int  cmd_print(const char *text);
 
+/* `help [COMMAND]`: the overview of --help, or one command's own --help. */
+int  cmd_help(struct cmd_ctx *, int, char **);
+
 int  cmd_trace(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
 
 /* The bench database (cmd-store*.c). */
 int  cmd_import(struct cmd_ctx *, int, char **);
 int  cmd_list(struct cmd_ctx *, int, char **);
-int  cmd_show(struct cmd_ctx *, int, char **);
-int  cmd_add(struct cmd_ctx *, int, char **);
+int  cmd_chain(struct cmd_ctx *, int, char **);
+int  cmd_place(struct cmd_ctx *, int, char **);
 int  cmd_set(struct cmd_ctx *, int, char **);
-int  cmd_remove(struct cmd_ctx *, int, char **);
-int  cmd_move(struct cmd_ctx *, int, char **);
-int  cmd_commit(struct cmd_ctx *, int, char **);
-int  cmd_log(struct cmd_ctx *, int, char **);
-int  cmd_diff(struct cmd_ctx *, int, char **);
-int  cmd_restore(struct cmd_ctx *, int, char **);
-int  cmd_label(struct cmd_ctx *, int, char **);
-int  cmd_clone(struct cmd_ctx *, int, char **);
+int  cmd_lift(struct cmd_ctx *, int, char **);
+int  cmd_shift(struct cmd_ctx *, int, char **);
+int  cmd_record(struct cmd_ctx *, int, char **);
+int  cmd_history(struct cmd_ctx *, int, char **);
+int  cmd_compare(struct cmd_ctx *, int, char **);
+int  cmd_reinstate(struct cmd_ctx *, int, char **);
+int  cmd_mark(struct cmd_ctx *, int, char **);
+int  cmd_copy(struct cmd_ctx *, int, char **);
 int  cmd_export(struct cmd_ctx *, int, char **);
 int  cmd_delete(struct cmd_ctx *, int, char **);
 int  cmd_parts(struct cmd_ctx *, int, char **);

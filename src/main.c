@@ -10,38 +10,42 @@
 
 #include "cmd.h"
 #include "report.h"
+#include "store.h"
 #include "util-err.h"
 
 const struct cmd cmd_table[] = {
-	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
-	    "trace a bench: power, beam size, irradiance and damage margins" },
+	{ "trace", cmd_trace, "FILE | BENCH[@SETUP] | --demo [--format table|json|csv] [--color WHEN] "
+	    "[--ascii]", "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
 	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
 	    "the terminal workbench (also with no command); BENCH opens that bench" },
-	/* The bench database: benches, drafts, revisions, the parts shelf. */
+	{ "help", cmd_help, "[COMMAND]", "this overview, or the help of one command" },
+	/* The bench database: benches, drafts, numbered setups, the parts shelf. */
 	{ "import", cmd_import, "FILE [--name NAME]", "a new bench from a bench file" },
 	{ "list", cmd_list, "[--format table|json]",
-	    "benches: latest revision, draft changed?, worst status" },
-	{ "show", cmd_show, "BENCH[@REV]", "the chain as a table" },
-	{ "add", cmd_add, "BENCH TYPE ID [--part NAME] [KEY=VALUE...] "
+	    "benches: latest setup, draft changed?, worst status" },
+	{ "chain", cmd_chain, "BENCH[@SETUP]", "the chain as a table" },
+	{ "place", cmd_place, "BENCH TYPE ID [--part NAME] [KEY=VALUE...] "
 	    "[--after ID | --before ID | --into SPLITTER.PORT [--first]]",
-	    "add an element to the draft" },
+	    "put an element into the draft's chain" },
 	{ "set", cmd_set, "BENCH ID KEY=VALUE... | BENCH --bench KEY=VALUE...",
-	    "change values of an element or of the bench and source" },
-	{ "remove", cmd_remove, "BENCH ID", "remove an element (and its side branch)" },
-	{ "move", cmd_move, "BENCH ID --after ID | --before ID | --into SPLITTER.PORT",
-	    "move an element" },
-	{ "commit", cmd_commit, "BENCH -m NOTE [--author NAME]", "the draft becomes a new revision" },
-	{ "log", cmd_log, "BENCH [--format table|json]", "revisions, newest first, with labels" },
-	{ "diff", cmd_diff, "BENCH REV [REV] [--format text|json]",
-	    "changes and their effect on the damage margins (second REV: the draft)" },
-	{ "restore", cmd_restore, "BENCH REV [--force]", "a revision becomes the draft" },
-	{ "label", cmd_label, "BENCH REV NAME", "name a revision" },
-	{ "clone", cmd_clone, "BENCH[@REV] NEWNAME", "a new bench from a revision of another" },
-	{ "export", cmd_export, "BENCH[@REV] [-o FILE]", "the bench file of a revision or the draft" },
-	{ "delete", cmd_delete, "BENCH --force", "drop a bench and all its revisions" },
+	    "change values of an element, or of the bench (name too) and source" },
+	{ "lift", cmd_lift, "BENCH ID", "take an element (and its side branch) out" },
+	{ "shift", cmd_shift, "BENCH ID --after ID | --before ID | --into SPLITTER.PORT",
+	    "put an element somewhere else in the chain" },
+	{ "record", cmd_record, "BENCH --note NOTE [--author NAME]",
+	    "the draft becomes the next numbered setup" },
+	{ "history", cmd_history, "BENCH [--format table|json]",
+	    "the setups, newest first, with their names" },
+	{ "compare", cmd_compare, "BENCH SETUP [SETUP] [--format text|json]",
+	    "changes and their effect on the damage margins (second SETUP: the draft)" },
+	{ "reinstate", cmd_reinstate, "BENCH SETUP [--force]", "a setup becomes the draft again" },
+	{ "mark", cmd_mark, "BENCH SETUP NAME", "give a setup a name" },
+	{ "copy", cmd_copy, "BENCH[@SETUP] NEWNAME", "a new bench from a setup of another" },
+	{ "export", cmd_export, "BENCH[@SETUP] [-o FILE]", "the bench file of a setup or the draft" },
+	{ "delete", cmd_delete, "BENCH --force", "drop a bench and all its setups" },
 	{ "parts", cmd_parts, "list | add FILE | show NAME", "the shelf of named parts" },
-	{ "check", cmd_check, "", "check the database (integrity, every revision loads)" },
+	{ "check", cmd_check, "", "check the database (integrity, every setup loads)" },
 	{ NULL, NULL, NULL, NULL },
 };
 
@@ -98,17 +102,20 @@ usage(void)
 	printf("Usage: " PROG " [--db PATH] [--author NAME] [COMMAND [ARGS]]\n"
 	    "Lay out laser beam lines, trace power, beam size, irradiance and fluence\n"
 	    "through every optic, and flag what exceeds its damage threshold.\n\n"
-	    "Commands:\n");
+	    "Commands (" PROG " help COMMAND, or COMMAND --help, tells more):\n");
 	for (const struct cmd *c = cmd_table; c->name != NULL; c++)
-		printf("  %-8s %s\n           %s\n", c->name, c->args, c->summary);
+		printf("  %-9s %s\n            %s\n", c->name, c->args, c->summary);
 	printf("\nOptions:\n"
 	    "  --db PATH      the bench database (default $XDG_DATA_HOME/beamledger/benches.db;\n"
 	    "                 also BEAMLEDGER_DB)\n"
-	    "  --author NAME  who commits, imports and clones (default $USER)\n"
+	    "  --author NAME  who records, imports and copies (default $USER, else the\n"
+	    "                 login name)\n"
 	    "  --help         show this help and exit\n"
 	    "  --version      show the version and exit\n\n"
-	    "BENCH names a bench in the database; BENCH@REV one of its revisions, where\n"
-	    "REV is rN, a label, or draft (the default).\n\n"
+	    "BENCH names a bench in the database.  Its draft is what you edit; record\n"
+	    "makes it the next numbered setup (#1, #2, ...).  BENCH@SETUP is one of them:\n"
+	    "BENCH@2 (or BENCH@#2), BENCH@NAME for a name given with mark, or BENCH@draft\n"
+	    "(the default).\n\n"
 	    "Exit status: 0 fine; 1 trace: at least one element over its threshold\n"
 	    "(check: problems found); 2 trouble.\n\n"
 	    "%s\n"
@@ -116,21 +123,42 @@ usage(void)
 }
 
 int
+cmd_help(struct cmd_ctx *ctx, int argc, char **argv)
+{
+	char *sub[3];
+
+	if (argc == 1 || (argc == 2 && (strcmp(argv[1], "--help") == 0 ||
+	    strcmp(argv[1], "help") == 0))) {
+		usage();
+		return 0;
+	}
+	if (argc > 2)
+		return cmd_usage("help: one command at a time ('%s' is extra)", argv[2]);
+	for (const struct cmd *c = cmd_table; c->name != NULL; c++) {
+		if (strcmp(argv[1], c->name) != 0)
+			continue;
+		sub[0] = argv[1];
+		sub[1] = (char *)"--help";
+		sub[2] = NULL;
+		return c->fn(ctx, 2, sub);
+	}
+	return cmd_usage("help: no command '%s' (" PROG " help lists them)", argv[1]);
+}
+
+int
 main(int argc, char **argv)
 {
-	struct cmd_ctx ctx = { getenv("BEAMLEDGER_DB"), getenv("USER") };
-	int i = 1;
+	struct cmd_ctx ctx = { getenv("BEAMLEDGER_DB"), NULL };
+	char *author = NULL;
+	int i = 1, rc;
 
 	for (; i < argc && argv[i][0] == '-'; i++) {
 		if (strcmp(argv[i], "--help") == 0 || strcmp(argv[i], "-h") == 0) {
 			usage();
 			return 0;
 		} else if (strcmp(argv[i], "--version") == 0) {
-			printf(PROG " " PACKAGE_VERSION "\n"
-			    "Copyright (c) 2026 the beamledger authors.\n"
-			    "License MIT: <https://opensource.org/licenses/MIT>.\n"
-			    "This is free software: you are free to change and redistribute it.\n"
-			    "There is NO WARRANTY, to the extent permitted by law.\n");
+			printf(PROG " " PACKAGE_VERSION " - MIT licence, text in LICENSE at the top "
+			    "of the source tree\n");
 			return 0;
 		} else if (strcmp(argv[i], "--db") == 0) {
 			if (i + 1 >= argc)
@@ -151,10 +179,17 @@ main(int argc, char **argv)
 			return cmd_usage("unknown option '%s'", argv[i]);
 		}
 	}
-	if (i >= argc)
-		return cmd_workbench(&ctx);
-	for (const struct cmd *c = cmd_table; c->name != NULL; c++)
-		if (strcmp(argv[i], c->name) == 0)
-			return c->fn(&ctx, argc - i, argv + i);
-	return cmd_usage("unknown command '%s'", argv[i]);
+	ctx.author = author = store_author(ctx.author);
+	if (i >= argc) {
+		rc = cmd_workbench(&ctx);
+	} else {
+		const struct cmd *c = cmd_table;
+
+		while (c->name != NULL && strcmp(argv[i], c->name) != 0)
+			c++;
+		rc = c->name != NULL ? c->fn(&ctx, argc - i, argv + i) :
+		    cmd_usage("unknown command '%s'", argv[i]);
+	}
+	free(author);
+	return rc;
 }

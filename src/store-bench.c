@@ -365,7 +365,7 @@ rev_get(struct store *s, long long bench, int no, struct state *st, char **cause
 	store_q_done(q);
 	if (rc == SQLITE_DONE)
 		return 0;
-	return store_fail(s, rc, cause, "reading a revision");
+	return store_fail(s, rc, cause, "reading a setup");
 }
 
 /* Latest revision number (0: none) and, when st is not NULL, its state. */
@@ -390,7 +390,7 @@ rev_latest(struct store *s, long long bench, int *no, struct state *st, char **c
 	}
 	store_q_done(q);
 	if (rc != SQLITE_ROW && rc != SQLITE_DONE)
-		return store_fail(s, rc, cause, "reading revisions");
+		return store_fail(s, rc, cause, "reading setups");
 	return 0;
 }
 
@@ -444,7 +444,7 @@ rev_insert(struct store *s, long long bench, int no, const char *now, const char
 	sqlite3_bind_int64(q, 6, st->head);
 	store_bind_text(q, 7, st->layout);
 	store_bind_text(q, 8, st->parts);
-	if (step_done(s, q, cause, "storing a revision") != 0)
+	if (step_done(s, q, cause, "storing a setup") != 0)
 		return -1;
 	return pin(s, st, cause);
 }
@@ -492,15 +492,20 @@ store_gc_full(struct store *s, char **cause)
 
 /* ---- revisions by name ---- */
 
+/* A setup number: "2" or "#2"; "r2" as well, the older spelling, which
+ * callers that still use it (and old notes) may pass. */
 static int
 is_rev_number(const char *rev, int *no)
 {
+	const char *p = rev;
 	char *end;
 	long v;
 
-	if (rev[0] != 'r' || rev[1] < '0' || rev[1] > '9')
+	if (*p == '#' || *p == 'r')
+		p++;
+	if (*p < '0' || *p > '9')
 		return 0;
-	v = strtol(rev + 1, &end, 10);
+	v = strtol(p, &end, 10);
 	if (*end != '\0')
 		return 0;
 	*no = v > 0 && v < 1000000000L ? (int)v : -1;
@@ -521,9 +526,13 @@ resolve(struct store *s, long long bench, const char *name, const char *rev, int
 	if (rev_latest(s, bench, &latest, NULL, cause) != 0)
 		return -1;
 	if (is_rev_number(rev, no)) {
-		if (*no < 1 || *no > latest)
-			return fail_with(cause, "bench '%s' has no revision '%s' (%s%d)", name,
-			    rev, latest > 0 ? "r1 to r" : "none yet", latest);
+		if (*no < 1 || *no > latest) {
+			if (latest == 0)
+				return fail_with(cause, "bench '%s' has no setup '%s' (none "
+				    "recorded yet)", name, rev);
+			return fail_with(cause, "bench '%s' has no setup '%s' (#1 to #%d)", name,
+			    rev, latest);
+		}
 		return 0;
 	}
 	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
@@ -537,9 +546,9 @@ resolve(struct store *s, long long bench, const char *name, const char *rev, int
 	if (rc == SQLITE_ROW)
 		return 0;
 	if (rc != SQLITE_DONE)
-		return store_fail(s, rc, cause, "finding a label");
-	return fail_with(cause, "bench '%s' has no revision or label '%s' (a revision "
-	    "is rN, a label, or draft)", name, rev);
+		return store_fail(s, rc, cause, "finding a setup's name");
+	return fail_with(cause, "bench '%s' has no setup named '%s' (a setup is its number, "
+	    "like 2 or #2, a name given with mark, or draft)", name, rev);
 }
 
 int
@@ -575,7 +584,7 @@ state_at(struct store *s, const char *name, const char *rev, int *no, struct sta
 	rc = rev_get(s, id, n, st, cause);
 	if (rc <= 0) {
 		if (rc == 0)
-			fail_with(cause, "bench '%s': revision r%d is missing", name, n);
+			fail_with(cause, "bench '%s': setup #%d is missing", name, n);
 		return 0;
 	}
 	return id;
@@ -627,7 +636,10 @@ store_bench_rows_free(struct store_bench_row *rows, size_t n)
 	free(rows);
 }
 
-/* A new bench row with the draft and r1 set to st. */
+static int name_free(struct store *, const char *name, char **cause);
+
+/* A new bench row with the draft set to st, and setup #1 too unless note
+ * is NULL (then the first record makes #1). */
 static int
 create_from_state(struct store *s, const char *name, struct state *st, const char *note,
     const char *author, char **cause)
@@ -637,24 +649,12 @@ create_from_state(struct store *s, const char *name, struct state *st, const cha
 	long long id;
 	int rc = -1;
 
-	if (name == NULL || name[0] == '\0')
-		return fail_with(cause, "a bench needs a name");
-	/* '@' separates BENCH@REV: a name holding one would make a reference
-	 * to another bench's revision ambiguous */
-	if (strchr(name, '@') != NULL || !utf8_valid(name))
-		return fail_with(cause, "bench name '%s': '@' and text that is not UTF-8 are "
-		    "not allowed in a bench name", utf8_valid(name) ? name : "?");
-	if (!utf8_valid(note) || !utf8_valid(author))
-		return fail_with(cause, "note or author: not valid UTF-8 text");
-	if ((q = store_q(s, Q_BENCH_ID, cause)) == NULL)
+	/* '@' separates BENCH@SETUP: a name holding one would make a
+	 * reference to another bench's setup ambiguous */
+	if (name_free(s, name, cause) != 0)
 		return -1;
-	store_bind_text(q, 1, name);
-	rc = sqlite3_step(q);
-	store_q_done(q);
-	if (rc == SQLITE_ROW)
-		return fail_with(cause, "bench '%s' already exists", name);
-	if (rc != SQLITE_DONE)
-		return store_fail(s, rc, cause, "finding a bench");
+	if ((note != NULL && !utf8_valid(note)) || (author != NULL && !utf8_valid(author)))
+		return fail_with(cause, "note or author: not valid UTF-8 text");
 	if ((q = store_q(s, Q_BENCH_INSERT, cause)) == NULL)
 		return -1;
 	now = store_now();
@@ -663,10 +663,10 @@ create_from_state(struct store *s, const char *name, struct state *st, const cha
 	sqlite3_bind_int64(q, 3, st->head);
 	store_bind_text(q, 4, st->layout);
 	store_bind_text(q, 5, st->parts);
-	sqlite3_bind_int(q, 6, 1);
+	sqlite3_bind_int(q, 6, note != NULL ? 1 : 0);
 	rc = step_done(s, q, cause, "creating a bench");
 	id = sqlite3_last_insert_rowid(s->db);
-	if (rc == 0)
+	if (rc == 0 && note != NULL)
 		rc = rev_insert(s, id, 1, now, author, note, st, cause);
 	free(now);
 	return rc;
@@ -796,7 +796,7 @@ store_commit(struct store *s, const char *name, const char *note, const char *au
 	id = draft_get(s, name, &d, NULL, cause);
 	if (id != 0 && rev_latest(s, id, &no, &r, cause) == 0) {
 		if (no > 0 && state_equal(&d, &r)) {
-			fail_with(cause, "bench '%s': nothing to commit (the draft equals r%d)",
+			fail_with(cause, "bench '%s': nothing to record (draft = #%d)",
 			    name, no);
 		} else {
 			now = store_now();
@@ -847,7 +847,7 @@ store_log(struct store *s, const char *name, struct store_rev **revs, size_t *n,
 		store_revs_free(*revs, *n);
 		*revs = NULL;
 		*n = 0;
-		return store_fail(s, rc, cause, "reading the log");
+		return store_fail(s, rc, cause, "reading the history");
 	}
 	return 0;
 }
@@ -874,24 +874,24 @@ store_label(struct store *s, const char *name, const char *rev, const char *labe
 	int no, other, rc;
 
 	if (label == NULL || label[0] == '\0')
-		return fail_with(cause, "a label must not be empty");
+		return fail_with(cause, "a setup's name must not be empty");
 	if (strcmp(label, "draft") == 0 || is_rev_number(label, &other))
-		return fail_with(cause, "label '%s' would read as a revision; choose "
+		return fail_with(cause, "name '%s' would read as a setup number; choose "
 		    "another name", label);
 	if (!utf8_valid(label))
-		return fail_with(cause, "a label must be UTF-8 text");
+		return fail_with(cause, "a setup's name must be UTF-8 text");
 	for (const char *p = label; *p != '\0'; p++)
 		if (*p == '@' || (unsigned char)*p < 0x20 || *p == 0x7f)
-			return fail_with(cause, "label '%s': '@' and control characters "
-			    "are not allowed in a label", label);
+			return fail_with(cause, "name '%s': '@' and control characters "
+			    "are not allowed in a setup's name", label);
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	if ((id = store_bench_id(s, name, cause)) == 0 ||
 	    resolve(s, id, name, rev, &no, cause) != 0)
 		return store_tx_end(s, -1, cause);
 	if (no == 0) {
-		fail_with(cause, "bench '%s': a label names a revision, not the draft; "
-		    "commit first", name);
+		fail_with(cause, "bench '%s': a name marks a setup, not the draft; "
+		    "record it first", name);
 		return store_tx_end(s, -1, cause);
 	}
 	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
@@ -904,11 +904,11 @@ store_label(struct store *s, const char *name, const char *rev, const char *labe
 	if (rc == SQLITE_ROW) {
 		if (other == no)
 			return store_tx_end(s, 0, cause);
-		fail_with(cause, "bench '%s': label '%s' already names r%d", name, label, other);
+		fail_with(cause, "bench '%s': name '%s' already marks #%d", name, label, other);
 		return store_tx_end(s, -1, cause);
 	}
 	if (rc != SQLITE_DONE) {
-		store_fail(s, rc, cause, "finding a label");
+		store_fail(s, rc, cause, "finding a setup's name");
 		return store_tx_end(s, -1, cause);
 	}
 	if ((q = store_q(s, Q_LABEL_INSERT, cause)) == NULL)
@@ -919,7 +919,7 @@ store_label(struct store *s, const char *name, const char *rev, const char *labe
 	sqlite3_bind_int(q, 3, no);
 	store_bind_text(q, 4, now);
 	free(now);
-	rc = step_done(s, q, cause, "storing a label");
+	rc = step_done(s, q, cause, "storing a setup's name");
 	return store_tx_end(s, rc, cause);
 }
 
@@ -938,7 +938,7 @@ store_restore(struct store *s, const char *name, const char *rev, int force,
 	if (id == 0 || resolve(s, id, name, rev, &no, cause) != 0)
 		goto done;
 	if (no == 0) {
-		fail_with(cause, "bench '%s': restore takes a revision (rN or a label), "
+		fail_with(cause, "bench '%s': reinstate takes a setup (its number or name), "
 		    "not the draft", name);
 		goto done;
 	}
@@ -951,14 +951,18 @@ store_restore(struct store *s, const char *name, const char *rev, int force,
 		if (!saved && rev_latest(s, id, &latest, &b, cause) == 0)
 			saved = latest > 0 && state_equal(&d, &b);
 		if (!saved) {
-			fail_with(cause, "bench '%s': the draft has changes that are not "
-			    "committed; commit them, or restore with --force to drop them",
-			    name);
+			if (base > 0)
+				fail_with(cause, "bench '%s': draft: changed since #%d, not "
+				    "recorded; record it, or reinstate with --force to drop "
+				    "the changes", name, base);
+			else
+				fail_with(cause, "bench '%s': draft: not recorded; record it, "
+				    "or reinstate with --force to drop it", name);
 			goto done;
 		}
 	}
 	if (rev_get(s, id, no, &r, cause) <= 0) {
-		fail_with(cause, "bench '%s': revision r%d is missing", name, no);
+		fail_with(cause, "bench '%s': setup #%d is missing", name, no);
 		goto done;
 	}
 	now = store_now();
@@ -984,12 +988,103 @@ store_clone(struct store *s, const char *name, const char *rev, const char *newn
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	if (state_at(s, name, rev, &no, &st, NULL, cause) != 0) {
-		note = no > 0 ? xasprintf("cloned from %s@r%d", name, no) :
-		    xasprintf("cloned from the draft of %s", name);
+		note = no > 0 ? xasprintf("copied from %s@%d", name, no) :
+		    xasprintf("copied from the draft of %s", name);
 		rc = create_from_state(s, newname, &st, note, author, cause);
 		free(note);
 	}
 	state_release(&st);
+	return store_tx_end(s, rc, cause);
+}
+
+int
+store_draft_status(struct store *s, const char *name, struct store_draft_status *ds,
+    char **cause)
+{
+	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
+	int began = store_read_begin(s), rc = -1;
+	long long id;
+
+	memset(ds, 0, sizeof *ds);
+	id = draft_get(s, name, &d, &ds->base, cause);
+	if (id == 0 || rev_latest(s, id, &ds->latest, NULL, cause) != 0)
+		goto done;
+	if (ds->base > 0 && ds->base <= ds->latest) {
+		if (rev_get(s, id, ds->base, &r, cause) < 0)
+			goto done;
+		if (r.layout != NULL && state_equal(&d, &r))
+			ds->same_as = ds->base;
+		state_release(&r);
+	}
+	if (ds->same_as == 0 && ds->latest > 0 && ds->latest != ds->base) {
+		if (rev_get(s, id, ds->latest, &r, cause) < 0)
+			goto done;
+		if (r.layout != NULL && state_equal(&d, &r))
+			ds->same_as = ds->latest;
+	}
+	rc = 0;
+done:
+	state_release(&d);
+	state_release(&r);
+	store_read_end(s, began);
+	return rc;
+}
+
+/* The rules of create_from_state for a name, and that it is free. */
+static int
+name_free(struct store *s, const char *name, char **cause)
+{
+	sqlite3_stmt *q;
+	int rc;
+
+	if (name == NULL || name[0] == '\0')
+		return fail_with(cause, "a bench needs a name");
+	if (strchr(name, '@') != NULL || !utf8_valid(name))
+		return fail_with(cause, "bench name '%s': '@' and text that is not UTF-8 are "
+		    "not allowed in a bench name", utf8_valid(name) ? name : "?");
+	if ((q = store_q(s, Q_BENCH_ID, cause)) == NULL)
+		return -1;
+	store_bind_text(q, 1, name);
+	rc = sqlite3_step(q);
+	store_q_done(q);
+	if (rc == SQLITE_ROW)
+		return fail_with(cause, "bench '%s' already exists", name);
+	if (rc != SQLITE_DONE)
+		return store_fail(s, rc, cause, "finding a bench");
+	return 0;
+}
+
+int
+store_bench_rename(struct store *s, const char *name, const char *newname, char **cause)
+{
+	sqlite3_stmt *q = NULL;
+	long long id;
+	int rc = -1;
+
+	if (store_tx_begin(s, cause) != 0)
+		return -1;
+	if ((id = store_bench_id(s, name, cause)) == 0)
+		goto done;
+	if (strcmp(name, newname) == 0) {
+		rc = 0;
+		goto done;
+	}
+	if (name_free(s, newname, cause) != 0)
+		goto done;
+	/* the name lives in the bench row only (heads are stored without
+	 * it), so every setup and the draft follow */
+	rc = sqlite3_prepare_v2(s->db, "UPDATE bench SET name = ?1 WHERE id = ?2", -1, &q,
+	    NULL);
+	if (rc != SQLITE_OK) {
+		rc = store_fail(s, rc, cause, "renaming a bench");
+		goto done;
+	}
+	store_bind_text(q, 1, newname);
+	sqlite3_bind_int64(q, 2, id);
+	rc = sqlite3_step(q);
+	rc = rc == SQLITE_DONE ? 0 : store_fail(s, rc, cause, "renaming a bench");
+done:
+	sqlite3_finalize(q);
 	return store_tx_end(s, rc, cause);
 }
 
@@ -1003,8 +1098,20 @@ store_draft_edit(struct store *s, const char *name, store_edit_fn fn, void *arg,
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
 	b = store_bench_load(s, name, "draft", NULL, cause);
-	if (b != NULL && fn(b, arg, cause) == 0)
+	if (b != NULL && fn(b, arg, cause) == 0) {
+		char *newname = NULL;
+
+		/* fn renamed the bench: the draft is saved under the old name,
+		 * then the bench takes the new one, in the same transaction */
+		if (b->name == NULL || strcmp(b->name, name) != 0) {
+			newname = b->name;
+			b->name = xstrdup(name);
+		}
 		rc = store_draft_save(s, name, b, cause);
+		if (rc == 0 && newname != NULL)
+			rc = store_bench_rename(s, name, newname, cause);
+		free(newname);
+	}
 	model_bench_free(b);
 	return store_tx_end(s, rc, cause);
 }

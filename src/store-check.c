@@ -56,40 +56,39 @@ static const struct {
 	{ "foreign_key_check", "PRAGMA foreign_key_check" },
 	{ "application_id is not 0x424d4c47", "SELECT application_id FROM "
 	    "pragma_application_id WHERE application_id <> 0x424d4c47" },
-	{ "revision layout names a missing element record (bench, revision, record)",
+	{ "setup layout names a missing element record (bench, setup, record)",
 	  "SELECT r.bench, r.no, j.value FROM revision r, json_tree(r.layout) j "
 	  "WHERE j.type = 'integer' AND j.value NOT IN (SELECT id FROM element)" },
 	{ "draft layout names a missing element record (bench, record)",
 	  "SELECT b.name, j.value FROM bench b, json_tree(b.draft_layout) j "
 	  "WHERE j.type = 'integer' AND j.value NOT IN (SELECT id FROM element)" },
-	{ "revisions not numbered 1..N (bench, count, highest)",
+	{ "setups not numbered 1..N (bench, count, highest)",
 	  "SELECT bench, count(*), max(no) FROM revision GROUP BY bench "
 	  "HAVING count(*) <> max(no)" },
-	{ "bench without a revision", "SELECT name FROM bench WHERE id NOT IN "
-	  "(SELECT bench FROM revision)" },
-	{ "draft based on a missing revision (bench, base)",
+	/* a bench may have no setup yet: one made empty is recorded first as #1 */
+	{ "draft based on a missing setup (bench, base)",
 	  "SELECT name, draft_base FROM bench b WHERE draft_base < 0 OR draft_base > "
-	  "(SELECT max(no) FROM revision r WHERE r.bench = b.id)" },
-	{ "element record used by a revision but not pinned",
+	  "coalesce((SELECT max(no) FROM revision r WHERE r.bench = b.id), 0)" },
+	{ "element record used by a setup but not pinned",
 	  "SELECT id FROM element WHERE pinned = 0 AND id IN (SELECT j.value FROM "
 	  "revision r, json_tree(r.layout) j WHERE j.type = 'integer')" },
-	{ "element record pinned but used by no revision",
+	{ "element record pinned but used by no setup",
 	  "SELECT id FROM element WHERE pinned = 1 AND id NOT IN (SELECT j.value FROM "
 	  "revision r, json_tree(r.layout) j WHERE j.type = 'integer')" },
 	{ "element record used by nothing",
 	  "SELECT id FROM element WHERE pinned = 0 AND id NOT IN (SELECT j.value FROM "
 	  "bench b, json_tree(b.draft_layout) j WHERE j.type = 'integer')" },
-	{ "head record used by a revision but not pinned",
+	{ "head record used by a setup but not pinned",
 	  "SELECT id FROM head WHERE pinned = 0 AND id IN (SELECT head FROM revision)" },
 	{ "head record used by nothing", "SELECT id FROM head WHERE id NOT IN "
 	  "(SELECT head FROM revision) AND id NOT IN (SELECT draft_head FROM bench)" },
-	{ "part snapshot is not a JSON object (bench, revision)",
+	{ "part snapshot is not a JSON object (bench, setup)",
 	  "SELECT bench, no FROM revision WHERE json_type(parts) IS NOT 'object' "
 	  "UNION ALL SELECT name, 'draft' FROM bench WHERE json_type(draft_parts) "
 	  "IS NOT 'object'" },
 };
 
-/* Every revision and draft must load and pass model_validate. */
+/* Every setup and draft must load and pass model_validate. */
 static int
 load_all(struct store *s, struct buf *rep, int *found, char **cause)
 {
@@ -99,7 +98,7 @@ load_all(struct store *s, struct buf *rep, int *found, char **cause)
 
 	if (rc != SQLITE_OK) {
 		sqlite3_finalize(st);
-		return store_fail(s, rc, cause, "listing revisions");
+		return store_fail(s, rc, cause, "listing setups");
 	}
 	while ((rc = sqlite3_step(st)) == SQLITE_ROW) {
 		char *name = xstrdup((const char *)sqlite3_column_text(st, 0)), rev[32];
@@ -108,7 +107,7 @@ load_all(struct store *s, struct buf *rep, int *found, char **cause)
 		struct bench *b;
 
 		if (no > 0)
-			snprintf(rev, sizeof rev, "r%d", no);
+			snprintf(rev, sizeof rev, "%d", no);
 		else
 			snprintf(rev, sizeof rev, "draft");
 		b = store_bench_load(s, name, rev, NULL, &why);
@@ -123,7 +122,7 @@ load_all(struct store *s, struct buf *rep, int *found, char **cause)
 	}
 	sqlite3_finalize(st);
 	if (rc != SQLITE_DONE)
-		return store_fail(s, rc, cause, "reading revisions");
+		return store_fail(s, rc, cause, "reading setups");
 	return 0;
 }
 

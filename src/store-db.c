@@ -38,6 +38,7 @@
 #include <config.h>
 
 #include <errno.h>
+#include <pwd.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -329,6 +330,24 @@ store_default_path(void)
 	if (home == NULL || home[0] == '\0')
 		home = ".";
 	return xasprintf("%s/.local/share/beamledger/benches.db", home);
+}
+
+char *
+store_author(const char *given)
+{
+	const char *user = getenv("USER");
+	struct passwd *pw;
+
+	if (given != NULL && given[0] != '\0')
+		return xstrdup(given);
+	if (user != NULL && user[0] != '\0')
+		return xstrdup(user);
+	/* a container or a cron job often has no USER: the account the
+	 * process runs as still has a name */
+	pw = getpwuid(getuid());
+	if (pw != NULL && pw->pw_name != NULL && pw->pw_name[0] != '\0')
+		return xstrdup(pw->pw_name);
+	return xstrdup("unknown");
 }
 
 /* mkdir -p of the directory that holds path, new directories 0700. */

@@ -6,6 +6,7 @@
 #include <check.h>
 #include <errno.h>
 #include <fcntl.h>
+#include <pwd.h>
 #include <math.h>
 #include <sqlite3.h>
 #include <stdio.h>
@@ -299,7 +300,7 @@ START_TEST(test_readonly)
 	st = store_open(path, &cause);
 	ck_assert_msg(st != NULL, "%s", cause);
 	ck_assert_int_eq(store_readonly(st), 1);
-	b = store_bench_load(st, "ro", "r1", &no, &cause);
+	b = store_bench_load(st, "ro", "1", &no, &cause);
 	ck_assert_msg(b != NULL, "%s", cause);
 	ck_assert_int_eq(no, 1);
 	ck_assert_int_eq(store_commit(st, "ro", "x", "me", NULL, &cause), -1);
@@ -376,7 +377,7 @@ START_TEST(test_create_load_roundtrip)
 
 	ck_assert_int_eq(store_bench_create(st, b, "imported", "tester", &cause), 0);
 	invariants();
-	r1 = store_bench_load(st, b->name, "r1", &no, &cause);
+	r1 = store_bench_load(st, b->name, "1", &no, &cause);
 	ck_assert_msg(r1 != NULL, "%s", cause);
 	ck_assert_int_eq(no, 1);
 	assert_same(b, r1);
@@ -406,7 +407,7 @@ START_TEST(test_commit_log)
 	ck_assert_int_eq(store_draft_changed(st, "line", &changed, NULL), 0);
 	ck_assert_int_eq(changed, 0);
 	ck_assert_int_eq(store_commit(st, "line", "same", "me", &no, &cause), -1);
-	ck_assert_ptr_nonnull(strstr(cause, "nothing to commit"));
+	ck_assert_ptr_nonnull(strstr(cause, "nothing to record (draft = #1)"));
 	free(cause);
 	cause = NULL;
 	set_draft("line", "L1", "focal", "150 mm");
@@ -446,13 +447,13 @@ START_TEST(test_revisions_immutable)
 	char *cause = NULL;
 
 	create_demo("imm");
-	r1a = store_bench_load(st, "imm", "r1", NULL, &cause);
+	r1a = store_bench_load(st, "imm", "1", NULL, &cause);
 	ck_assert_ptr_nonnull(r1a);
 	set_draft("imm", "M1", "rs", "0.9");
 	ck_assert_int_eq(store_commit(st, "imm", "worse mirror", "me", NULL, NULL), 0);
 	set_draft("imm", "L1", "focal", "100 mm");
 	set_draft("imm", "L1", "focal", "120 mm");
-	r1b = store_bench_load(st, "imm", "r1", NULL, &cause);
+	r1b = store_bench_load(st, "imm", "1", NULL, &cause);
 	ck_assert_ptr_nonnull(r1b);
 	assert_same(r1a, r1b);
 	model_bench_free(r1a);
@@ -481,7 +482,7 @@ START_TEST(test_one_value_one_record)
 	ck_assert_int_eq(count_rows("element"), after + 1);
 	ck_assert_int_eq(count_rows("head"), 1);
 	/* A clone shares every record. */
-	ck_assert_int_eq(store_clone(st, "dedupe", "r2", "copy", "me", NULL), 0);
+	ck_assert_int_eq(store_clone(st, "dedupe", "2", "copy", "me", NULL), 0);
 	ck_assert_int_eq(count_rows("element"), after + 1);
 	invariants();
 }
@@ -497,17 +498,27 @@ START_TEST(test_labels_resolve)
 	create_demo("lab");
 	set_draft("lab", "L1", "focal", "150 mm");
 	ck_assert_int_eq(store_commit(st, "lab", "r2", "me", NULL, NULL), 0);
-	ck_assert_msg(store_label(st, "lab", "r1", "aligned", &cause) == 0, "%s", cause);
-	ck_assert_int_eq(store_label(st, "lab", "r1", "before-upgrade", NULL), 0);
-	ck_assert_int_eq(store_label(st, "lab", "r1", "aligned", NULL), 0);   /* again: fine */
-	ck_assert_int_eq(store_label(st, "lab", "r2", "aligned", &cause), -1);
-	ck_assert_ptr_nonnull(strstr(cause, "already names r1"));
+	ck_assert_msg(store_label(st, "lab", "1", "aligned", &cause) == 0, "%s", cause);
+	ck_assert_int_eq(store_label(st, "lab", "1", "before-upgrade", NULL), 0);
+	ck_assert_int_eq(store_label(st, "lab", "1", "aligned", NULL), 0);   /* again: fine */
+	ck_assert_int_eq(store_label(st, "lab", "2", "aligned", &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "name 'aligned' already marks #1"));
 	free(cause);
 	cause = NULL;
-	ck_assert_int_eq(store_label(st, "lab", "r2", "r7", &cause), -1);
+	/* a name that reads as a setup number, in any spelling, is refused */
+	ck_assert_int_eq(store_label(st, "lab", "2", "r7", &cause), -1);
 	free(cause);
 	cause = NULL;
-	ck_assert_int_eq(store_label(st, "lab", "r2", "draft", &cause), -1);
+	ck_assert_int_eq(store_label(st, "lab", "2", "7", &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "would read as a setup number"));
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_label(st, "lab", "2", "#7", &cause), -1);
+	free(cause);
+	cause = NULL;
+	/* "7a" is not a number: a name like any other */
+	ck_assert_int_eq(store_label(st, "lab", "2", "7a", NULL), 0);
+	ck_assert_int_eq(store_label(st, "lab", "2", "draft", &cause), -1);
 	free(cause);
 	cause = NULL;
 	ck_assert_int_eq(store_label(st, "lab", "draft", "x", &cause), -1);
@@ -518,17 +529,31 @@ START_TEST(test_labels_resolve)
 	ck_assert_int_eq(no, 1);
 	ck_assert_int_eq(store_resolve_rev(st, "lab", "draft", &no, NULL), 0);
 	ck_assert_int_eq(no, 0);
+	ck_assert_int_eq(store_resolve_rev(st, "lab", "2", &no, NULL), 0);
+	ck_assert_int_eq(no, 2);
+	no = -1;
+	ck_assert_int_eq(store_resolve_rev(st, "lab", "#2", &no, NULL), 0);
+	ck_assert_int_eq(no, 2);
+	no = -1;
+	ck_assert_int_eq(store_resolve_rev(st, "lab", "7a", &no, NULL), 0);
+	ck_assert_int_eq(no, 2);
+	/* the old spelling still reads at the API, for callers not yet moved */
+	no = -1;
 	ck_assert_int_eq(store_resolve_rev(st, "lab", "r2", &no, NULL), 0);
 	ck_assert_int_eq(no, 2);
-	ck_assert_int_eq(store_resolve_rev(st, "lab", "r3", &no, &cause), -1);
-	ck_assert_ptr_nonnull(strstr(cause, "no revision 'r3'"));
+	ck_assert_int_eq(store_resolve_rev(st, "lab", "3", &no, &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "no setup '3' (#1 to #2)"));
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_resolve_rev(st, "lab", "0", &no, &cause), -1);
 	free(cause);
 	cause = NULL;
 	ck_assert_int_eq(store_resolve_rev(st, "lab", "nosuch", &no, &cause), -1);
-	ck_assert_ptr_nonnull(strstr(cause, "no revision or label 'nosuch'"));
+	ck_assert_ptr_nonnull(strstr(cause, "no setup named 'nosuch'"));
 	free(cause);
 	ck_assert_int_eq(store_log(st, "lab", &revs, &n, NULL), 0);
 	ck_assert_str_eq(revs[1].labels, "aligned, before-upgrade");
+	ck_assert_str_eq(revs[0].labels, "7a");
 	store_revs_free(revs, n);
 	invariants();
 }
@@ -543,25 +568,25 @@ START_TEST(test_restore)
 	create_demo("res");
 	set_draft("res", "L1", "focal", "150 mm");
 	ck_assert_int_eq(store_commit(st, "res", "r2", "me", NULL, NULL), 0);
-	ck_assert_int_eq(store_restore(st, "res", "r1", 0, &cause), 0);   /* draft == r2 */
+	ck_assert_int_eq(store_restore(st, "res", "1", 0, &cause), 0);   /* draft == r2 */
 	invariants();
-	r1 = store_bench_load(st, "res", "r1", NULL, NULL);
+	r1 = store_bench_load(st, "res", "1", NULL, NULL);
 	d = store_bench_load(st, "res", "draft", NULL, NULL);
 	assert_same(r1, d);
 	model_bench_free(d);
 	ck_assert_int_eq(store_draft_changed(st, "res", &changed, NULL), 0);
 	ck_assert_int_eq(changed, 1);          /* differs from r2, the latest */
 	/* The restored draft is r1, unedited: another restore loses nothing. */
-	ck_assert_int_eq(store_restore(st, "res", "r2", 0, NULL), 0);
+	ck_assert_int_eq(store_restore(st, "res", "2", 0, NULL), 0);
 	set_draft("res", "M1", "rs", "0.5");
-	ck_assert_int_eq(store_restore(st, "res", "r1", 0, &cause), -1);
+	ck_assert_int_eq(store_restore(st, "res", "1", 0, &cause), -1);
 	ck_assert_ptr_nonnull(strstr(cause, "--force"));
 	free(cause);
 	cause = NULL;
 	d = store_bench_load(st, "res", "draft", NULL, NULL);
 	ck_assert_double_eq(d->path.el[5].val[K_RS], 0.5);      /* untouched */
 	model_bench_free(d);
-	ck_assert_int_eq(store_restore(st, "res", "r1", 1, &cause), 0);
+	ck_assert_int_eq(store_restore(st, "res", "1", 1, &cause), 0);
 	d = store_bench_load(st, "res", "draft", NULL, NULL);
 	assert_same(r1, d);
 	model_bench_free(d);
@@ -582,12 +607,12 @@ START_TEST(test_clone_delete)
 	create_demo("orig");
 	set_draft("orig", "L1", "focal", "150 mm");
 	ck_assert_int_eq(store_commit(st, "orig", "r2", "me", NULL, NULL), 0);
-	ck_assert_msg(store_clone(st, "orig", "r1", "copy", "me", &cause) == 0, "%s", cause);
-	ck_assert_int_eq(store_clone(st, "orig", "r1", "copy", "me", &cause), -1);
+	ck_assert_msg(store_clone(st, "orig", "1", "copy", "me", &cause) == 0, "%s", cause);
+	ck_assert_int_eq(store_clone(st, "orig", "1", "copy", "me", &cause), -1);
 	free(cause);
 	cause = NULL;
-	a = store_bench_load(st, "orig", "r1", NULL, NULL);
-	b = store_bench_load(st, "copy", "r1", NULL, NULL);
+	a = store_bench_load(st, "orig", "1", NULL, NULL);
+	b = store_bench_load(st, "copy", "1", NULL, NULL);
 	ck_assert_str_eq(b->name, "copy");
 	free(b->name);
 	b->name = xstrdup("orig");
@@ -596,19 +621,19 @@ START_TEST(test_clone_delete)
 	model_bench_free(b);
 	ck_assert_int_eq(store_log(st, "copy", &revs, &n, NULL), 0);
 	ck_assert_uint_eq(n, 1);
-	ck_assert_str_eq(revs[0].note, "cloned from orig@r1");
+	ck_assert_str_eq(revs[0].note, "copied from orig@1");
 	store_revs_free(revs, n);
-	ck_assert_int_eq(store_label(st, "orig", "r2", "aligned", NULL), 0);
+	ck_assert_int_eq(store_label(st, "orig", "2", "aligned", NULL), 0);
 	invariants();
 	ck_assert_int_eq(store_bench_delete(st, "orig", NULL), 0);
 	invariants();
 	/* Foreign keys are on: the revisions and the label went with the bench. */
 	ck_assert_int_eq(count_rows("revision"), 1);
 	ck_assert_int_eq(count_rows("label"), 0);
-	ck_assert_ptr_null(store_bench_load(st, "orig", "r1", NULL, &cause));
+	ck_assert_ptr_null(store_bench_load(st, "orig", "1", NULL, &cause));
 	ck_assert_str_eq(cause, "bench 'orig' not found");
 	free(cause);
-	b = store_bench_load(st, "copy", "r1", NULL, NULL);
+	b = store_bench_load(st, "copy", "1", NULL, NULL);
 	ck_assert_ptr_nonnull(b);
 	model_bench_free(b);
 	ck_assert_int_eq(store_bench_delete(st, "copy", NULL), 0);
@@ -648,7 +673,7 @@ START_TEST(test_odd_names)
 	back = store_bench_load(st, odd_names[_i], NULL, NULL, &cause);
 	ck_assert_msg(back != NULL, "%s", cause);
 	assert_same(b, back);
-	ck_assert_int_eq(store_label(st, odd_names[_i], "r1", "ü; 'x'", &cause), 0);
+	ck_assert_int_eq(store_label(st, odd_names[_i], "1", "ü; 'x'", &cause), 0);
 	ck_assert_int_eq(store_benches(st, &rows, &n, NULL), 0);
 	ck_assert_uint_eq(n, 1);
 	ck_assert_str_eq(rows[0].name, odd_names[_i]);
@@ -656,6 +681,225 @@ START_TEST(test_odd_names)
 	model_bench_free(b);
 	model_bench_free(back);
 	invariants();
+}
+END_TEST
+
+/* ---- a bench started empty, where the draft stands, renaming, authors ---- */
+
+START_TEST(test_first_record_is_1)
+{
+	struct bench *b = demo("fresh");
+	struct store_bench_row *rows;
+	struct store_rev *revs;
+	struct store_draft_status ds;
+	char *cause = NULL;
+	size_t n;
+	int no = -1, changed = -1;
+
+	/* note NULL: a draft only, nothing recorded */
+	ck_assert_msg(store_bench_create(st, b, NULL, "tester", &cause) == 0, "%s", cause);
+	model_bench_free(b);
+	invariants();
+	ck_assert_int_eq(count_rows("revision"), 0);
+	ck_assert_int_eq(store_log(st, "fresh", &revs, &n, NULL), 0);
+	ck_assert_uint_eq(n, 0);
+	store_revs_free(revs, n);
+	ck_assert_int_eq(store_draft_status(st, "fresh", &ds, NULL), 0);
+	ck_assert_int_eq(ds.latest, 0);
+	ck_assert_int_eq(ds.base, 0);
+	ck_assert_int_eq(ds.same_as, 0);
+	ck_assert_int_eq(store_draft_changed(st, "fresh", &changed, NULL), 0);
+	ck_assert_int_eq(changed, 1);
+	ck_assert_int_eq(store_benches(st, &rows, &n, NULL), 0);
+	ck_assert_uint_eq(n, 1);
+	ck_assert_int_eq(rows[0].latest_rev, 0);
+	store_bench_rows_free(rows, n);
+	ck_assert_int_eq(store_resolve_rev(st, "fresh", "1", &no, &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "none recorded yet"));
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_restore(st, "fresh", "1", 1, &cause), -1);
+	free(cause);
+	cause = NULL;
+	/* the first record is #1 */
+	ck_assert_msg(store_commit(st, "fresh", "first", "me", &no, &cause) == 0, "%s", cause);
+	ck_assert_int_eq(no, 1);
+	ck_assert_int_eq(store_draft_status(st, "fresh", &ds, NULL), 0);
+	ck_assert_int_eq(ds.latest, 1);
+	ck_assert_int_eq(ds.same_as, 1);
+	invariants();
+}
+END_TEST
+
+/* A database from before: a bench made empty recorded an empty #1, and its
+ * first real record was #2.  It still reads, lists and checks clean. */
+START_TEST(test_old_empty_first_setup_reads)
+{
+	struct bench *b = demo("old");
+	struct bench *one;
+	char *cause = NULL;
+	int no = 0;
+
+	model_branch_release(&b->path);
+	memset(&b->path, 0, sizeof b->path);
+	ck_assert_msg(store_bench_create(st, b, "new bench: the source alone, no elements yet",
+	    "tester", &cause) == 0, "%s", cause);
+	model_bench_free(b);
+	b = demo("old");
+	ck_assert_msg(store_draft_save(st, "old", b, &cause) == 0, "%s", cause);
+	ck_assert_msg(store_commit(st, "old", "laid out", "me", &no, &cause) == 0, "%s", cause);
+	ck_assert_int_eq(no, 2);
+	one = store_bench_load(st, "old", "1", NULL, &cause);
+	ck_assert_msg(one != NULL, "%s", cause);
+	ck_assert_uint_eq(model_count(&one->path), 0);
+	model_bench_free(one);
+	one = store_bench_load(st, "old", "#2", NULL, &cause);
+	ck_assert_msg(one != NULL, "%s", cause);
+	assert_same(one, b);
+	model_bench_free(one);
+	model_bench_free(b);
+	invariants();
+}
+END_TEST
+
+START_TEST(test_draft_status)
+{
+	struct store_draft_status ds;
+
+	create_demo("ds");
+	ck_assert_int_eq(store_draft_status(st, "ds", &ds, NULL), 0);
+	ck_assert_int_eq(ds.latest, 1);
+	ck_assert_int_eq(ds.base, 1);
+	ck_assert_int_eq(ds.same_as, 1);
+	set_draft("ds", "L1", "focal", "150 mm");
+	ck_assert_int_eq(store_draft_status(st, "ds", &ds, NULL), 0);
+	ck_assert_int_eq(ds.base, 1);
+	ck_assert_int_eq(ds.same_as, 0);        /* changed since #1 */
+	ck_assert_int_eq(store_commit(st, "ds", "shorter", "me", NULL, NULL), 0);
+	ck_assert_int_eq(store_restore(st, "ds", "1", 0, NULL), 0);
+	ck_assert_int_eq(store_draft_status(st, "ds", &ds, NULL), 0);
+	ck_assert_int_eq(ds.latest, 2);
+	ck_assert_int_eq(ds.base, 1);
+	ck_assert_int_eq(ds.same_as, 1);        /* the older setup, not "changed" */
+	/* edited back to what #2 holds: the draft equals the latest */
+	set_draft("ds", "L1", "focal", "150 mm");
+	ck_assert_int_eq(store_draft_status(st, "ds", &ds, NULL), 0);
+	ck_assert_int_eq(ds.same_as, 2);
+	ck_assert_int_eq(store_draft_status(st, "nosuch", &ds, NULL), -1);
+}
+END_TEST
+
+static int
+edit_rename(struct bench *b, void *arg, char **cause)
+{
+	free(b->name);
+	b->name = xstrdup(arg);
+	return edit_set(b, "L1", "focal", "120 mm", cause);
+}
+
+START_TEST(test_rename)
+{
+	struct store_rev *revs;
+	struct bench *b;
+	char *cause = NULL;
+	size_t n;
+
+	create_demo("before");
+	create_demo("taken");
+	ck_assert_int_eq(store_label(st, "before", "1", "aligned", NULL), 0);
+	ck_assert_msg(store_bench_rename(st, "before", "after – ü", &cause) == 0, "%s", cause);
+	invariants();
+	ck_assert_ptr_null(store_bench_load(st, "before", "draft", NULL, &cause));
+	ck_assert_str_eq(cause, "bench 'before' not found");
+	free(cause);
+	cause = NULL;
+	b = store_bench_load(st, "after – ü", "aligned", NULL, &cause);
+	ck_assert_msg(b != NULL, "%s", cause);
+	ck_assert_str_eq(b->name, "after – ü");    /* old setups carry the new name */
+	model_bench_free(b);
+	ck_assert_int_eq(store_log(st, "after – ü", &revs, &n, NULL), 0);
+	ck_assert_uint_eq(n, 1);
+	store_revs_free(revs, n);
+	/* refused: taken, empty, '@', missing; nothing changes */
+	ck_assert_int_eq(store_bench_rename(st, "after – ü", "taken", &cause), -1);
+	ck_assert_str_eq(cause, "bench 'taken' already exists");
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_bench_rename(st, "after – ü", "", &cause), -1);
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_bench_rename(st, "after – ü", "a@b", &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "'@'"));
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_bench_rename(st, "nosuch", "x", &cause), -1);
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(store_bench_rename(st, "after – ü", "after – ü", NULL), 0);
+	/* through a draft edit: the rename and the edit together, or neither */
+	ck_assert_int_eq(store_draft_edit(st, "after – ü", edit_rename, "taken", &cause), -1);
+	free(cause);
+	cause = NULL;
+	b = store_bench_load(st, "after – ü", "draft", NULL, NULL);
+	ck_assert_ptr_nonnull(b);
+	ck_assert_double_eq(model_get(model_find(b, "L1", NULL, NULL, NULL), K_FOCAL), 0.2);
+	model_bench_free(b);
+	ck_assert_msg(store_draft_edit(st, "after – ü", edit_rename, "third", &cause) == 0, "%s",
+	    cause);
+	b = store_bench_load(st, "third", "draft", NULL, NULL);
+	ck_assert_ptr_nonnull(b);
+	ck_assert_double_eq_tol(model_get(model_find(b, "L1", NULL, NULL, NULL), K_FOCAL), 0.12,
+	    1e-15);
+	model_bench_free(b);
+	invariants();
+}
+END_TEST
+
+START_TEST(test_author_fallback)
+{
+	char *saved = getenv("USER") != NULL ? xstrdup(getenv("USER")) : NULL, *a;
+	char want[1024], line[1024];
+	FILE *f = fopen("/etc/passwd", "r");
+
+	/* the login name, read here from /etc/passwd by hand (name:pw:uid:...)
+	 * rather than through getpwuid(3) as the store does */
+	snprintf(want, sizeof want, "unknown");
+	while (f != NULL && fgets(line, sizeof line, f) != NULL) {
+		char *c1 = strchr(line, ':'), *c2 = c1 != NULL ? strchr(c1 + 1, ':') : NULL;
+
+		if (c2 != NULL && strtol(c2 + 1, NULL, 10) == (long)getuid() && c1 > line) {
+			*c1 = '\0';
+			snprintf(want, sizeof want, "%s", line);
+			break;
+		}
+	}
+	if (f != NULL)
+		fclose(f);
+	if (strcmp(want, "unknown") == 0 && getpwuid(getuid()) != NULL)
+		return;                 /* the account is not in /etc/passwd (NSS): no check */
+	a = store_author("Ana Ösz");
+	ck_assert_str_eq(a, "Ana Ösz");
+	free(a);
+	setenv("USER", "from-env", 1);
+	a = store_author(NULL);
+	ck_assert_str_eq(a, "from-env");
+	free(a);
+	a = store_author("");                   /* --author= is no author */
+	ck_assert_str_eq(a, "from-env");
+	free(a);
+	unsetenv("USER");
+	a = store_author(NULL);
+	ck_assert_str_eq(a, want);
+	free(a);
+	setenv("USER", "", 1);
+	a = store_author(NULL);
+	ck_assert_str_eq(a, want);
+	free(a);
+	if (saved != NULL)
+		setenv("USER", saved, 1);
+	else
+		unsetenv("USER");
+	free(saved);
 }
 END_TEST
 
@@ -753,7 +997,7 @@ START_TEST(test_parts)
 	    1, &cause), 0);
 	ck_assert_int_eq(store_part_put(st, "m2in-45", &el, &cause), 0);
 	model_element_release(&el);
-	r2 = store_bench_load(st, "pb", "r2", NULL, NULL);
+	r2 = store_bench_load(st, "pb", "2", NULL, NULL);
 	ck_assert_double_eq(model_find(r2, "M9", NULL, NULL, NULL)->val[K_REFLECTANCE], 0.999);
 	model_bench_free(r2);
 	/* The revision remembers the shelf version it was placed from; the
@@ -762,13 +1006,13 @@ START_TEST(test_parts)
 		struct store_part_ref *refs;
 		size_t nr;
 
-		ck_assert_int_eq(store_bench_parts(st, "pb", "r2", &refs, &nr, &cause), 0);
+		ck_assert_int_eq(store_bench_parts(st, "pb", "2", &refs, &nr, &cause), 0);
 		ck_assert_uint_eq(nr, 1);
 		ck_assert_str_eq(refs[0].name, "m2in-45");
 		ck_assert_int_eq(refs[0].placed, 1);
 		ck_assert_int_eq(refs[0].current, 2);
 		store_part_refs_free(refs, nr);
-		ck_assert_int_eq(store_bench_parts(st, "pb", "r1", &refs, &nr, &cause), 0);
+		ck_assert_int_eq(store_bench_parts(st, "pb", "1", &refs, &nr, &cause), 0);
 		ck_assert_uint_eq(nr, 0);
 		store_part_refs_free(refs, nr);
 	}
@@ -848,6 +1092,11 @@ main(void)
 	tcase_add_test(tc, test_restore);
 	tcase_add_test(tc, test_clone_delete);
 	tcase_add_loop_test(tc, test_odd_names, 0, NELEMS(odd_names));
+	tcase_add_test(tc, test_first_record_is_1);
+	tcase_add_test(tc, test_old_empty_first_setup_reads);
+	tcase_add_test(tc, test_draft_status);
+	tcase_add_test(tc, test_rename);
+	tcase_add_test(tc, test_author_fallback);
 	tcase_add_test(tc, test_draft_edit);
 	tcase_add_test(tc, test_draft_save_checks);
 	tcase_add_test(tc, test_parts);

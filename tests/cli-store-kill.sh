@@ -1,16 +1,16 @@
 #!/bin/sh
 # cli-store-kill.sh - durability and concurrency of the database, through
-# the real binary: `commit` and `set` killed with SIGKILL at random moments
-# (the file must stay sound and every commit that said so must be there,
-# intact), then several processes committing at once (each succeeds or says
-# "busy"; no revision is lost or numbered twice).
+# the real binary: `record` and `set` killed with SIGKILL at random moments
+# (the file must stay sound and every record that said so must be there,
+# intact), then several processes recording at once (each succeeds or says
+# "busy"; no setup is lost or numbered twice).
 . "${srcdir:-.}/tests/store-lib.sh"
 
 cd "$T_DIR" || exit 2
 export BEAMLEDGER_DB="$T_DIR/kill.db"
-KILLS=${KILLS:-75}     # a third kill draft saves: 50 kill commits
+KILLS=${KILLS:-75}     # a third kill draft saves: 50 kill records
 
-# A bench big enough that a commit takes a few milliseconds and a draft
+# A bench big enough that a record takes a few milliseconds and a draft
 # save tens of them: 3001 elements.
 {
 	printf '{"format":"beamledger-bench-1","name":"big","source":{"wavelength":"1064 nm",'
@@ -26,22 +26,22 @@ KILLS=${KILLS:-75}     # a third kill draft saves: 50 kill commits
 run import big.json
 check "a 3001-element bench imported" rc_is 0
 
-# How long an unkilled commit takes here, in ms: kill within that time
+# How long an unkilled record takes here, in ms: kill within that time
 # (sleep's own start-up shifts the moments a little later).
 t0=$(date +%s%N)
 "$BEAMLEDGER" set big S0 "length=10.5 mm" >/dev/null 2>&1
 t1=$(date +%s%N)
-"$BEAMLEDGER" commit big -m "timing" >/dev/null 2>&1
+"$BEAMLEDGER" record big -n "timing" >/dev/null 2>&1
 t2=$(date +%s%N)
 set_ms=$(( (t1 - t0) / 1000000 + 1 ))
 commit_ms=$(( (t2 - t1) / 1000000 + 1 ))
-echo "# set takes ~${set_ms} ms, commit ~${commit_ms} ms here"
+echo "# set takes ~${set_ms} ms, record ~${commit_ms} ms here"
 
 : > committed
 killed=0
 i=1
 while [ $i -le $KILLS ]; do
-	# The value this round commits: length of S7 in micrometres.
+	# The value this round records: length of S7 in micrometres.
 	v=$((20000 + i))
 	if [ $((i % 3)) -eq 0 ]; then
 		# Kill a draft save instead; the draft is then old or new, never half.
@@ -51,7 +51,7 @@ while [ $i -le $KILLS ]; do
 	else
 		"$BEAMLEDGER" set big S7 "length=$v um" >/dev/null 2>&1 ||
 			echo "# set failed in round $i" >&2
-		"$BEAMLEDGER" commit big -m "round $i" >commit.out 2>&1 &
+		"$BEAMLEDGER" record big -n "round $i" >commit.out 2>&1 &
 		pid=$!
 		d=$(rand $((commit_ms * 1000)))
 	fi
@@ -60,13 +60,13 @@ while [ $i -le $KILLS ]; do
 	wait $pid 2>/dev/null
 	[ $? -eq 137 ] && killed=$((killed + 1))
 	if [ $((i % 3)) -ne 0 ]; then
-		rev=$(sed -n "s/^committed bench 'big' as r\([0-9]*\)$/\1/p" commit.out)
+		rev=$(sed -n "s/^bench 'big': recorded #\([0-9]*\)$/\1/p" commit.out)
 		[ -n "$rev" ] && echo "$rev $i $v" >> committed
 	fi
 	i=$((i + 1))
 done
 echo "# $killed of $KILLS processes died by the signal; $(wc -l < committed) of" \
-	"$((KILLS - KILLS / 3)) commits had reported success first"
+	"$((KILLS - KILLS / 3)) records had reported success first"
 
 run check
 check "after $KILLS kills: beamledger check finds the file sound" rc_is 0
@@ -76,36 +76,36 @@ if have_sqlite3; then
 else
 	skip "sqlite3 not installed"
 fi
-"$BEAMLEDGER" log big > log.txt 2>&1
+"$BEAMLEDGER" history big | grep '^#' > log.txt 2>&1
 lost=0
 while read -r rev round v; do
-	grep -q "^r$rev .* round $round\$" log.txt || { lost=$((lost + 1)); echo "# r$rev (round $round) is missing from the log"; }
+	grep -q "^#$rev .* round $round\$" log.txt || { lost=$((lost + 1)); echo "# #$rev (round $round) is missing from the history"; }
 	want=$(echo "0.0$v" | sed 's/0*$//')
-	"$BEAMLEDGER" export "big@r$rev" > rev.json 2>&1 &&
+	"$BEAMLEDGER" export "big@$rev" > rev.json 2>&1 &&
 		grep -o '"id": *"S7"[^}]*}' rev.json | grep -qE "\"length\": *$want[ ,}]" ||
-		{ lost=$((lost + 1)); echo "# r$rev (round $round) does not hold S7 = $v um"; }
+		{ lost=$((lost + 1)); echo "# #$rev (round $round) does not hold S7 = $v um"; }
 done < committed
-check "every commit that reported success is present and intact ($(wc -l < committed))" \
+check "every record that reported success is present and intact ($(wc -l < committed))" \
 	[ "$lost" -eq 0 ]
 nrev=$(wc -l < log.txt)
-top=$(sed -n '1s/^r\([0-9]*\) .*/\1/p' log.txt)
-check "revisions are numbered 1..$top without gaps" [ "$nrev" -eq "$top" ]
+top=$(sed -n '1s/^#\([0-9]*\) .*/\1/p' log.txt)
+check "setups are numbered 1..$top without gaps" [ "$nrev" -eq "$top" ]
 run set big S7 "length=1 mm"
-run commit big -m "after the kills"
-check "the database takes commits after the kills" out_has "committed bench 'big' as r$((top + 1))"
+run record big -n "after the kills"
+check "the database takes records after the kills" out_has "bench 'big': recorded #$((top + 1))"
 
-# ---- processes committing at once ----
+# ---- processes recording at once ----
 run demo
 cp "$T_DIR/out" demo.json
 "$BEAMLEDGER" import demo.json --name bench-a >/dev/null 2>&1
 "$BEAMLEDGER" import demo.json --name bench-b >/dev/null 2>&1
 "$BEAMLEDGER" import demo.json --name shared >/dev/null 2>&1
-# writer NAME BENCH ELEMENT: 15 rounds of set + commit; results in NAME.log
+# writer NAME BENCH ELEMENT: 15 rounds of set + record; results in NAME.log
 writer() {
 	j=1
 	while [ $j -le 15 ]; do
 		"$BEAMLEDGER" set "$2" "$3" "length=$((100 + j)) mm" >/dev/null 2>>"$1.err"
-		"$BEAMLEDGER" commit "$2" -m "$1 $j" >>"$1.log" 2>>"$1.err"
+		"$BEAMLEDGER" record "$2" -n "$1 $j" >>"$1.log" 2>>"$1.err"
 		j=$((j + 1))
 	done
 }
@@ -118,36 +118,36 @@ p3=$!
 writer wd shared S5 &
 p4=$!
 wait $p1 $p2 $p3 $p4
-bad_err=$(cat wa.err wb.err wc.err wd.err | grep -v "database is busy" | grep -v "nothing to commit")
-check "concurrent writers: every refusal is 'busy' or 'nothing to commit'" [ -z "$bad_err" ]
+bad_err=$(cat wa.err wb.err wc.err wd.err | grep -v "database is busy" | grep -v "nothing to record")
+check "concurrent writers: every refusal is 'busy' or 'nothing to record'" [ -z "$bad_err" ]
 [ -n "$bad_err" ] && echo "$bad_err" | sed 's/^/#   /'
 for w in wa:bench-a wb:bench-b; do
 	name=${w%%:*} bench=${w#*:}
-	n_ok=$(grep -c "^committed bench '$bench' as r" "$name.log")
-	n_log=$("$BEAMLEDGER" log "$bench" | wc -l)
-	check "two benches at once: $bench has r1 + its $n_ok commits" [ "$n_log" -eq $((n_ok + 1)) ]
+	n_ok=$(grep -c "^bench '$bench': recorded #" "$name.log")
+	n_log=$("$BEAMLEDGER" history "$bench" | grep -c '^#')
+	check "two benches at once: $bench has #1 + its $n_ok records" [ "$n_log" -eq $((n_ok + 1)) ]
 done
-n_ok=$(cat wc.log wd.log | grep -c "^committed bench 'shared' as r")
-n_dup=$(cat wc.log wd.log | sed -n "s/^committed bench 'shared' as //p" | sort | uniq -d | wc -l)
-n_log=$("$BEAMLEDGER" log shared | wc -l)
-check "one bench from two processes: no revision lost or numbered twice" \
+n_ok=$(cat wc.log wd.log | grep -c "^bench 'shared': recorded #")
+n_dup=$(cat wc.log wd.log | sed -n "s/^bench 'shared': recorded //p" | sort | uniq -d | wc -l)
+n_log=$("$BEAMLEDGER" history shared | grep -c '^#')
+check "one bench from two processes: no setup lost or numbered twice" \
 	[ "$n_log" -eq $((n_ok + 1)) -a "$n_dup" -eq 0 ]
 run check
 check "after the concurrent writers: the file is sound" rc_is 0
 
 # A writer that cannot get the lock in time says so and changes nothing.
 if have_sqlite3; then
-	before=$("$BEAMLEDGER" log bench-a | wc -l)
+	before=$("$BEAMLEDGER" history bench-a | grep -c '^#')
 	"$BEAMLEDGER" set bench-a S2 "length=1 m" >/dev/null 2>&1
 	( printf 'BEGIN IMMEDIATE;\n'; sleep 6; printf 'ROLLBACK;\n' ) | sqlite3 "$BEAMLEDGER_DB" &
 	lock=$!
 	sleep 0.3
-	run commit bench-a -m "blocked"
+	run record bench-a -n "blocked"
 	wait $lock
-	check "a commit blocked past the busy timeout: a clear 'busy' error" \
+	check "a record blocked past the busy timeout: a clear 'busy' error" \
 		trouble "database is busy (another beamledger is writing); try again"
-	after=$("$BEAMLEDGER" log bench-a | wc -l)
-	check "... and no revision was added" [ "$before" -eq "$after" ]
+	after=$("$BEAMLEDGER" history bench-a | grep -c '^#')
+	check "... and no setup was added" [ "$before" -eq "$after" ]
 else
 	skip "sqlite3 not installed"
 	skip "sqlite3 not installed"

@@ -1,7 +1,8 @@
 #!/bin/sh
 # cli-store.sh - every database command end to end, through the real
-# binary: the README walkthrough (import the demo, change a lens, commit,
-# diff with the effect on the margins, label, restore, export), where the
+# binary: the README walkthrough (import the demo, change a lens, record a
+# setup, compare with the effect on the margins, mark, reinstate, export),
+# bench renaming, where the
 # database lives, files that are not ours, read-only files, and refused
 # edits that must store nothing.
 . "${srcdir:-.}/tests/store-lib.sh"
@@ -40,79 +41,103 @@ check "... and BEAMLEDGER_DB's file holds nothing" \
 # ---- the walkthrough ----
 export BEAMLEDGER_DB="$DB"
 run list
-check "list: the bench, r1, draft same, worst over" \
-	sh -c "grep -q '^$B  *r1  *same  *over ' '$T_DIR/out'"
+check "list: the bench, #1, draft = #1, worst over" \
+	sh -c "grep -q '^$B  *#1  *= #1  *over ' '$T_DIR/out'"
 run import demo.json
 check "import twice: refused" trouble "bench '$B' already exists"
-run show $B
-check "show: a row per element with values and units" out_has "focal 200 mm"
-check "show: side branches indented under their port" \
+run chain $B
+check "chain: a row per element with values and units" out_has "focal 200 mm"
+check "chain: the draft is #1" out_has "Bench $B @ draft (draft = #1)"
+check "chain: side branches indented under their port" \
 	sh -c "grep -q '^└ PBS1.reflected' '$T_DIR/out' && grep -q '^  S1r ' '$T_DIR/out'"
-check "show: part and label columns" sh -c "grep -q '^M1 .*m2in-1064-45 *fold 1' '$T_DIR/out'"
+check "chain: part and label columns" sh -c "grep -q '^M1 .*m2in-1064-45 *fold 1' '$T_DIR/out'"
 
 "$BEAMLEDGER" export $B > before.json
 run set $B L1 "focal=150 mm"
 check "set: a lens gets a shorter focal length" rc_is 0
 run list
-check "list: the draft changed" sh -c "grep -q '^$B  *r1  *changed ' '$T_DIR/out'"
-run show "$B@r1"
-check "show BENCH@r1: the revision still has 200 mm" out_has "focal 200 mm"
-run commit $B -m "shorter focus for the cell"
-check "commit: r2" out_has "committed bench '$B' as r2"
-run trace "$B@r1"
-check "trace BENCH@REV says which revision it traced" out_has "Bench $B @ r1:"
+check "list: the draft changed" sh -c "grep -q '^$B  *#1  *changed ' '$T_DIR/out'"
+run chain $B
+check "chain: the draft changed since #1, not recorded" \
+	out_has "Bench $B @ draft (draft: changed since #1, not recorded)"
+run chain "$B@1"
+check "chain BENCH@1: the setup still has 200 mm" out_has "focal 200 mm"
+run record $B --note "shorter focus for the cell"
+check "record: #2" out_has "bench '$B': recorded #2"
+run trace "$B@1"
+check "trace BENCH@SETUP says which setup it traced" out_has "Bench $B @ #1:"
 run trace "$B"
 check "trace BENCH says it traced the draft" out_has "Bench $B @ draft:"
-run commit $B -m "again"
-check "commit with nothing changed: refused" trouble "nothing to commit"
-run log $B
-check "log: newest first with author and note" \
-	sh -c "head -1 '$T_DIR/out' | grep -q '^r2 .*tester  *shorter focus for the cell'"
-run diff $B r1 r2
-check "diff: the value old -> new with units" out_has "L1 (lens): focal 200 mm → 150 mm"
-check "diff: the effect on the margins" \
+run record $B -n "again"
+check "record with nothing changed: refused" trouble "nothing to record (draft = #2)"
+run history $B
+check "history: a header, then newest first with author and note" \
+	sh -c "sed -n 1p '$T_DIR/out' | grep -q '^setup  recorded (UTC)  *author  *name  *note' &&
+	    sed -n 2p '$T_DIR/out' | grep -q '^#2 .*tester  *-  *shorter focus for the cell'"
+check "history: where the draft stands" sh -c "tail -1 '$T_DIR/out' | grep -qx 'draft = #2'"
+run compare $B 1 2
+check "compare: the value old -> new with units" out_has "L1 (lens): focal 200 mm → 150 mm"
+check "compare: the setups by number" out_has "Bench $B: #1 → #2"
+check "compare: the effect on the margins" \
 	sh -c "grep -q '^  W1  *window .*109 % over → 41.3 % ok' '$T_DIR/out'"
-check "diff: the worst element on both sides" out_has "Worst: W1 109 % over → ND1 82.7 % caution"
-check "diff: exit status 0" rc_is 0
-run diff $B r1 r2 --format json
-check "diff --format json: the change and the effect" \
+check "compare: the worst element on both sides" out_has "Worst: W1 109 % over → ND1 82.7 % caution"
+check "compare: exit status 0" rc_is 0
+run compare $B '#1' '#2'
+check "compare: #1 and #2 are the same setups as 1 and 2" out_has "Bench $B: #1 → #2"
+run compare $B r1 r2
+check "compare: r1 is no setup name any more" trouble "'r1' is not a setup: setups are numbered, write 1 (or #1)"
+run trace "$B@r1"
+check "trace BENCH@r1: refused, saying how to write it" trouble "write 1 (or #1)"
+run compare $B 1 2 --format json
+check "compare --format json: the change and the effect" \
 	sh -c "grep -q '\"kind\": \"changed\"' '$T_DIR/out' && grep -q '\"new\": \"0.15 m\"' '$T_DIR/out' \
 	    && grep -q '\"status\": \"over\"' '$T_DIR/out'"
-run diff $B r2
-check "diff with one REV compares with the draft" out_has "No change in the chain"
-run trace "$B@r1"
-check "trace BENCH@r1: W1 over, exit 1" sh -c "[ $RC -eq 1 ] && grep -q '^W1 .*OVER' '$T_DIR/out'"
+run compare $B 2
+check "compare with one SETUP compares with the draft" out_has "No change in the chain"
+run trace "$B@1"
+check "trace BENCH@1: W1 over, exit 1" sh -c "[ $RC -eq 1 ] && grep -q '^W1 .*OVER' '$T_DIR/out'"
+run trace "$B@#1"
+check "trace BENCH@#1: the same setup" sh -c "[ $RC -eq 1 ] && grep -q '^Bench $B @ #1:' '$T_DIR/out'"
 run trace "$B"
 check "trace BENCH (the draft): nothing over, exit 0" rc_is 0
 run trace "$B@nolabel"
-check "trace BENCH@unknown: clear error" trouble "no revision or label 'nolabel'"
+check "trace BENCH@unknown: clear error" trouble "no setup named 'nolabel'"
+run trace "$B@7"
+check "trace BENCH@7: says which setups there are" trouble "has no setup '7' (#1 to #2)"
 
-run label $B r1 aligned
-check "label r1 aligned" out_has "r1 is labelled 'aligned'"
-run label $B r2 aligned
-check "a label names one revision" trouble "label 'aligned' already names r1"
-run label $B r2 r5
-check "a label may not look like a revision" trouble "would read as a revision"
-run log $B
-check "log shows labels" sh -c "grep -q '^r1 .*\[aligned\] imported from demo.json' '$T_DIR/out'"
-run restore $B aligned
-check "restore a label into the draft" out_has "the draft is now r1"
+run mark $B 1 aligned
+check "mark 1 aligned" out_has "#1 is named 'aligned'"
+run mark $B 2 aligned
+check "a name marks one setup" trouble "name 'aligned' already marks #1"
+run mark $B 2 5
+check "a name may not look like a setup number" trouble "would read as a setup number"
+run mark $B 2 '#5'
+check "... nor like #5" trouble "would read as a setup number"
+run history $B
+check "history shows names" sh -c "grep -q '^#1 .*tester  *aligned  *imported from demo.json' '$T_DIR/out'"
+run reinstate $B aligned
+check "reinstate a named setup into the draft" out_has "#1 reinstated (draft = #1)"
+run chain $B
+check "chain: the draft is the older setup, and says so" out_has "@ draft (draft = #1)"
+run list
+check "list: the draft is #1, though #2 is the latest" sh -c "grep -q '^$B  *#2  *= #1 ' '$T_DIR/out'"
 "$BEAMLEDGER" export $B > draft.json
-"$BEAMLEDGER" export $B@r1 > r1.json
-check "the draft equals r1 again" same_file draft.json r1.json
-check "r1 equals the imported file exactly" same_file r1.json before.json
+"$BEAMLEDGER" export $B@1 > r1.json
+check "the draft equals #1 again" same_file draft.json r1.json
+check "#1 equals the imported file exactly" same_file r1.json before.json
 run set $B M1 rs=0.9
-run restore $B r2
-check "restore refuses to drop draft changes" trouble "--force"
-run show $B
+run reinstate $B 2
+check "reinstate refuses to drop draft changes" \
+	trouble "draft: changed since #1, not recorded; record it, or reinstate with --force"
+run chain $B
 check "... and the draft keeps them" out_has "rs 0.9,"
-run restore $B r2 --force
-check "restore --force drops them" rc_is 0
+run reinstate $B 2 --force
+check "reinstate --force drops them" rc_is 0
 "$BEAMLEDGER" export $B > draft.json
-"$BEAMLEDGER" export $B@r2 > r2.json
-check "the draft equals r2" same_file draft.json r2.json
+"$BEAMLEDGER" export $B@2 > r2.json
+check "the draft equals #2" same_file draft.json r2.json
 
-# ---- export, round trip, clone ----
+# ---- export, round trip, copy ----
 run export $B@aligned -o exported.json
 check "export -o writes the file" [ "$RC" -eq 0 -a -s exported.json ]
 check "export -o leaves no temporary file" [ "$(ls exported.json.* 2>/dev/null | wc -l)" -eq 0 ]
@@ -123,48 +148,49 @@ check "export -o equals export to stdout" same_file exported.json r1.json
 "$BEAMLEDGER" --db "$T_DIR/third.db" export $B > again2.json
 check "import, export, import, export: identical" \
 	sh -c "cmp -s exported.json again.json && cmp -s again.json again2.json"
-run clone $B@r1 "copy of r1"
-check "clone BENCH@r1 NEW" rc_is 0
-"$BEAMLEDGER" export "copy of r1" | sed 's/"name": "copy of r1"/"name": "table3-ablation"/' > clone.json
-check "the clone holds r1" same_file clone.json r1.json
-run log "copy of r1"
-check "the clone's log says where it came from" out_has "cloned from $B@r1"
+run copy $B@1 "copy of 1"
+check "copy BENCH@1 NEW" out_has "copied $B@1 into bench 'copy of 1': recorded #1"
+"$BEAMLEDGER" export "copy of 1" | sed 's/"name": "copy of 1"/"name": "table3-ablation"/' > clone.json
+check "the copy holds #1" same_file clone.json r1.json
+run history "copy of 1"
+check "the copy's history says where it came from" out_has "copied from $B@1"
 run export nosuch
 check "export of a missing bench: clear error" trouble "bench 'nosuch' not found"
 
 # ---- odd names round trip ----
 for name in "it's \"quoted\"" "semi; DROP TABLE bench; --" "Strahlweg Tisch 3 – ü 光路"; do
 	run import demo.json --name "$name"
-	run show "$name"
+	run chain "$name"
 	check "name round-trips: $name" \
 		sh -c '[ "$1" -eq 0 ] && head -1 "$2" | grep -qF "Bench $3 @ draft"' sh "$RC" "$T_DIR/out" "$name"
 done
 run list
 check "list shows the odd names" out_has "semi; DROP TABLE bench; --"
 
-# ---- edits: add, move, remove; refused edits store nothing ----
+# ---- edits: place, shift, lift; refused edits store nothing ----
 "$BEAMLEDGER" export $B > before.json
-run add $B mirror M9 "reflectance=0.99" aoi=45 --after S3
-check "add --after" out_has "added mirror M9"
-run show $B
+run place $B mirror M9 "reflectance=0.99" aoi=45 --after S3
+check "place --after" out_has "placed mirror M9"
+run chain $B
 check "... M9 sits after S3" sh -c "grep -A1 '^S3 ' '$T_DIR/out' | grep -q '^M9 '"
-run move $B M9 --after S5
-check "move --after" rc_is 0
-run show $B
+run shift $B M9 --after S5
+check "shift --after" out_has "shifted M9"
+run chain $B
 check "... M9 sits after S5" sh -c "grep -A1 '^S5 ' '$T_DIR/out' | grep -q '^M9 '"
-run add $B mirror M10 reflectance=1 --into BS1.reflected --first
-run show $B
-check "add --into SPLITTER.PORT --first" sh -c "grep -A1 '^└ BS1.reflected' '$T_DIR/out' | grep -q '^  M10 '"
-run diff $B r2
-check "diff: added elements with their place" out_has "added    M9 (mirror) in main after S5: reflectance 0.99; aoi 45°"
-run remove $B M10
-run remove $B M9
+run place $B mirror M10 reflectance=1 --into BS1.reflected --first
+run chain $B
+check "place --into SPLITTER.PORT --first" sh -c "grep -A1 '^└ BS1.reflected' '$T_DIR/out' | grep -q '^  M10 '"
+run compare $B 2
+check "compare: added elements with their place" out_has "added    M9 (mirror) in main after S5: reflectance 0.99; aoi 45°"
+run lift $B M10
+check "lift" out_has "lifted M10"
+run lift $B M9
 "$BEAMLEDGER" export $B > after.json
-check "remove: back to the same bench" same_file before.json after.json
-run move $B S3 --after S3
-check "move next to itself: refused" trouble "cannot move next to itself"
-run move $B S3
-check "move without a place: usage" sh -c "[ $RC -eq 2 ] && grep -q 'Try' '$T_DIR/err'"
+check "lift: back to the same bench" same_file before.json after.json
+run shift $B S3 --after S3
+check "shift next to itself: refused" trouble "cannot move next to itself"
+run shift $B S3
+check "shift without a place: usage" sh -c "[ $RC -eq 2 ] && grep -q 'Try' '$T_DIR/err'"
 
 # Invalid values: the same message as a bench file, nothing stored.
 sed 's/"focal": "200 mm"/"focal": "abc"/' demo.json > bad1.json
@@ -187,25 +213,50 @@ run set $B L1 nokey=1
 check "set: unknown key named" trouble "unknown key 'nokey'"
 run set $B NOPE focal=1m
 check "set: unknown element named" trouble "no element 'NOPE' in bench '$B'"
-run add $B mirror M11 reflectance=1.5
-check "add: invalid value refused" trouble "element 'M11': reflectance 1.5 is out of range"
-run add $B lens L1 "focal=1 m"
-check "add: id used twice refused" trouble "element 'L1': id used twice"
-run add $B mirror M12 --after NOPE
-check "add: unknown place refused" trouble "no element 'NOPE'"
+run place $B mirror M11 reflectance=1.5
+check "place: invalid value refused" trouble "element 'M11': reflectance 1.5 is out of range"
+run place $B lens L1 "focal=1 m"
+check "place: id used twice refused" trouble "element 'L1': id used twice"
+run place $B mirror M12 --after NOPE
+check "place: unknown place refused" trouble "no element 'NOPE'"
 run set $B --bench "source.power=3 W" safety_factor=3
-check "set --bench: source and settings" rc_is 0
-run diff $B r2
-check "diff shows source and settings" \
+check "set --bench: source and settings" out_has "set 2 values on the bench"
+run compare $B 2
+check "compare shows source and settings" \
 	sh -c "grep -q 'settings bench: safety_factor 2 → 3; source.power 2 W → 3 W' '$T_DIR/out'"
 run set $B --bench safety_factor=0.5
 check "set --bench: an invalid setting refused" trouble "safety_factor"
-run set $B --bench name=other
-check "set --bench name: refused" trouble "cannot be renamed"
+run set $B --bench name=
+check "set --bench name= (empty): refused" trouble "a bench needs a name"
+run set $B --bench "name=copy of 1"
+check "set --bench name: a name that is taken is refused" trouble "bench 'copy of 1' already exists"
+run set $B --bench "name=a@b"
+check "set --bench name: '@' is refused" trouble "'@'"
 "$BEAMLEDGER" export $B > after2.json
 check "refused edits after a good one changed nothing more" \
 	sh -c "grep -q '\"safety_factor\": 3' after2.json"
-run restore $B r2 --force
+run reinstate $B 2 --force
+
+# ---- renaming a bench ----
+"$BEAMLEDGER" history $B > hist-before.txt
+run set $B --bench "name=table 3 (renamed)" "notes=moved to table 3"
+check "set --bench name=NEW renames the bench" out_has "bench '$B': set 2 values on the bench"
+run list
+check "... the list has the new name, not the old" \
+	sh -c "grep -q '^table 3 (renamed) ' '$T_DIR/out' && ! grep -q '^$B ' '$T_DIR/out'"
+run history "table 3 (renamed)"
+check "... every setup came along" sh -c "diff hist-before.txt '$T_DIR/out' | grep -c '^[<>]' | grep -qx 2"
+run export "table 3 (renamed)@1"
+check "... an old setup exports under the new name" out_has '"name": "table 3 (renamed)"'
+run chain "table 3 (renamed)"
+check "... with the other value of the same edit" out_has "Notes: moved to table 3"
+run chain $B
+check "... the old name is gone" trouble "bench '$B' not found"
+run set "table 3 (renamed)" --bench "name=$B"
+check "renamed back" rc_is 0
+run reinstate $B 2 --force
+"$BEAMLEDGER" history $B > hist-after.txt
+check "... and the history is what it was" same_file hist-before.txt hist-after.txt
 
 # ---- parts ----
 cat > parts.json <<'EOF'
@@ -217,29 +268,29 @@ cat > parts.json <<'EOF'
     { "name": "pd-10mm", "type": "detector", "max_power": "10 mW", "aperture": "10 mm" } ] }
 EOF
 run parts add parts.json
-check "parts add" out_has "added 2 part(s)"
+check "parts add" out_has "added 2 parts from parts.json"
 run parts list
 check "parts list" sh -c "grep -q '^m2in-1064-45  *mirror  *2-inch 45° mirror' '$T_DIR/out' && grep -q '^pd-10mm ' '$T_DIR/out'"
 run parts show m2in-1064-45
 check "parts show: values with units" out_has "damage.fluence 10 J/cm²"
-run add $B mirror M20 --part m2in-1064-45 rs=0.99 --after S2
-check "add --part places it" rc_is 0
-run show $B
+run place $B mirror M20 --part m2in-1064-45 rs=0.99 --after S2
+check "place --part places it" rc_is 0
+run chain $B
 check "... with the part's values, the override and part=NAME" \
 	sh -c "grep '^M20 ' '$T_DIR/out' | grep -q 'm2in-1064-45 .*rs 0.99, rp 0.995, aoi 45°, damage.fluence 10 J/cm²'"
-run add $B lens L9 --part m2in-1064-45
-check "add --part of another type: refused" trouble "part 'm2in-1064-45' is a mirror, not a lens"
-run add $B mirror M21 --part nosuch
-check "add --part unknown: refused" trouble "part 'nosuch' is not on the shelf"
-run commit $B -m "M20 from the shelf"
-run show $B@r3
-check "show: the part as placed, version 1" out_has "m2in-1064-45: version 1 (as on the shelf now)"
+run place $B lens L9 --part m2in-1064-45
+check "place --part of another type: refused" trouble "part 'm2in-1064-45' is a mirror, not a lens"
+run place $B mirror M21 --part nosuch
+check "place --part unknown: refused" trouble "part 'nosuch' is not on the shelf"
+run record $B -n "M20 from the shelf"
+run chain $B@3
+check "chain: the part as placed, version 1" out_has "m2in-1064-45: version 1 (as on the shelf now)"
 sed 's/"rs": 0.998/"rs": 0.5/' parts.json > parts2.json
 run parts add parts2.json
-run show $B@r3
-check "show: the shelf moved on since" out_has "m2in-1064-45: version 1 (the shelf now has version 2)"
-run export $B@r3
-check "a changed part leaves the revision alone" \
+run chain $B@3
+check "chain: the shelf moved on since" out_has "m2in-1064-45: version 1 (the shelf now has version 2)"
+run export $B@3
+check "a changed part leaves the setup alone" \
 	sh -c "grep '\"id\": \"M20\"' '$T_DIR/out' | grep -q '\"rs\": 0.99,'"
 cat > badparts.json <<'EOF'
 { "format": "beamledger-parts-1",
@@ -254,10 +305,10 @@ check "... and stores none of it" trouble "part 'new-one' is not on the shelf"
 # ---- check, delete ----
 run check
 check "check: the database is sound" sh -c "[ $RC -eq 0 ] && grep -q ': ok$' '$T_DIR/out'"
-run delete "copy of r1"
-check "delete without --force: refused" trouble "--force"
-run delete "copy of r1" --force
-check "delete --force" out_has "deleted bench 'copy of r1'"
+run delete "copy of 1"
+check "delete without --force: refused" trouble "drops its 1 setup and draft; add --force"
+run delete "copy of 1" --force
+check "delete --force" out_has "deleted bench 'copy of 1' (1 setup)"
 run check
 check "check after delete: sound" rc_is 0
 
@@ -295,42 +346,56 @@ check "read-only: reads work, with a message" \
 	sh -c "[ $RC -eq 0 ] && grep -q '$B' '$T_DIR/out' && grep -q 'read-only: changes are refused' '$T_DIR/err'"
 run --db ro.db set $B L1 focal=1m
 check "read-only: a change is refused" trouble "is read-only: changes are refused"
-run --db ro.db commit $B -m x
-check "read-only: commit refused" trouble "read-only"
+run --db ro.db record $B -n x
+check "read-only: record refused" trouble "read-only"
 check "read-only: the file is unchanged" same_file ro.db ro.orig
 chmod 644 ro.db
 
 # ---- usage ----
-run commit $B
-check "commit without -m: usage" sh -c "[ $RC -eq 2 ] && grep -q 'Try' '$T_DIR/err'"
-run show
-check "show without a bench: usage" sh -c "[ $RC -eq 2 ] && grep -q 'show: which bench' '$T_DIR/err'"
-run log $B --format xml
-check "log --format xml: usage" trouble "--format must be table or json"
-run log $B --format json
-check "log --format json" out_has '"rev": 1'
-run --author "Ana Ösz" commit $B -m x
+run record $B
+check "record without --note: usage" sh -c "[ $RC -eq 2 ] && grep -q 'Try' '$T_DIR/err'"
+run chain
+check "chain without a bench: usage" sh -c "[ $RC -eq 2 ] && grep -q 'chain: which bench' '$T_DIR/err'"
+run history $B --format xml
+check "history --format xml: usage" trouble "--format must be table or json"
+run history $B --format json
+check "history --format json" sh -c "grep -q '\"setup\": 1,' '$T_DIR/out' && grep -q '\"names\": \"aligned\"' '$T_DIR/out'"
+run --author "Ana Ösz" record $B -n x
 run set $B L1 "focal=190 mm"
-run --author "Ana Ösz" commit $B -m "by ana"
-run log $B
-check "--author names the author" sh -c "head -1 '$T_DIR/out' | grep -q 'Ana Ösz  *by ana'"
-for c in import list show add set remove move commit log diff restore label clone export delete parts check; do
+run --author "Ana Ösz" record $B --note "by ana"
+run history $B
+check "--author names the author" sh -c "sed -n 2p '$T_DIR/out' | grep -q 'Ana Ösz  *-  *by ana'"
+# the author when USER is unset: the login name from the password database
+# (what id(1) says), then "unknown"
+run set $B L1 "focal=191 mm"
+(unset USER; "$BEAMLEDGER" record $B -n "no USER" >/dev/null 2>&1)
+run history $B
+check "no USER: the login name records" \
+	sh -c "sed -n 2p '$T_DIR/out' | grep -q '^#[0-9]* .* $(id -un)  *-  *no USER'"
+run set $B L1 "focal=192 mm"
+USER= run record $B -n "empty USER"
+run history $B
+check "empty USER: the login name too" \
+	sh -c "sed -n 2p '$T_DIR/out' | grep -q ' $(id -un)  *-  *empty USER'"
+for c in import list chain place set lift shift record history compare reinstate mark copy export delete parts check; do
 	"$BEAMLEDGER" $c --help >/dev/null 2>&1 || { not_ok "$c --help"; continue; }
+	"$BEAMLEDGER" help $c >help.out 2>&1 && "$BEAMLEDGER" $c --help | cmp -s - help.out ||
+		{ not_ok "help $c is $c --help"; continue; }
 done
-ok "every database command has --help"
+ok "every database command has --help, and help COMMAND says the same"
 
 # ---- text that would not load again is refused, and nothing is stored ----
 "$BEAMLEDGER" export $B > utf8-before.json
-run add $B space "$(printf 'S\377')" "length=10 mm" --after S0
+run place $B space "$(printf 'S\377')" "length=10 mm" --after S0
 check "an id that is not UTF-8 is refused" trouble "not valid UTF-8"
 run set $B --bench "$(printf 'notes=\377')"
 check "notes that are not UTF-8 are refused" trouble "not valid UTF-8"
-run commit $B -m "$(printf 'bad \377 note')"
+run record $B -n "$(printf 'bad \377 note')"
 check "a note that is not UTF-8 is refused" trouble "not valid UTF-8"
 "$BEAMLEDGER" export $B > utf8-after.json
 check "... and the bench is unchanged" same_file utf8-before.json utf8-after.json
-run clone $B 'lab@good'
-check "a bench name with '@' is refused (BENCH@REV would be ambiguous)" trouble "'@'"
+run copy $B 'lab@good'
+check "a bench name with '@' is refused (BENCH@SETUP would be ambiguous)" trouble "'@'"
 # ---- files that are not ours: a read-only export target, a URI-like name ----
 echo keep > ro-target.txt
 chmod 0444 ro-target.txt
@@ -344,8 +409,8 @@ check "a --db starting with file: is a plain file name, not an SQLite URI" \
 	sh -c '[ "$(stat -c %a uri.db)" = 444 ] && cmp -s "$1" uri.db' _ "$DB"
 
 # ---- a mistyped --db makes nothing ----
-run --db "$T_DIR/typo/sub/x.db" show $B
-check "show on a missing database: trouble, said plainly" trouble "no bench database at"
+run --db "$T_DIR/typo/sub/x.db" chain $B
+check "chain on a missing database: trouble, said plainly" trouble "no bench database at"
 check "... and no file or directory was made" [ ! -e "$T_DIR/typo" ]
 
 done_testing

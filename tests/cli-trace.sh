@@ -178,9 +178,24 @@ check "--help writes nothing on stderr" err_empty help
 
 run version --version
 check "--version exits 0" status_is version 0
-check "--version's first line is 'beamledger 0.1.0'" \
-	[ "$(head -n 1 "$T_DIR/version.out")" = "beamledger 0.1.0" ]
+check "--version is one line" [ "$(wc -l < "$T_DIR/version.out")" -eq 1 ]
+check "--version: name, version, licence and where LICENSE is" \
+	grep -qE '^beamledger 0\.1\.0 .*MIT licence.*LICENSE' "$T_DIR/version.out"
 check "--version writes nothing on stderr" err_empty version
+check "--version names a LICENSE that is there, and MIT" \
+	sh -c 'head -1 "${srcdir:-.}/LICENSE" | grep -qx "MIT License"'
+
+# --- help as a command ---
+run help_cmd help
+check "help: the same overview as --help" cmp -s "$T_DIR/help.out" "$T_DIR/help_cmd.out"
+check "help exits 0" status_is help_cmd 0
+run help_trace help trace
+run trace_help0 trace --help
+check "help trace: the help of trace" cmp -s "$T_DIR/help_trace.out" "$T_DIR/trace_help0.out"
+run help_bad help frobnicate
+check "help NOSUCH: usage error, status 2" status_is help_bad 2
+check "help NOSUCH: says there is no such command" err_has help_bad "help: no command 'frobnicate'"
+check "help NOSUCH: nothing on stdout" out_empty help_bad
 
 run trace_help trace --help
 check "trace --help exits 0" status_is trace_help 0

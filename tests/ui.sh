@@ -170,7 +170,7 @@ t_keys direct q
 check "and quits" wait_exit direct 5
 
 # ---- another writer changes the draft while the workbench is open ----
-"$BL" --db "$DB" clone focus-test two-writers >/dev/null 2>&1
+"$BL" --db "$DB" copy focus-test two-writers >/dev/null 2>&1
 t_start two 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open two-writers
 check "second bench open" wait_for two "two-writers"
 "$BL" --db "$DB" set two-writers S1 'length=321 mm' >/dev/null 2>&1
@@ -208,24 +208,24 @@ check "open --demo shows the demo bench" wait_for demo "draft = r1"
 check "with its over-threshold window" wait_for demo "worst: W1"
 t_keys demo Q
 check "open --demo quits" wait_exit demo 5
-check "the demo is now r1 in that database" sh -c '"$1" --db "$2" log table3-ablation | grep -q "^r1 "' _ "$BL" "$T_DIR/demo.db"
+check "the demo is now #1 in that database" sh -c '"$1" --db "$2" history table3-ablation | grep -q "^#1 "' _ "$BL" "$T_DIR/demo.db"
 "$BL" --db "$T_DIR/nodemo.db" open --demo </dev/null >/dev/null 2>&1
 check "open --demo without a terminal is a usage error" [ $? -eq 2 ]
 check "and creates no database" [ ! -e "$T_DIR/nodemo.db" ]
 
 # ---- the database, checked with the CLI ----
-log=$("$BL" --db "$DB" log focus-test 2>&1)
+log=$("$BL" --db "$DB" history focus-test 2>&1)
 check "log: r3 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
 check "log: the label" sh -c 'printf "%s" "$1" | grep -q "near-focus"' _ "$log"
 check "log: the author" sh -c 'printf "%s" "$1" | grep -q "lab-tester"' _ "$log"
-"$BL" --db "$DB" trace focus-test@r3 >/dev/null 2>&1
+"$BL" --db "$DB" trace focus-test@3 >/dev/null 2>&1
 check "r3 traces over (exit 1)" [ $? -eq 1 ]
 "$BL" --db "$DB" trace focus-test >/dev/null 2>&1
 check "restored draft traces ok (exit 0)" [ $? -eq 0 ]
 exp=$("$BL" --db "$DB" export focus-test 2>&1)
 check "export: the rating typed in the field, in SI" sh -c 'printf "%s" "$1" | grep -q "\"cw_irradiance\": 1e+07"' _ "$exp"
 check "export: the lens before S2 again (restored)" sh -c 'printf "%s" "$1" | tr -d "\n " | grep -q "\"id\":\"L1\".*\"id\":\"S2\""' _ "$exp"
-"$BL" --db "$DB" diff focus-test r2 r3 >"$T_DIR/diff.txt" 2>&1
+"$BL" --db "$DB" compare focus-test 2 3 >"$T_DIR/diff.txt" 2>&1
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
 check "demo bench is in the database" sh -c '"$1" --db "$2" list | grep -q table3-ablation' _ "$BL" "$DB"
 check "database check passes" sh -c '"$1" --db "$2" check >/dev/null' _ "$BL" "$DB"
