@@ -518,8 +518,166 @@ bench_file_read(const char *path, char **cause)
 
 /* ---- writing ---- */
 
+/* Export writes every quantity as a person would type it ("1064 nm",
+ * "5 W", "200 mm", "1 kW/cm^2") rather than in bare SI.  The digits are
+ * those of the shortest decimal that reads back to the same double; moving
+ * the decimal point into a power-of-ten unit keeps that decimal exactly,
+ * and units_parse folds the unit into the exponent before one rounding, so
+ * the text reads back bit for bit.  Each string is still checked by
+ * reading it back, with the bare SI number as the fallback.  The store
+ * keeps bare numbers (units = 0): its records are compared as text. */
+struct unit_step {
+	const char *name;           /* ASCII, as typed */
+	int         exp10;          /* one of it is 10^exp10 SI */
+};
+
+/* Candidate units per dimension, smallest first; a value takes the largest
+ * whose mantissa is at least 1 (the smallest for smaller values). */
+static const struct unit_step len_units[] = { { "nm", -9 }, { "um", -6 }, { "mm", -3 },
+    { "m", 0 }, { NULL, 0 } };
+static const struct unit_step power_units[] = { { "nW", -9 }, { "uW", -6 }, { "mW", -3 },
+    { "W", 0 }, { "kW", 3 }, { "MW", 6 }, { "GW", 9 }, { NULL, 0 } };
+static const struct unit_step energy_units[] = { { "nJ", -9 }, { "uJ", -6 }, { "mJ", -3 },
+    { "J", 0 }, { "kJ", 3 }, { NULL, 0 } };
+static const struct unit_step time_units[] = { { "fs", -15 }, { "ps", -12 }, { "ns", -9 },
+    { "us", -6 }, { "ms", -3 }, { "s", 0 }, { NULL, 0 } };
+static const struct unit_step freq_units[] = { { "Hz", 0 }, { "kHz", 3 }, { "MHz", 6 },
+    { "GHz", 9 }, { NULL, 0 } };
+/* W/cm = 100 W/m; W/cm^2 and J/cm^2 = 10^4 SI; cm^2/W = 10^-4 m^2/W */
+static const struct unit_step linear_units[] = { { "mW/cm", 0 }, { "W/cm", 2 },
+    { "kW/cm", 5 }, { "MW/cm", 8 }, { NULL, 0 } };
+static const struct unit_step irr_units[] = { { "mW/cm^2", 1 }, { "W/cm^2", 4 },
+    { "kW/cm^2", 7 }, { "MW/cm^2", 10 }, { "GW/cm^2", 13 }, { "TW/cm^2", 16 },
+    { NULL, 0 } };
+static const struct unit_step fluence_units[] = { { "uJ/cm^2", -2 }, { "mJ/cm^2", 1 },
+    { "J/cm^2", 4 }, { "kJ/cm^2", 7 }, { NULL, 0 } };
+static const struct unit_step n2_units[] = { { "cm^2/W", -4 }, { NULL, 0 } };
+/* wavelengths are said in nm below 10 um ("1064 nm", "2100 nm"), then in
+ * um ("10.6 um") */
+static const struct unit_step wl_units[] = { { "nm", -9 }, { "um", -6 }, { NULL, 0 } };
+
+static const struct unit_step *
+units_for(enum unit_dim dim, int wavelength)
+{
+	switch (dim) {
+	case DIM_LENGTH:        return wavelength ? wl_units : len_units;
+	case DIM_POWER:         return power_units;
+	case DIM_ENERGY:        return energy_units;
+	case DIM_TIME:          return time_units;
+	case DIM_FREQUENCY:     return freq_units;
+	case DIM_LINEAR:        return linear_units;
+	case DIM_IRRADIANCE:    return irr_units;
+	case DIM_FLUENCE:       return fluence_units;
+	case DIM_N2:            return n2_units;
+	default:                return NULL;
+	}
+}
+
+/* The shortest significant digits of v that read back (no point, no
+ * trailing zeros) into digits, and the power of ten of its last digit:
+ * |v| = digits * 10^*last.  Returns the number of digits. */
+static int
+shortest_digits(double v, char digits[20], int *last)
+{
+	char tmp[40];
+	int prec, x = 0, n = 0;
+
+	for (prec = 1; prec <= 17; prec++) {
+		snprintf(tmp, sizeof tmp, "%.*e", prec - 1, fabs(v));
+		if (strtod(tmp, NULL) == fabs(v))
+			break;
+	}
+	for (const char *p = tmp; *p != '\0' && *p != 'e'; p++)
+		if (*p >= '0' && *p <= '9')
+			digits[n++] = *p;
+	digits[n] = '\0';
+	x = atoi(strchr(tmp, 'e') + 1);
+	while (n > 1 && digits[n - 1] == '0')   /* the leading digit's place stays x */
+		digits[--n] = '\0';
+	*last = x - (n - 1);
+	return n;
+}
+
+/* digits * 10^shift as plain decimal text ("1064", "0.5", "2.75"), or in
+ * scientific form when that would need many zeros. */
+static void
+place_point(struct buf *b, const char *digits, int n, int shift)
+{
+	if (shift >= 0 && shift <= 6) {
+		buf_add(b, digits);
+		for (int i = 0; i < shift; i++)
+			buf_addc(b, '0');
+	} else if (shift < 0 && -shift < n) {
+		buf_printf(b, "%.*s.%s", n + shift, digits, digits + n + shift);
+	} else if (shift < 0 && -shift - n <= 4) {
+		buf_add(b, "0.");
+		for (int i = 0; i < -shift - n; i++)
+			buf_addc(b, '0');
+		buf_add(b, digits);
+	} else {
+		buf_printf(b, "%c", digits[0]);
+		if (n > 1)
+			buf_printf(b, ".%s", digits + 1);
+		buf_printf(b, "e%d", shift + n - 1);
+	}
+}
+
+/* The text of v in the unit a person would type, or NULL when it would
+ * not read back exactly (caller frees). */
+static char *
+quantity_text(double v, enum unit_dim dim, int wavelength)
+{
+	const struct unit_step *u = units_for(dim, wavelength), *pick;
+	char digits[20];
+	struct buf b;
+	double back;
+	int n, last, mag;
+
+	if (u == NULL || !isfinite(v))
+		return NULL;
+	pick = &u[0];
+	if (v == 0) {
+		/* zero reads as zero in any unit; the base one reads plainest */
+		for (const struct unit_step *s = u; s->name != NULL; s++)
+			if (s->exp10 == 0 || (dim == DIM_LINEAR && s->exp10 == 2) ||
+			    ((dim == DIM_IRRADIANCE || dim == DIM_FLUENCE) && s->exp10 == 4))
+				pick = s;
+		buf_init(&b);
+		buf_printf(&b, "%s %s", signbit(v) ? "-0" : "0", pick->name);
+	} else {
+		n = shortest_digits(v, digits, &last);
+		mag = last + n - 1;             /* 10^mag <= |v| < 10^(mag+1) */
+		for (const struct unit_step *s = u; s->name != NULL; s++)
+			if (mag >= s->exp10 && !(wavelength && s->exp10 == -6 && mag < -5))
+				pick = s;
+		buf_init(&b);
+		if (v < 0)
+			buf_addc(&b, '-');
+		place_point(&b, digits, n, last - pick->exp10);
+		buf_printf(&b, " %s", pick->name);
+	}
+	if (units_parse(b.s, dim, &back, NULL) != 0 || memcmp(&back, &v, sizeof v) != 0) {
+		buf_release(&b);
+		return NULL;
+	}
+	return buf_take(&b);
+}
+
 static json_t *
-key_json(const struct element *el, enum model_key k)
+quantity_json(double v, enum unit_dim dim, int wavelength, int units)
+{
+	char *t = units ? quantity_text(v, dim, wavelength) : NULL;
+	json_t *j;
+
+	if (t == NULL)
+		return json_real(v);
+	j = json_string(t);
+	free(t);
+	return j;
+}
+
+static json_t *
+key_json(const struct element *el, enum model_key k, int units)
 {
 	switch (model_keys[k].kind) {
 	case KIND_BOOL:
@@ -527,14 +685,14 @@ key_json(const struct element *el, enum model_key k)
 	case KIND_AXIS:
 		return json_string(el->val[k] == AXIS_X ? "x" : el->val[k] == AXIS_Y ? "y" : "both");
 	default:
-		return json_real(el->val[k]);
+		return quantity_json(el->val[k], model_keys[k].dim, k == K_DMG_WAVELENGTH, units);
 	}
 }
 
-static json_t *branch_json(const struct branch *br);
+static json_t *branch_json(const struct branch *br, int units);
 
-json_t *
-bench_element_to_json(const struct element *el, int with_branch)
+static json_t *
+element_json(const struct element *el, int with_branch, int units)
 {
 	json_t *o = json_object(), *dmg = NULL;
 
@@ -551,38 +709,52 @@ bench_element_to_json(const struct element *el, int with_branch)
 		if (k >= K_DMG_FIRST) {
 			if (dmg == NULL)
 				dmg = json_object();
-			json_object_set_new(dmg, model_keys[k].name, key_json(el, (enum model_key)k));
+			json_object_set_new(dmg, model_keys[k].name,
+			    key_json(el, (enum model_key)k, units));
 		} else {
-			json_object_set_new(o, model_keys[k].name, key_json(el, (enum model_key)k));
+			json_object_set_new(o, model_keys[k].name,
+			    key_json(el, (enum model_key)k, units));
 		}
 	}
 	if (dmg != NULL)
 		json_object_set_new(o, "damage", dmg);
 	if (with_branch && el->side_port != PORT_NONE)
-		json_object_set_new(o, model_port_name(el->side_port), branch_json(&el->side));
+		json_object_set_new(o, model_port_name(el->side_port),
+		    branch_json(&el->side, units));
 	return o;
 }
 
+json_t *
+bench_element_to_json(const struct element *el, int with_branch)
+{
+	return element_json(el, with_branch, 0);
+}
+
 static json_t *
-branch_json(const struct branch *br)
+branch_json(const struct branch *br, int units)
 {
 	json_t *a = json_array();
 
 	for (size_t i = 0; i < br->n; i++)
-		json_array_append_new(a, bench_element_to_json(&br->el[i], 1));
+		json_array_append_new(a, element_json(&br->el[i], 1, units));
 	return a;
 }
 
 static json_t *
-pair_json(const double v[2], int pair)
+pair_json(const double v[2], int pair, enum unit_dim dim, int units)
 {
+	json_t *a;
+
 	if (!pair)
-		return json_real(v[0]);
-	return json_pack("[ff]", v[0], v[1]);
+		return quantity_json(v[0], dim, 0, units);
+	a = json_array();
+	json_array_append_new(a, quantity_json(v[0], dim, 0, units));
+	json_array_append_new(a, quantity_json(v[1], dim, 0, units));
+	return a;
 }
 
-json_t *
-bench_head_to_json(const struct bench *b)
+static json_t *
+head_json(const struct bench *b, int units)
 {
 	const struct source *s = &b->src;
 	json_t *o = json_object(), *src = json_object();
@@ -594,23 +766,28 @@ bench_head_to_json(const struct bench *b)
 	if (b->safety_given)
 		json_object_set_new(o, "safety_factor", json_real(b->safety_factor));
 	if (b->air_given)
-		json_object_set_new(o, "air_breakdown", json_real(b->air_breakdown));
-	json_object_set_new(src, "wavelength", json_real(s->wavelength));
+		json_object_set_new(o, "air_breakdown",
+		    quantity_json(b->air_breakdown, DIM_IRRADIANCE, 0, units));
+	json_object_set_new(src, "wavelength", quantity_json(s->wavelength, DIM_LENGTH, 1, units));
 	if (!s->energy_given)
-		json_object_set_new(src, "power", json_real(s->power));
+		json_object_set_new(src, "power", quantity_json(s->power, DIM_POWER, 0, units));
 	if (s->pulsed) {
 		json_t *p = json_object();
 
-		json_object_set_new(p, "rep_rate", json_real(s->rep_rate));
-		json_object_set_new(p, "pulse_width", json_real(s->pulse_width));
+		json_object_set_new(p, "rep_rate", quantity_json(s->rep_rate, DIM_FREQUENCY, 0,
+		    units));
+		json_object_set_new(p, "pulse_width", quantity_json(s->pulse_width, DIM_TIME, 0,
+		    units));
 		json_object_set_new(p, "shape", json_string(model_shape_name(s->shape)));
 		if (s->energy_given)
-			json_object_set_new(p, "pulse_energy", json_real(s->pulse_energy));
+			json_object_set_new(p, "pulse_energy", quantity_json(s->pulse_energy,
+			    DIM_ENERGY, 0, units));
 		json_object_set_new(src, "pulsed", p);
 	}
-	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair));
-	json_object_set_new(src, "waist_position", json_real(s->waist_position));
-	json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair));
+	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair, DIM_LENGTH, units));
+	json_object_set_new(src, "waist_position", quantity_json(s->waist_position, DIM_LENGTH,
+	    0, units));
+	json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair, DIM_NONE, 0));
 	if (s->pol == POL_CIRCULAR)
 		json_object_set_new(src, "polarization", json_string("circular"));
 	else if (s->pol == POL_UNPOLARIZED)
@@ -619,6 +796,12 @@ bench_head_to_json(const struct bench *b)
 		json_object_set_new(src, "polarization", json_real(s->pol_angle_deg));
 	json_object_set_new(o, "source", src);
 	return o;
+}
+
+json_t *
+bench_head_to_json(const struct bench *b)
+{
+	return head_json(b, 0);
 }
 
 /* jansson prints reals with 17 digits ("0.10000000000000001"); a file
@@ -718,10 +901,10 @@ dump_element(struct buf *out, json_t *el, int indent)
 char *
 bench_file_dump(const struct bench *b)
 {
-	json_t *o = bench_head_to_json(b);
+	json_t *o = head_json(b, 1);
 	struct buf out;
 
-	json_object_set_new(o, "path", branch_json(&b->path));
+	json_object_set_new(o, "path", branch_json(&b->path, 1));
 	buf_init(&out);
 	dump_value(&out, o, 0, 0);
 	buf_addc(&out, '\n');

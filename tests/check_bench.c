@@ -631,15 +631,136 @@ round_trip(const struct bench *b)
 	same_bench(b, back);
 	two = bench_file_dump(back);
 	ck_assert_str_eq(one, two);
-	/* exported files use plain SI numbers (bench-format.md) */
+	/* exported files write quantities with their units (issue 9, item 11) */
 	root = json_loads(one, 0, NULL);
 	ck_assert_ptr_nonnull(root);
-	ck_assert(json_is_number(json_object_get(json_object_get(root, "source"), "wavelength")));
+	ck_assert(json_is_string(json_object_get(json_object_get(root, "source"), "wavelength")));
 	json_decref(root);
 	free(two);
 	free(one);
 	model_bench_free(back);
 }
+
+/* Export writes what a person would type.  The expected texts are the
+ * values as full_bench above types them, or (where it gives a bare SI
+ * number or another unit) the same value converted by hand: 0.0008 m =
+ * 800 um, 0.2 m = 200 mm, 0.003 m = 3 mm, 2.7e-20 m^2/W = 2.7e-16 cm^2/W
+ * (1 m^2 = 10^4 cm^2), 5e9 W/cm^2 = 5 GW/cm^2, 1 kHz, 250 uJ. */
+static const struct { const char *where, *key, *text; } export_texts[] = {
+	{ "source", "wavelength", "532 nm" },
+	{ "source", "waist_position", "-250 mm" },
+	{ "pulsed", "rep_rate", "1 kHz" },
+	{ "pulsed", "pulse_width", "12 ps" },
+	{ "pulsed", "pulse_energy", "250 uJ" },
+	{ "bench", "air_breakdown", "5 GW/cm^2" },
+	{ "S1", "length", "250 mm" },
+	{ "M1", "roc", "-500 mm" },
+	{ "M1", "aperture", "25.4 mm" },
+	{ "M1.damage", "cw_linear", "5 kW/cm" },
+	{ "M1.damage", "cw_irradiance", "1 MW/cm^2" },
+	{ "M1.damage", "fluence", "2 J/cm^2" },
+	{ "M1.damage", "wavelength", "1064 nm" },
+	{ "M1.damage", "pulse_width", "10 ns" },
+	{ "L1", "focal", "-75 mm" },
+	{ "L1", "n2", "2.7e-16 cm^2/W" },
+	{ "L2", "focal", "200 mm" },
+	{ "W1", "thickness", "3 mm" },
+	{ "W1", "n2", "2.7e-16 cm^2/W" },
+	{ "F1", "max_absorbed", "500 mW" },
+	{ "D1", "max_power", "10 mW" },
+	{ "T1", "max_power", "2 W" },
+	{ "IR", "diameter", "3 mm" },
+};
+
+static json_t *
+find_id(json_t *arr, const char *id)
+{
+	size_t i;
+	json_t *e;
+
+	json_array_foreach(arr, i, e) {
+		const char *k;
+		json_t *v, *in;
+
+		if (strcmp(json_string_value(json_object_get(e, "id")), id) == 0)
+			return e;
+		json_object_foreach(e, k, v)
+			if (json_is_array(v) && (in = find_id(v, id)) != NULL)
+				return in;
+	}
+	return NULL;
+}
+
+START_TEST(test_export_units)
+{
+	struct bench *b = parse_ok(full_bench);
+	char *text = bench_file_dump(b), where[32];
+	json_t *root = json_loads(text, 0, NULL), *o, *v;
+
+	ck_assert_ptr_nonnull(root);
+	snprintf(where, sizeof where, "%s", export_texts[_i].where);
+	if (strcmp(where, "source") == 0)
+		o = json_object_get(root, "source");
+	else if (strcmp(where, "pulsed") == 0)
+		o = json_object_get(json_object_get(root, "source"), "pulsed");
+	else if (strcmp(where, "bench") == 0)
+		o = root;
+	else if (strchr(where, '.') != NULL) {
+		*strchr(where, '.') = '\0';
+		o = json_object_get(find_id(json_object_get(root, "path"), where), "damage");
+	} else
+		o = find_id(json_object_get(root, "path"), where);
+	ck_assert_ptr_nonnull(o);
+	v = json_object_get(o, export_texts[_i].key);
+	ck_assert_msg(json_is_string(v), "%s.%s is not a string with a unit", where,
+	    export_texts[_i].key);
+	ck_assert_str_eq(json_string_value(v), export_texts[_i].text);
+	/* plain numbers stay plain: fractions, angles, M² */
+	ck_assert(json_is_number(json_object_get(find_id(json_object_get(root, "path"), "M1"),
+	    "reflectance")));
+	ck_assert(json_is_number(json_object_get(find_id(json_object_get(root, "path"), "M1"),
+	    "aoi")));
+	json_decref(root);
+	free(text);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Values whose shortest decimal has many digits, or sits at the edges of
+ * a unit: the text still reads back to the same double, bit for bit, and
+ * exporting the import gives the same text again. */
+static const double awkward[] = {
+	0.1 + 0.2, 1.0 / 3.0, 5.32e-7, 1.064e-6, 10.6e-6, 9.999999999999999e-6, 1e-3,
+	0.001000000000000001, 999.9999999999999, 1e-25, 123456789.123, 4.9e-324 * 1e300,
+	-0.0,
+};
+
+START_TEST(test_export_awkward_values)
+{
+	struct bench *b = parse_ok(full_bench), *back;
+	char *one, *two, *cause = NULL;
+	struct element *el = model_find(b, "S1", NULL, NULL, NULL);
+	double v = awkward[_i];
+
+	ck_assert_ptr_nonnull(el);
+	el->val[K_LENGTH] = fabs(v);
+	b->src.wavelength = fabs(v) > 0 ? fabs(v) : 1e-6;
+	b->src.waist_position = v;
+	one = bench_file_dump(b);
+	back = bench_file_parse(one, strlen(one), "export", &cause);
+	ck_assert_msg(back != NULL, "%s\n%s", cause, one);
+	ck_assert_int_eq(memcmp(&back->src.waist_position, &v, sizeof v), 0);
+	ck_assert_int_eq(memcmp(&back->src.wavelength, &b->src.wavelength, sizeof v), 0);
+	ck_assert_int_eq(memcmp(&model_find(back, "S1", NULL, NULL, NULL)->val[K_LENGTH],
+	    &el->val[K_LENGTH], sizeof v), 0);
+	two = bench_file_dump(back);
+	ck_assert_str_eq(one, two);
+	free(one);
+	free(two);
+	model_bench_free(back);
+	model_bench_free(b);
+}
+END_TEST
 
 START_TEST(test_round_trip_demo)
 {
@@ -935,6 +1056,8 @@ main(void)
 	suite_add_tcase(s, tb);
 
 	tcase_add_test(tx, test_round_trip_demo);
+	tcase_add_loop_test(tx, test_export_units, 0, NELEMS(export_texts));
+	tcase_add_loop_test(tx, test_export_awkward_values, 0, NELEMS(awkward));
 	tcase_add_test(tx, test_round_trip_full);
 	tcase_add_loop_test(tx, test_round_trip_random, 0, 10);
 	tcase_set_timeout(tx, 120);

@@ -80,9 +80,10 @@ fi
 lost=0
 while read -r rev round v; do
 	grep -q "^#$rev .* round $round\$" log.txt || { lost=$((lost + 1)); echo "# #$rev (round $round) is missing from the history"; }
-	want=$(echo "0.0$v" | sed 's/0*$//')
+	# v um exported in mm, as typed: 20001 -> "20.001 mm", 20010 -> "20.01 mm"
+	want=$(echo "$v" | sed 's/\(...\)$/.\1/; s/0*$//; s/\.$//')
 	"$BEAMLEDGER" export "big@$rev" > rev.json 2>&1 &&
-		grep -o '"id": *"S7"[^}]*}' rev.json | grep -qE "\"length\": *$want[ ,}]" ||
+		grep -o '"id": *"S7"[^}]*}' rev.json | grep -qF "\"length\": \"$want mm\"" ||
 		{ lost=$((lost + 1)); echo "# #$rev (round $round) does not hold S7 = $v um"; }
 done < committed
 check "every record that reported success is present and intact ($(wc -l < committed))" \

@@ -15,6 +15,8 @@ cd "$T_DIR" || exit 2
 run demo
 cp "$T_DIR/out" demo.json
 run import demo.json
+check "import: recorded #1, with the elements counted" \
+	sh -c "grep -q \"^imported bench '$B': recorded #1 ([0-9]* elements)\$\" '$T_DIR/out'"
 check "XDG_DATA_HOME: the database is created under it" \
 	[ "$RC" -eq 0 -a -f "$XDG_DATA_HOME/beamledger/benches.db" ]
 check "XDG_DATA_HOME: directories are private (0700)" \
@@ -54,7 +56,7 @@ check "chain: part and label columns" sh -c "grep -q '^M1 .*m2in-1064-45 *fold 1
 
 "$BEAMLEDGER" export $B > before.json
 run set $B L1 "focal=150 mm"
-check "set: a lens gets a shorter focal length" rc_is 0
+check "set: a lens gets a shorter focal length (one value, singular)" out_has "bench '$B': set 1 value on L1"
 run list
 check "list: the draft changed" sh -c "grep -q '^$B  *#1  *changed ' '$T_DIR/out'"
 run chain $B
@@ -148,6 +150,11 @@ check "export -o equals export to stdout" same_file exported.json r1.json
 "$BEAMLEDGER" --db "$T_DIR/third.db" export $B > again2.json
 check "import, export, import, export: identical" \
 	sh -c "cmp -s exported.json again.json && cmp -s again.json again2.json"
+check "export writes values in the units a person types" \
+	sh -c "grep -q '\"wavelength\": \"1064 nm\"' exported.json && grep -q '\"max_power\": \"5 W\"' exported.json &&
+	    grep -q '\"length\": \"300 mm\"' exported.json && grep -q '\"pulse_width\": \"8 ns\"' exported.json"
+check "... and no quantity as a bare SI number" \
+	sh -c "! grep -qE '\"(wavelength|length|power|max_power|focal|waist|pulse_width|fluence)\": -?[0-9]' exported.json"
 run copy $B@1 "copy of 1"
 check "copy BENCH@1 NEW" out_has "copied $B@1 into bench 'copy of 1': recorded #1"
 "$BEAMLEDGER" export "copy of 1" | sed 's/"name": "copy of 1"/"name": "table3-ablation"/' > clone.json

@@ -178,11 +178,11 @@ t_keys two x
 check "an edit over another writer's change is not saved, and says so" \
 	wait_for two "another beamledger changed"
 check "the other writer's value is still stored" \
-	sh -c '"$1" --db "$2" export two-writers | grep -q "\"length\": 0.321"' _ "$BL" "$DB"
+	sh -c '"$1" --db "$2" export two-writers | grep -q "\"length\": \"321 mm\""' _ "$BL" "$DB"
 t_keys two u
 check "the next change replaces it, as the message said" wait_for two "draft saved"
 check "now the workbench's draft is stored" \
-	sh -c '! "$1" --db "$2" export two-writers | grep -q "\"length\": 0.321"' _ "$BL" "$DB"
+	sh -c '! "$1" --db "$2" export two-writers | grep -q "\"length\": \"321 mm\""' _ "$BL" "$DB"
 t_keys two Q
 check "and quits" wait_exit two 5
 
@@ -223,7 +223,7 @@ check "r3 traces over (exit 1)" [ $? -eq 1 ]
 "$BL" --db "$DB" trace focus-test >/dev/null 2>&1
 check "restored draft traces ok (exit 0)" [ $? -eq 0 ]
 exp=$("$BL" --db "$DB" export focus-test 2>&1)
-check "export: the rating typed in the field, in SI" sh -c 'printf "%s" "$1" | grep -q "\"cw_irradiance\": 1e+07"' _ "$exp"
+check "export: the rating typed in the field, in its unit" sh -c 'printf "%s" "$1" | grep -q "\"cw_irradiance\": \"1 kW/cm^2\""' _ "$exp"
 check "export: the lens before S2 again (restored)" sh -c 'printf "%s" "$1" | tr -d "\n " | grep -q "\"id\":\"L1\".*\"id\":\"S2\""' _ "$exp"
 "$BL" --db "$DB" compare focus-test 2 3 >"$T_DIR/diff.txt" 2>&1
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
