@@ -595,7 +595,7 @@ cmd_export(struct cmd_ctx *ctx, int argc, char **argv)
 		if (ch == 'o')
 			outpath = optarg;
 		else if (ch == 'h')
-			return printf("Usage: " PROG " export BENCH[@REV] [-o FILE]\n"
+			return printf("Usage: " PROG " export BENCH[@SETUP] [-o FILE]\n"
 			    "The bench file of a setup or the draft (the default), on "
 			    "standard output or written atomically to FILE.  Values carry\n"
 			    "their units as a person would type them (\"1064 nm\", \"5 W\") and read\n"

@@ -41,7 +41,7 @@ cmd_trace_print(const struct bench *b, enum report_format fmt,
 	return rc != 0 ? rc : over;
 }
 
-/* An operand that is not a file: BENCH[@REV] in the database, which must
+/* An operand that is not a file: BENCH[@SETUP] in the database, which must
  * exist already (a mistyped file name should not create one). */
 static struct bench *
 load_from_db(struct cmd_ctx *ctx, const char *arg, char **shown, char **cause)
@@ -158,7 +158,11 @@ int
 cmd_demo(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	(void)ctx;
-	(void)argv;
+	if (argc == 2 && (strcmp(argv[1], "--help") == 0 || strcmp(argv[1], "-h") == 0))
+		return printf("Usage: " PROG " demo\n"
+		    "Prints the built-in demo bench (invented data: table 3 of our own lab) as "
+		    "a bench file;\n" PROG " import - reads it back, " PROG " trace --demo "
+		    "traces it.\n"), 0;
 	if (argc > 1)
 		return cmd_usage("demo: takes no arguments");
 	return cmd_print(bench_demo_text);

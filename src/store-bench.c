@@ -1,4 +1,5 @@
-/* store-bench.c - benches, their drafts and revisions.  A bench's content
+/* store-bench.c - benches, their drafts and the records of their setups
+ * (store-setup.c names and reinstates setups).  A bench's content
  * is a head record plus a layout of element records (see store-db.c); the
  * draft and every revision point at records shared by content, so a commit
  * copies three small values and a one-value change stores one element. */
@@ -13,29 +14,23 @@
 #include "util-buf.h"
 #include "util-err.h"
 
-/* One stored state: the head record, the layout text and the parts map. */
-struct state {
-	long long head;
-	char     *layout;           /* owned */
-	char     *parts;            /* owned */
-};
 
-static void
-state_release(struct state *st)
+void
+store_state_release(struct store_state *st)
 {
 	free(st->layout);
 	free(st->parts);
 	st->layout = st->parts = NULL;
 }
 
-static int
-state_equal(const struct state *a, const struct state *b)
+int
+store_state_equal(const struct store_state *a, const struct store_state *b)
 {
 	return a->head == b->head && strcmp(a->layout, b->layout) == 0;
 }
 
-static char *
-col_text(sqlite3_stmt *st, int i)
+char *
+store_col_text(sqlite3_stmt *st, int i)
 {
 	const unsigned char *t = sqlite3_column_text(st, i);
 
@@ -124,7 +119,7 @@ layout_branch(struct store *s, const struct branch *br, struct buf *out, char **
 
 /* Stores the records of a bench and fills st->head and st->layout. */
 static int
-state_of(struct store *s, const struct bench *b, struct state *st, char **cause)
+state_of(struct store *s, const struct bench *b, struct store_state *st, char **cause)
 {
 	char *h = head_json(b);
 	struct buf lay;
@@ -213,7 +208,7 @@ load_branch(struct store *s, json_t *arr, struct branch *br, size_t depth, char 
 }
 
 static struct bench *
-state_load(struct store *s, const char *name, const struct state *st, char **cause)
+state_load(struct store *s, const char *name, const struct store_state *st, char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_HEAD_GET, cause);
 	struct bench *b = NULL;
@@ -316,8 +311,9 @@ store_bench_id(struct store *s, const char *name, char **cause)
 }
 
 /* The draft of a bench; *base (may be NULL) gets draft_base. */
-static long long
-draft_get(struct store *s, const char *name, struct state *st, int *base, char **cause)
+long long
+store_draft_get(struct store *s, const char *name, struct store_state *st, int *base,
+    char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_BENCH_DRAFT, cause);
 	long long id = 0;
@@ -330,8 +326,8 @@ draft_get(struct store *s, const char *name, struct state *st, int *base, char *
 	if (rc == SQLITE_ROW) {
 		id = sqlite3_column_int64(q, 0);
 		st->head = sqlite3_column_int64(q, 1);
-		st->layout = col_text(q, 2);
-		st->parts = col_text(q, 3);
+		st->layout = store_col_text(q, 2);
+		st->parts = store_col_text(q, 3);
 		if (base != NULL)
 			*base = sqlite3_column_int(q, 4);
 	} else if (rc == SQLITE_DONE) {
@@ -344,8 +340,9 @@ draft_get(struct store *s, const char *name, struct state *st, int *base, char *
 }
 
 /* Revision no of bench id; 1 found, 0 missing, -1 error. */
-static int
-rev_get(struct store *s, long long bench, int no, struct state *st, char **cause)
+int
+store_rev_get(struct store *s, long long bench, int no, struct store_state *st,
+    char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_REV_GET, cause);
 	int rc;
@@ -357,8 +354,8 @@ rev_get(struct store *s, long long bench, int no, struct state *st, char **cause
 	rc = sqlite3_step(q);
 	if (rc == SQLITE_ROW) {
 		st->head = sqlite3_column_int64(q, 0);
-		st->layout = col_text(q, 1);
-		st->parts = col_text(q, 2);
+		st->layout = store_col_text(q, 1);
+		st->parts = store_col_text(q, 2);
 		store_q_done(q);
 		return 1;
 	}
@@ -369,8 +366,9 @@ rev_get(struct store *s, long long bench, int no, struct state *st, char **cause
 }
 
 /* Latest revision number (0: none) and, when st is not NULL, its state. */
-static int
-rev_latest(struct store *s, long long bench, int *no, struct state *st, char **cause)
+int
+store_rev_latest(struct store *s, long long bench, int *no, struct store_state *st,
+    char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_REV_LATEST, cause);
 	int rc;
@@ -384,7 +382,7 @@ rev_latest(struct store *s, long long bench, int *no, struct state *st, char **c
 		*no = sqlite3_column_int(q, 0);
 		if (st != NULL) {
 			st->head = sqlite3_column_int64(q, 1);
-			st->layout = col_text(q, 2);
+			st->layout = store_col_text(q, 2);
 			st->parts = xstrdup("");
 		}
 	}
@@ -395,7 +393,7 @@ rev_latest(struct store *s, long long bench, int *no, struct state *st, char **c
 }
 
 static int
-pin(struct store *s, const struct state *st, char **cause)
+pin(struct store *s, const struct store_state *st, char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_HEAD_PIN, cause);
 	int rc;
@@ -417,8 +415,8 @@ pin(struct store *s, const struct state *st, char **cause)
 	return 0;
 }
 
-static int
-step_done(struct store *s, sqlite3_stmt *q, char **cause, const char *what)
+int
+store_step_done(struct store *s, sqlite3_stmt *q, char **cause, const char *what)
 {
 	int rc = sqlite3_step(q);
 
@@ -428,9 +426,9 @@ step_done(struct store *s, sqlite3_stmt *q, char **cause, const char *what)
 	return rc == SQLITE_DONE ? 0 : store_fail(s, rc, cause, what);
 }
 
-static int
-rev_insert(struct store *s, long long bench, int no, const char *now, const char *author,
-    const char *note, const struct state *st, char **cause)
+int
+store_rev_insert(struct store *s, long long bench, int no, const char *now, const char *author,
+    const char *note, const struct store_state *st, char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_REV_INSERT, cause);
 
@@ -444,13 +442,13 @@ rev_insert(struct store *s, long long bench, int no, const char *now, const char
 	sqlite3_bind_int64(q, 6, st->head);
 	store_bind_text(q, 7, st->layout);
 	store_bind_text(q, 8, st->parts);
-	if (step_done(s, q, cause, "storing a setup") != 0)
+	if (store_step_done(s, q, cause, "storing a setup") != 0)
 		return -1;
 	return pin(s, st, cause);
 }
 
-static int
-draft_set(struct store *s, long long bench, const struct state *st, int base,
+int
+store_draft_set(struct store *s, long long bench, const struct store_state *st, int base,
     const char *now, char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_BENCH_SET_DRAFT, cause);
@@ -463,7 +461,7 @@ draft_set(struct store *s, long long bench, const struct state *st, int base,
 	store_bind_text(q, 4, st->parts);
 	sqlite3_bind_int(q, 5, base);
 	store_bind_text(q, 6, now);
-	return step_done(s, q, cause, "saving the draft");
+	return store_step_done(s, q, cause, "saving the draft");
 }
 
 int
@@ -471,11 +469,11 @@ store_gc_drafts(struct store *s, char **cause)
 {
 	sqlite3_stmt *q = store_q(s, Q_GC_ELEMENTS, cause);
 
-	if (q == NULL || step_done(s, q, cause, "dropping unused records") != 0)
+	if (q == NULL || store_step_done(s, q, cause, "dropping unused records") != 0)
 		return -1;
 	if ((q = store_q(s, Q_GC_HEADS, cause)) == NULL)
 		return -1;
-	return step_done(s, q, cause, "dropping unused records");
+	return store_step_done(s, q, cause, "dropping unused records");
 }
 
 int
@@ -490,98 +488,26 @@ store_gc_full(struct store *s, char **cause)
 	return store_gc_drafts(s, cause);
 }
 
-/* ---- revisions by name ---- */
-
-/* A setup number: "2" or "#2"; "r2" as well, the older spelling, which
- * callers that still use it (and old notes) may pass. */
-static int
-is_rev_number(const char *rev, int *no)
-{
-	const char *p = rev;
-	char *end;
-	long v;
-
-	if (*p == '#' || *p == 'r')
-		p++;
-	if (*p < '0' || *p > '9')
-		return 0;
-	v = strtol(p, &end, 10);
-	if (*end != '\0')
-		return 0;
-	*no = v > 0 && v < 1000000000L ? (int)v : -1;
-	return 1;
-}
-
-static int
-resolve(struct store *s, long long bench, const char *name, const char *rev, int *no,
-    char **cause)
-{
-	sqlite3_stmt *q;
-	int latest, rc;
-
-	if (rev == NULL || strcmp(rev, "draft") == 0) {
-		*no = 0;
-		return 0;
-	}
-	if (rev_latest(s, bench, &latest, NULL, cause) != 0)
-		return -1;
-	if (is_rev_number(rev, no)) {
-		if (*no < 1 || *no > latest) {
-			if (latest == 0)
-				return fail_with(cause, "bench '%s' has no setup '%s' (none "
-				    "recorded yet)", name, rev);
-			return fail_with(cause, "bench '%s' has no setup '%s' (#1 to #%d)", name,
-			    rev, latest);
-		}
-		return 0;
-	}
-	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
-		return -1;
-	sqlite3_bind_int64(q, 1, bench);
-	store_bind_text(q, 2, rev);
-	rc = sqlite3_step(q);
-	if (rc == SQLITE_ROW)
-		*no = sqlite3_column_int(q, 0);
-	store_q_done(q);
-	if (rc == SQLITE_ROW)
-		return 0;
-	if (rc != SQLITE_DONE)
-		return store_fail(s, rc, cause, "finding a setup's name");
-	return fail_with(cause, "bench '%s' has no setup named '%s' (a setup is its number, "
-	    "like 2 or #2, a name given with mark, or draft)", name, rev);
-}
-
-int
-store_resolve_rev(struct store *s, const char *name, const char *rev, int *rev_no,
-    char **cause)
-{
-	long long id = store_bench_id(s, name, cause);
-
-	if (id == 0)
-		return -1;
-	return resolve(s, id, name, rev, rev_no, cause);
-}
-
 /* The state of bench `name` at rev; returns the bench id or 0. */
 static long long
-state_at(struct store *s, const char *name, const char *rev, int *no, struct state *st,
+state_at(struct store *s, const char *name, const char *rev, int *no, struct store_state *st,
     int *base, char **cause)
 {
-	long long id = draft_get(s, name, st, base, cause);
+	long long id = store_draft_get(s, name, st, base, cause);
 	int n, rc;
 
 	if (id == 0)
 		return 0;
-	if (resolve(s, id, name, rev, &n, cause) != 0) {
-		state_release(st);
+	if (store_resolve(s, id, name, rev, &n, cause) != 0) {
+		store_state_release(st);
 		return 0;
 	}
 	if (no != NULL)
 		*no = n;
 	if (n == 0)
 		return id;
-	state_release(st);
-	rc = rev_get(s, id, n, st, cause);
+	store_state_release(st);
+	rc = store_rev_get(s, id, n, st, cause);
 	if (rc <= 0) {
 		if (rc == 0)
 			fail_with(cause, "bench '%s': setup #%d is missing", name, n);
@@ -611,10 +537,10 @@ store_benches(struct store *s, struct store_bench_row **rows, size_t *n, char **
 			*rows = xreallocarray(*rows, cap, sizeof **rows);
 		}
 		r = &(*rows)[(*n)++];
-		r->name = col_text(q, 0);
+		r->name = store_col_text(q, 0);
 		r->latest_rev = sqlite3_column_int(q, 1);
 		r->draft_changed = sqlite3_column_int(q, 2) != 0;
-		r->updated = col_text(q, 3);
+		r->updated = store_col_text(q, 3);
 	}
 	store_q_done(q);
 	if (rc != SQLITE_DONE) {
@@ -641,7 +567,7 @@ static int name_free(struct store *, const char *name, char **cause);
 /* A new bench row with the draft set to st, and setup #1 too unless note
  * is NULL (then the first record makes #1). */
 static int
-create_from_state(struct store *s, const char *name, struct state *st, const char *note,
+create_from_state(struct store *s, const char *name, struct store_state *st, const char *note,
     const char *author, char **cause)
 {
 	sqlite3_stmt *q;
@@ -664,10 +590,10 @@ create_from_state(struct store *s, const char *name, struct state *st, const cha
 	store_bind_text(q, 4, st->layout);
 	store_bind_text(q, 5, st->parts);
 	sqlite3_bind_int(q, 6, note != NULL ? 1 : 0);
-	rc = step_done(s, q, cause, "creating a bench");
+	rc = store_step_done(s, q, cause, "creating a bench");
 	id = sqlite3_last_insert_rowid(s->db);
 	if (rc == 0 && note != NULL)
-		rc = rev_insert(s, id, 1, now, author, note, st, cause);
+		rc = store_rev_insert(s, id, 1, now, author, note, st, cause);
 	free(now);
 	return rc;
 }
@@ -676,7 +602,7 @@ int
 store_bench_create(struct store *s, const struct bench *b, const char *note,
     const char *author, char **cause)
 {
-	struct state st = { 0, NULL, NULL };
+	struct store_state st = { 0, NULL, NULL };
 	int rc;
 
 	if (b->name == NULL || b->name[0] == '\0')
@@ -692,7 +618,7 @@ store_bench_create(struct store *s, const struct bench *b, const char *note,
 		rc = -1;
 	if (rc == 0)
 		rc = create_from_state(s, b->name, &st, note, author, cause);
-	state_release(&st);
+	store_state_release(&st);
 	return store_tx_end(s, rc, cause);
 }
 
@@ -708,7 +634,7 @@ store_bench_delete(struct store *s, const char *name, char **cause)
 	id = store_bench_id(s, name, cause);
 	if (id != 0 && (q = store_q(s, Q_BENCH_DELETE, cause)) != NULL) {
 		sqlite3_bind_int64(q, 1, id);
-		rc = step_done(s, q, cause, "deleting a bench");
+		rc = store_step_done(s, q, cause, "deleting a bench");
 	}
 	if (rc == 0)
 		rc = store_gc_full(s, cause);
@@ -719,14 +645,14 @@ struct bench *
 store_bench_load(struct store *s, const char *name, const char *rev, int *rev_no,
     char **cause)
 {
-	struct state st = { 0, NULL, NULL };
+	struct store_state st = { 0, NULL, NULL };
 	struct bench *b = NULL;
 	int began = store_read_begin(s);
 
 	if (state_at(s, name, rev, rev_no, &st, NULL, cause) != 0)
 		b = state_load(s, name, &st, cause);
 	store_read_end(s, began);
-	state_release(&st);
+	store_state_release(&st);
 	return b;
 }
 
@@ -734,7 +660,7 @@ int
 store_draft_save(struct store *s, const char *name, const struct bench *draft,
     char **cause)
 {
-	struct state old = { 0, NULL, NULL }, st = { 0, NULL, NULL };
+	struct store_state old = { 0, NULL, NULL }, st = { 0, NULL, NULL };
 	char *now = NULL;
 	long long id;
 	int base = 0, rc = -1;
@@ -746,234 +672,21 @@ store_draft_save(struct store *s, const char *name, const struct bench *draft,
 		return -1;
 	if (store_tx_begin(s, cause) != 0)
 		return -1;
-	id = draft_get(s, name, &old, &base, cause);
+	id = store_draft_get(s, name, &old, &base, cause);
 	if (id != 0 && state_of(s, draft, &st, cause) == 0 &&
 	    (st.parts = store_parts_snapshot(s, draft, old.parts, cause)) != NULL) {
-		if (state_equal(&st, &old) && strcmp(st.parts, old.parts) == 0) {
+		if (store_state_equal(&st, &old) && strcmp(st.parts, old.parts) == 0) {
 			rc = 0;
 		} else {
 			now = store_now();
-			rc = draft_set(s, id, &st, base, now, cause);
+			rc = store_draft_set(s, id, &st, base, now, cause);
 			if (rc == 0)
 				rc = store_gc_drafts(s, cause);
 		}
 	}
 	free(now);
-	state_release(&old);
-	state_release(&st);
-	return store_tx_end(s, rc, cause);
-}
-
-int
-store_draft_changed(struct store *s, const char *name, int *changed, char **cause)
-{
-	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
-	long long id = draft_get(s, name, &d, NULL, cause);
-	int no = 0, rc = -1;
-
-	if (id != 0 && rev_latest(s, id, &no, &r, cause) == 0) {
-		*changed = no == 0 || !state_equal(&d, &r);
-		rc = 0;
-	}
-	state_release(&d);
-	state_release(&r);
-	return rc;
-}
-
-int
-store_commit(struct store *s, const char *name, const char *note, const char *author,
-    int *rev_no, char **cause)
-{
-	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
-	char *now = NULL;
-	long long id;
-	int no = 0, rc = -1;
-
-	if (!utf8_valid(note) || !utf8_valid(author))
-		return fail_with(cause, "note or author: not valid UTF-8 text");
-	if (store_tx_begin(s, cause) != 0)
-		return -1;
-	id = draft_get(s, name, &d, NULL, cause);
-	if (id != 0 && rev_latest(s, id, &no, &r, cause) == 0) {
-		if (no > 0 && state_equal(&d, &r)) {
-			fail_with(cause, "bench '%s': nothing to record (draft = #%d)",
-			    name, no);
-		} else {
-			now = store_now();
-			rc = rev_insert(s, id, no + 1, now, author, note, &d, cause);
-			if (rc == 0)
-				rc = draft_set(s, id, &d, no + 1, now, cause);
-		}
-	}
-	free(now);
-	state_release(&d);
-	state_release(&r);
-	rc = store_tx_end(s, rc, cause);
-	if (rc == 0 && rev_no != NULL)
-		*rev_no = no + 1;
-	return rc;
-}
-
-int
-store_log(struct store *s, const char *name, struct store_rev **revs, size_t *n,
-    char **cause)
-{
-	long long id = store_bench_id(s, name, cause);
-	sqlite3_stmt *q;
-	size_t cap = 0;
-	int rc;
-
-	*revs = NULL;
-	*n = 0;
-	if (id == 0 || (q = store_q(s, Q_REV_LOG, cause)) == NULL)
-		return -1;
-	sqlite3_bind_int64(q, 1, id);
-	while ((rc = sqlite3_step(q)) == SQLITE_ROW) {
-		struct store_rev *r;
-
-		if (*n == cap) {
-			cap = cap ? 2 * cap : 64;
-			*revs = xreallocarray(*revs, cap, sizeof **revs);
-		}
-		r = &(*revs)[(*n)++];
-		r->no = sqlite3_column_int(q, 0);
-		r->time = col_text(q, 1);
-		r->author = col_text(q, 2);
-		r->note = col_text(q, 3);
-		r->labels = col_text(q, 4);
-	}
-	store_q_done(q);
-	if (rc != SQLITE_DONE) {
-		store_revs_free(*revs, *n);
-		*revs = NULL;
-		*n = 0;
-		return store_fail(s, rc, cause, "reading the history");
-	}
-	return 0;
-}
-
-void
-store_revs_free(struct store_rev *revs, size_t n)
-{
-	for (size_t i = 0; i < n; i++) {
-		free(revs[i].time);
-		free(revs[i].author);
-		free(revs[i].note);
-		free(revs[i].labels);
-	}
-	free(revs);
-}
-
-int
-store_label(struct store *s, const char *name, const char *rev, const char *label,
-    char **cause)
-{
-	sqlite3_stmt *q;
-	char *now;
-	long long id;
-	int no, other, rc;
-
-	if (label == NULL || label[0] == '\0')
-		return fail_with(cause, "a setup's name must not be empty");
-	if (strcmp(label, "draft") == 0 || is_rev_number(label, &other))
-		return fail_with(cause, "name '%s' would read as a setup number; choose "
-		    "another name", label);
-	if (!utf8_valid(label))
-		return fail_with(cause, "a setup's name must be UTF-8 text");
-	for (const char *p = label; *p != '\0'; p++)
-		if (*p == '@' || (unsigned char)*p < 0x20 || *p == 0x7f)
-			return fail_with(cause, "name '%s': '@' and control characters "
-			    "are not allowed in a setup's name", label);
-	if (store_tx_begin(s, cause) != 0)
-		return -1;
-	if ((id = store_bench_id(s, name, cause)) == 0 ||
-	    resolve(s, id, name, rev, &no, cause) != 0)
-		return store_tx_end(s, -1, cause);
-	if (no == 0) {
-		fail_with(cause, "bench '%s': a name marks a setup, not the draft; "
-		    "record it first", name);
-		return store_tx_end(s, -1, cause);
-	}
-	if ((q = store_q(s, Q_LABEL_FIND, cause)) == NULL)
-		return store_tx_end(s, -1, cause);
-	sqlite3_bind_int64(q, 1, id);
-	store_bind_text(q, 2, label);
-	rc = sqlite3_step(q);
-	other = rc == SQLITE_ROW ? sqlite3_column_int(q, 0) : 0;
-	store_q_done(q);
-	if (rc == SQLITE_ROW) {
-		if (other == no)
-			return store_tx_end(s, 0, cause);
-		fail_with(cause, "bench '%s': name '%s' already marks #%d", name, label, other);
-		return store_tx_end(s, -1, cause);
-	}
-	if (rc != SQLITE_DONE) {
-		store_fail(s, rc, cause, "finding a setup's name");
-		return store_tx_end(s, -1, cause);
-	}
-	if ((q = store_q(s, Q_LABEL_INSERT, cause)) == NULL)
-		return store_tx_end(s, -1, cause);
-	now = store_now();
-	sqlite3_bind_int64(q, 1, id);
-	store_bind_text(q, 2, label);
-	sqlite3_bind_int(q, 3, no);
-	store_bind_text(q, 4, now);
-	free(now);
-	rc = step_done(s, q, cause, "storing a setup's name");
-	return store_tx_end(s, rc, cause);
-}
-
-int
-store_restore(struct store *s, const char *name, const char *rev, int force,
-    char **cause)
-{
-	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL }, b = { 0, NULL, NULL };
-	char *now = NULL;
-	long long id;
-	int base = 0, no = 0, latest = 0, rc = -1;
-
-	if (store_tx_begin(s, cause) != 0)
-		return -1;
-	id = draft_get(s, name, &d, &base, cause);
-	if (id == 0 || resolve(s, id, name, rev, &no, cause) != 0)
-		goto done;
-	if (no == 0) {
-		fail_with(cause, "bench '%s': reinstate takes a setup (its number or name), "
-		    "not the draft", name);
-		goto done;
-	}
-	if (!force) {
-		int saved = 0;
-
-		if (base > 0 && rev_get(s, id, base, &b, cause) > 0)
-			saved = state_equal(&d, &b);
-		state_release(&b);
-		if (!saved && rev_latest(s, id, &latest, &b, cause) == 0)
-			saved = latest > 0 && state_equal(&d, &b);
-		if (!saved) {
-			if (base > 0)
-				fail_with(cause, "bench '%s': draft: changed since #%d, not "
-				    "recorded; record it, or reinstate with --force to drop "
-				    "the changes", name, base);
-			else
-				fail_with(cause, "bench '%s': draft: not recorded; record it, "
-				    "or reinstate with --force to drop it", name);
-			goto done;
-		}
-	}
-	if (rev_get(s, id, no, &r, cause) <= 0) {
-		fail_with(cause, "bench '%s': setup #%d is missing", name, no);
-		goto done;
-	}
-	now = store_now();
-	rc = draft_set(s, id, &r, no, now, cause);
-	if (rc == 0)
-		rc = store_gc_drafts(s, cause);
-done:
-	free(now);
-	state_release(&d);
-	state_release(&r);
-	state_release(&b);
+	store_state_release(&old);
+	store_state_release(&st);
 	return store_tx_end(s, rc, cause);
 }
 
@@ -981,7 +694,7 @@ int
 store_clone(struct store *s, const char *name, const char *rev, const char *newname,
     const char *author, char **cause)
 {
-	struct state st = { 0, NULL, NULL };
+	struct store_state st = { 0, NULL, NULL };
 	char *note;
 	int no = 0, rc = -1;
 
@@ -993,41 +706,8 @@ store_clone(struct store *s, const char *name, const char *rev, const char *newn
 		rc = create_from_state(s, newname, &st, note, author, cause);
 		free(note);
 	}
-	state_release(&st);
+	store_state_release(&st);
 	return store_tx_end(s, rc, cause);
-}
-
-int
-store_draft_status(struct store *s, const char *name, struct store_draft_status *ds,
-    char **cause)
-{
-	struct state d = { 0, NULL, NULL }, r = { 0, NULL, NULL };
-	int began = store_read_begin(s), rc = -1;
-	long long id;
-
-	memset(ds, 0, sizeof *ds);
-	id = draft_get(s, name, &d, &ds->base, cause);
-	if (id == 0 || rev_latest(s, id, &ds->latest, NULL, cause) != 0)
-		goto done;
-	if (ds->base > 0 && ds->base <= ds->latest) {
-		if (rev_get(s, id, ds->base, &r, cause) < 0)
-			goto done;
-		if (r.layout != NULL && state_equal(&d, &r))
-			ds->same_as = ds->base;
-		state_release(&r);
-	}
-	if (ds->same_as == 0 && ds->latest > 0 && ds->latest != ds->base) {
-		if (rev_get(s, id, ds->latest, &r, cause) < 0)
-			goto done;
-		if (r.layout != NULL && state_equal(&d, &r))
-			ds->same_as = ds->latest;
-	}
-	rc = 0;
-done:
-	state_release(&d);
-	state_release(&r);
-	store_read_end(s, began);
-	return rc;
 }
 
 /* The rules of create_from_state for a name, and that it is free. */
@@ -1127,7 +807,7 @@ int
 store_bench_parts(struct store *s, const char *name, const char *rev,
     struct store_part_ref **refs, size_t *n, char **cause)
 {
-	struct state st = { 0, NULL, NULL };
+	struct store_state st = { 0, NULL, NULL };
 	sqlite3_stmt *q = NULL;
 	json_t *map = NULL, *v;
 	const char *pname;
@@ -1177,7 +857,7 @@ done:
 	}
 	sqlite3_finalize(q);
 	json_decref(map);
-	state_release(&st);
+	store_state_release(&st);
 	return rc;
 }
 

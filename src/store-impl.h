@@ -72,6 +72,40 @@ int           store_gc_drafts(struct store *, char **cause);
 /* The bench row id for a name; 0 with *cause "bench 'x' not found". */
 long long     store_bench_id(struct store *, const char *name, char **cause);
 
+/* ---- what store-bench.c and store-setup.c share ---- */
+
+/* One stored state: the head record, the layout text and the parts map. */
+struct store_state {
+	long long head;
+	char     *layout;           /* owned */
+	char     *parts;            /* owned */
+};
+void          store_state_release(struct store_state *);
+int           store_state_equal(const struct store_state *, const struct store_state *);
+/* Column i as an allocated string ("" for NULL; caller frees). */
+char         *store_col_text(sqlite3_stmt *, int i);
+/* Steps q once and resets it: 0 when done, -1 with *cause (what failed). */
+int           store_step_done(struct store *, sqlite3_stmt *q, char **cause, const char *what);
+/* The draft of a bench into st; *base (may be NULL) gets draft_base.
+ * Returns the bench id, 0 with *cause. */
+long long     store_draft_get(struct store *, const char *name, struct store_state *st,
+                  int *base, char **cause);
+/* Setup `no` of a bench: 1 found, 0 missing, -1 error. */
+int           store_rev_get(struct store *, long long bench, int no, struct store_state *st,
+                  char **cause);
+/* The latest setup number (0: none) and, st not NULL, its state. */
+int           store_rev_latest(struct store *, long long bench, int *no,
+                  struct store_state *st, char **cause);
+int           store_rev_insert(struct store *, long long bench, int no, const char *now,
+                  const char *author, const char *note, const struct store_state *st,
+                  char **cause);
+int           store_draft_set(struct store *, long long bench, const struct store_state *st,
+                  int base, const char *now, char **cause);
+/* A setup reference of bench `bench` (named name, for messages) to its
+ * number; "draft" and NULL give 0. */
+int           store_resolve(struct store *, long long bench, const char *name,
+                  const char *rev, int *no, char **cause);
+
 /* Part-shelf snapshot for a draft: {"name": version, ...} (caller frees);
  * names already in old_parts keep their version. */
 char         *store_parts_snapshot(struct store *, const struct bench *,

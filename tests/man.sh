@@ -46,7 +46,11 @@ done
 # manual (`.Cm label` alone is the element key, so only `.It Cm label` and
 # "beamledger label" count); English ("shows", "diffuse") does not.
 RETIRED='commit|log|diff|clone|restore|label|show'
-help_text=$("$BEAMLEDGER" --help)
+# --help and every command's own --help
+help_text=$("$BEAMLEDGER" --help
+	for c in $("$BEAMLEDGER" --help | sed -n 's/^  \([a-z][a-z]*\) .*/\1/p; s/^  \([a-z][a-z]*\)$/\1/p'); do
+		"$BEAMLEDGER" "$c" --help || echo "$c --help failed"
+	done)
 retired() {     # WHERE TEXT: prints the offending lines
 	printf '%s\n' "$2" | grep -nE \
 		-e "beamledger( +--?[a-z-]+(=[^ ]*)?( +[^- ][^ ]*)?)* +($RETIRED)( |\$|')" \
