@@ -16,6 +16,13 @@
 
 static void dump_element(struct buf *, json_t *, int);
 
+/* RFC 8259 §8.1 lets a parser ignore a leading byte-order mark. */
+static size_t
+bom_len(const char *text, size_t len)
+{
+	return len >= 3 && memcmp(text, "\xef\xbb\xbf", 3) == 0 ? 3 : 0;
+}
+
 static const char *
 json_kind(const json_t *v)
 {
@@ -31,6 +38,15 @@ json_kind(const json_t *v)
 	}
 }
 
+/* A JSON number; -0 is 0 (one value, one text, one record). */
+static double
+num_value(const json_t *v)
+{
+	double x = json_number_value(v);
+
+	return x == 0 ? 0.0 : x;
+}
+
 /* A quantity: a JSON number in SI, or a string with a unit. */
 static int
 get_quantity(json_t *v, enum unit_dim dim, double *out, const char *what, char **cause)
@@ -38,7 +54,7 @@ get_quantity(json_t *v, enum unit_dim dim, double *out, const char *what, char *
 	char *why = NULL;
 
 	if (json_is_number(v)) {
-		*out = json_number_value(v);
+		*out = num_value(v);
 		return 0;
 	}
 	if (!json_is_string(v))
@@ -58,7 +74,7 @@ get_number(json_t *v, double *out, const char *what, char **cause)
 	if (!json_is_number(v))
 		return fail_with(cause, "%s: expected a plain number, got %s", what,
 		    json_kind(v));
-	*out = json_number_value(v);
+	*out = num_value(v);
 	return 0;
 }
 
@@ -357,7 +373,7 @@ read_source(json_t *obj, struct source *s, char **cause)
 		} else if (strcmp(key, "polarization") == 0) {
 			if (json_is_number(v)) {
 				s->pol = POL_LINEAR;
-				s->pol_angle_deg = json_number_value(v);
+				s->pol_angle_deg = num_value(v);
 			} else if (json_is_string(v) && strcmp(json_string_value(v), "circular") == 0) {
 				s->pol = POL_CIRCULAR;
 			} else if (json_is_string(v) && strcmp(json_string_value(v), "unpolarized") == 0) {
@@ -444,8 +460,14 @@ bench_file_parse(const char *text, size_t len, const char *where, char **cause)
 	json_error_t jerr;
 	json_t *root, *path;
 	struct bench *b;
+	size_t skip = bom_len(text, len);
 
-	root = json_loadb(text, len, JSON_REJECT_DUPLICATES, &jerr);
+	if (len > BENCH_FILE_MAX) {
+		fail_with(cause, "%s: larger than %d MiB, the most a bench file "
+		    "may be; refused", where, BENCH_FILE_MAX >> 20);
+		return NULL;
+	}
+	root = json_loadb(text + skip, len - skip, JSON_REJECT_DUPLICATES, &jerr);
 	if (root == NULL) {
 		fail_with(cause, "%s:%d:%d: not valid JSON: %s", where, jerr.line,
 		    jerr.column, jerr.text);
@@ -477,18 +499,30 @@ bad:
 char *
 bench_slurp(const char *path, size_t *len, char **cause)
 {
-	FILE *f = strcmp(path, "-") == 0 ? stdin : fopen(path, "rb");
+	int is_stdin = strcmp(path, "-") == 0;
+	const char *shown = is_stdin ? "<stdin>" : path;
+	FILE *f = is_stdin ? stdin : fopen(path, "rb");
 	struct buf b;
 	char chunk[65536];
-	size_t n;
+	size_t n, skip;
 
 	if (f == NULL) {
 		fail_with(cause, "%s: %s", path, strerror(errno));
 		return NULL;
 	}
 	buf_init(&b);
-	while ((n = fread(chunk, 1, sizeof chunk, f)) > 0)
+	while ((n = fread(chunk, 1, sizeof chunk, f)) > 0) {
+		if (n > BENCH_FILE_MAX - b.len) {
+			/* refused before it is all read: /dev/zero never ends */
+			fail_with(cause, "%s: larger than %d MiB, the most a bench "
+			    "file may be; refused", shown, BENCH_FILE_MAX >> 20);
+			if (f != stdin)
+				fclose(f);
+			buf_release(&b);
+			return NULL;
+		}
 		buf_addn(&b, chunk, n);
+	}
 	if (ferror(f)) {
 		fail_with(cause, "%s: %s", path, strerror(errno));
 		if (f != stdin)
@@ -498,6 +532,10 @@ bench_slurp(const char *path, size_t *len, char **cause)
 	}
 	if (f != stdin)
 		fclose(f);
+	if ((skip = bom_len(b.s, b.len)) != 0) {
+		memmove(b.s, b.s + skip, b.len - skip + 1);
+		b.len -= skip;
+	}
 	*len = b.len;
 	return buf_take(&b);
 }
@@ -635,6 +673,7 @@ quantity_text(double v, enum unit_dim dim, int wavelength)
 
 	if (u == NULL || !isfinite(v))
 		return NULL;
+	v = v == 0 ? 0.0 : v;           /* -0 is 0: one value, one text */
 	pick = &u[0];
 	if (v == 0) {
 		/* zero reads as zero in any unit; the base one reads plainest */
@@ -643,7 +682,7 @@ quantity_text(double v, enum unit_dim dim, int wavelength)
 			    ((dim == DIM_IRRADIANCE || dim == DIM_FLUENCE) && s->exp10 == 4))
 				pick = s;
 		buf_init(&b);
-		buf_printf(&b, "%s %s", signbit(v) ? "-0" : "0", pick->name);
+		buf_printf(&b, "0 %s", pick->name);
 	} else {
 		n = shortest_digits(v, digits, &last);
 		mag = last + n - 1;             /* 10^mag <= |v| < 10^(mag+1) */
@@ -670,7 +709,7 @@ quantity_json(double v, enum unit_dim dim, int wavelength, int units)
 	json_t *j;
 
 	if (t == NULL)
-		return json_real(v);
+		return json_real(v == 0 ? 0.0 : v);
 	j = json_string(t);
 	free(t);
 	return j;

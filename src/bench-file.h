@@ -15,7 +15,12 @@
 
 #include "core-model.h"
 
-/* Parses text; `where` (file name or "-") prefixes every message.
+/* The largest bench file read, in bytes (64 MiB: about ten times a bench
+ * of 10^5 elements).  Larger input, /dev/zero included, is refused as soon
+ * as this much has been read. */
+#define BENCH_FILE_MAX  (64 << 20)
+
+/* Parses text (a leading UTF-8 byte-order mark is skipped); `where` (file name or "-") prefixes every message.
  * Returns a validated bench, or NULL with *cause set. */
 struct bench *bench_file_parse(const char *text, size_t len, const char *where,
                   char **cause);                          /* caller frees */
@@ -34,7 +39,8 @@ json_t       *bench_element_to_json(const struct element *, int with_branch); /*
 /* The source and top-level settings without the path. */
 json_t       *bench_head_to_json(const struct bench *);  /* caller decrefs */
 int           bench_head_from_json(json_t *obj, struct bench *, char **cause);
-/* Reads a whole file into memory (NUL-terminated). */
+/* Reads a whole file into memory (NUL-terminated), at most BENCH_FILE_MAX
+ * bytes, without a leading byte-order mark. */
 char         *bench_slurp(const char *path, size_t *len, char **cause);   /* caller frees */
 
 #endif

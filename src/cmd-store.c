@@ -523,7 +523,12 @@ cmd_chain(struct cmd_ctx *ctx, int argc, char **argv)
 	src = report_source_line(b, 0);
 	buf_printf(&out, "Source: %s\n", src);
 	free(src);
-	buf_printf(&out, "Safety factor %.17g; air breakdown ", b->safety_factor);
+	{
+		char sf[40];
+
+		units_format_shortest(sf, sizeof sf, b->safety_factor, DIM_NONE, 1);
+		buf_printf(&out, "Safety factor %s; air breakdown ", sf);
+	}
 	{
 		char *ab = diff_value_show(b->air_breakdown, DIM_IRRADIANCE, 0);
 

@@ -27,9 +27,14 @@ cmd_trace_print(const struct bench *b, enum report_format fmt,
     const struct report_opts *o)
 {
 	struct trace *t = trace_run(b);
-	char *text;
+	char *text, *cause = NULL;
 	int rc, over = 0;
 
+	if (trace_check(t, &cause) != 0) {
+		cause_prefix(&cause, "bench '%s'", b->name);
+		trace_free(t);
+		return cmd_fail(cause);
+	}
 	for (size_t i = 0; i < t->nrows; i++)
 		if (t->rows[i].status == STATUS_OVER)
 			over = 1;

@@ -213,12 +213,24 @@ side_release(struct side *sd)
 
 /* ---- building the diff ---- */
 
+/* Room for one more item in an array of n with room for *cap: doubling,
+ * so n appends copy O(n) items in all.  One at a time, a reversed
+ * 20,000-element chain took seconds under AddressSanitizer. */
+static void *
+grow(void *p, size_t n, size_t *cap, size_t size)
+{
+	if (n < *cap)
+		return p;
+	*cap = n < 4 ? 8 : 2 * n;     /* from n, not *cap: a hand-built diff has none */
+	return xreallocarray(p, *cap, size);
+}
+
 static struct diff_change *
 change_new(struct diff *d, enum diff_kind kind, const char *id, enum elem_type type)
 {
 	struct diff_change *c;
 
-	d->ch = xreallocarray(d->ch, d->nch + 1, sizeof *d->ch);
+	d->ch = grow(d->ch, d->nch, &d->capch, sizeof *d->ch);
 	c = &d->ch[d->nch++];
 	memset(c, 0, sizeof *c);
 	c->kind = kind;
@@ -233,7 +245,7 @@ value_add(struct diff_change *c, const char *key, char *ot, char *nt, char *oe, 
 {
 	struct diff_value *v;
 
-	c->vals = xreallocarray(c->vals, c->nvals + 1, sizeof *c->vals);
+	c->vals = grow(c->vals, c->nvals, &c->capvals, sizeof *c->vals);
 	v = &c->vals[c->nvals++];
 	v->key = xstrdup(key);
 	v->old_text = ot;
@@ -551,7 +563,7 @@ effect_add(struct diff *d, const struct trace_row *ra, const struct trace_row *r
 	if (ra != NULL && rb != NULL && isnan(ra->ratio) && isnan(rb->ratio) &&
 	    ra->status == rb->status && !model_type_is_terminator(r->el->type))
 		return;
-	d->fx = xreallocarray(d->fx, d->nfx + 1, sizeof *d->fx);
+	d->fx = grow(d->fx, d->nfx, &d->capfx, sizeof *d->fx);
 	fx = &d->fx[d->nfx++];
 	memset(fx, 0, sizeof *fx);
 	fx->id = xstrdup(r->el->id);

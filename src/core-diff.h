@@ -53,7 +53,7 @@ struct diff_change {
 	enum elem_type     type;        /* the new type (the old one when removed) */
 	struct diff_place  old_at, new_at;
 	struct diff_value *vals;        /* owned; added/removed: every value it has */
-	size_t             nvals;
+	size_t             nvals, capvals;
 };
 
 /* Results on the two sides: [0] old, [1] new.  NAN where absent or not
@@ -71,9 +71,9 @@ struct diff_effect {
 
 struct diff {
 	struct diff_change *ch;         /* owned, chain order (new side first) */
-	size_t              nch;
+	size_t              nch, capch;
 	struct diff_effect *fx;         /* owned, new path order, then removed ones */
-	size_t              nfx;
+	size_t              nfx, capfx;
 	int                 traced;     /* fx and the fields below are filled */
 	int                 pulsed[2];
 	char               *worst_id[2];        /* owned, NULL: nothing rated */

@@ -487,8 +487,10 @@ edit_bench_value(const struct bench *b, const char *key)
 		return xstrdup(b->name);
 	if (strcmp(key, "notes") == 0)
 		return xstrdup(b->notes != NULL ? b->notes : "");
-	if (strcmp(key, "safety_factor") == 0)
-		return xasprintf("%.17g", b->safety_factor);
+	if (strcmp(key, "safety_factor") == 0) {
+		units_format_shortest(t1, sizeof t1, b->safety_factor, DIM_NONE, 1);
+		return xstrdup(t1);
+	}
 	if (strcmp(key, "source.pulsed") == 0)
 		return xstrdup(s->pulsed ? "true" : "false");
 	if (!s->pulsed && (strcmp(key, "source.pulse_energy") == 0 ||
@@ -509,12 +511,16 @@ edit_bench_value(const struct bench *b, const char *key)
 		units_format_exact(t2, sizeof t2, s->waist[1], DIM_LENGTH);
 		return xasprintf("%s, %s", t1, t2);
 	}
-	if (strcmp(key, "source.m2") == 0)
-		return s->m2_pair ? xasprintf("%.17g, %.17g", s->m2[0], s->m2[1]) :
-		    xasprintf("%.17g", s->m2[0]);
-	if (strcmp(key, "source.polarization") == 0)
+	/* as typed: the shortest text that reads back (1.1, not 1.1000000000000001) */
+	if (strcmp(key, "source.m2") == 0) {
+		units_format_shortest(t1, sizeof t1, s->m2[0], DIM_NONE, 1);
+		units_format_shortest(t2, sizeof t2, s->m2[1], DIM_NONE, 1);
+		return s->m2_pair ? xasprintf("%s, %s", t1, t2) : xstrdup(t1);
+	}
+	if (strcmp(key, "source.polarization") == 0) {
+		units_format_shortest(t1, sizeof t1, s->pol_angle_deg, DIM_NONE, 1);
 		return s->pol == POL_CIRCULAR ? xstrdup("circular") :
-		    s->pol == POL_UNPOLARIZED ? xstrdup("unpolarized") :
-		    xasprintf("%.17g", s->pol_angle_deg);
+		    s->pol == POL_UNPOLARIZED ? xstrdup("unpolarized") : xstrdup(t1);
+	}
 	return xstrdup("");
 }

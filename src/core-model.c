@@ -22,9 +22,15 @@
 #define TERMINATORS (EL_BIT(EL_DUMP) | EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
 
 /* Ranges: angles of incidence stay below grazing; polarizer and waveplate
- * angles are any orientation. */
+ * angles are any orientation (within ±360°).  Everything else is held to
+ * what a bench can hold (beamledger-bench(5), RANGES): lengths, radii and
+ * apertures 1 nm .. 1 km, n2 up to 1e-5 cm²/W, index 1 .. 10, od up to 20,
+ * power ratings 1 fW .. 1 GW, damage ratings 1 mW/cm .. 10 GW/cm,
+ * 1 mW/cm² .. 1 PW/cm², 1 µJ/cm² .. 1 MJ/cm², measured at 10 nm .. 1 mm and
+ * 1 as .. 1 s.  Beyond these a trace would only multiply round-off into
+ * infinities; the bounds are far outside any real part. */
 const struct model_key_def model_keys[K_COUNT] = {
-	[K_LENGTH] = { "length", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 0, 1, 0,
+	[K_LENGTH] = { "length", KIND_QUANTITY, DIM_LENGTH, 0, 1e3, 0, 0, 0,
 	    EL_BIT(EL_SPACE), NAN, "free-space gap length" },
 	[K_REFLECTANCE] = { "reflectance", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "power reflectance, 0..1" },
@@ -36,50 +42,50 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    EL_BIT(EL_SPLITTER), NAN, "p-polarized power transmittance" },
 	[K_TS] = { "ts", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_SPLITTER), NAN, "s-polarized power transmittance" },
-	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -INFINITY, INFINITY, 1, 1, 1,
-	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat" },
+	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat", 1e-9 },
 	[K_AOI] = { "aoi", KIND_ANGLE, DIM_NONE, 0, 90, 0, 1, 0,
 	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "angle of incidence, degrees" },
-	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -INFINITY, INFINITY, 1, 1, 1,
-	    EL_BIT(EL_LENS), NAN, "focal length, - diverging" },
+	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_LENS), NAN, "focal length, - diverging", 1e-9 },
 	[K_AXIS] = { "axis", KIND_AXIS, DIM_NONE, 0, 2, 0, 0, 0,
 	    EL_BIT(EL_LENS), AXIS_BOTH, "both, x or y (cylindrical)" },
 	[K_TRANSMISSION] = { "transmission", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
 	    TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER),
 	    1, "power transmission, 0..1" },
-	[K_THICKNESS] = { "thickness", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 0, 1, 0,
+	[K_THICKNESS] = { "thickness", KIND_QUANTITY, DIM_LENGTH, 0, 1e3, 0, 0, 0,
 	    TRANSMISSIVE, NAN, "material thickness, for the B-integral" },
-	[K_N2] = { "n2", KIND_QUANTITY, DIM_N2, 0, INFINITY, 0, 1, 0,
+	[K_N2] = { "n2", KIND_QUANTITY, DIM_N2, 0, 1e-9, 0, 0, 0,
 	    TRANSMISSIVE, NAN, "nonlinear index, e.g. 2.7e-16 cm^2/W" },
-	[K_INDEX] = { "index", KIND_NUMBER, DIM_NONE, 1, INFINITY, 0, 1, 0,
+	[K_INDEX] = { "index", KIND_NUMBER, DIM_NONE, 1, 10, 0, 0, 0,
 	    TRANSMISSIVE, 1.45, "linear refractive index" },
 	[K_POLARIZING] = { "polarizing", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_SPLITTER), 0, "true: polarizing splitter" },
-	[K_OD] = { "od", KIND_NUMBER, DIM_NONE, 0, INFINITY, 0, 1, 0,
+	[K_OD] = { "od", KIND_NUMBER, DIM_NONE, 0, 20, 0, 0, 0,
 	    EL_BIT(EL_FILTER), NAN, "optical density, T = 10^-od" },
-	[K_MAX_ABSORBED] = { "max_absorbed", KIND_QUANTITY, DIM_POWER, 0, INFINITY, 1, 1, 0,
+	[K_MAX_ABSORBED] = { "max_absorbed", KIND_QUANTITY, DIM_POWER, 1e-15, 1e9, 0, 0, 0,
 	    EL_BIT(EL_FILTER), NAN, "absorbed power rating" },
-	[K_RETARDANCE] = { "retardance", KIND_NUMBER, DIM_NONE, 0, INFINITY, 0, 1, 0,
+	[K_RETARDANCE] = { "retardance", KIND_NUMBER, DIM_NONE, 0, 1e3, 0, 0, 0,
 	    EL_BIT(EL_WAVEPLATE), NAN, "retardance in waves (0.5, 0.25)" },
 	[K_ANGLE] = { "angle", KIND_ANGLE, DIM_NONE, -360, 360, 0, 0, 0,
 	    EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER), 0, "axis angle from horizontal, degrees" },
-	[K_EXTINCTION] = { "extinction", KIND_NUMBER, DIM_NONE, 1, INFINITY, 0, 1, 0,
+	[K_EXTINCTION] = { "extinction", KIND_NUMBER, DIM_NONE, 1, 1e12, 0, 0, 0,
 	    EL_BIT(EL_POLARIZER), NAN, "pass/block transmission ratio; absent = ideal" },
-	[K_DIAMETER] = { "diameter", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	[K_DIAMETER] = { "diameter", KIND_QUANTITY, DIM_LENGTH, 1e-9, 1e3, 0, 0, 0,
 	    EL_BIT(EL_IRIS), NAN, "iris opening diameter" },
-	[K_MAX_POWER] = { "max_power", KIND_QUANTITY, DIM_POWER, 0, INFINITY, 1, 1, 0,
+	[K_MAX_POWER] = { "max_power", KIND_QUANTITY, DIM_POWER, 1e-15, 1e9, 0, 0, 0,
 	    TERMINATORS, NAN, "power rating" },
-	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 1e-9, 1e3, 0, 0, 0,
 	    ALL_TYPES, NAN, "clear-aperture diameter" },
-	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 0, INFINITY, 1, 1, 0,
+	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 1e-1, 1e12, 0, 0, 0,
 	    ALL_TYPES, NAN, "CW LIDT, linear power density (kW/cm)" },
-	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 0, INFINITY, 1, 1, 0,
+	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 10, 1e19, 0, 0, 0,
 	    ALL_TYPES, NAN, "CW LIDT, irradiance (kW/cm^2)" },
-	[K_DMG_FLUENCE] = { "fluence", KIND_QUANTITY, DIM_FLUENCE, 0, INFINITY, 1, 1, 0,
+	[K_DMG_FLUENCE] = { "fluence", KIND_QUANTITY, DIM_FLUENCE, 1e-2, 1e10, 0, 0, 0,
 	    ALL_TYPES, NAN, "pulsed LIDT, peak fluence (J/cm^2)" },
-	[K_DMG_WAVELENGTH] = { "wavelength", KIND_QUANTITY, DIM_LENGTH, 0, INFINITY, 1, 1, 0,
+	[K_DMG_WAVELENGTH] = { "wavelength", KIND_QUANTITY, DIM_LENGTH, 1e-8, 1e-3, 0, 0, 0,
 	    ALL_TYPES, NAN, "wavelength the LIDT was measured at" },
-	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 0, INFINITY, 1, 1, 0,
+	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 1e-18, 1, 0, 0, 0,
 	    ALL_TYPES, NAN, "pulse width the fluence LIDT was measured at" },
 };
 
@@ -199,16 +205,38 @@ model_get(const struct element *el, enum model_key k)
 	}
 }
 
+/* A bound as a person reads it: "1 nm", "1 km", "0.5". */
+static void
+bound_text(struct buf *b, const struct model_key_def *d, double v)
+{
+	char tmp[64];
+
+	units_format_shortest(tmp, sizeof tmp, v, d->kind == KIND_QUANTITY ?
+	    d->dim : DIM_NONE, 0);
+	buf_add(b, tmp);
+}
+
 static void
 range_text(struct buf *b, const struct model_key_def *d)
 {
-	if (isinf(d->lo) && isinf(d->hi))
+	if (isinf(d->lo) && isinf(d->hi)) {
 		buf_add(b, "any nonzero value");
-	else if (isinf(d->hi))
-		buf_printf(b, "%s %g", d->lo_open ? ">" : ">=", d->lo);
-	else
-		buf_printf(b, "%s%g, %g%s", d->lo_open ? "(" : "[", d->lo, d->hi,
-		    d->hi_open ? ")" : "]");
+	} else if (isinf(d->hi)) {
+		buf_add(b, d->lo_open ? "> " : ">= ");
+		bound_text(b, d, d->lo);
+	} else if (d->min_abs > 0 && d->lo == -d->hi) {
+		/* "roc": either sign, neither too flat nor too tight */
+		buf_add(b, "± ");
+		bound_text(b, d, d->min_abs);
+		buf_add(b, " to ± ");
+		bound_text(b, d, d->hi);
+	} else {
+		buf_add(b, d->lo_open ? "(" : "[");
+		bound_text(b, d, d->lo);
+		buf_add(b, ", ");
+		bound_text(b, d, d->hi);
+		buf_add(b, d->hi_open ? ")" : "]");
+	}
 }
 
 int
@@ -222,15 +250,17 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 	if (!model_key_applies(k, el->type))
 		return fail_with(cause, "element '%s': a %s has no key '%s'",
 		    el->id, model_type_name(el->type), model_key_path(k));
-	if (d->kind == KIND_QUANTITY)
-		units_format(shown, sizeof shown, v, d->dim, 6, 0);
-	else
-		snprintf(shown, sizeof shown, "%g", v);
-	if (!isfinite(v))
+	if (!isfinite(v)) {
+		units_format(shown, sizeof shown, v, DIM_NONE, 6, 0);
 		return fail_with(cause, "element '%s': %s: '%s' is not a finite number",
 		    el->id, model_key_path(k), shown);
+	}
+	v = v == 0 ? 0.0 : v;           /* -0 is 0: one value, one text */
+	units_format_shortest(shown, sizeof shown, v,
+	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
-	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0);
+	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
+	    fabs(v) < d->min_abs;
 	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL)
 		bad = bad || v != floor(v);
 	if (bad) {

@@ -406,6 +406,47 @@ branch_end(struct trace *t, const struct cursor *c, const struct trace_row *prev
 	}
 }
 
+/* The first result of a row that is not a finite number, or NULL.
+ * Results that are NAN by design (fluence on CW, B-integral without n2)
+ * are left out. */
+static const char *
+row_nonfinite(const struct bench *b, const struct trace_row *r)
+{
+	if (!isfinite(r->z))
+		return "position";
+	for (int i = 0; i < 4; i++)
+		if (!isfinite(r->stokes[i]))
+			return "polarization";
+	if (!isfinite(r->power_in) || !isfinite(r->power_out) || !isfinite(r->power_lost))
+		return "power";
+	if (!isfinite(r->wx) || !isfinite(r->wy))
+		return "beam radius";
+	if (!isfinite(r->irradiance) || !isfinite(r->peak_irradiance) ||
+	    !isfinite(r->linear_density) || !isfinite(r->field))
+		return "irradiance";
+	if (b->src.pulsed && (!isfinite(r->fluence) || !isfinite(r->peak_power)))
+		return "fluence";
+	if (!isfinite(r->b_total) || isinf(r->b_integral))
+		return "B-integral";
+	if (damage_rated(&r->limits) && !isfinite(r->ratio))
+		return "damage ratio";
+	if (r->has_focus && (!isfinite(r->focus.z) || !isfinite(r->focus.wx) ||
+	    !isfinite(r->focus.wy) || !isfinite(r->focus.peak_irradiance)))
+		return "focus";
+	return NULL;
+}
+
+int
+trace_check(const struct trace *t, char **cause)
+{
+	if (t->nonfinite == NULL)
+		return 0;
+	return fail_with(cause, "element '%s': the trace gives no finite %s there "
+	    "(values at the edges of their ranges multiply beyond what can be "
+	    "computed); check this element and the source", t->nonfinite->id,
+	    t->nonfinite_what);
+}
+
 struct trace *
 trace_run(const struct bench *b)
 {
@@ -433,6 +474,8 @@ trace_rerun(struct trace *t, const struct bench *b)
 	t->worst = -1;
 	t->worst_ratio = NAN;
 	t->safe_source_power = NAN;
+	t->nonfinite = NULL;
+	t->nonfinite_what = NULL;
 	stack = xcalloc(cap, sizeof *stack);
 	stack[0].br = &b->path;
 	start_state(b, &stack[0].st);
@@ -451,6 +494,20 @@ trace_rerun(struct trace *t, const struct bench *b)
 		el = &c->br->el[c->i];
 		row = &t->rows[nrow++];
 		visit(t, c, row, &c->st, &side, (unsigned)(top - 1));
+		{
+			/* never NaN read as safe: a rated element without a
+			 * finite ratio is over, and the trace says where */
+			const char *bad = row_nonfinite(b, row);
+
+			if (bad != NULL && t->nonfinite == NULL) {
+				t->nonfinite = el;
+				t->nonfinite_what = bad;
+			}
+			if (damage_rated(&row->limits) && !isfinite(row->ratio)) {
+				row->ratio = INFINITY;
+				row->status = STATUS_OVER;
+			}
+		}
 		t->absorbed += row->power_lost;
 		if (!isnan(row->ratio) && (t->worst < 0 || row->ratio > t->worst_ratio)) {
 			t->worst = (long)(row - t->rows);

@@ -81,6 +81,9 @@ struct trace {
 	double                worst_ratio;
 	double                safe_source_power;   /* NAN when nothing is rated; INFINITY when no rated element gets power */
 	double                absorbed, leaving;   /* W: sum of power_lost; sum left on the table */
+	const struct element *nonfinite;        /* borrowed: first element with a result that
+	                                         * is not a finite number; NULL: none */
+	const char           *nonfinite_what;   /* static: which result ("beam radius") */
 };
 
 /* The bench must have passed model_validate.  Never fails. */
@@ -90,6 +93,11 @@ struct trace *trace_run(const struct bench *);     /* caller frees */
  * large bench then costs no fresh pages. */
 struct trace *trace_rerun(struct trace *t, const struct bench *);
 void          trace_free(struct trace *);          /* NULL ok */
+/* 0, or -1 with *cause naming the element when some result of the trace is
+ * not a finite number (values at the edge of their ranges, multiplied
+ * together).  Such a trace is an error, never a safe reading: a rated
+ * element with no finite ratio is also marked over (ratio INFINITY). */
+int           trace_check(const struct trace *, char **cause);
 
 /* "main" or "<parent id>.<port>", into buf. */
 void          trace_branch_name(const struct element *parent, enum port,

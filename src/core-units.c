@@ -135,6 +135,21 @@ is_space(char c)
 	return c != '\0' && strchr(" \t\n\r\v\f", c) != NULL;
 }
 
+/* U+00A0 (no-break space) and U+202F (narrow no-break space, the SI
+ * brochure's space between number and unit) are accepted where a space is;
+ * returns their length in bytes, or 1 for an ASCII space, or 0. */
+static size_t
+space_len(const char *p, const char *end)
+{
+	if (p < end && is_space(*p))
+		return 1;
+	if (end - p >= 2 && memcmp(p, "\xc2\xa0", 2) == 0)
+		return 2;
+	if (end - p >= 3 && memcmp(p, "\xe2\x80\xaf", 3) == 0)
+		return 3;
+	return 0;
+}
+
 static int
 is_digit(char c)
 {
@@ -432,8 +447,8 @@ units_parse(const char *text, enum unit_dim dim, double *out, char **cause)
 
 	if ((p = scan_number(s, end, &num)) == NULL)
 		return fail_with(cause, "'%.*s': not a number", q.len, q.s);
-	while (p < end && is_space(*p))
-		p++;
+	for (size_t k; (k = space_len(p, end)) != 0;)
+		p += k;
 
 	if (p == end) {
 		v = number_value(&num, 0);
@@ -448,7 +463,8 @@ units_parse(const char *text, enum unit_dim dim, double *out, char **cause)
 	}
 	if (!isfinite(v))
 		return fail_with(cause, "'%.*s': out of range", q.len, q.s);
-	*out = v;
+	/* -0 is 0: one value, one text, one record. */
+	*out = v == 0 ? 0.0 : v;
 	return 0;
 }
 
@@ -478,7 +494,7 @@ units_format(char *buf, size_t n, double v, enum unit_dim dim, int sig,
     int ascii)
 {
 	const struct dim_info *d;
-	const char *unit, *prefix = "";
+	const char *unit, *prefix = "", *p;
 	char e[40], num[48];
 	size_t i, len = 0;
 	int x, eng, shift, nd;
@@ -497,9 +513,19 @@ units_format(char *buf, size_t n, double v, enum unit_dim dim, int sig,
 	/* %e does the rounding, carry included (999.96 -> 1.00e+03); the
 	 * prefix is then chosen from the exponent it settled on. */
 	v = si_to(v, d->show_exp10);
+	if (!isfinite(v)) {
+		/* finite in SI, beyond a double in the displayed unit */
+		snprintf(num, sizeof num, "%s", v < 0 ? "-inf" : "inf");
+		unit = "";
+		goto out;
+	}
 	snprintf(e, sizeof e, "%.*e", sig - 1, v);
 	c_decimal_point(e);
-	x = atoi(strchr(e, 'e') + 1);
+	if ((p = strchr(e, 'e')) == NULL) {
+		memcpy(num, e, sizeof e);
+		goto out;
+	}
+	x = atoi(p + 1);
 	eng = x >= 0 ? x / 3 * 3 : -((-x + 2) / 3) * 3;
 	if (dim == DIM_NONE && x >= -4 && x < sig) {
 		/* Plain numbers read best without prefix or exponent. */
@@ -550,4 +576,30 @@ units_format_exact(char *buf, size_t n, double v, enum unit_dim dim)
 	fmt_exact(s, sizeof s, v);
 	c_decimal_point(s);
 	return snprintf(buf, n, "%s%s%s", s, unit[0] != '\0' ? " " : "", unit);
+}
+
+int
+units_format_shortest(char *buf, size_t n, double v, enum unit_dim dim,
+    int ascii)
+{
+	char tmp[64];
+
+	assert(dim >= 0 && dim < DIM_COUNT);
+	if (!isfinite(v))
+		return units_format(buf, n, v, dim, 1, ascii);
+	if (dim == DIM_NONE) {
+		fmt_exact(tmp, sizeof tmp, v == 0 ? 0.0 : v);
+		c_decimal_point(tmp);
+		return utf8_trim(buf, n, snprintf(buf, n, "%s", tmp));
+	}
+	/* The display form with the fewest digits that reads back: what was
+	 * typed ("1.1 mm") comes back as typed. */
+	for (int sig = 1; sig <= 17; sig++) {
+		double back;
+
+		units_format(tmp, sizeof tmp, v, dim, sig, ascii);
+		if (units_parse(tmp, dim, &back, NULL) == 0 && back == v)
+			return utf8_trim(buf, n, snprintf(buf, n, "%s", tmp));
+	}
+	return units_format_exact(buf, n, v, dim);
 }

@@ -31,12 +31,12 @@ const char *units_si_symbol(enum unit_dim, int ascii);
 
 /* Parses "<number> [unit]" into SI.  The number is a C floating literal
  * (sign, decimals, exponent); white space around it and between number and
- * unit is allowed.  Units: m s J W Hz V and products/quotients of them with
+ * unit is allowed (also U+00A0 and U+202F between number and unit).  Units: m s J W Hz V and products/quotients of them with
  * '/' and exponents written ^2, 2, ², ³ (e.g. W/cm^2, J/cm2, cm²/W, kW/cm),
  * each with an optional SI prefix f p n u µ m c k M G.  A unit of another
  * dimension than `dim` is an error.  For DIM_NONE no unit is allowed.  For
  * other dimensions a unit is required (a bare number in text is ambiguous:
- * write "0.25 m"), unless the number is exactly zero.
+ * write "0.25 m"), unless the number is exactly zero.  -0 reads as 0.
  * Returns 0, or -1 with *cause set ("'5 mm' is a length, expected a power"). */
 int units_parse(const char *text, enum unit_dim dim, double *out, char **cause);
 
@@ -55,5 +55,13 @@ int units_format(char *buf, size_t n, double v, enum unit_dim dim, int sig,
  * to the CLI's KEY=VALUE): shortest "%.17g" that round-trips, then the SI
  * unit ("0.25 m").  Returns as snprintf. */
 int units_format_exact(char *buf, size_t n, double v, enum unit_dim dim);
+
+/* Formats v the way a person would type it back: in the display unit of
+ * units_format, with the fewest significant digits that units_parse reads
+ * back to the identical double ("1.1", "250 mm", "1.2 J/cm²"); plain
+ * numbers in the shortest "%g" form that round-trips.  -0 prints as 0;
+ * NaN "-", infinities "inf".  Returns as snprintf. */
+int units_format_shortest(char *buf, size_t n, double v, enum unit_dim dim,
+    int ascii);
 
 #endif

@@ -199,6 +199,46 @@ order_fn(struct element *el, struct element *parent, size_t depth, void *arg)
 	return check_order(&el->side, model_port_name(el->side_port), arg);
 }
 
+/* Source and bench settings are held to what a bench can hold, like the
+ * element keys (core-model.c; beamledger-bench(5), RANGES). */
+static int
+in_range(const char *what, double v, double lo, double hi, enum unit_dim dim,
+    char **cause)
+{
+	char sv[64], sl[64], sh[64];
+
+	if (v >= lo && v <= hi)
+		return 0;
+	units_format_shortest(sv, sizeof sv, v, dim, 0);
+	units_format_shortest(sl, sizeof sl, lo, dim, 0);
+	units_format_shortest(sh, sizeof sh, hi, dim, 0);
+	return fail_with(cause, "%s %s is out of range (allowed: [%s, %s])",
+	    what, sv, sl, sh);
+}
+
+static int
+source_ranges(const struct source *s, char **cause)
+{
+	if (in_range("source: wavelength", s->wavelength, 1e-8, 1e-3, DIM_LENGTH, cause) ||
+	    in_range("source: power", s->power, 1e-15, 1e9, DIM_POWER, cause) ||
+	    in_range("source: waist", s->waist[0], 1e-9, 1e3, DIM_LENGTH, cause) ||
+	    in_range("source: waist", s->waist[1], 1e-9, 1e3, DIM_LENGTH, cause) ||
+	    in_range("source: waist_position", s->waist_position, -1e3, 1e3, DIM_LENGTH, cause) ||
+	    in_range("source: m2", s->m2[0], 1, 1e5, DIM_NONE, cause) ||
+	    in_range("source: m2", s->m2[1], 1, 1e5, DIM_NONE, cause))
+		return -1;
+	if (s->pol == POL_LINEAR &&
+	    in_range("source: polarization", s->pol_angle_deg, -360, 360, DIM_NONE, cause))
+		return -1;
+	if (!s->pulsed)
+		return 0;
+	if (in_range("source: pulsed.rep_rate", s->rep_rate, 1e-6, 1e12, DIM_FREQUENCY, cause) ||
+	    in_range("source: pulsed.pulse_width", s->pulse_width, 1e-18, 1, DIM_TIME, cause) ||
+	    in_range("source: pulsed.pulse_energy", s->pulse_energy, 1e-18, 1e7, DIM_ENERGY, cause))
+		return -1;
+	return 0;
+}
+
 int
 model_source_validate(const struct source *s, char **cause)
 {
@@ -224,7 +264,7 @@ model_source_validate(const struct source *s, char **cause)
 		    "source: power must be given and > 0");
 	if (s->pol == POL_LINEAR && !isfinite(s->pol_angle_deg))
 		return fail_with(cause, "source: polarization angle must be finite");
-	return 0;
+	return source_ranges(s, cause);
 }
 
 int
@@ -243,6 +283,9 @@ model_validate(const struct bench *bench, char **cause)
 		return fail_with(cause, "safety_factor %g must be > 1", b->safety_factor);
 	if (!(b->air_breakdown > 0) || !isfinite(b->air_breakdown))
 		return fail_with(cause, "air_breakdown must be > 0");
+	if (in_range("safety_factor", b->safety_factor, 1, 1e3, DIM_NONE, cause) ||
+	    in_range("air_breakdown", b->air_breakdown, 1e6, 1e22, DIM_IRRADIANCE, cause))
+		return -1;
 	if (model_source_validate(&b->src, cause) != 0)
 		return -1;
 	while (cap < 2 * n)

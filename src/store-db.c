@@ -39,10 +39,13 @@
 
 #include <errno.h>
 #include <pwd.h>
+#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
+#include <sys/statvfs.h>
 #include <time.h>
 #include <unistd.h>
 
@@ -189,6 +192,62 @@ store_q_done(sqlite3_stmt *st)
 		sqlite3_reset(st);
 }
 
+/* ---- what an I/O error really means ---- */
+
+/* The directory that holds path (caller frees). */
+static char *
+parent_dir(const char *path)
+{
+	const char *slash = strrchr(path, '/');
+
+	if (slash == NULL)
+		return xstrdup(".");
+	if (slash == path)
+		return xstrdup("/");
+	return xasprintf("%.*s", (int)(slash - path), path);
+}
+
+/* SQLite needs room beside the database for its -wal and -shm files (a
+ * -shm is 32 KiB at least); below a megabyte free the disk is taken to be
+ * full. */
+#define STORE_ROOM_NEEDED  (1024 * 1024)
+
+static int
+disk_full(const char *path)
+{
+	char *dir = parent_dir(path);
+	struct statvfs v;
+	int full = statvfs(dir, &v) == 0 &&
+	    (unsigned long long)v.f_bavail * v.f_frsize < STORE_ROOM_NEEDED;
+
+	free(dir);
+	return full;
+}
+
+/* A message for an I/O failure whose plain SQLite text ("disk I/O error")
+ * reads like damage, or NULL: a full disk, or the process's file-size limit
+ * (SIGXFSZ is ignored, so the write fails with EFBIG instead of killing). */
+static char *
+io_cause(const char *path, int rc, const char *what)
+{
+	struct rlimit rl;
+	int prim = rc & 0xff;
+
+	if (prim != SQLITE_IOERR && prim != SQLITE_FULL && prim != SQLITE_CANTOPEN)
+		return NULL;
+	if (prim == SQLITE_FULL || disk_full(path))
+		return xasprintf("database '%s': %s: the disk is full, so SQLite cannot "
+		    "write its -wal and -shm files beside it; the database itself is "
+		    "intact and nothing was changed. Free some space and try again",
+		    path, what);
+	if (getrlimit(RLIMIT_FSIZE, &rl) == 0 && rl.rlim_cur != RLIM_INFINITY)
+		return xasprintf("database '%s': %s: the file-size limit of this process "
+		    "(ulimit -f: %llu bytes) stops the database from growing; nothing "
+		    "was changed. Raise the limit and try again", path, what,
+		    (unsigned long long)rl.rlim_cur);
+	return NULL;
+}
+
 int
 store_fail(struct store *s, int rc, char **cause, const char *what)
 {
@@ -202,7 +261,18 @@ store_fail(struct store *s, int rc, char **cause, const char *what)
 	case SQLITE_READONLY:
 		return fail_with(cause, "database '%s' is read-only: changes are refused", path);
 	case SQLITE_FULL:
-		return fail_with(cause, "database '%s': %s: the disk is full", path, what);
+	case SQLITE_IOERR:
+	case SQLITE_CANTOPEN: {
+		char *why = io_cause(path, rc, what);
+
+		if (why != NULL) {
+			fail_with(cause, "%s", why);
+			free(why);
+			return -1;
+		}
+		return fail_with(cause, "database '%s': %s: %s", path, what,
+		    s != NULL && s->db != NULL ? sqlite3_errmsg(s->db) : sqlite3_errstr(rc));
+	}
 	case SQLITE_CORRUPT:
 	case SQLITE_NOTADB:
 		return fail_with(cause, "database '%s' is damaged (%s); run '" "beamledger"
@@ -420,14 +490,85 @@ struct probe {
 	long long app_id, version, objects;
 };
 
+/* A database in a folder this process cannot write: SQLite cannot create
+ * the -shm (and -wal) a WAL database is read through.  With no -wal file
+ * there is nothing outside the main file and nobody can be writing (a
+ * writer would need a -wal there), so the file is opened as immutable,
+ * which SQLite reads without any -shm (sqlite.org/wal.html, "Read-Only
+ * Databases"; uri.html, "immutable").  Returns 1 when that is the way,
+ * 0 when a plain read-only open will do, -1 with *cause when neither can
+ * work. */
+static int
+folder_readonly(const char *path, char **cause)
+{
+	char *dir = parent_dir(path), *wal = xasprintf("%s-wal", path),
+	    *shm = xasprintf("%s-shm", path);
+	int rc = 0;
+
+	if (access(dir, W_OK | X_OK) != 0) {
+		if (access(wal, F_OK) != 0)
+			rc = 1;
+		else if (access(shm, R_OK) != 0)
+			rc = fail_with(cause, "'%s' cannot be read here: its folder '%s' is "
+			    "read-only, and SQLite needs a -shm file beside the database to "
+			    "read the changes still in its -wal file. Copy the database with "
+			    "its -wal file to a folder you can write, or have its owner open "
+			    "it once", path, dir);
+	}
+	free(dir);
+	free(wal);
+	free(shm);
+	return rc;
+}
+
+/* "file:" URI of path, with every byte a URI path may not hold escaped. */
+static char *
+immutable_uri(const char *path)
+{
+	struct buf b;
+
+	buf_init(&b);
+	buf_add(&b, "file:");
+	for (const unsigned char *p = (const unsigned char *)path; *p != '\0'; p++) {
+		if ((*p >= 'a' && *p <= 'z') || (*p >= 'A' && *p <= 'Z') ||
+		    (*p >= '0' && *p <= '9') || strchr("/-._~", *p) != NULL)
+			buf_addc(&b, (char)*p);
+		else
+			buf_printf(&b, "%%%02X", *p);
+	}
+	buf_add(&b, "?immutable=1");
+	return buf_take(&b);
+}
+
+/* Opens path read-only, as immutable where its folder is read-only. */
+static int
+open_readonly(const char *path, sqlite3 **db, char **cause)
+{
+	int how = folder_readonly(path, cause), rc;
+	char *uri;
+
+	*db = NULL;
+	if (how < 0)
+		return -1;
+	if (how == 0)
+		return sqlite3_open_v2(path, db, SQLITE_OPEN_READONLY, NULL);
+	uri = immutable_uri(path);
+	rc = sqlite3_open_v2(uri, db, SQLITE_OPEN_READONLY | SQLITE_OPEN_URI, NULL);
+	free(uri);
+	return rc;
+}
+
 /* What a file holds, read through a read-only connection so that nothing
  * in it can change.  The caller decides. */
 static int
 probe_file(const char *path, struct probe *p, char **cause)
 {
+	char *why = NULL;
 	sqlite3 *db = NULL;
-	int rc = sqlite3_open_v2(path, &db, SQLITE_OPEN_READONLY, NULL);
+	int rc = open_readonly(path, &db, cause);
 
+	if (rc < 0)
+		return -1;
 	if (rc == SQLITE_OK) {
 		configure(db);
 		p->app_id = query_int(db, "PRAGMA application_id", &rc);
@@ -443,9 +584,12 @@ probe_file(const char *path, struct probe *p, char **cause)
 		else if ((rc & 0xff) == SQLITE_BUSY)
 			fail_with(cause, "database is busy (another beamledger is writing); "
 			    "try again");
+		else if ((why = io_cause(path, rc, "opening")) != NULL)
+			fail_with(cause, "%s", why);
 		else
 			fail_with(cause, "'%s': cannot read it as a database: %s", path,
 			    db != NULL ? sqlite3_errmsg(db) : sqlite3_errstr(rc));
+		free(why);
 		sqlite3_close_v2(db);
 		return -1;
 	}
@@ -517,6 +661,9 @@ store_open(const char *path, char **cause)
 	struct stat sb;
 	int rc, exists, flags;
 
+	/* Over the file-size limit a write fails with EFBIG and says so,
+	 * instead of the signal killing the process without a word. */
+	signal(SIGXFSZ, SIG_IGN);
 	s->path = path != NULL ? xstrdup(path) : store_default_path();
 	/* SQLite reads "file:..." as a URI, which stat(2) would not see: make
 	 * it a plain relative path so the checks below look at the same file. */
@@ -539,9 +686,23 @@ store_open(const char *path, char **cause)
 		goto fail;
 	/* Mode bits count, not only access(2): root may write anything, but a
 	 * file made read-only was made so on purpose. */
-	s->readonly = exists && ((sb.st_mode & 0222) == 0 || access(s->path, W_OK) != 0);
-	flags = s->readonly ? SQLITE_OPEN_READONLY : SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE;
-	rc = sqlite3_open_v2(s->path, &s->db, flags, NULL);
+	/* A writable file in a read-only folder is read-only too: WAL needs
+	 * its -wal and -shm beside it. */
+	{
+		char *dir = parent_dir(s->path);
+
+		s->readonly = exists && ((sb.st_mode & 0222) == 0 ||
+		    access(s->path, W_OK) != 0 || access(dir, W_OK | X_OK) != 0);
+		free(dir);
+	}
+	if (s->readonly) {
+		rc = open_readonly(s->path, &s->db, cause);
+		if (rc < 0)
+			goto fail;
+	} else {
+		flags = SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE;
+		rc = sqlite3_open_v2(s->path, &s->db, flags, NULL);
+	}
 	if (rc != SQLITE_OK) {
 		fail_with(cause, "cannot open database '%s': %s", s->path,
 		    s->db != NULL ? sqlite3_errmsg(s->db) : sqlite3_errstr(rc));

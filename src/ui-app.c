@@ -120,21 +120,20 @@ app_select_id(struct app *a, const char *id, int port)
 		a->sel = (int)i;
 }
 
-void
-app_retrace(struct app *a)
+/* Retraces and reselects the row of element `id` (a port row when port).
+ * The id is a copy taken before any edit: the old rows point into the
+ * bench as it was, which an edit may have freed. */
+static void
+retrace_select(struct app *a, const char *id, int port, int old)
 {
-	char *id = NULL;
-	int port = 0, old = a->sel;
-	const struct layout_row *r = app_sel_row(a);
+	char *cause = NULL;
 
-	if (r != NULL) {
-		id = xstrdup(r->el->id);
-		port = r->kind == LROW_PORT;
-	}
 	trace_free(a->trace);
 	free(a->rows);
 	a->trace = trace_run(a->bench);
 	a->nrows = layout_chain(a->bench, a->trace, &a->rows);
+	if (trace_check(a->trace, &cause) != 0)
+		app_msg_take(a, 1, cause);
 	a->sel = old;
 	if (id != NULL) {
 		long i = layout_chain_find(a->rows, a->nrows, id, port);
@@ -146,6 +145,26 @@ app_retrace(struct app *a)
 		a->sel = (int)a->nrows - 1;
 	if (a->sel < 0)
 		a->sel = 0;
+}
+
+/* The selected row's element id (caller frees; NULL: none) while the rows
+ * still match the bench. */
+static char *
+sel_id(const struct app *a, int *port)
+{
+	const struct layout_row *r = app_sel_row(a);
+
+	*port = r != NULL && r->kind == LROW_PORT;
+	return r != NULL ? xstrdup(r->el->id) : NULL;
+}
+
+void
+app_retrace(struct app *a)
+{
+	int port;
+	char *id = sel_id(a, &port);
+
+	retrace_select(a, id, port, a->sel);
 	free(id);
 }
 
@@ -296,19 +315,24 @@ int
 app_edit(struct app *a, app_edit_fn fn, void *arg, char **cause)
 {
 	struct bench *snap;
+	char *id;
+	int port;
 
 	if (a->bench == NULL)
 		return fail_with(cause, "no bench is open");
 	if (a->readonly)
 		return fail_with(cause, "view only: the database is read-only, nothing can be changed");
 	snap = model_bench_dup(a->bench);
+	id = sel_id(a, &port);          /* before fn frees what the rows point at */
 	if (fn(a->bench, arg, cause) != 0) {
 		model_bench_free(snap);
+		free(id);
 		return -1;
 	}
 	push_snapshot(&a->undo, &a->nundo, snap);
 	free_stack(a->redo, &a->nredo);
-	app_retrace(a);
+	retrace_select(a, id, port, a->sel);
+	free(id);
 	app_save(a);
 	return 0;
 }

@@ -106,11 +106,82 @@ xasprintf(const char *fmt, ...)
 	return s;
 }
 
+/* Code points a terminal shows as nothing or as a plain space: controls
+ * (but newline and tab), no-break and other special spaces, zero-width and
+ * direction marks, the byte-order mark.  A message quoting them raw would
+ * hide what is wrong, so they are written "U+FEFF". */
+static int
+invisible(unsigned long c)
+{
+	return (c < 0x20 && c != '\n' && c != '\t') || (c >= 0x7f && c <= 0xa0) ||
+	    c == 0xad || c == 0x34f || c == 0x61c || c == 0x115f || c == 0x1160 ||
+	    c == 0x180e || (c >= 0x2000 && c <= 0x200f) ||
+	    (c >= 0x2028 && c <= 0x202f) || (c >= 0x205f && c <= 0x206f) ||
+	    c == 0x3000 || c == 0x3164 || c == 0xfeff || c == 0xffa0 ||
+	    (c >= 0xfff9 && c <= 0xfffb);
+}
+
+/* Decodes one well-formed UTF-8 sequence at s; 0 when it is not one. */
+static size_t
+utf8_decode(const unsigned char *s, unsigned long *c)
+{
+	size_t n, i;
+
+	if (s[0] < 0x80) {
+		*c = s[0];
+		return 1;
+	}
+	n = s[0] >= 0xf0 && s[0] <= 0xf4 ? 4 : s[0] >= 0xe0 ? 3 : s[0] >= 0xc2 ? 2 : 0;
+	if (n == 0 || (n == 3 && s[0] >= 0xf0))
+		return 0;
+	*c = s[0] & (0x7f >> n);
+	for (i = 1; i < n; i++) {
+		if ((s[i] & 0xc0) != 0x80)
+			return 0;
+		*c = *c << 6 | (s[i] & 0x3f);
+	}
+	if ((n == 3 && *c < 0x800) || (n == 4 && (*c < 0x10000 || *c > 0x10ffff)))
+		return 0;
+	return n;
+}
+
+char *
+util_escape_invisible(const char *s)
+{
+	const unsigned char *p = (const unsigned char *)s;
+	size_t n = strlen(s), out = 0;
+	char *d = xmalloc(n * 6 + 1);     /* "U+XXXX" is at most 6 per byte */
+
+	while (*p != '\0') {
+		unsigned long c;
+		size_t k = utf8_decode(p, &c);
+
+		if (k == 0) {
+			d[out++] = (char)*p++;  /* not UTF-8: the caller's bytes */
+			continue;
+		}
+		if (invisible(c))
+			out += (size_t)sprintf(d + out, "U+%04lX", c);
+		else {
+			memcpy(d + out, p, k);
+			out += k;
+		}
+		p += k;
+	}
+	d[out] = '\0';
+	return d;
+}
+
 int
 vfail_with(char **cause, const char *fmt, va_list ap)
 {
-	if (cause != NULL && *cause == NULL)
-		*cause = xvasprintf(fmt, ap);
+	char *raw;
+
+	if (cause != NULL && *cause == NULL) {
+		raw = xvasprintf(fmt, ap);
+		*cause = util_escape_invisible(raw);
+		free(raw);
+	}
 	return -1;
 }
 
@@ -136,6 +207,9 @@ cause_prefix(char **cause, const char *fmt, ...)
 	va_start(ap, fmt);
 	pre = xvasprintf(fmt, ap);
 	va_end(ap);
+	s = util_escape_invisible(pre);
+	free(pre);
+	pre = s;
 	s = xasprintf("%s: %s", pre, *cause);
 	free(pre);
 	free(*cause);

@@ -20,6 +20,11 @@ int   fail_with(char **cause, const char *fmt, ...)
 int   vfail_with(char **cause, const char *fmt, va_list ap)
           __attribute__((format(printf, 2, 0)));
 
+/* Causes never hold invisible characters raw: controls (but newline and
+ * tab), special spaces, zero-width and direction marks and the byte-order
+ * mark are written "U+FEFF" by fail_with and cause_prefix. */
+char *util_escape_invisible(const char *s);    /* caller frees */
+
 /* Prepends "prefix: " to an existing cause (for adding the file name). */
 void  cause_prefix(char **cause, const char *fmt, ...)
           __attribute__((format(printf, 2, 3)));

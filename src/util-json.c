@@ -43,6 +43,11 @@ fmt_exact(char *out, size_t n, double v)
 		snprintf(out, n, "%s", isnan(v) ? "nan" : v < 0 ? "-inf" : "inf");
 		return;
 	}
+	if (v == 0) {
+		/* -0 reads back as 0 anyway; write it so (a fixpoint) */
+		snprintf(out, n, "0");
+		return;
+	}
 	/* The first precision that reads back, or a few more digits when
 	 * they are shorter to write ("10" rather than "1e+01"). */
 	for (int prec = 1; prec <= 17; prec++) {

@@ -422,6 +422,69 @@ static const struct bad_case {
 	/* keys on the wrong type */
 	/* (every element may have aperture and damage: bench-format.md, Elements) */
 	{ BENCH("{'id':'M1','type':'mirror','max_power':'1 W'}"), { "M1", "max_power" } },
+	/* issue 14 item 1: an n2 that overflows when shown in cm²/W crashed */
+	{ BENCH("{'id':'W1','type':'window','thickness':'1 mm','n2':'1e309 cm^2/W'}"),
+	    { "W1", "n2", "out of range" } },
+	{ BENCH("{'id':'W1','type':'window','thickness':'1 mm','n2':1.8e304}"),
+	    { "W1", "n2", "out of range" } },
+	{ BENCH("{'id':'W1','type':'window','thickness':'1 mm','n2':-1.8e305}"),
+	    { "W1", "n2", "out of range" } },
+	/* issue 14 item 4: extreme but finite values have physical ranges */
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':1e308",
+	    ""), { "source", "polarization", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm','polarization':361",
+	    ""), { "source", "polarization", "360" } },
+	{ BENCH_SRC("'wavelength':1e-320,'power':'1 W','waist':'1 mm'", ""),
+	    { "source", "wavelength", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':1e-320", ""),
+	    { "source", "waist", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':['1 mm',1e-320]", ""),
+	    { "source", "waist", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm','m2':1e6", ""),
+	    { "source", "m2", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm',"
+	    "'waist_position':1e308", ""), { "source", "waist_position", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':1e300,'waist':'1 mm'", ""),
+	    { "source", "power", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm',"
+	    "'pulsed':{'rep_rate':'10 Hz','pulse_width':1e-300}", ""),
+	    { "source", "pulse_width", "out of range" } },
+	{ BENCH_SRC("'wavelength':'1064 nm','power':'1 W','waist':'1 mm',"
+	    "'pulsed':{'rep_rate':1e300,'pulse_width':'1 ns'}", ""),
+	    { "source", "rep_rate", "out of range" } },
+	{ "{" FMT "," NAME ",'safety_factor':1e300," SRC ",'path':[]}", { "safety_factor" } },
+	{ "{" FMT "," NAME ",'air_breakdown':1e300," SRC ",'path':[]}", { "air_breakdown" } },
+	{ BENCH("{'id':'M1','type':'mirror','roc':1e-320}"), { "M1", "roc", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','roc':'-1e-320 m'}"), { "M1", "roc", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','roc':'2 km'}"), { "M1", "roc", "1 km" } },
+	{ BENCH("{'id':'L1','type':'lens','focal':1e-320}"), { "L1", "focal", "out of range" } },
+	{ BENCH("{'id':'S1','type':'space','length':1e308}"), { "S1", "length", "out of range" } },
+	{ BENCH("{'id':'S1','type':'space','length':'1.5 km'}"), { "S1", "length", "1 km" } },
+	{ BENCH("{'id':'M1','type':'mirror','aperture':1e-320}"), { "M1", "aperture" } },
+	{ BENCH("{'id':'IR1','type':'iris','diameter':1e308}"), { "IR1", "diameter" } },
+	{ BENCH("{'id':'M1','type':'mirror','damage':{'cw_irradiance':1e-320}}"),
+	    { "M1", "damage.cw_irradiance", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','damage':{'cw_linear':'1e300 W/cm'}}"),
+	    { "M1", "damage.cw_linear", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','damage':{'fluence':1e-320,'pulse_width':'1 ns'}}"),
+	    { "M1", "damage.fluence", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','damage':{'wavelength':1e-320}}"),
+	    { "M1", "damage.wavelength", "out of range" } },
+	{ BENCH("{'id':'M1','type':'mirror','damage':{'fluence':'1 J/cm^2','pulse_width':1e-300}}"),
+	    { "M1", "damage.pulse_width", "out of range" } },
+	{ BENCH("{'id':'W1','type':'window','index':1e300}"), { "W1", "index", "out of range" } },
+	{ BENCH("{'id':'W1','type':'window','thickness':1e300}"), { "W1", "thickness" } },
+	{ BENCH("{'id':'F1','type':'filter','od':1e300}"), { "F1", "od", "out of range" } },
+	{ BENCH("{'id':'F1','type':'filter','max_absorbed':1e-320}"), { "F1", "max_absorbed" } },
+	{ BENCH("{'id':'HWP1','type':'waveplate','retardance':1e300}"), { "HWP1", "retardance" } },
+	{ BENCH("{'id':'HWP1','type':'waveplate','retardance':0.5,'angle':1e308}"),
+	    { "HWP1", "angle", "out of range" } },
+	{ BENCH("{'id':'P1','type':'polarizer','extinction':1e300}"), { "P1", "extinction" } },
+	{ BENCH("{'id':'BD1','type':'dump','max_power':1e-320}"), { "BD1", "max_power" } },
+	/* issue 14 item 8: invisible characters are shown escaped */
+	{ BENCH("{'id':'S1','type':'space','len\u200bgth':'1 m'}"), { "S1", "lenU+200Bgth" } },
+	{ BENCH("{'id':'S1','type':'space','length':'1\u2009mm'}"), { "S1", "length", "U+2009" } },
+	{ BENCH("{'id':'S1','type':'space','length':'\ufeff1 mm'}"), { "S1", "length", "U+FEFF" } },
 	/* an error inside a side branch names the element where it is */
 	{ BENCH("{'id':'BS1','type':'splitter','reflectance':0.5,'reflected':["
 	    "{'id':'M9','type':'mirror','reflectance':2}]}"), { "BS1", "M9", "reflectance" } },
@@ -731,9 +794,16 @@ END_TEST
  * exporting the import gives the same text again. */
 static const double awkward[] = {
 	0.1 + 0.2, 1.0 / 3.0, 5.32e-7, 1.064e-6, 10.6e-6, 9.999999999999999e-6, 1e-3,
-	0.001000000000000001, 999.9999999999999, 1e-25, 123456789.123, 4.9e-324 * 1e300,
-	-0.0,
+	0.001000000000000001, 999.9999999999999, 1.0000000000000002e-8, 123.456789123,
+	4.9e-324 * 1e300, 2.2250738585072014e-308 * 1e300, -0.0,
 };
+
+/* Each awkward value goes only where the key table allows it (a wavelength
+ * within [10 nm, 1 mm], a length within [0, 1 km]); elsewhere a plain value. */
+static double fit(double v, double lo, double hi, double otherwise)
+{
+	return v >= lo && v <= hi ? v : otherwise;
+}
 
 START_TEST(test_export_awkward_values)
 {
@@ -741,20 +811,29 @@ START_TEST(test_export_awkward_values)
 	char *one, *two, *cause = NULL;
 	struct element *el = model_find(b, "S1", NULL, NULL, NULL);
 	double v = awkward[_i];
+	double zero = 0.0;	/* -0 is written and read back as 0 (issue 14, item 9) */
 
 	ck_assert_ptr_nonnull(el);
-	el->val[K_LENGTH] = fabs(v);
-	b->src.wavelength = fabs(v) > 0 ? fabs(v) : 1e-6;
-	b->src.waist_position = v;
+	el->val[K_LENGTH] = fit(fabs(v), 0, 1e3, 0.25);
+	b->src.wavelength = fit(fabs(v), 1e-8, 1e-3, 1e-6);
+	b->src.waist_position = fit(v, -1e3, 1e3, 0.5);
 	one = bench_file_dump(b);
 	back = bench_file_parse(one, strlen(one), "export", &cause);
 	ck_assert_msg(back != NULL, "%s\n%s", cause, one);
-	ck_assert_int_eq(memcmp(&back->src.waist_position, &v, sizeof v), 0);
+	ck_assert_int_eq(memcmp(&back->src.waist_position,
+	    v == 0 ? &zero : &b->src.waist_position, sizeof v), 0);
 	ck_assert_int_eq(memcmp(&back->src.wavelength, &b->src.wavelength, sizeof v), 0);
 	ck_assert_int_eq(memcmp(&model_find(back, "S1", NULL, NULL, NULL)->val[K_LENGTH],
 	    &el->val[K_LENGTH], sizeof v), 0);
 	two = bench_file_dump(back);
-	ck_assert_str_eq(one, two);
+	{	/* a whole bench overflows Check's message: show where they part */
+		size_t at = 0;
+
+		while (one[at] != '\0' && one[at] == two[at])
+			at++;
+		ck_assert_msg(one[at] == two[at], "export differs at %zu: '%.60s' vs '%.60s'",
+		    at, one + at, two + at);
+	}
 	free(one);
 	free(two);
 	model_bench_free(back);
@@ -805,8 +884,12 @@ gen_value(struct gen *g, enum model_key k)
 	}
 	if (k == K_ROC || k == K_FOCAL)
 		return gen_uniform(g, 0.01, 5) * (gen_chance(g, 0.5) ? 1 : -1);
-	/* positive, spread over orders of magnitude, never exactly the bound */
-	return fmax(d->lo, 0) + pow(10, gen_uniform(g, -25, 8)) * (d->lo >= 1 ? 1e3 : 1);
+	/* positive, spread over orders of magnitude, inside the key's range */
+	if (d->lo >= 1)
+		return d->lo + pow(10, gen_uniform(g, -25, log10(d->hi - d->lo) - 0.01));
+	if (d->lo > 0)
+		return pow(10, gen_uniform(g, log10(d->lo) + 0.01, log10(d->hi) - 0.01));
+	return pow(10, gen_uniform(g, -25, fmin(8, log10(d->hi) - 0.01)));
 }
 
 static const char *const labels[] = {
@@ -952,7 +1035,7 @@ gen_bench(uint64_t seed)
 	s->m2[1] = s->m2_pair ? 1 + gen_uniform(&g, 0, 10) : s->m2[0];
 	s->pol = (enum pol_kind)(gen_next(&g) % 3);
 	if (s->pol == POL_LINEAR)
-		s->pol_angle_deg = gen_uniform(&g, -720, 720);
+		s->pol_angle_deg = gen_uniform(&g, -360, 360);   /* the allowed range */
 	gen_branch(&g, &b->path, 0);
 	ck_assert_msg(model_validate(b, &cause) == 0, "bench %llu: %s",
 	    (unsigned long long)seed, cause);
@@ -1020,6 +1103,118 @@ START_TEST(test_dump_no_leak)
 }
 END_TEST
 
+/*
+ * Robustness (issue 14).
+ */
+
+/* Item 3: input is capped at BENCH_FILE_MAX; endless input is refused as
+ * soon as the cap is passed, naming the file. */
+START_TEST(test_size_cap)
+{
+	char *cause = NULL, *big;
+	size_t len = 0;
+
+	ck_assert_ptr_null(bench_slurp("/dev/zero", &len, &cause));
+	ck_assert_ptr_nonnull(cause);
+	ck_assert_msg(strstr(cause, "/dev/zero") != NULL && strstr(cause, "64 MiB") != NULL,
+	    "%s", cause);
+	free(cause);
+	cause = NULL;
+	ck_assert_ptr_null(bench_file_read("/dev/zero", &cause));
+	ck_assert_msg(strstr(cause, "/dev/zero") != NULL, "%s", cause);
+	free(cause);
+	cause = NULL;
+	/* text handed over whole is held to the same cap */
+	big = calloc(1, (size_t)BENCH_FILE_MAX + 2);
+	ck_assert_ptr_nonnull(big);
+	memset(big, ' ', (size_t)BENCH_FILE_MAX + 1);
+	ck_assert_ptr_null(bench_file_parse(big, (size_t)BENCH_FILE_MAX + 1, "big.json", &cause));
+	ck_assert_msg(strncmp(cause, "big.json", 8) == 0 && strstr(cause, "MiB") != NULL,
+	    "%s", cause);
+	free(cause);
+	free(big);
+}
+END_TEST
+
+/* Item 8: RFC 8259 §8.1 allows a parser to ignore a leading byte-order
+ * mark; no-break spaces between number and unit read as spaces. */
+START_TEST(test_bom_and_nbsp)
+{
+	char *text = dq(BENCH("{'id':'S1','type':'space','length':'250\u00a0mm'},"
+	    "{'id':'S2','type':'space','length':'1\u202fm'}"));
+	char *with_bom = malloc(strlen(text) + 4), *cause = NULL;
+	struct bench *b;
+
+	ck_assert_ptr_nonnull(with_bom);
+	memcpy(with_bom, "\xef\xbb\xbf", 3);
+	strcpy(with_bom + 3, text);
+	b = bench_file_parse(with_bom, strlen(with_bom), "bom.json", &cause);
+	ck_assert_msg(b != NULL, "%s", cause);
+	ck_assert(val(b, "S1", K_LENGTH) == 250e-3);
+	ck_assert(val(b, "S2", K_LENGTH) == 1);
+	model_bench_free(b);
+	free(with_bom);
+	free(text);
+}
+END_TEST
+
+/* Item 9: -0 is read as 0, so export, import, export is a fixpoint. */
+START_TEST(test_negative_zero)
+{
+	struct bench *b = parse_ok(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','waist_position':-0.0,'polarization':-0.0",
+	    "{'id':'S1','type':'space','length':'-0 mm'},"
+	    "{'id':'W1','type':'waveplate','retardance':0.5,'angle':-0.0}"));
+	char *one = bench_file_dump(b), *two;
+	struct bench *back;
+
+	ck_assert(!signbit(val(b, "S1", K_LENGTH)));
+	ck_assert(!signbit(val(b, "W1", K_ANGLE)));
+	ck_assert(!signbit(b->src.waist_position) && !signbit(b->src.pol_angle_deg));
+	ck_assert_msg(strstr(one, " -0") == NULL, "%s", one);   /* not 1.064e-06 */
+	back = bench_file_parse(one, strlen(one), "export", NULL);
+	ck_assert_ptr_nonnull(back);
+	two = bench_file_dump(back);
+	ck_assert_str_eq(one, two);
+	free(one);
+	free(two);
+	model_bench_free(back);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Item 4: the trace never reads a non-finite result as safe.  Values are
+ * put straight into the model (past its range checks) to reach the
+ * guard, as a future key or a missed range would. */
+START_TEST(test_trace_nonfinite)
+{
+	struct bench *b = parse_ok(BENCH("{'id':'S1','type':'space','length':'100 mm'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm'},"
+	    "{'id':'S2','type':'space','length':'100 mm'},"
+	    "{'id':'M1','type':'mirror','damage':{'cw_irradiance':'1 MW/cm^2'}},"
+	    "{'id':'BD','type':'dump','max_power':'5 W'}"));
+	struct trace *t = trace_run(b);
+	const struct trace_row *r;
+	char *cause = NULL;
+
+	ck_assert_int_eq(trace_check(t, NULL), 0);
+	trace_free(t);
+	/* a subnormal focal length: 1/f overflows, the beam after it is NaN */
+	find(b, "L1")->val[K_FOCAL] = 1e-320;
+	t = trace_run(b);
+	ck_assert_int_eq(trace_check(t, &cause), -1);
+	ck_assert_msg(strstr(cause, "element 'S2'") != NULL || strstr(cause, "element 'L1'") != NULL,
+	    "%s", cause);
+	r = row_of(t, "M1");
+	ck_assert_msg(r->status == STATUS_OVER && isinf(r->ratio),
+	    "M1 is rated: status %d, ratio %g", r->status, r->ratio);
+	ck_assert(t->safe_source_power == 0);
+	free(cause);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* bench_file_read on a missing file fails with the path and the reason. */
 START_TEST(test_read_missing)
 {
@@ -1046,6 +1241,10 @@ main(void)
 	tcase_add_test(tr, test_read_missing);
 	tcase_add_test(tr, test_parse_no_leak);
 	tcase_add_test(tr, test_dump_no_leak);
+	tcase_add_test(tr, test_size_cap);
+	tcase_add_test(tr, test_bom_and_nbsp);
+	tcase_add_test(tr, test_negative_zero);
+	tcase_add_test(tr, test_trace_nonfinite);
 	suite_add_tcase(s, tr);
 
 	tcase_add_loop_test(tb, test_bad_input, 0, NELEMS(bad_cases));

@@ -192,6 +192,15 @@ START_TEST(test_reversed_long)
 	d = diff_benches(a, b);
 	ck_assert_uint_eq(diff_count(d, DIFF_MOVED), n - 1);
 	ck_assert_uint_eq(d->nch, n - 1);
+	/* Arrays grow geometrically (issue 14 item 10): the capacity is kept
+	 * and is within a factor two of what is used, never grown one by one
+	 * (which took 12 s here under AddressSanitizer). */
+	ck_assert_uint_ge(d->capch, d->nch);
+	ck_assert_uint_le(d->capch, 2 * d->nch + 8);
+	diff_free(d);
+	d = diff_run(a, b);
+	ck_assert_uint_ge(d->capfx, d->nfx);
+	ck_assert_uint_le(d->capfx, 2 * d->nfx + 8);
 	diff_free(d);
 	model_bench_free(a);
 	model_bench_free(b);

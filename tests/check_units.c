@@ -12,6 +12,8 @@
 #include <string.h>
 
 #include "core-units.h"
+#include "core-edit.h"
+#include "core-model.h"
 
 #include "check-util.h"
 
@@ -563,7 +565,7 @@ static const struct exact_case {
 	{ 1.0 / 3, DIM_POWER, "0.3333333333333333 W" },
 	{ 0.1 + 0.2, DIM_NONE, "0.30000000000000004" },
 	{ 0, DIM_POWER, "0 W" },
-	{ -0.0, DIM_POWER, "-0 W" },
+	{ -0.0, DIM_POWER, "0 W" },	/* -0 is 0 (issue 14 item 9) */
 	{ 5e-324, DIM_LENGTH, "5e-324 m" },
 	{ DBL_MAX, DIM_POWER, "1.7976931348623157e+308 W" },
 	{ NAN, DIM_POWER, "-" },
@@ -593,7 +595,9 @@ check_exact_round_trip(double v, enum unit_dim dim)
 	units_format_exact(buf, sizeof buf, v, dim);
 	ck_assert_msg(units_parse(buf, dim, &back, &cause) == 0,
 	    "%a as '%s': %s", v, buf, cause);
-	ck_assert_msg(memcmp(&back, &v, sizeof v) == 0,
+	/* bit for bit, except that -0 comes back as +0 on purpose */
+	ck_assert_msg(v == 0 ? back == 0 && !signbit(back) :
+	    memcmp(&back, &v, sizeof v) == 0,
 	    "%a as '%s' reads back as %a", v, buf, back);
 }
 
@@ -625,6 +629,160 @@ START_TEST(test_exact_random)
 }
 END_TEST
 
+/*
+ * Robustness (issue 14).  Formatting must survive any double, however it
+ * scales into the displayed unit: n2 is shown in cm²/W, i.e. × 1e4, so
+ * 1.8e305 m²/W is finite in SI and infinite on screen.  These crashed.
+ */
+static const struct { double v; enum unit_dim dim; } overflow_cases[] = {
+	{ 1.8e305, DIM_N2 }, { -1.8e305, DIM_N2 }, { DBL_MAX, DIM_N2 },
+	{ DBL_MAX, DIM_IRRADIANCE }, { -DBL_MAX, DIM_FLUENCE },
+	{ DBL_MAX, DIM_LINEAR }, { DBL_TRUE_MIN, DIM_N2 },
+	{ NAN, DIM_N2 }, { INFINITY, DIM_N2 }, { -INFINITY, DIM_LENGTH },
+};
+
+START_TEST(test_format_overflow)
+{
+	char buf[64];
+
+	for (int sig = 1; sig <= 17; sig++) {
+		units_format(buf, sizeof buf, overflow_cases[_i].v,
+		    overflow_cases[_i].dim, sig, sig % 2);
+		ck_assert_msg(buf[0] != '\0', "empty text");
+		units_format_shortest(buf, sizeof buf, overflow_cases[_i].v,
+		    overflow_cases[_i].dim, sig % 2);
+		ck_assert_msg(buf[0] != '\0', "empty text");
+	}
+	/* beyond a double once shown: says so, with no unit */
+	if (overflow_cases[_i].dim == DIM_N2 && isfinite(overflow_cases[_i].v) &&
+	    fabs(overflow_cases[_i].v) > 1e305) {
+		units_format(buf, sizeof buf, overflow_cases[_i].v,
+		    overflow_cases[_i].dim, 6, 0);
+		ck_assert_str_eq(buf, overflow_cases[_i].v < 0 ? "-inf" : "inf");
+	}
+}
+END_TEST
+
+/* SI Brochure, 9th ed., 5.4.3: a space separates number and unit; U+00A0
+ * and U+202F are the no-break spaces typesetting uses for it. */
+static const struct parse_case nbsp_cases[] = {
+	{ "1\u00a0mm", DIM_LENGTH, 1e-3 },
+	{ "1\u202fmm", DIM_LENGTH, 1e-3 },
+	{ "2.5 \u202fW", DIM_POWER, 2.5 },
+	{ "10\u00a0J/cm^2", DIM_FLUENCE, 10e4 },	/* 1 cm² = 1e-4 m² */
+};
+
+START_TEST(test_parse_nbsp)
+{
+	double v = UNTOUCHED;
+	char *cause = NULL;
+
+	ck_assert_msg(units_parse(nbsp_cases[_i].text, nbsp_cases[_i].dim, &v,
+	    &cause) == 0, "'%s': %s", nbsp_cases[_i].text, cause);
+	ck_assert(v == nbsp_cases[_i].si);
+}
+END_TEST
+
+/* -0 reads as +0 (issue 14 item 9): export then import is a fixpoint. */
+START_TEST(test_parse_negative_zero)
+{
+	double v = UNTOUCHED;
+	char buf[64];
+
+	ck_assert_int_eq(units_parse("-0 mm", DIM_LENGTH, &v, NULL), 0);
+	ck_assert(v == 0 && !signbit(v));
+	ck_assert_int_eq(units_parse("-0.0e5", DIM_NONE, &v, NULL), 0);
+	ck_assert(v == 0 && !signbit(v));
+	units_format_shortest(buf, sizeof buf, -0.0, DIM_LENGTH, 1);
+	ck_assert_str_eq(buf, "0 m");
+	units_format_shortest(buf, sizeof buf, -0.0, DIM_NONE, 1);
+	ck_assert_str_eq(buf, "0");
+}
+END_TEST
+
+/* Issue 9 item 8: shown as typed.  Each text is what a person types; the
+ * value is the double the compiler makes of the same literal, and the
+ * shortest display form must be that text again (not "1.1000000000000001"). */
+static const struct { const char *typed; double v; enum unit_dim dim; } typed_cases[] = {
+	{ "1.1", 1.1, DIM_NONE },
+	{ "1.3", 1.3, DIM_NONE },
+	{ "0.1", 0.1, DIM_NONE },
+	{ "0.3", 0.3, DIM_NONE },
+	{ "45", 45, DIM_NONE },
+	{ "2.5", 2.5, DIM_NONE },
+	{ "250 mm", 250e-3, DIM_LENGTH },
+	{ "1.1 mm", 1.1e-3, DIM_LENGTH },
+	{ "800 nm", 800e-9, DIM_LENGTH },
+	{ "532 nm", 532e-9, DIM_LENGTH },
+	{ "5 W", 5, DIM_POWER },
+	{ "10 ns", 10e-9, DIM_TIME },
+	{ "1.2 J/cm^2", 1.2e4, DIM_FLUENCE },
+	{ "2.7e-16 cm^2/W", 2.7e-20, DIM_N2 },
+};
+
+START_TEST(test_format_shortest)
+{
+	char buf[64];
+	double back = UNTOUCHED;
+	int n;
+
+	n = units_format_shortest(buf, sizeof buf, typed_cases[_i].v,
+	    typed_cases[_i].dim, 1);
+	ck_assert_str_eq(buf, typed_cases[_i].typed);
+	ck_assert_int_eq(n, (int)strlen(buf));
+	ck_assert_int_eq(units_parse(buf, typed_cases[_i].dim, &back, NULL), 0);
+	ck_assert(back == typed_cases[_i].v);
+}
+END_TEST
+
+/* The workbench and `show` edit a bench value from edit_bench_value's
+ * text: what was typed is what is shown (issue 9 item 8). */
+static const struct { const char *key, *typed; } edit_typed[] = {
+	{ "source.m2", "1.1" },
+	{ "source.m2", "1.3, 1.7" },
+	{ "source.polarization", "22.5" },
+	{ "source.polarization", "0.1" },
+	{ "safety_factor", "1.1" },
+	{ "safety_factor", "2.3" },
+};
+
+START_TEST(test_edit_shows_typed)
+{
+	struct bench *b = model_bench_new("t");
+	char *cause = NULL, *shown;
+
+	b->src.wavelength = 1064e-9;
+	b->src.power = 1;
+	b->src.waist[0] = b->src.waist[1] = 1e-3;
+	ck_assert_msg(edit_set_bench(b, edit_typed[_i].key, edit_typed[_i].typed,
+	    &cause) == 0, "%s", cause);
+	shown = edit_bench_value(b, edit_typed[_i].key);
+	ck_assert_str_eq(shown, edit_typed[_i].typed);
+	free(shown);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Any double comes back exactly from its shortest form. */
+START_TEST(test_shortest_round_trip)
+{
+	uint64_t state = 0x7e57;
+
+	for (int i = 0; i < 2000; i++) {
+		double v = lcg_double(&state, i), back = UNTOUCHED;
+		enum unit_dim dim = (enum unit_dim)(i % DIM_COUNT);
+		char buf[64], *cause = NULL;
+
+		if (!isfinite(v))
+			continue;
+		units_format_shortest(buf, sizeof buf, v, dim, i % 2);
+		ck_assert_msg(units_parse(buf, dim, &back, &cause) == 0,
+		    "%a as '%s': %s", v, buf, cause);
+		ck_assert_msg(back == v, "%a as '%s' reads back as %a", v, buf, back);
+	}
+}
+END_TEST
+
 int
 main(void)
 {
@@ -643,6 +801,12 @@ main(void)
 	tcase_add_loop_test(tc, test_format_exact, 0, NELEMS(exact_cases));
 	tcase_add_loop_test(tc, test_exact_edges, 0, NELEMS(edge_values));
 	tcase_add_test(tc, test_exact_random);
+	tcase_add_loop_test(tc, test_format_overflow, 0, NELEMS(overflow_cases));
+	tcase_add_loop_test(tc, test_parse_nbsp, 0, NELEMS(nbsp_cases));
+	tcase_add_test(tc, test_parse_negative_zero);
+	tcase_add_loop_test(tc, test_format_shortest, 0, NELEMS(typed_cases));
+	tcase_add_test(tc, test_shortest_round_trip);
+	tcase_add_loop_test(tc, test_edit_shows_typed, 0, NELEMS(edit_typed));
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
