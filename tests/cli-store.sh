@@ -77,6 +77,19 @@ check "history: a header, then newest first with author and note" \
 	sh -c "sed -n 1p '$T_DIR/out' | grep -q '^setup  recorded (UTC)  *author  *name  *note' &&
 	    sed -n 2p '$T_DIR/out' | grep -q '^#2 .*tester  *-  *shorter focus for the cell'"
 check "history: where the draft stands" sh -c "tail -1 '$T_DIR/out' | grep -qx 'draft = #2'"
+run history $B --margins
+cp "$T_DIR/out" margins.txt
+"$BEAMLEDGER" trace "$B@1" > trace1.txt
+"$BEAMLEDGER" trace "$B@2" > trace2.txt
+safe1=$(sed -n 's/^Safe source power: \([^(]*\) (.*/\1/p' trace1.txt | sed 's/ *$//')
+safe2=$(sed -n 's/^Safe source power: \([^(]*\) (.*/\1/p' trace2.txt | sed 's/ *$//')
+check "history --margins: #1 over, at the safe power its trace gives ($safe1)" \
+	sh -c "grep -q '^#1 .* over  *$safe1  *imported from demo.json' margins.txt && grep -q OVER trace1.txt"
+check "history --margins: #2 caution, at the safe power its trace gives ($safe2)" \
+	sh -c "grep -q '^#2 .* caution  *$safe2  *shorter focus' margins.txt && ! grep -q OVER trace2.txt"
+run history $B --margins --format json
+check "history --margins --format json: worst and safe_source_power" \
+	sh -c "grep -q '\"worst\": \"over\"' '$T_DIR/out' && grep -q '\"safe_source_power\": 0.9' '$T_DIR/out'"
 run compare $B 1 2
 check "compare: the value old -> new with units" out_has "L1 (lens): focal 200 mm → 150 mm"
 check "compare: the setups by number" out_has "Bench $B: #1 → #2"
