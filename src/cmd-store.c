@@ -373,7 +373,7 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 		if (ds.same_as > 0)
 			snprintf(draft, sizeof draft, "= #%d", ds.same_as);
 		else
-			snprintf(draft, sizeof draft, "changed");
+			snprintf(draft, sizeof draft, ds.latest > 0 ? "changed" : "new");
 		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev, draft, damage_status_name(worst),
 		    rows[i].updated);
 	}
