@@ -258,6 +258,10 @@ check "refused edits after a good one changed nothing more" \
 run reinstate $B 2 --force
 
 # ---- renaming a bench ----
+run set $B --bench "name=never" safety_factor=0.5
+check "set --bench name with a bad pair: refused whole" trouble "safety_factor"
+run chain never
+check "... and the bench kept its name" trouble "bench 'never' not found"
 "$BEAMLEDGER" history $B > hist-before.txt
 run set $B --bench "name=table 3 (renamed)" "notes=moved to table 3"
 check "set --bench name=NEW renames the bench" out_has "bench '$B': set 2 values on the bench"
