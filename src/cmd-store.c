@@ -8,6 +8,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <getopt.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -372,7 +373,7 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 		if (ds.same_as > 0)
 			snprintf(draft, sizeof draft, "= #%d", ds.same_as);
 		else
-			snprintf(draft, sizeof draft, "changed");
+			snprintf(draft, sizeof draft, ds.latest > 0 ? "changed" : "new");
 		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev, draft, damage_status_name(worst),
 		    rows[i].updated);
 	}
@@ -742,30 +743,67 @@ cmd_record(struct cmd_ctx *ctx, int argc, char **argv)
 	return 0;
 }
 
+/* What a lab wants to see when it looks back: per setup, the worst status
+ * of its trace and its safe source power. */
+struct margin {
+	enum damage_status worst;
+	double             safe;        /* W; NAN nothing rated, INFINITY no limit */
+};
+
+static struct margin *
+setup_margins(struct store *s, const char *name, const struct store_rev *revs, size_t n,
+    char **cause)
+{
+	struct margin *mg = xcalloc(n + 1, sizeof *mg);
+
+	for (size_t i = 0; i < n; i++) {
+		char ref[24];
+		struct bench *b;
+		struct trace *t;
+
+		snprintf(ref, sizeof ref, "%d", revs[i].no);
+		if ((b = store_bench_load(s, name, ref, NULL, cause)) == NULL) {
+			free(mg);
+			return NULL;
+		}
+		t = trace_run(b);
+		mg[i].worst = diff_trace_worst(t);
+		mg[i].safe = t->safe_source_power;
+		trace_free(t);
+		model_bench_free(b);
+	}
+	return mg;
+}
+
 int
 cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 {
 	static const struct option opts[] = {
 		{ "format", required_argument, NULL, 'f' },
+		{ "margins", no_argument, NULL, 'm' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
 	struct store_rev *revs;
+	struct margin *mg = NULL;
 	struct store *s;
 	struct buf out;
 	char *cause = NULL, *words;
 	size_t n, wa = 6, wn = 4;
-	int ch, json = 0, rc;
+	int ch, json = 0, margins = 0, rc;
 
 	cmd_getopt_reset();
-	while ((ch = getopt_long(argc, argv, "f:", opts, NULL)) != -1) {
+	while ((ch = getopt_long(argc, argv, "f:m", opts, NULL)) != -1) {
 		if (ch == 'f') {
 			if (format_opt("history", optarg, &json) != 0)
 				return 2;
+		} else if (ch == 'm') {
+			margins = 1;
 		} else if (ch == 'h') {
-			return printf("Usage: " PROG " history BENCH [--format table|json]\n"
+			return printf("Usage: " PROG " history BENCH [--margins] [--format table|json]\n"
 			    "The setups, newest first: number, UTC time, author, names, note; "
-			    "then where the draft stands.\n"), 0;
+			    "then where the draft stands.\nWith --margins each setup is traced: "
+			    "its worst status and safe source power.\n"), 0;
 		} else {
 			return bad_option("history", argc, argv);
 		}
@@ -777,7 +815,9 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 		return 2;
 	if (store_log(s, argv[optind], &revs, &n, &cause) != 0)
 		return cmd_store_fail(s, cause);
-	if ((words = cmd_draft_words(s, argv[optind], &cause)) == NULL) {
+	if ((words = cmd_draft_words(s, argv[optind], &cause)) == NULL ||
+	    (margins && (mg = setup_margins(s, argv[optind], revs, n, &cause)) == NULL)) {
+		free(words);
 		store_revs_free(revs, n);
 		return cmd_store_fail(s, cause);
 	}
@@ -787,16 +827,26 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 		json_t *arr = json_array();
 		char *t;
 
-		for (size_t i = 0; i < n; i++)
-			json_array_append_new(arr, json_pack("{s:i,s:s,s:s,s:s,s:s}", "setup",
+		for (size_t i = 0; i < n; i++) {
+			json_t *o = json_pack("{s:i,s:s,s:s,s:s,s:s}", "setup",
 			    revs[i].no, "time", revs[i].time, "author", revs[i].author,
-			    "names", revs[i].labels, "note", revs[i].note));
+			    "names", revs[i].labels, "note", revs[i].note);
+
+			if (mg != NULL) {
+				json_object_set_new(o, "worst", json_string(damage_status_name(
+				    mg[i].worst)));
+				json_object_set_new(o, "safe_source_power", isfinite(mg[i].safe) ?
+				    json_real(mg[i].safe) : json_null());
+			}
+			json_array_append_new(arr, o);
+		}
 		t = json_dumps(arr, JSON_INDENT(2) | JSON_PRESERVE_ORDER);
 		buf_printf(&out, "%s\n", t);
 		free(t);
 		json_decref(arr);
 	} else if (n == 0) {
-		buf_printf(&out, "no setup recorded yet (%s)\n", words);
+		buf_printf(&out, "no setup recorded yet: '" PROG " record %s --note NOTE' makes #1\n",
+		    argv[optind]);
 	} else {
 		for (size_t i = 0; i < n; i++) {
 			if (utf8_cols(revs[i].author) > wa)
@@ -804,8 +854,8 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 			if (utf8_cols(revs[i].labels) > wn)
 				wn = utf8_cols(revs[i].labels);
 		}
-		buf_printf(&out, "setup  recorded (UTC)       %-*s  %-*s  note\n", (int)wa, "author",
-		    (int)wn, "name");
+		buf_printf(&out, "setup  recorded (UTC)       %-*s  %-*s  %snote\n", (int)wa,
+		    "author", (int)wn, "name", mg != NULL ? "worst    safe power  " : "");
 		for (size_t i = 0; i < n; i++) {
 			char rev[24];
 			size_t start = out.len;
@@ -816,11 +866,25 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 			buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2, start);
 			buf_add(&out, revs[i].labels[0] != '\0' ? revs[i].labels : "-");
 			buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2 + wn + 2, start);
+			if (mg != NULL) {
+				char v[32];
+
+				if (isnan(mg[i].safe))
+					snprintf(v, sizeof v, "-");
+				else if (isinf(mg[i].safe))
+					snprintf(v, sizeof v, "no limit");
+				else
+					units_format(v, sizeof v, mg[i].safe, DIM_POWER, 3, 0);
+				buf_printf(&out, "%-7s  ", damage_status_name(mg[i].worst));
+				buf_add(&out, v);
+				buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2 + wn + 2 + 9 + 12, start);
+			}
 			buf_printf(&out, "%s\n", revs[i].note);
 		}
 		buf_printf(&out, "%s\n", words);
 	}
 	free(words);
+	free(mg);
 	store_revs_free(revs, n);
 	rc = cmd_print(out.s);
 	buf_release(&out);

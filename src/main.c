@@ -13,6 +13,10 @@
 #include "store.h"
 #include "util-err.h"
 
+#ifndef BEAMLEDGER_DOCDIR
+#define BEAMLEDGER_DOCDIR "/usr/local/share/doc/" PACKAGE_TARNAME
+#endif
+
 const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@SETUP] | --demo [--format table|json|csv] [--color WHEN] "
 	    "[--ascii]", "trace a bench: power, beam size, irradiance and damage margins" },
@@ -35,7 +39,7 @@ const struct cmd cmd_table[] = {
 	    "put an element somewhere else in the chain" },
 	{ "record", cmd_record, "BENCH --note NOTE [--author NAME]",
 	    "the draft becomes the next numbered setup" },
-	{ "history", cmd_history, "BENCH [--format table|json]",
+	{ "history", cmd_history, "BENCH [--margins] [--format table|json]",
 	    "the setups, newest first, with their names" },
 	{ "compare", cmd_compare, "BENCH SETUP [SETUP] [--format text|json]",
 	    "changes and their effect on the damage margins (second SETUP: the draft)" },
@@ -157,8 +161,8 @@ main(int argc, char **argv)
 			usage();
 			return 0;
 		} else if (strcmp(argv[i], "--version") == 0) {
-			printf(PROG " " PACKAGE_VERSION " - MIT licence, text in LICENSE at the top "
-			    "of the source tree\n");
+			printf(PROG " " PACKAGE_VERSION " - MIT licence; its text is in LICENSE, "
+			    "installed as " BEAMLEDGER_DOCDIR "/LICENSE\n");
 			return 0;
 		} else if (strcmp(argv[i], "--db") == 0) {
 			if (i + 1 >= argc)

@@ -15,7 +15,9 @@
 /* ---- setups by number or name ---- */
 
 /* A setup number: "2" or "#2"; "r2" as well, the older spelling, which
- * callers that still use it (and old notes) may pass. */
+ * callers that still use it (and old notes) may pass.  Numbers come before
+ * names: a name that an older version let through as all digits ("3")
+ * is shadowed by setup #3, which is what a reader of "3" means now. */
 static int
 is_rev_number(const char *rev, int *no)
 {
