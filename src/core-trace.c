@@ -36,7 +36,7 @@ trace_warn_name(enum trace_warn_kind k)
 {
 	static const char *const names[] = {
 		"unterminated", "b_integral", "air_breakdown", "self_focusing",
-		"unrated_dump",
+		"unrated_dump", "unrated_absorber",
 	};
 
 	return names[k];
@@ -408,6 +408,10 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	ex.fluence = row->fluence;
 	row->ratio = damage_ratio(&row->limits, &ex);
 	row->status = damage_status_of(row->ratio, b->safety_factor);
+	/* Dumps have their own warning (branch_end); a gap absorbs nothing. */
+	if (el->type != EL_SPACE && el->type != EL_DUMP && !damage_rated(&row->limits) &&
+	    row->power_lost > TRACE_UNRATED_LEVEL)
+		warn(t, TW_UNRATED_ABSORBER, c, el, row->power_lost);
 
 	if (el->type == EL_SPACE) {
 		gap_focus(b, row, st, c->i + 1 < c->br->n ? &c->br->el[c->i + 1] : NULL);

@@ -77,7 +77,15 @@ struct trace_row {
 };
 
 enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING,
-	TW_UNRATED_DUMP };   /* a dump with no max_power takes power */
+	TW_UNRATED_DUMP,     /* a dump with no max_power takes power */
+	TW_UNRATED_ABSORBER  /* another optic without any rating absorbs (or, a
+	                      * detector or target, takes) more than
+	                      * TRACE_UNRATED_LEVEL */
+};
+/* Absorbed power above which an unrated optic is worth a warning: 0.5 W,
+ * the CW limit of class 3B (IEC 60825-1, from memory), where a beam starts
+ * to burn what stops it (common practice, no source for the choice). */
+#define TRACE_UNRATED_LEVEL 0.5     /* W */
 
 struct trace_warning {
 	enum trace_warn_kind  kind;

@@ -177,7 +177,8 @@ report_json(const struct trace *t)
 			json_put_string(&b, x->after->id);
 		else
 			buf_add(&b, "null");
-		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ? "power" : "value");
+		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ||
+		    x->kind == TW_UNRATED_ABSORBER ? "power" : "value");
 		json_put_number(&b, x->value);
 		if (x->kind == TW_SELF_FOCUSING) {
 			buf_add(&b, ", \"distance\": ");

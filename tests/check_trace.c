@@ -700,6 +700,91 @@ START_TEST(test_unrated_dump)
 }
 END_TEST
 
+/* An unrated optic absorbing (or a detector taking) more than 0.5 W warns
+ * (issue 9, item 3; the level is this project's, core-trace.h).  Hand:
+ * 5 W through a filter of transmission 0.6 absorbs 2 W; a rated one
+ * (max_absorbed 5 W) does not warn; the meter then takes 3 W unrated.
+ * Exactly 0.5 W absorbed is not above the level; a hair more is. */
+static const struct absorber_case {
+	const char *filter, *meter;
+	double power, tf;	/* source W, filter transmission */
+	int filter_warns, meter_warns;
+} absorber_cases[] = {
+	{ "'transmission':0.6", "", 5, 0.6, 1, 1 },
+	{ "'transmission':0.6,'max_absorbed':'5 W'", "'max_power':'10 W'", 5, 0.6, 0, 0 },
+	{ "'transmission':0.6,'damage':{'cw_irradiance':'1 MW/cm^2'}", "", 5, 0.6, 0, 1 },
+	{ "'transmission':0.5", "'max_power':'1 W'", 1, 0.5, 0, 0 },
+	{ "'transmission':0.5", "'max_power':'1 W'", 1.0000001, 0.5, 1, 0 },
+};
+
+START_TEST(test_unrated_absorber)
+{
+	const struct absorber_case *c = &absorber_cases[_i];
+	struct bench *b = bench_text("test", HEAD
+	    "'source':{'wavelength':'532 nm','power':%.17g,'waist':'1 mm'},"
+	    "'path':[{'id':'F1','type':'filter',%s},"
+	    "{'id':'PM','type':'detector'%s%s}]}", c->power, c->filter,
+	    c->meter[0] ? "," : "", c->meter);
+	struct trace *t = trace_run(b);
+	size_t n = 0;
+
+	for (size_t i = 0; i < t->nwarn; i++) {
+		const struct trace_warning *w = &t->warn[i];
+
+		if (w->kind != TW_UNRATED_ABSORBER)
+			continue;
+		n++;
+		if (strcmp(w->after->id, "F1") == 0)
+			CHECK_REL(w->value, c->power * (1 - c->tf), 1e-12);
+		else
+			CHECK_REL(w->value, c->power * c->tf, 1e-12);
+	}
+	ck_assert_uint_eq(n, (size_t)(c->filter_warns + c->meter_warns));
+	if (c->filter_warns)
+		warn_after(t, TW_UNRATED_ABSORBER, "F1");
+	if (c->meter_warns)
+		warn_after(t, TW_UNRATED_ABSORBER, "PM");
+	ck_assert_uint_eq(count_warn(t, TW_UNRATED_DUMP), 0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The air-breakdown level itself (a ">=" turned ">" must fail here): the
+ * Self row 1 spark of test_air_breakdown traced once to learn its peak
+ * irradiance I; a bench level of exactly I sparks (trace-conventions.md:
+ * "reaches"), the next double up does not. */
+START_TEST(test_air_breakdown_edge)
+{
+	static const char *const fmt = HEAD "'air_breakdown':%.17g,"
+	    "'source':{'wavelength':'1064 nm','waist':'1 mm',"
+	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'10 mJ'}},"
+	    "'path':[{'id':'S1','type':'space','length':'1 m'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm'},"
+	    "{'id':'S2','type':'space','length':'300 mm'},{'id':'BD','type':'dump'}]}";
+	struct bench *b = bench_text("test", fmt, 1e14);
+	struct trace *t = trace_run(b);
+	double ipk = row_of(t, "S2")->focus.peak_irradiance;
+
+	/* hand, REFERENCE §2 and §4: 2·0.939437 MW/(π·(32.3966 µm)²) */
+	CHECK_REL(ipk, 2 * 0.939437e6 / (M_PI * 32.3966e-6 * 32.3966e-6), 3e-6);
+	trace_free(t);
+	model_bench_free(b);
+	b = bench_text("test", fmt, ipk);
+	t = trace_run(b);
+	ck_assert(row_of(t, "S2")->focus.air_breakdown);
+	ck_assert_uint_eq(count_warn(t, TW_AIR_BREAKDOWN), 1);
+	trace_free(t);
+	model_bench_free(b);
+	b = bench_text("test", fmt, nextafter(ipk, INFINITY));
+	t = trace_run(b);
+	ck_assert(!row_of(t, "S2")->focus.air_breakdown);
+	ck_assert_uint_eq(count_warn(t, TW_AIR_BREAKDOWN), 0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* The worst element and the safe source power (trace-conventions.md),
  * hand: 10 W CW at a 0.5 mm waist.  M1 (cw_linear 1000 W/cm): LPD =
  * 10 W/(0.1 cm) = 100 W/cm -> 0.1.  M2 (cw_irradiance 10 kW/cm²): I =
@@ -1485,6 +1570,8 @@ main(void)
 	tcase_add_test(tw, test_polarizer_ports);
 	tcase_add_loop_test(tw, test_terminators, 0, 3);
 	tcase_add_test(tw, test_unrated_dump);
+	tcase_add_loop_test(tw, test_unrated_absorber, 0, NELEMS(absorber_cases));
+	tcase_add_test(tw, test_air_breakdown_edge);
 	tcase_add_loop_test(tw, test_worst_and_safe, 0, NELEMS(worst_cases));
 	tcase_add_loop_test(tw, test_status_edges, 0, NELEMS(edge_cases));
 	tcase_add_test(tw, test_nothing_rated);
