@@ -163,25 +163,32 @@ area(double ux, double zx, double uy, double zy)
 
 int
 beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
-    double lambda, double length, double *dz, double *wx, double *wy)
+    double lambda, double length, double end_tol, double *dz, double *wx, double *wy)
 {
 	/* Positions along the gap measured from its start; axis i has its
 	 * waist at a_i = -Re q_i and Rayleigh range z_i = Im q_i. */
 	double ax = -creal(x->q), zx = cimag(x->q);
 	double ay = -creal(y->q), zy = cimag(y->q);
 	double best = NAN, best_area = INFINITY;
-	double m, d, p, qq, roots[3], eps;
+	double m, d, p, qq, roots[3], eps, lo, hi;
 	int nroots = 0;
 
 	if (!(length > 0))
 		return 0;
-	/* A waist at either end is not a focus of the gap, also when decimal
-	 * lengths leave it 1e-17 m off the end: positions within eps of an
-	 * end count as the end. */
+	/* Without end_tol a waist at either end is not a focus of the gap,
+	 * also when decimal lengths leave it 1e-17 m off the end: positions
+	 * within eps of an end count as the end.  With end_tol, a waist
+	 * within end_tol of the end belongs to this gap and one within
+	 * end_tol of the start to the gap before, so that a waist on an
+	 * element's plane is found once. */
 	eps = 1e-12 * (length + fabs(ax) + fabs(ay));
-	if (!(log_slope(snap(-ax, eps), zx, snap(-ay, eps), zy) < 0) ||
-	    !(log_slope(snap(length - ax, eps), zx, snap(length - ay, eps), zy) > 0))
+	lo = fmax(end_tol, 0);
+	hi = end_tol > 0 ? length + end_tol : length;
+	if (!(log_slope(snap(lo - ax, eps), zx, snap(lo - ay, eps), zy) < 0) ||
+	    !(log_slope(snap(hi - ax, eps), zx, snap(hi - ay, eps), zy) > 0))
 		return 0;
+	hi = end_tol > 0 ? hi : length - eps;
+	lo = fmax(lo, eps);
 	/* Stationary points of wx·wy: with m the mid-point of the two waists,
 	 * d half their separation and s = z - m, the condition is the
 	 * depressed cubic 2s³ + (A + B - 2d²)s + d(A - B) = 0 (A = zx²,
@@ -217,8 +224,9 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 				s -= f / fp;
 		}
 		t = m + s;
-		if (!(t > eps && t < length - eps))
+		if (!(t > lo && t < hi))
 			continue;
+		t = fmin(t, length);
 		ar = area(t - ax, zx, t - ay, zy);
 		if (ar < best_area) {
 			best_area = ar;

@@ -36,10 +36,14 @@ void   beam_mirror_focal(double roc, double aoi_deg, double *fx, double *fy);
  * integral of the spec, by a trapezoid rule refined until it settles. */
 double beam_clip_transmission(double wx, double wy, double a);
 
-/* Looks for a focus inside a gap of `length` that starts with axes x, y:
- * the product wx·wy falls at the start and rises at the end.  On success
- * returns 1 and sets *dz (from the gap start) and both radii there. */
+/* Looks for a waist inside a gap of `length` that starts with axes x, y:
+ * the product wx·wy falls at the start and rises at the end.  A waist
+ * within end_tol (m, >= 0) of the end counts as the gap's (at the end:
+ * *dz = length), one within end_tol of the start does not; end_tol = 0
+ * counts neither end.  On success returns 1 and sets *dz (from the gap
+ * start) and both radii there. */
 int    beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
-           double lambda, double length, double *dz, double *wx, double *wy);
+           double lambda, double length, double end_tol,
+           double *dz, double *wx, double *wy);
 
 #endif

@@ -53,7 +53,9 @@ damage_self_focus_distance(double lambda, double n0, double w, double p_ratio)
 
 	if (!(p_ratio > 1) || !(d > 0))
 		return INFINITY;
-	return 0.367 * (2 * M_PI * n0 / lambda) * w * w / sqrt(d);
+	/* z_R = k w²/2 = π n0 w²/λ, the Rayleigh length of the input beam
+	 * (REFERENCE §11, corrected: k w² is twice too long) */
+	return 0.367 * (M_PI * n0 * w * w / lambda) / sqrt(d);
 }
 
 double
@@ -99,10 +101,18 @@ damage_limits(const struct element *el, const struct source *src,
 
 			lim->fluence = el->val[K_DMG_FLUENCE] * k;
 			if (tau != tau_spec) {
-				lim->fluence *= sqrt(tau / tau_spec);
+				double f = sqrt(tau / tau_spec);
+
 				lim->flags |= DAMAGE_PULSE_SCALED;
-				if (!in_range(tau) || !in_range(tau_spec))
+				/* Outside the range where τ^½ is established the
+				 * law may lower a threshold, never raise it
+				 * (REFERENCE §10, this project's choice): a
+				 * 100 fs rating is no 316× larger at 10 ns. */
+				if (!in_range(tau) || !in_range(tau_spec)) {
 					lim->flags |= DAMAGE_PULSE_RANGE;
+					f = fmin(1, f);
+				}
+				lim->fluence *= f;
 			}
 		}
 	}

@@ -21,8 +21,9 @@ double damage_linear_density(double power, double wx, double wy);   /* P/(2 min 
 double damage_critical_power(double lambda, double n0, double n2);
 /* Distance after which a collimated Gaussian beam of radius w carrying
  * p_ratio = P/P_cr collapses (Marburger's fit, as quoted by Couairon &
- * Mysyrowicz 2007): 0.367 k w² / √{[(P/P_cr)^½ − 0.852]² − 0.0219},
- * k = 2π n0/λ.  INFINITY when the beam does not collapse. */
+ * Mysyrowicz 2007): 0.367 z_R / √{[(P/P_cr)^½ − 0.852]² − 0.0219},
+ * z_R = π n0 w²/λ the Rayleigh length of the input beam (w its 1/e²
+ * radius).  INFINITY when the beam does not collapse (P ≤ P_cr). */
 double damage_self_focus_distance(double lambda, double n0, double w, double p_ratio);
 /* On-axis nonlinear phase of a thin plate: (2π/λ)·n2·I·L. */
 double damage_b_integral(double lambda, double n2, double irradiance, double thickness);
@@ -37,7 +38,9 @@ enum {
 
 /* A rating scaled to the beam at hand (rules of thumb of the trade, common
  * practice, no single source): every threshold × λ/λ_spec, a fluence also
- * × √(τ/τ_spec).  NAN where the rating does not apply. */
+ * × √(τ/τ_spec), or × min(1, √(τ/τ_spec)) when either width lies outside
+ * DAMAGE_TAU_MIN … DAMAGE_TAU_MAX (lower, never higher, where the law is
+ * not established).  NAN where the rating does not apply. */
 struct damage_limits {
 	double   cw_linear;         /* W/m */
 	double   cw_irradiance;     /* W/m² */

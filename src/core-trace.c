@@ -19,7 +19,7 @@
 static const char *const flag_names[TF_COUNT] = {
 	"clipping", "hard_clipping", "wavelength_scaled", "pulse_scaled",
 	"pulse_scaling_out_of_range", "pulsed_rating_on_cw", "self_focusing",
-	"focus", "air_breakdown",
+	"focus", "air_breakdown", "above_critical_power",
 };
 
 const char *
@@ -36,7 +36,7 @@ trace_warn_name(enum trace_warn_kind k)
 {
 	static const char *const names[] = {
 		"unterminated", "b_integral", "air_breakdown", "self_focusing",
-		"unrated_dump",
+		"unrated_dump", "unrated_absorber",
 	};
 
 	return names[k];
@@ -217,27 +217,52 @@ element_optics(const struct element *el, struct state *st)
 	}
 }
 
-/* st is the beam after any clipping at the gap's start. */
+/* st is the beam after any clipping at the gap's start; next the element
+ * after the gap (NULL: the branch ends with it).  A waist in the gap is
+ * always reported; it is a focus when it concentrates the beam.  Air
+ * breaks down at any waist in air: inside the gap, or on the plane of an
+ * iris, an empty plane (a space) or the end of the branch; a waist on an
+ * optic's surface is that optic's rating to judge. */
 static void
-gap_focus(const struct bench *b, struct trace_row *row, const struct state *st)
+gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
+    const struct element *next)
 {
-	double p = st->s[0];
-	double dz, wx, wy, lam = b->src.wavelength;
+	double p = st->s[0], len = row->el->val[K_LENGTH];
+	double dz, wx, wy, ex, ey, a0, a1, lam = b->src.wavelength;
+	struct beam_axis x = st->x, y = st->y;
+	int in_air = 1;
 
-	if (!beam_gap_focus(&st->x, &st->y, lam, row->el->val[K_LENGTH], &dz, &wx, &wy))
+	if (!beam_gap_focus(&st->x, &st->y, lam, len, TRACE_PLANE_TOL, &dz, &wx, &wy))
 		return;
-	row->has_focus = 1;
-	row->flags |= TF_FOCUS;
+	row->has_waist = 1;
 	row->focus.z = st->z + dz;
 	row->focus.wx = wx;
 	row->focus.wy = wy;
+	beam_space(&x, len);
+	beam_space(&y, len);
+	ex = beam_radius(&x, lam);
+	ey = beam_radius(&y, lam);
+	a0 = row->wx * row->wy;
+	a1 = ex * ey;
+	/* a waist on the end plane is compared with the start alone */
+	row->focus.concentration = (dz >= len - TRACE_PLANE_TOL ? a0 : fmin(a0, a1)) /
+	    (wx * wy);
+	if (row->focus.concentration >= TRACE_FOCUS_CONCENTRATION) {
+		row->has_focus = 1;
+		row->flags |= TF_FOCUS;
+	}
+	if (dz >= len - TRACE_PLANE_TOL && next != NULL) {
+		row->focus.on = next;
+		in_air = next->type == EL_IRIS || next->type == EL_SPACE;
+	}
 	row->focus.irradiance = damage_peak_irradiance(p, wx, wy);
 	if (b->src.pulsed) {
 		double e = p / b->src.rep_rate;
 		double ppk = damage_peak_factor(b->src.shape) * e / b->src.pulse_width;
 
 		row->focus.peak_irradiance = damage_peak_irradiance(ppk, wx, wy);
-		row->focus.air_breakdown = row->focus.peak_irradiance >= b->air_breakdown;
+		row->focus.air_breakdown = in_air &&
+		    row->focus.peak_irradiance >= b->air_breakdown;
 		if (row->focus.air_breakdown)
 			row->flags |= TF_AIR_BREAKDOWN;
 	} else {
@@ -285,6 +310,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->linear_density = damage_linear_density(p, row->wx, row->wy);
 	row->fluence = row->peak_power = NAN;
 	row->b_integral = row->critical_power = row->collapse_distance = NAN;
+	row->critical_ratio = NAN;
 	row->b_total = st->b_total;
 	if (src->pulsed) {
 		double e = p / src->rep_rate;
@@ -336,11 +362,19 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 
 		row->critical_power = damage_critical_power(lam, model_get(el, K_INDEX),
 		    el->val[K_N2]);
-		if (row->critical_power > 0 && ppk > row->critical_power) {
-			row->flags |= TF_SELF_FOCUSING;
+		row->critical_ratio = ppk / row->critical_power;
+		/* At or above P_cr the beam would collapse after the collapse
+		 * distance (infinite at P_cr itself); it does so inside the
+		 * element only when that is shorter than the thickness.  A
+		 * longer one is a note: the B-integral carries the risk. */
+		if (row->critical_power > 0 && ppk >= row->critical_power) {
 			row->collapse_distance = damage_self_focus_distance(lam,
 			    model_get(el, K_INDEX), sqrt(row->wx * row->wy),
-			    ppk / row->critical_power);
+			    row->critical_ratio);
+			if (row->collapse_distance < el->val[K_THICKNESS])
+				row->flags |= TF_SELF_FOCUSING;
+			else
+				row->flags |= TF_ABOVE_CRITICAL;
 		}
 		row->b_integral = damage_b_integral(lam, el->val[K_N2],
 		    row->peak_irradiance, el->val[K_THICKNESS]);
@@ -374,9 +408,13 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	ex.fluence = row->fluence;
 	row->ratio = damage_ratio(&row->limits, &ex);
 	row->status = damage_status_of(row->ratio, b->safety_factor);
+	/* Dumps have their own warning (branch_end); a gap absorbs nothing. */
+	if (el->type != EL_SPACE && el->type != EL_DUMP && !damage_rated(&row->limits) &&
+	    row->power_lost > TRACE_UNRATED_LEVEL)
+		warn(t, TW_UNRATED_ABSORBER, c, el, row->power_lost);
 
 	if (el->type == EL_SPACE) {
-		gap_focus(b, row, st);
+		gap_focus(b, row, st, c->i + 1 < c->br->n ? &c->br->el[c->i + 1] : NULL);
 		if (row->focus.air_breakdown)
 			warn(t, TW_AIR_BREAKDOWN, c, el, row->focus.peak_irradiance);
 		beam_space(&st->x, el->val[K_LENGTH]);

@@ -24,15 +24,30 @@ enum trace_flag {
 	TF_SELF_FOCUSING       = 1 << 6,
 	TF_FOCUS               = 1 << 7,   /* a focus lies in this gap */
 	TF_AIR_BREAKDOWN       = 1 << 8,
+	TF_ABOVE_CRITICAL      = 1 << 9,   /* P ≥ P_cr, but the collapse distance
+	                                    * exceeds the thickness: a note */
 };
-#define TF_COUNT 9
+#define TF_COUNT 10
 const char *trace_flag_name(unsigned bit);     /* "clipping", ... ; bit is one flag */
+
+/* A waist in a gap.  It is a focus when it concentrates the beam: the
+ * smaller of the beam areas (wx·wy) at the gap's two ends over the area at
+ * the waist is at least TRACE_FOCUS_CONCENTRATION; a collimated beam's
+ * waist after a telescope is not. */
+#define TRACE_FOCUS_CONCENTRATION 2.0
+/* A waist this close to the next element's plane is on it (a pinhole at a
+ * focus): the focus of the gap before. */
+#define TRACE_PLANE_TOL 1e-9        /* m */
 
 struct trace_focus {
 	double z;                   /* m from the source along the branch */
 	double wx, wy;
 	double irradiance, peak_irradiance;
-	int    air_breakdown;       /* pulsed only */
+	double concentration;       /* min end area / waist area, >= 1 */
+	const struct element *on;   /* borrowed: the element whose plane holds
+	                             * the waist; NULL inside the gap or at the
+	                             * end of the branch */
+	int    air_breakdown;       /* pulsed, in air only */
 };
 
 struct trace_row {
@@ -51,16 +66,26 @@ struct trace_row {
 	double                b_integral, b_total;        /* NAN where no n2/thickness */
 	double                critical_power;             /* NAN without n2 */
 	double                collapse_distance;          /* m; NAN below P_cr or without n2 */
+	double                critical_ratio;             /* P_pk/P_cr; NAN without n2 */
 	double                ratio;                      /* NAN: unrated */
 	struct damage_limits  limits;
 	enum damage_status    status;
 	unsigned              flags;
-	int                   has_focus;
+	int                   has_waist;  /* a waist lies in this gap (focus holds it) */
+	int                   has_focus;  /* ... and it is a focus (concentration >= 2) */
 	struct trace_focus    focus;
 };
 
 enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING,
-	TW_UNRATED_DUMP };   /* a dump with no max_power takes power */
+	TW_UNRATED_DUMP,     /* a dump with no max_power takes power */
+	TW_UNRATED_ABSORBER  /* another optic without any rating absorbs (or, a
+	                      * detector or target, takes) more than
+	                      * TRACE_UNRATED_LEVEL */
+};
+/* Absorbed power above which an unrated optic is worth a warning: 0.5 W,
+ * the CW limit of class 3B (IEC 60825-1, from memory), where a beam starts
+ * to burn what stops it (common practice, no source for the choice). */
+#define TRACE_UNRATED_LEVEL 0.5     /* W */
 
 struct trace_warning {
 	enum trace_warn_kind  kind;

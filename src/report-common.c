@@ -122,6 +122,15 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
 		return xasprintf("unrated_dump: %s goes into %s, which has no max_power: "
 		    "give its rating to check it (branch %s)", v, after, br);
+	case TW_UNRATED_ABSORBER:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("unrated_absorber: %s %s %s and has no rating "
+		    "(over 0.5 W: give its damage rating%s; branch %s)", after,
+		    w->after != NULL && model_type_is_terminator(w->after->type) ?
+		    "takes" : "absorbs", v,
+		    w->after != NULL && model_type_is_terminator(w->after->type) ?
+		    " or max_power" : w->after != NULL && w->after->type == EL_FILTER ?
+		    " or max_absorbed" : "", br);
 	default: {
 		char d[48], th[48];
 

@@ -31,6 +31,8 @@ kstr(struct buf *b, const char *k, const char *v)
 	json_put_string(b, v);
 }
 
+static void waist_json(struct buf *, const struct trace_row *, int present);
+
 static void
 row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 {
@@ -64,6 +66,7 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 	}
 	if (!isnan(r->critical_power)) {
 		knum(b, "critical_power", r->critical_power);
+		knum(b, "critical_ratio", r->critical_ratio);
 		knum(b, "collapse_distance", r->collapse_distance);
 		knum(b, "b_integral", r->b_integral);
 	}
@@ -106,8 +109,21 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 	}
 	buf_addc(b, '}');
 	if (r->el->type == EL_SPACE) {
+		/* "waist": every waist in the gap; "focus": the same when it
+		 * concentrates the beam at least TRACE_FOCUS_CONCENTRATION times */
+		key(b, "waist");
+		waist_json(b, r, r->has_waist);
 		key(b, "focus");
-		if (!r->has_focus) {
+		waist_json(b, r, r->has_focus);
+	}
+	buf_add(b, "\n    }");
+}
+
+static void
+waist_json(struct buf *b, const struct trace_row *r, int present)
+{
+	{
+		if (!present) {
 			buf_add(b, "null");
 		} else {
 			buf_add(b, "{\"z\": ");
@@ -120,11 +136,17 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 			json_put_number(b, r->focus.irradiance);
 			buf_add(b, ", \"peak_irradiance\": ");
 			json_put_number(b, r->focus.peak_irradiance);
+			buf_add(b, ", \"concentration\": ");
+			json_put_number(b, r->focus.concentration);
+			buf_add(b, ", \"on\": ");
+			if (r->focus.on != NULL)
+				json_put_string(b, r->focus.on->id);
+			else
+				buf_add(b, "null");
 			buf_printf(b, ", \"air_breakdown\": %s}",
 			    r->focus.air_breakdown ? "true" : "false");
 		}
 	}
-	buf_add(b, "\n    }");
 }
 
 char *
@@ -155,7 +177,8 @@ report_json(const struct trace *t)
 			json_put_string(&b, x->after->id);
 		else
 			buf_add(&b, "null");
-		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ? "power" : "value");
+		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ||
+		    x->kind == TW_UNRATED_ABSORBER ? "power" : "value");
 		json_put_number(&b, x->value);
 		if (x->kind == TW_SELF_FOCUSING) {
 			buf_add(&b, ", \"distance\": ");

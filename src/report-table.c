@@ -163,7 +163,11 @@ legend(struct buf *b, unsigned all)
 		    "where the sqrt(tau) law is not established: ask the vendor for a rating" },
 		{ TF_PULSED_RATING_ON_CW, "pulsed_rating_on_cw: only a fluence rating, which says "
 		    "nothing about a CW beam: unrated" },
-		{ TF_SELF_FOCUSING, "self_focusing: peak power above the critical power (Marburger 1975)" },
+		{ TF_SELF_FOCUSING, "self_focusing: peak power above the critical power, and the "
+		    "beam would collapse inside the element (Marburger 1975)" },
+		{ TF_ABOVE_CRITICAL, "above_critical_power: peak power at or above the critical "
+		    "power, but the collapse distance is longer than the element; the "
+		    "B-integral counts the phase (Marburger 1975)" },
 		{ TF_AIR_BREAKDOWN, "air_breakdown: a pulsed focus in air reaches the bench's breakdown level" },
 	};
 	int any = 0;

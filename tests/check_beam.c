@@ -425,7 +425,7 @@ START_TEST(test_gap_focus_self)
 
 	beam_lens(&x, c->f);
 	y = x;
-	ck_assert_int_eq(beam_gap_focus(&x, &y, c->lambda, 2 * c->spp_mm * 1e-3,
+	ck_assert_int_eq(beam_gap_focus(&x, &y, c->lambda, 2 * c->spp_mm * 1e-3, 0,
 	    &dz, &wx, &wy), 1);
 	CHECK_ABS(dz, c->spp_mm * 1e-3, 1e-6);
 	CHECK_REL(wx, c->w0p_um * 1e-6, 1e-6);
@@ -453,7 +453,7 @@ START_TEST(test_gap_focus_none)
 	struct beam_axis x = { -c->waist_at + I * 0.015625, 1 }, y = x;
 	double dz = -1, wx = -1, wy = -1;
 
-	ck_assert_msg(beam_gap_focus(&x, &y, 1064e-9, c->length, &dz, &wx, &wy) == 0,
+	ck_assert_msg(beam_gap_focus(&x, &y, 1064e-9, c->length, 0, &dz, &wx, &wy) == 0,
 	    "%s: focus reported at %g", c->why, dz);
 }
 END_TEST
@@ -515,7 +515,7 @@ check_gap(const struct gap_model *g, double len, double lambda, int exact_pos,
 	struct beam_axis x = { -g->ax + I * g->zx, 1.4 }, y = { -g->ay + I * g->zy, 1.1 };
 	int want = gap_slope(g, 0) < 0 && gap_slope(g, len) > 0;
 	double dz = NAN, wx = NAN, wy = NAN;
-	int got = beam_gap_focus(&x, &y, lambda, len, &dz, &wx, &wy);
+	int got = beam_gap_focus(&x, &y, lambda, len, 0, &dz, &wx, &wy);
 
 	ck_assert_msg(got == want, "%s: focus %d, want %d (slopes %g, %g)", what,
 	    got, want, gap_slope(g, 0), gap_slope(g, len));

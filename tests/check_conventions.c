@@ -74,8 +74,8 @@ check_no_focus(const struct trace *t, const char *id, const char *why)
 {
 	const struct trace_row *r = row_of(t, id);
 
-	ck_assert_msg(!r->has_focus && !(r->flags & TF_FOCUS),
-	    "%s: %s reports a focus at z = %.17g (radii %.6g, %.6g)", why, id,
+	ck_assert_msg(!r->has_waist && !r->has_focus && !(r->flags & TF_FOCUS),
+	    "%s: %s reports a waist at z = %.17g (radii %.6g, %.6g)", why, id,
 	    r->focus.z, r->focus.wx, r->focus.wy);
 }
 
@@ -175,7 +175,14 @@ START_TEST(test_m2_pair_common_waist)
 	const struct trace_row *s1 = row_of(t, "S1"), *bd = row_of(t, "BD");
 	double zx = rayleigh(1e-3, 1, LAMBDA), zy = rayleigh(0.5e-3, 2, LAMBDA);
 
-	ck_assert(s1->has_focus);
+	/* the waist is kept; it concentrates the beam by the smaller end
+	 * area over its own, area ∝ √((1 + u²/zx²)(1 + u²/zy²)) (REFERENCE §1):
+	 * the start (u = −0.4 m) gives 1.488 against 1.95 at the end
+	 * (u = 0.6 m), under 2, so a waist, not a focus (issue 9, item 9) */
+	ck_assert(s1->has_waist);
+	ck_assert(!s1->has_focus && !(s1->flags & TF_FOCUS));
+	CHECK_REL(s1->focus.concentration,
+	    sqrt((1 + 0.16 / (zx * zx)) * (1 + 0.16 / (zy * zy))), 1e-9);
 	CHECK_ABS(s1->focus.z, 0.4, 1e-9);
 	CHECK_REL(s1->focus.wx, 1e-3, 1e-9);
 	CHECK_REL(s1->focus.wy, 0.5e-3, 1e-9);
@@ -330,17 +337,39 @@ START_TEST(test_hwp_crossed_no_residue)
 END_TEST
 
 /*
- * 6. A waist exactly at a gap end "is not a focus of that gap"
- * (trace-conventions.md, Foci between elements), also when the lengths are
- * written in decimal and do not add up exactly in binary.
+ * 6. A waist exactly at a gap end, or within 1e-9 m of it, "is a focus of
+ * that gap" (trace-conventions.md, Foci between elements, as revised with
+ * the physics review): found once, in the gap before the plane, also when
+ * the lengths are written in decimal and do not add up exactly in binary.
  * (a) waist_position 0.3 m, gaps 0.1 m + 0.2 m + 0.5 m: hand, the waist is
- *     at z = 0.3 m, the end of S2 and the start of S3: no gap holds a focus
- *     (S1 falls all along); S3 starts at w = w0 (REFERENCE §1).
+ *     at z = 0.3 m, the end of S2 and the start of S3: S2 holds it, S1
+ *     (falling all along) and S3 do not; S3 starts at w = w0 (REFERENCE
+ *     §1).  A collimated beam: area ratio √(1 + (0.2 m/zR)²)² = 1.0046
+ *     with zR = 2.95262 m (REFERENCE §1), under 2: a waist, not a focus.
  * (b) REFERENCE §2 row 4: w0 = 1 mm, s = f = 100 mm gives s'' = f exactly
  *     (s''/f = 1 + (s/f − 1)/(...) = 1) and w0' = λf/(π w0) = 33.8682 µm:
- *     the waist is at the end of S2 (100 mm): no focus in S2 nor in S3.
+ *     the waist is at the end of S2 (100 mm): a focus of S2 (the lens sees
+ *     w ≈ 1 mm, some 870 times the waist's area), none in S3.
  * (c) control with exact binary lengths (0.25 + 0.25, waist at 0.5 m).
  */
+static void
+check_one_waist(const struct trace *t, const char *id, double z, const char *on,
+    int focus)
+{
+	const struct trace_row *r = row_of(t, id);
+	size_t n = 0;
+
+	for (size_t i = 0; i < t->nrows; i++)
+		n += t->rows[i].has_waist;
+	ck_assert_msg(n == 1, "%zu waists reported, want 1 (in %s)", n, id);
+	ck_assert_msg(r->has_waist, "%s holds no waist", id);
+	CHECK_ABS(r->focus.z, z, 1e-9);
+	ck_assert_ptr_nonnull(r->focus.on);
+	ck_assert_str_eq(r->focus.on->id, on);
+	ck_assert_int_eq(r->has_focus, focus);
+	ck_assert_int_eq(!!(r->flags & TF_FOCUS), focus);
+}
+
 START_TEST(test_focus_waist_at_gap_end_decimal)
 {
 	struct bench *b = bench_text("conv", HEAD
@@ -349,10 +378,12 @@ START_TEST(test_focus_waist_at_gap_end_decimal)
 	    "{'id':'S2','type':'space','length':'200 mm'},"
 	    "{'id':'S3','type':'space','length':'500 mm'},{'id':'BD','type':'dump'}]}");
 	struct trace *t = trace_run(b);
+	double zr = 2.95262;
 
-	check_no_focus(t, "S1", "waist past the end of S1");
 	CHECK_REL(row_of(t, "S3")->wx, 1e-3, 1e-9);
-	check_no_focus(t, "S2", "waist exactly at the end of S2 (0.1 + 0.2 = 0.3 m)");
+	check_one_waist(t, "S2", 0.3, "S3", 0);
+	CHECK_REL(row_of(t, "S2")->focus.concentration, 1 + 0.04 / (zr * zr), 1e-6);
+	check_no_focus(t, "S1", "waist past the end of S1");
 	check_no_focus(t, "S3", "waist exactly at the start of S3");
 	trace_free(t);
 	model_bench_free(b);
@@ -369,7 +400,8 @@ START_TEST(test_focus_waist_at_gap_end_lens)
 	struct trace *t = trace_run(b);
 
 	CHECK_REL(row_of(t, "S3")->wx, 33.8682e-6, 1e-6);
-	check_no_focus(t, "S2", "Self s = f: waist exactly at the end of S2");
+	check_one_waist(t, "S2", 0.2, "S3", 1);
+	CHECK_REL(row_of(t, "S2")->focus.wx, 33.8682e-6, 1e-6);
 	check_no_focus(t, "S3", "Self s = f: waist exactly at the start of S3");
 	trace_free(t);
 	model_bench_free(b);
@@ -386,7 +418,7 @@ START_TEST(test_focus_waist_at_gap_end_binary)
 	struct trace *t = trace_run(b);
 
 	check_no_focus(t, "S1", "waist past the end of S1");
-	check_no_focus(t, "S2", "waist exactly at the end of S2 (binary)");
+	check_one_waist(t, "S2", 0.5, "S3", 0);
 	check_no_focus(t, "S3", "waist exactly at the start of S3 (binary)");
 	trace_free(t);
 	model_bench_free(b);
@@ -441,11 +473,12 @@ END_TEST
 /*
  * 8. The self_focusing condition.  trace-conventions.md ("Transmissive
  * elements with `thickness` and `n2`: `b_integral` = ...; `critical_power`
- * = 3.77·λ²/(8π·n0·n2) ...; peak power (CW: power) above it raises
- * `self_focusing`") puts the flag under elements that have both keys.
+ * = 3.77·λ²/(8π·n0·n2) ...; the flag `self_focusing` is raised only when
+ * that distance is shorter than the element's thickness") puts the flag
+ * under elements that have both keys.
  * Pulsed 1030 nm, 1 mJ, 10 ps sech²: P_pk = 0.881374 × 1 mJ/10 ps =
  * 88.1374 MW (REFERENCE §4), far above P_cr = 4.0648 MW (REFERENCE §11,
- * 1030 nm, n0 1.45 default, n2 2.7e-20 m²/W).  W2 with thickness: flagged.
+ * 1030 nm, n0 1.45 default, n2 2.7e-20 m²/W).  W2, 500 mm thick: flagged.
  * W1 and L1 with n2 but no thickness: not flagged.
  */
 START_TEST(test_self_focusing_needs_thickness)
@@ -453,7 +486,7 @@ START_TEST(test_self_focusing_needs_thickness)
 	struct bench *b = bench_text("conv", HEAD
 	    "'source':{'wavelength':'1030 nm','waist':'1 mm',"
 	    " 'pulsed':{'rep_rate':'1 kHz','pulse_width':'10 ps','shape':'sech2','pulse_energy':'1 mJ'}},"
-	    "'path':[{'id':'W2','type':'window','n2':2.7e-20,'thickness':'5 mm'},"
+	    "'path':[{'id':'W2','type':'window','n2':2.7e-20,'thickness':'500 mm'},"
 	    "{'id':'W1','type':'window','n2':2.7e-20},"
 	    "{'id':'L1','type':'lens','focal':'10 m','n2':2.7e-20},"
 	    "{'id':'BD','type':'dump'}]}");
@@ -462,6 +495,11 @@ START_TEST(test_self_focusing_needs_thickness)
 
 	CHECK_REL(w2->peak_power, 88.1374e6, 1e-6);
 	CHECK_REL(w2->critical_power, 4.0648e6, 2e-5);
+	/* REFERENCE §11 (corrected): z_R = π·1.45·(1 mm)²/1030 nm = 4.4226 m,
+	 * √21.6828 − 0.852 = 3.80448, z_sf = 0.367·4.4226/√(3.80448² − 0.0219)
+	 * = 0.42695 m, by hand: shorter than the 500 mm block, so the beam
+	 * collapses inside it */
+	CHECK_REL(w2->collapse_distance, 0.42695, 1e-4);
 	ck_assert(w2->flags & TF_SELF_FOCUSING);
 	ck_assert_msg(!(row_of(t, "W1")->flags & TF_SELF_FOCUSING),
 	    "W1 has n2 but no thickness, yet it is flagged self_focusing");

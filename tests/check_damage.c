@@ -180,6 +180,19 @@ static const struct lidt_case {
 	    "hand: 10 × √0.1; the rating's 200 ns is outside" },
 	{ 10, 1550e-9, 10e-9, 1030e-9, 10e-9, 6.6451612903225806, -1, DAMAGE_WL_SCALED,
 	    "hand: 10 × 1030/1550" },
+	/* REFERENCE §10 (a choice of this project, common practice): outside
+	 * 50 ps … 100 ns the factor is min(1, √(τ/τ_spec)): it may lower a
+	 * threshold, never raise it.  The sheet's own example: 1 J/cm² at
+	 * 100 fs must not become 316 J/cm² at 10 ns. */
+	{ 1, NAN, 100e-15, 1064e-9, 10e-9, 1, -1,
+	    DAMAGE_PULSE_SCALED | DAMAGE_PULSE_RANGE,
+	    "REFERENCE §10: 1 J/cm² @ 100 fs -> 10 ns stays 1 J/cm² (not 316)" },
+	{ 10, NAN, 10e-9, 1064e-9, 400e-9, 10, -1,
+	    DAMAGE_PULSE_SCALED | DAMAGE_PULSE_RANGE,
+	    "hand: 400 ns beam is outside; √40 would raise it: factor 1" },
+	{ 10, NAN, 10e-12, 1064e-9, 1e-9, 10, -1,
+	    DAMAGE_PULSE_SCALED | DAMAGE_PULSE_RANGE,
+	    "hand: the rating's 10 ps is outside; √100 would raise it: factor 1" },
 };
 
 static void
@@ -513,14 +526,19 @@ START_TEST(test_silica_range)
 END_TEST
 
 /* Self-focusing distance of a collimated beam: Marburger's fit as quoted by
- * Couairon & Mysyrowicz, Phys. Rep. 441, 47 (2007) [from memory], worked
- * example in REFERENCE §11: 1030 nm, P/P_cr = 21.6828, w = 1.01916 mm,
- * n0 = 1.45 gives z_sf = 0.886941 m (tol 1e-5). */
+ * Couairon & Mysyrowicz, Phys. Rep. 441, 47 (2007) [from memory],
+ * z_sf = 0.367 z_R/√{[(P/P_cr)^½ − 0.852]² − 0.0219} with z_R = π n0 w²/λ
+ * the Rayleigh length of the input beam (Marburger writes 0.367 k a², a the
+ * 1/e intensity radius, a² = w²/2).  Worked example of REFERENCE §11
+ * (corrected): 1030 nm, P/P_cr = 21.6828, w = 1.01916 mm, n0 = 1.45 gives
+ * z_sf = 0.443470 m (tol 1e-5).  By hand: z_R = π·1.45·(1.01916e-3)²/1.03e-6
+ * = 4.5937 m; √21.6828 − 0.852 = 3.80448; 3.80448² − 0.0219 = 14.4522;
+ * 0.367·4.5937/3.80160 = 0.44347 m. */
 START_TEST(test_collapse_distance)
 {
 	double z = damage_self_focus_distance(1030e-9, 1.45, 1.01916e-3, 21.6828);
 
-	ck_assert_double_eq_tol(z, 0.886941, 0.886941 * 1e-5);
+	ck_assert_double_eq_tol(z, 0.443470, 0.443470 * 1e-5);
 	/* below the critical power there is no collapse (Marburger) */
 	ck_assert(isinf(damage_self_focus_distance(1030e-9, 1.45, 1e-3, 0.9)));
 	/* the distance falls as the power rises */
