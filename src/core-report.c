@@ -147,6 +147,7 @@ rep_map(double v, double v0, double v1, double p0, double p1)
 
 struct lab_ord {
 	double x;
+	int    prio;
 	size_t i;
 };
 
@@ -155,17 +156,19 @@ cmp_lab(const void *a, const void *b)
 {
 	const struct lab_ord *p = a, *q = b;
 
+	if (p->prio != q->prio)
+		return p->prio > q->prio ? -1 : 1;
 	if (p->x != q->x)
 		return p->x < q->x ? -1 : 1;
 	return p->i < q->i ? -1 : p->i > q->i;
 }
 
 int
-rep_labels_spread(const double *x, const double *w, size_t n, double gap, int max_levels,
-    int *level, size_t *crowded)
+rep_labels_spread(const double *x, const double *w, const int *prio, size_t n, double gap,
+    int max_levels, int *level, size_t *crowded)
 {
 	struct lab_ord *ord;
-	double *right;              /* right edge of the last label on each level */
+	size_t *placed, np = 0;     /* labels placed so far, by index */
 	int used = 0;
 
 	if (crowded != NULL)
@@ -175,32 +178,40 @@ rep_labels_spread(const double *x, const double *w, size_t n, double gap, int ma
 	if (max_levels < 1)
 		max_levels = 1;
 	ord = xreallocarray(NULL, n, sizeof *ord);
-	right = xreallocarray(NULL, (size_t)max_levels, sizeof *right);
-	for (int l = 0; l < max_levels; l++)
-		right[l] = -INFINITY;
+	placed = xreallocarray(NULL, n, sizeof *placed);
 	for (size_t i = 0; i < n; i++)
-		ord[i] = (struct lab_ord){ x[i], i };
+		ord[i] = (struct lab_ord){ x[i], prio != NULL ? prio[i] : 0, i };
 	qsort(ord, n, sizeof *ord, cmp_lab);
 	for (size_t k = 0; k < n; k++) {
 		size_t i = ord[k].i;
-		double left = x[i] - w[i] / 2;
-		int l = 0;
+		int l;
 
-		while (l < max_levels && right[l] + gap > left)
-			l++;
+		for (l = 0; l < max_levels; l++) {
+			int clear = 1;
+
+			for (size_t j = 0; j < np && clear; j++) {
+				size_t o = placed[j];
+
+				if (level[o] == l && x[i] - w[i] / 2 < x[o] + w[o] / 2 + gap &&
+				    x[o] - w[o] / 2 < x[i] + w[i] / 2 + gap)
+					clear = 0;
+			}
+			if (clear)
+				break;
+		}
 		if (l == max_levels) {
-			l = max_levels - 1;
+			level[i] = -1;
 			if (crowded != NULL)
 				(*crowded)++;
+			continue;
 		}
 		level[i] = l;
-		if (x[i] + w[i] / 2 > right[l])
-			right[l] = x[i] + w[i] / 2;
+		placed[np++] = i;
 		if (l + 1 > used)
 			used = l + 1;
 	}
 	free(ord);
-	free(right);
+	free(placed);
 	return used;
 }
 

@@ -51,14 +51,14 @@ double rep_map(double v, double v0, double v1, double p0, double p1);
 
 /* ---- labels that must not overlap ---- */
 
-/* Labels centred at x[i] (in order of x or not), each w[i] wide, are put
- * on levels 0, 1, ... : each takes the lowest level where it keeps `gap`
- * clear of every label already there, labels taken left to right.  A label
- * that would need level max_levels or more is put on the last level and
- * counted as crowded.  level[i] gets the level; returns the levels used
- * (at least 1 when n > 0); *crowded (may be NULL) the crowded count. */
-int    rep_labels_spread(const double *x, const double *w, size_t n, double gap,
-           int max_levels, int *level, size_t *crowded);
+/* Labels centred at x[i], each w[i] wide, are put on levels 0, 1, ...:
+ * taken by prio (higher first; prio may be NULL) and then left to right,
+ * each gets the lowest level where it keeps `gap` clear of every label
+ * already there.  A label that finds no room on max_levels levels gets
+ * level -1 (not shown) and is counted in *crowded (may be NULL).  Returns
+ * the levels used. */
+int    rep_labels_spread(const double *x, const double *w, const int *prio, size_t n,
+           double gap, int max_levels, int *level, size_t *crowded);
 
 /* ---- the element table over pages ---- */
 

@@ -239,9 +239,10 @@ enum {
 };
 
 struct plot_labels {
-	int    *level;
+	int    *level;              /* -1: no room, not shown */
 	double *x, *w;
 	int     levels;
+	size_t  left_out;
 };
 
 static void
@@ -250,17 +251,25 @@ plot_labels(struct pdoc *d, const struct rep_profile *p, double x0, double x1,
 {
 	const struct trace *t = d->rv->trace;
 
+	int *prio = xcalloc(p->nmark + 1, sizeof *prio);
+
 	pl->x = xcalloc(p->nmark + 1, sizeof *pl->x);
 	pl->w = xcalloc(p->nmark + 1, sizeof *pl->w);
 	pl->level = xcalloc(p->nmark + 1, sizeof *pl->level);
 	for (size_t i = 0; i < p->nmark; i++) {
 		const struct rep_mark *m = &p->mark[i];
-		const char *s = m->focus ? "focus" : t->rows[m->row].el->id;
+		const struct trace_row *r = &t->rows[m->row];
+		const char *s = m->focus ? "focus" : r->el->id;
 
 		pl->x[i] = rep_map(m->z, p->z0, p->z1, x0, x1);
 		pl->w[i] = pdf_text_width(d, PDF_SANS " 6.5", s);
+		/* what a reviewer looks for keeps its label when room runs out */
+		prio[i] = m->focus ? 2 : r->status == STATUS_OVER ? 3 :
+		    r->status == STATUS_CAUTION ? 2 : r->el->type == EL_LENS ? 1 : 0;
 	}
-	pl->levels = rep_labels_spread(pl->x, pl->w, p->nmark, 3, P_MAXLEVELS, pl->level, NULL);
+	pl->levels = rep_labels_spread(pl->x, pl->w, prio, p->nmark, 3, P_MAXLEVELS, pl->level,
+	    &pl->left_out);
+	free(prio);
 	if (pl->levels < 1)
 		pl->levels = 1;
 }
@@ -388,7 +397,7 @@ pdf_draw_profile(struct pdoc *d, const struct rep_profile *p, double x, double y
 		pdf_text(d, tx - 20, yp1 + 3, 40, PDF_SANS " 6.5", buf, 1, 1);
 	}
 	snprintf(buf, sizeof buf, "z along the beam, unfolded (%s)", zu.name);
-	pdf_text(d, x0, yp1 + 12, x1 - x0, PDF_SANS " 7", buf, 1, 1);
+	pdf_text(d, x0, yp1 + 12, x1 - x0, PDF_SANS " 7", buf, pl.left_out > 0 ? 2 : 1, 1);
 	/* element planes and their labels on levels above the radius panel */
 	for (size_t i = 0; i < p->nmark; i++) {
 		const struct rep_mark *m = &p->mark[i];
@@ -397,20 +406,49 @@ pdf_draw_profile(struct pdoc *d, const struct rep_profile *p, double x, double y
 		cairo_save(cr);
 		cairo_set_line_width(cr, 0.5);
 		cairo_set_source_rgb(cr, 0.45, 0.45, 0.45);
-		cairo_set_dash(cr, dot, 2, 0);
-		if (!m->focus) {
+		if (!m->focus && p->nmark <= 30) {
+			cairo_set_dash(cr, dot, 2, 0);
 			cairo_move_to(cr, mx, yr0);
 			cairo_line_to(cr, mx, yr1);
 			cairo_move_to(cr, mx, yp0);
 			cairo_line_to(cr, mx, yp1);
+		} else if (!m->focus) {
+			/* many planes: ticks on the frames, not lines over the curves */
+			cairo_move_to(cr, mx, yr0);
+			cairo_line_to(cr, mx, yr0 + 4);
+			cairo_move_to(cr, mx, yp1);
+			cairo_line_to(cr, mx, yp1 - 4);
 		}
-		cairo_move_to(cr, mx, ly + P_LEVEL);
-		cairo_line_to(cr, mx, yr0);
 		cairo_stroke(cr);
+		if (pl.level[i] >= 0) {
+			cairo_set_dash(cr, dot, 2, 0);
+			cairo_move_to(cr, mx, ly + P_LEVEL);
+			cairo_line_to(cr, mx, yr0);
+			cairo_stroke(cr);
+		}
 		cairo_restore(cr);
+	}
+	/* labels over the leaders, each on a blank patch, so a leader from a
+	 * higher level never runs through a word */
+	for (size_t i = 0; i < p->nmark; i++) {
+		const struct rep_mark *m = &p->mark[i];
+		double ly = yr0 - 4 - (pl.level[i] + 1) * P_LEVEL;
+
+		if (pl.level[i] < 0)
+			continue;
+		cairo_set_source_rgb(cr, 1, 1, 1);
+		cairo_rectangle(cr, pl.x[i] - pl.w[i] / 2 - 0.5, ly + 0.5, pl.w[i] + 1, P_LEVEL - 0.5);
+		cairo_fill(cr);
 		cairo_set_source_rgb(cr, m->focus ? 0.6 : 0, 0, 0);
-		pdf_text(d, mx - pl.w[i] / 2, ly, 0, PDF_SANS " 6.5",
+		pdf_text(d, pl.x[i] - pl.w[i] / 2, ly, 0, PDF_SANS " 6.5",
 		    m->focus ? "focus" : t->rows[m->row].el->id, 0, 1);
+	}
+	if (pl.left_out > 0) {
+		snprintf(buf, sizeof buf, "%zu element labels left out for room (over, caution, "
+		    "lenses and foci first); the table lists every element", pl.left_out);
+		cairo_set_source_rgb(cr, 0.3, 0.3, 0.3);
+		pdf_text(d, x0, yp1 + 12, 0, PDF_SANS " Oblique 6", buf, 0, 1);
+		cairo_set_source_rgb(cr, 0, 0, 0);
 	}
 	/* the curves, clipped to their panels */
 	cairo_save(cr);
@@ -578,17 +616,18 @@ pdf_draw_schematic(struct pdoc *d)
 				cairo_line_to(cr, dx, cy);
 				cairo_line_to(cr, cx, cy);
 				cairo_stroke(cr);
-				pdf_text(d, dx + 2, oy + 4, S_CW, PDF_SANS " 5.5",
-				    port_word(t->rows[c->row].port), 0, 1);
+				/* the port's name left of the drop, just above its lane */
+				pdf_text(d, dx - 2 - S_CW, cy - 10, S_CW, PDF_SANS " 5.5",
+				    port_word(t->rows[c->row].port), 2, 1);
 			} else if (c->owner >= 0) {
 				char from[160];
 
-				trace_branch_name(t->rows[c->row].parent, t->rows[c->row].port,
-				    from, sizeof from);
+				snprintf(from, sizeof from, "from %s %s", t->rows[c->row].parent->id,
+				    port_word(t->rows[c->row].port));
 				cairo_move_to(cr, d->mx + S_LEFT - 10, cy);
 				cairo_line_to(cr, cx, cy);
 				cairo_stroke(cr);
-				pdf_text(d, d->mx - 6, cy - 12, S_LEFT + 4, PDF_SANS " 5", from, 2, 1);
+				pdf_text(d, d->mx - 8, cy - 14, S_LEFT + 4, PDF_SANS " 5", from, 2, 1);
 			} else if (s == 0 && c->lane == 0) {
 				cairo_move_to(cr, d->mx + 14, cy);
 				cairo_line_to(cr, cx, cy);

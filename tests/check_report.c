@@ -63,7 +63,7 @@ START_TEST(test_labels_same_z)
 	double x[] = { 100, 100, 100, 300 }, w[] = { 20, 20, 20, 20 };
 	int lv[4];
 	size_t crowded;
-	int used = rep_labels_spread(x, w, 4, 3, 6, lv, &crowded);
+	int used = rep_labels_spread(x, w, NULL, 4, 3, 6, lv, &crowded);
 
 	ck_assert_int_eq(used, 3);
 	ck_assert_int_eq(crowded, 0);
@@ -84,7 +84,7 @@ START_TEST(test_labels_never_overlap)
 		x[i] = gen_uniform(&g, 0, 500);
 		w[i] = gen_uniform(&g, 5, 30);
 	}
-	rep_labels_spread(x, w, 60, gap, 100, lv, &crowded);
+	rep_labels_spread(x, w, NULL, 60, gap, 100, lv, &crowded);
 	ck_assert_int_eq(crowded, 0);
 	for (int i = 0; i < 60; i++)
 		for (int j = i + 1; j < 60; j++)
@@ -97,13 +97,48 @@ END_TEST
 
 START_TEST(test_labels_crowded)
 {
+	/* three at one place, two levels: the one of least priority is left
+	 * out, whatever its order */
 	double x[] = { 50, 50, 50 }, w[] = { 10, 10, 10 };
-	int lv[3];
+	int lv[3], prio[] = { 0, 2, 1 };
 	size_t crowded;
 
-	ck_assert_int_eq(rep_labels_spread(x, w, 3, 1, 2, lv, &crowded), 2);
+	ck_assert_int_eq(rep_labels_spread(x, w, prio, 3, 1, 2, lv, &crowded), 2);
 	ck_assert_int_eq(crowded, 1);
-	ck_assert_int_eq(rep_labels_spread(x, w, 0, 1, 2, lv, &crowded), 0);
+	ck_assert_int_eq(lv[0], -1);
+	ck_assert_int_eq(lv[1], 0);
+	ck_assert_int_eq(lv[2], 1);
+	ck_assert_int_eq(rep_labels_spread(x, w, NULL, 0, 1, 2, lv, &crowded), 0);
+}
+END_TEST
+
+START_TEST(test_labels_random_crowded)
+{
+	/* many labels on few levels: what is shown never overlaps */
+	struct gen g = { 777, 0 };
+	double x[200], w[200];
+	int lv[200], prio[200];
+	size_t crowded, shown = 0;
+
+	for (int i = 0; i < 200; i++) {
+		x[i] = gen_uniform(&g, 0, 500);
+		w[i] = gen_uniform(&g, 8, 20);
+		prio[i] = gen_chance(&g, 0.1);
+	}
+	rep_labels_spread(x, w, prio, 200, 2, 4, lv, &crowded);
+	ck_assert_uint_gt(crowded, 0);
+	for (int i = 0; i < 200; i++) {
+		shown += lv[i] >= 0;
+		for (int j = i + 1; j < 200; j++)
+			if (lv[i] >= 0 && lv[i] == lv[j])
+				ck_assert(x[i] + w[i] / 2 + 2 <= x[j] - w[j] / 2 ||
+				    x[j] + w[j] / 2 + 2 <= x[i] - w[i] / 2);
+	}
+	ck_assert_uint_eq(shown + crowded, 200);
+	/* every label of priority was placed before any other was */
+	for (int i = 0; i < 200; i++)
+		if (prio[i])
+			ck_assert_int_ge(lv[i], 0);
 }
 END_TEST
 
@@ -356,6 +391,7 @@ main(void)
 	tcase_add_test(tc, test_labels_same_z);
 	tcase_add_test(tc, test_labels_never_overlap);
 	tcase_add_test(tc, test_labels_crowded);
+	tcase_add_test(tc, test_labels_random_crowded);
 	tcase_add_test(tc, test_paginate_counts);
 	tcase_add_test(tc, test_paginate_fits);
 	tcase_add_test(tc, test_map);
