@@ -114,15 +114,8 @@ cmd_bench_load(struct store *s, const char *arg, char **name, char **shown, char
 int
 cmd_write_atomic(const char *path, const char *text, char **cause)
 {
-	return cmd_write_atomic_len(path, text, strlen(text), cause);
-}
-
-int
-cmd_write_atomic_len(const char *path, const void *data, size_t len, char **cause)
-{
-	const char *text = data;
 	char *tmp;
-	size_t off = 0;
+	size_t len = strlen(text), off = 0;
 	mode_t mask = umask(0), mode;
 	struct stat sb;
 	int fd;

@@ -28,9 +28,6 @@ char         *cmd_rev_shown(const char *rev, int no);
 /* Writes text to path through a temporary file and rename(2), so that a
  * reader never sees half a file. */
 int           cmd_write_atomic(const char *path, const char *text, char **cause);
-/* The same for bytes that may hold NULs (a PDF). */
-int           cmd_write_atomic_len(const char *path, const void *data, size_t len,
-                  char **cause);
 
 /* getopt_long over argv from index 1, permuting so options may follow the
  * operands; resets getopt's state first. */

@@ -1,0 +1,31 @@
+#!/bin/sh
+# report-ui.sh - the workbench's history screen writes the printed review
+# of the chosen setup (key v) into the current folder and says where; the
+# PDF it leaves opens.  Driven in tmux like tests/ui.sh.
+
+command -v "${TMUX_BIN:-tmux}" >/dev/null 2>&1 || { echo "1..0 # SKIP no tmux"; exit 0; }
+command -v pdfinfo >/dev/null 2>&1 || { echo "1..0 # SKIP no pdfinfo"; exit 0; }
+[ -n "$TMUX_BIN" ] || TMUX_BIN=tmux
+. "${srcdir:-.}/tests/ui-lib.sh"
+BL=${BEAMLEDGER:-./src/beamledger}
+case $BL in /*) ;; *) BL=$PWD/$BL ;; esac
+DB="$T_DIR/ui.db"
+B=table3-ablation
+
+"$BL" demo >"$T_DIR/demo.json"
+"$BL" --db "$DB" import "$T_DIR/demo.json" >/dev/null
+"$BL" --db "$DB" set "$B" L1 focal=300mm >/dev/null
+"$BL" --db "$DB" commit "$B" -m "longer lens" >/dev/null
+mkdir "$T_DIR/here"
+t_start rv 100 30 env -C "$T_DIR/here" USER=lab-tester NO_COLOR= "$BL" --db "$DB" open "$B"
+check "the workbench opens the bench" wait_for rv "worst:"
+t_keys rv h
+check "history lists the setups" wait_for rv "longer lens"
+t_keys rv j
+t_keys rv v
+check "v says where the review went" wait_for rv "written to $T_DIR/here/$B-setup-2.pdf"
+check "the PDF is there and opens" sh -c 'pdfinfo "$1" | grep -q "^Pages: *[1-9]"' sh "$T_DIR/here/$B-setup-2.pdf"
+check "nothing else is left in the folder" [ "$(ls "$T_DIR/here" | wc -l)" -eq 1 ]
+t_keys rv Q
+check "quits" wait_exit rv 5
+done_testing
