@@ -67,6 +67,11 @@ run first report "$B@1" -o first.pdf
 pdf_words first.pdf >first.txt
 check "setup #1: says there is nothing earlier" has first.txt "first setup"
 
+run dflt report "$B"
+check "without -o: BENCH-draft.pdf in the current folder" sh -c '[ "$1" -eq 0 ] && pdfinfo "$2" >/dev/null 2>&1' sh "$(rc_of dflt)" "$B-draft.pdf"
+run named report "$B@1" --format md
+check "without -o, --format md: BENCH-setup-1.md" [ "$(rc_of named)" -eq 0 -a -s "$B-setup-1.md" ]
+
 # ---- Markdown: the same facts ----
 run md report "$B@2" -o review.md
 check "report -o review.md: exit 0" status_is md 0
