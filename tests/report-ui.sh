@@ -1,7 +1,8 @@
 #!/bin/sh
 # report-ui.sh - the workbench's history screen writes the printed review
 # of the chosen setup (key v) into the current folder and says where; the
-# PDF it leaves opens.  Driven in tmux like tests/ui.sh.
+# PDF it leaves opens; the terminal profile shows the ids of elements a
+# column apart on two rows.  Driven in tmux like tests/ui.sh.
 
 command -v "${TMUX_BIN:-tmux}" >/dev/null 2>&1 || { echo "1..0 # SKIP no tmux"; exit 0; }
 command -v pdfinfo >/dev/null 2>&1 || { echo "1..0 # SKIP no pdfinfo"; exit 0; }
@@ -26,6 +27,15 @@ t_keys rv v
 check "v says where the review went" wait_for rv "written to $T_DIR/here/$B-setup-2.pdf"
 check "the PDF is there and opens" sh -c 'pdfinfo "$1" | grep -q "^Pages: *[1-9]"' sh "$T_DIR/here/$B-setup-2.pdf"
 check "nothing else is left in the folder" [ "$(ls "$T_DIR/here" | wc -l)" -eq 1 ]
+# the terminal profile: W1 and T1 are 20 mm apart, one column at this
+# width; both ids are shown, on two rows, rather than one hiding the other
+t_keys rv Escape
+check "back on the chain" wait_for rv "worst:"
+t_keys rv G
+t_keys rv p
+check "the profile of T1's branch" wait_for rv "target T1 at z"
+check "T1's id under its mark" wait_line rv '^ .* L1 +T1 *$'
+check "W1's id on the second row, not hidden" wait_line rv '^ +(PBS1 +)?W1 *$|^ .* W1 *$'
 t_keys rv Q
 check "quits" wait_exit rv 5
 done_testing
