@@ -35,7 +35,7 @@ t_keys rv G
 t_keys rv p
 check "the profile of T1's branch" wait_for rv "target T1 at z"
 check "T1's id under its mark" wait_line rv '^ .* L1 +T1 *$'
-check "W1's id on the second row, not hidden" wait_line rv '^ +(PBS1 +)?W1 *$|^ .* W1 *$'
+check "W1's id on the second row, not hidden" wait_line rv ' W1 *$'
 t_keys rv Q
 check "quits" wait_exit rv 5
 done_testing
