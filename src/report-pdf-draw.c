@@ -662,8 +662,10 @@ pdf_draw_schematic(struct pdoc *d)
 			pdf_status_tile(cr, cx - S_TILE / 2.0, cy - S_TILE / 2.0, S_TILE, S_TILE, r->status);
 			draw_symbol(cr, r->el, cx, cy);
 			cairo_set_source_rgb(cr, 0, 0, 0);
-			pdf_text(d, cx - S_CW / 2, cy + S_TILE / 2.0 + 1, S_CW, PDF_SANS " 6",
+			d->one_line = 1;    /* a long id is cut, not wrapped over its status */
+			pdf_text(d, cx - S_CW / 2 + 1, cy + S_TILE / 2.0 + 1, S_CW - 2, PDF_SANS " 6",
 			    r->el->id, 1, 1);
+			d->one_line = 0;
 			if (r->el->side_port != PORT_NONE && !branch_has_cells(&sc, t, r->el)) {
 				/* a side port with nothing in its way: the beam leaves */
 				cairo_set_source_rgb(cr, 0.6, 0, 0);

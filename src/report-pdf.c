@@ -44,6 +44,8 @@ pdf_text(struct pdoc *d, double x, double y, double w, const char *font, const c
 	pango_layout_set_text(d->lay, text, -1);
 	pango_layout_set_width(d->lay, w > 0 ? (int)(w * PANGO_SCALE) : -1);
 	pango_layout_set_wrap(d->lay, PANGO_WRAP_WORD_CHAR);
+	pango_layout_set_ellipsize(d->lay, d->one_line && w > 0 ? PANGO_ELLIPSIZE_END :
+	    PANGO_ELLIPSIZE_NONE);
 	pango_layout_set_alignment(d->lay, align == 1 ? PANGO_ALIGN_CENTER :
 	    align == 2 ? PANGO_ALIGN_RIGHT : PANGO_ALIGN_LEFT);
 	pango_layout_get_size(d->lay, &pw, &ph);
@@ -62,6 +64,7 @@ pdf_text_width(struct pdoc *d, const char *font, const char *text)
 
 	set_font(d, font);
 	pango_layout_set_width(d->lay, -1);
+	pango_layout_set_ellipsize(d->lay, PANGO_ELLIPSIZE_NONE);
 	pango_layout_set_text(d->lay, text, -1);
 	pango_layout_get_size(d->lay, &pw, &ph);
 	return (double)pw / PANGO_SCALE;
@@ -78,7 +81,9 @@ page_frame(struct pdoc *d)
 	cairo_set_source_rgb(cr, 0, 0, 0);
 	snprintf(buf, sizeof buf, "beamledger review · bench %s · %s", d->rv->bench->name,
 	    d->rv->setup);
+	d->one_line = 1;            /* a long bench name must not run into the rule */
 	pdf_text(d, d->mx, 22, d->pw - 2 * d->mx - 80, PDF_SANS " 7.5", buf, 0, 1);
+	d->one_line = 0;
 	if (d->total > 0)
 		snprintf(buf, sizeof buf, "page %d of %d", d->page, d->total);
 	else

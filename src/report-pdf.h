@@ -24,6 +24,7 @@ struct pdoc {
 	int                 page;       /* 1-based, 0 before the first */
 	int                 total;      /* page count for "page N of M"; 0: unknown */
 	int                 paged;      /* 1: a PDF (new pages, headers); 0: one SVG */
+	int                 one_line;   /* pdf_text cuts with "…" instead of wrapping */
 };
 
 /* Text at (x, y) in a box w wide (w <= 0: no wrap), font "DejaVu Sans 9",

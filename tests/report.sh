@@ -60,6 +60,21 @@ done <cautions.txt
 check "PDF: every one of the $n caution lines" [ "$n" -ge 5 -a -z "$missing" ]
 [ -z "$missing" ] || diag "missing:$missing"
 
+# the verdict's counts, counted here from the trace's JSON
+"$BEAMLEDGER" trace "$B@r2" --format json >trace2.json
+counts=$(python3 - trace2.json <<'EOF'
+import json, sys
+t = json.load(open(sys.argv[1]))
+els = [e for e in t["elements"] if e["type"] != "space"]
+n = lambda s: sum(1 for e in els if e["status"] == s)
+w = [x for x in t["warnings"] if x["kind"] == "unterminated"]
+a = [x for x in t["warnings"] if x["kind"] == "air_breakdown"]
+print("Over: %d caution: %d ok: %d unrated: %d Unterminated beams: %d air-breakdown foci: %d"
+      % (n("over"), n("caution"), n("ok"), n("unrated"), len(w), len(a)))
+EOF
+)
+check "PDF: the verdict's counts ($counts)" has review.txt "$counts"
+
 # the draft compares with the latest setup; --since chooses
 run sincepdf report "$B@2" --since 1 -o since.pdf
 check "--since 1: exit 0" status_is sincepdf 0
@@ -170,6 +185,20 @@ check "unknown extension: no file" [ ! -e review.bad ]
 run clash report --demo -o x.pdf --format md
 check "--format against the extension: exit 2" status_is clash 2
 check "... and no file" [ ! -e x.pdf ]
+run nosetup report "$B@9" -o n9.pdf
+check "a setup that does not exist: exit 2, no file" sh -c '[ "$1" -eq 2 ] && [ ! -e n9.pdf ]' sh "$(rc_of nosetup)"
+run nosince report "$B@2" --since 9 -o s9.pdf
+check "--since a setup that does not exist: exit 2, no file" sh -c '[ "$1" -eq 2 ] && [ ! -e s9.pdf ]' sh "$(rc_of nosince)"
+run filesince report demo.json --since 1 -o fs.pdf
+check "--since with a bench file: exit 2" status_is filesince 2
+cat >bare.json <<'EOF'
+{ "format": "beamledger-bench-1", "name": "bare",
+  "source": { "wavelength": "633 nm", "power": "1 mW", "waist": "0.4 mm", "m2": 1, "polarization": 0 },
+  "path": [ { "id": "S0", "type": "space", "length": "1 m" }, { "id": "T1", "type": "target" } ] }
+EOF
+run bare report bare.json -o bare.pdf
+check "a bench with nothing rated: exit 0" status_is bare 0
+check "... and says nothing was checked" sh -c 'pdftotext "$1" - | tr -s " \n" "  " | grep -qF "nothing was checked"' sh bare.pdf
 run nob report no-such-bench -o nb.pdf
 check "unknown bench: exit 2" status_is nob 2
 check "unknown bench: no file" [ ! -e nb.pdf ]
