@@ -124,26 +124,41 @@ md_row(struct buf *b, const char *key, const char *val)
 	buf_addc(b, '\n');
 }
 
+static int
+same_branch(const struct trace_row *a, const struct trace_row *b)
+{
+	return a->parent == b->parent && a->port == b->port;
+}
+
 static void
 md_chain(struct buf *b, const struct trace *t)
 {
-	double gap = 0;
-
 	buf_add(b, "## Chain\n\nFrom the source, side branches indented under their port:\n\n");
 	for (size_t i = 0; i < t->nrows; i++) {
 		const struct trace_row *r = &t->rows[i];
 		char pct[32], g[48], br[160];
+		double gap = 0;
 
 		if (i > 0 && r->parent != NULL && t->rows[i - 1].el == r->parent) {
+			int any = 0;
+
+			for (size_t j = i; j < t->nrows && !any; j++)
+				any = same_branch(&t->rows[j], r) && t->rows[j].el->type != EL_SPACE;
 			trace_branch_name(r->parent, r->port, br, sizeof br);
 			for (unsigned d = 1; d < r->depth; d++)
 				buf_add(b, "  ");
-			buf_printf(b, "- branch %s:\n", br);
-			gap = 0;
+			buf_printf(b, "- branch %s:%s\n", br, any ? "" :
+			    " free space only: **the beam leaves the bench**");
 		}
-		if (r->el->type == EL_SPACE) {
-			gap += model_get(r->el, K_LENGTH);
+		if (r->el->type == EL_SPACE)
 			continue;
+		/* the free space before it in its own branch */
+		for (size_t j = i; j-- > 0;) {
+			if (!same_branch(&t->rows[j], r))
+				continue;
+			if (t->rows[j].el->type != EL_SPACE)
+				break;
+			gap += model_get(t->rows[j].el, K_LENGTH);
 		}
 		for (unsigned d = 0; d < r->depth; d++)
 			buf_add(b, "  ");
@@ -152,7 +167,6 @@ md_chain(struct buf *b, const struct trace *t)
 		buf_printf(b, "- %s (%s) after %s: %s%s%s\n", r->el->id, model_type_name(r->el->type),
 		    g, r->status == STATUS_OVER ? "**OVER**" : layout_status_word(r->status),
 		    isnan(r->ratio) ? "" : ", ", isnan(r->ratio) ? "" : pct);
-		gap = 0;
 	}
 	buf_addc(b, '\n');
 }

@@ -95,6 +95,10 @@ check "MD: bench and setup" has review.mdw "# Review of bench $B, setup #2"
 check "MD: the worst element" has review.mdw "Worst element: $worst"
 check "MD: the safe source power" has review.mdw "Safe source power: $safe"
 check "MD: the content hash" has review.mdw "$h"
+# the chain counts free space per branch: S5 (150 mm in the bench file)
+# lies before CM1; the 80 mm of POL1's rejected branch do not
+check "MD: the chain gives CM1's own gap" has review.mdw "CM1 (mirror) after 150 mm"
+check "MD: the open rejected port is named" has review.mdw "branch POL1.rejected: free space only: **the beam leaves the bench**"
 missing=
 while IFS= read -r line; do
 	grep -qF -- "$(words "$line")" review.mdw || missing="$missing | $line"
