@@ -616,9 +616,14 @@ pdf_draw_schematic(struct pdoc *d)
 				cairo_line_to(cr, dx, cy);
 				cairo_line_to(cr, cx, cy);
 				cairo_stroke(cr);
-				/* the port's name left of the drop, just above its lane */
+				/* the port's name, and the free space to the first element,
+				 * left of the drop just above its lane */
 				pdf_text(d, dx - 2 - S_CW, cy - 10, S_CW, PDF_SANS " 5.5",
 				    port_word(t->rows[c->row].port), 2, 1);
+				if (c->gap > 0) {
+					units_format(gap, sizeof gap, c->gap, DIM_LENGTH, 3, 0);
+					pdf_text(d, dx - 2 - S_CW, cy - 17, S_CW, PDF_SANS " 5.5", gap, 2, 1);
+				}
 			} else if (c->owner >= 0) {
 				char from[160];
 
@@ -632,6 +637,11 @@ pdf_draw_schematic(struct pdoc *d)
 				cairo_move_to(cr, d->mx + 14, cy);
 				cairo_line_to(cr, cx, cy);
 				cairo_stroke(cr);
+				if (c->gap > 0) {
+					units_format(gap, sizeof gap, c->gap, DIM_LENGTH, 3, 0);
+					pdf_text(d, d->mx + 10, cy - 19, cx - d->mx - 14, PDF_SANS " 5.5",
+					    gap, 1, 1);
+				}
 			}
 			if (has_next[k]) {
 				/* continues in the next strip */
