@@ -162,13 +162,29 @@ for el in ("CM1", "L1"):
     print("%s z=%g wx=%g x=%.3f want y=%.3f got %s %s" % (el, e["z"], e["radius_x"], x, want_y,
           [round(y, 3) for _, y in near], "ok" if hit else "MISS"))
     ok = ok and hit
+# the description's frame is the frame drawn (a closed path on its corners)
+fr = "M %g %g L %g %g L %g %g L %g %g Z" % (x0, yt, x1, yt, x1, yb, x0, yb)
+print("frame", fr, "drawn" if fr in svg else "NOT DRAWN")
+ok = ok and fr in svg
+# the dashed radius y curve meets the trace's radius y at W1 (main)
+besty = []
+for p in re.finditer(r'<path [^>]*stroke:rgb\(85%,33%,0%\)[^>]*d="([^"]*)"', svg):
+    pts = [tuple(map(float, q)) for q in re.findall(r'[ML] ([-\d.]+) ([-\d.]+)', p.group(1))]
+    if pts and all(yt - 2 <= y <= yb + 2 for _, y in pts) and len(pts) > len(besty):
+        besty = pts
+e = [r for r in tr["elements"] if r["id"] == "W1"][0]
+x = x0 + (e["z"] - z0) * (x1 - x0) / (z1 - z0)
+want_y = yb - e["radius_y"] / rt * (yb - yt)
+hit = any(abs(px - x) < 0.01 and abs(py - want_y) < 0.02 for px, py in besty)
+print("W1 radius y", e["radius_y"], "want y=%.3f" % want_y, "ok" if hit else "MISS")
+ok = ok and hit
 # the axis top is a round value above every radius plotted
 wmax = max(max(r["radius_x"], r["radius_y"]) for r in tr["elements"] if r["branch"] == "main")
 ok = ok and wmax <= rt <= 2.5 * wmax
 print("r_top", rt, "max", wmax)
 sys.exit(0 if ok else 1)
 EOF
-check "SVG: the radius x curve meets the trace's radius at CM1 and L1" [ $? -eq 0 ]
+check "SVG: the radius curves meet the trace's radii at CM1, L1 (x) and W1 (y); the frame is where it says" [ $? -eq 0 ]
 diag "$(cat svgcheck.txt)"
 
 # ---- bad output paths: clear words, exit 2, nothing left ----
