@@ -34,6 +34,8 @@ int  cmd_help(struct cmd_ctx *, int, char **);
 
 int  cmd_trace(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
+/* The printed review (cmd-report.c). */
+int  cmd_report(struct cmd_ctx *, int, char **);
 
 /* The bench database (cmd-store*.c). */
 int  cmd_import(struct cmd_ctx *, int, char **);

@@ -21,6 +21,9 @@ const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@SETUP] | --demo [--format table|json|csv] [--color WHEN] "
 	    "[--ascii]", "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
+	{ "report", cmd_report, "BENCH[@SETUP] | FILE | --demo [-o FILE.pdf|FILE.svg|FILE.md] "
+	    "[--format pdf|svg|md] [--since SETUP]",
+	    "a review of a setup to print and sign: verdict, schematic, profile, table, changes" },
 	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
 	    "the terminal workbench (also with no command); BENCH opens that bench" },
 	{ "help", cmd_help, "[COMMAND]", "this overview, or the help of one command" },

@@ -6,7 +6,9 @@
 
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
+#include "cmd-report.h"
 #include "core-diff.h"
 #include "report-diff.h"
 #include "bench-file.h"
@@ -352,6 +354,34 @@ h_enter(struct app *a, struct ui_pane *p)
 	hist_load(a, p->data);
 }
 
+/* The printed review of the chosen setup, as a PDF in the current folder. */
+static enum ui_reaction
+h_review(struct app *a, struct ui_pane *p)
+{
+	struct hist *d = p->data;
+	char ref[24], *cause = NULL, *path, *cwd;
+	struct review_src *g;
+
+	row_ref(d, d->sel, ref, sizeof ref);
+	if ((g = review_src_record(a->store, a->name, d->sel == 0 ? NULL : ref, NULL,
+	    &cause)) == NULL) {
+		app_msg_take(a, 1, cause);
+		return UI_REDRAW;
+	}
+	path = xasprintf("%s.pdf", review_src_stem(g));
+	if (review_src_write(g, path, 1, &cause) != 0) {
+		app_msg_take(a, 1, cause);
+	} else {
+		cwd = getcwd(NULL, 0);
+		app_msg(a, 0, "review of %s written to %s/%s", review_src_setup(g),
+		    cwd != NULL ? cwd : ".", path);
+		free(cwd);
+	}
+	free(path);
+	review_src_free(g);
+	return UI_REDRAW;
+}
+
 static const struct ui_key hist_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 3, "choose a revision (also k, j)", h_up, 0 },
 	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, h_down, 0 },
@@ -361,6 +391,7 @@ static const struct ui_key hist_keys[] = {
 	{ { 'c' }, "c", "commit", 1, "commit the draft with a note", h_commit, UI_K_EDITS },
 	{ { 'r' }, "r", "restore", 2, "make the selected revision the draft (asks first)", h_restore, UI_K_EDITS },
 	{ { 'l' }, "l", "label", 2, "name the selected revision", h_label, UI_K_EDITS },
+	{ { 'v' }, "v", "review", 2, "write the printed review (PDF) of the selected revision in the current folder", h_review, 0 },
 	{ { UI_ESC, 'q', 'h' }, "Esc", "back", 0, "back to the workbench (also q, h)", h_back, 0 },
 	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
 };

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-report.h"
 #include "ui-app.h"
 #include "util-err.h"
 
@@ -43,7 +44,7 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 {
 	size_t sel = sel_trace_row(a), *path, np;
 	const struct trace_row *sr = &a->trace->rows[sel];
-	int hp = (h - 7) / 4, hr = h - 7 - hp, pw = w - LABEL_W - 1, y0 = 2;
+	int hp = (h - 8) / 4, hr = h - 8 - hp, pw = w - LABEL_W - 1, y0 = 2;
 	struct layout_plot pl;
 	char t1[64], t2[64], t3[64], pct[32], br[160], *t;
 	double ticks[32];
@@ -77,16 +78,16 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	ui_put_right(a, y0 + (hr - 1) / 2, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
 	ui_put_right(a, y0 + hr - 1, 0, LABEL_W - 1, "0", ui_attr(a, UC_DIM));
 	units_format(t1, sizeof t1, pl.pmax, DIM_POWER, 3, a->ascii);
-	ui_put_right(a, y0 + hr + 3, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
-	ui_put_right(a, y0 + hr + 3 + hp - 1, 0, LABEL_W - 1, "0 W", ui_attr(a, UC_DIM));
+	ui_put_right(a, y0 + hr + 4, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+	ui_put_right(a, y0 + hr + 4 + hp - 1, 0, LABEL_W - 1, "0 W", ui_attr(a, UC_DIM));
 	for (int r = 0; r < hr; r++)
 		ui_put(a, y0 + r, LABEL_W, 1, ui_glyph(a, GL_VBAR), UC_DIM);
 	for (int r = 0; r < hp; r++)
-		ui_put(a, y0 + hr + 3 + r, LABEL_W, 1, ui_glyph(a, GL_VBAR), UC_DIM);
+		ui_put(a, y0 + hr + 4 + r, LABEL_W, 1, ui_glyph(a, GL_VBAR), UC_DIM);
 	/* the grid */
 	for (int band = 0; band < 2; band++) {
 		int rows = band == 0 ? hr : hp, base = band == 0 ? 0 : hr;
-		int sy = band == 0 ? y0 : y0 + hr + 3;
+		int sy = band == 0 ? y0 : y0 + hr + 4;
 
 		for (int r = 0; r < rows; r++)
 			for (int c = 0; c < pw; c++) {
@@ -104,7 +105,7 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	}
 	/* the axis: element marks, foci, z ticks, ids */
 	{
-		int ay = y0 + hr, next_free = 0;
+		int ay = y0 + hr;
 
 		for (int c = 0; c < pw; c++)
 			ui_put(a, ay, LABEL_W + 1 + c, 1, ui_glyph(a, GL_HBAR), UC_DIM);
@@ -116,47 +117,59 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 			    m->focus ? ui_glyph(a, GL_FOCUS) : a->ascii ? "+" : "\u253c",
 			    m->focus ? UC_FOCUS : is_sel ? UC_KEY : UC_NORMAL);
 		}
-		/* ids under their marks, the selected first, then left to right */
+		/* ids under their marks on two rows, none over another: the
+		 * selected, over and caution ones first, then left to right; an id
+		 * with no room is left out (core-report's label spreading) */
 		{
-			const char *id = sr->el->id;
-			int c = pl.sel_col >= 0 ? pl.sel_col : -1, len = (int)utf8_cols(id);
-			int lo = -1, hi = -1;
+			size_t n = 0, *of = xcalloc(pl.nmark + 1, sizeof *of);
+			double *x = xcalloc(pl.nmark + 1, sizeof *x), *wd = xcalloc(pl.nmark + 1, sizeof *wd);
+			int *lv = xcalloc(pl.nmark + 1, sizeof *lv), *prio = xcalloc(pl.nmark + 1, sizeof *prio);
 
-			if (c >= 0) {
-				lo = c;
-				hi = c + len;
-				if (hi > pw) {
-					lo = pw - len;
-					hi = pw;
-				}
-				ui_put_attr(a, ay + 1, LABEL_W + 1 + lo, len, id,
-				    ui_attr(a, UC_SELECT));
-			}
 			for (size_t i = 0; i < pl.nmark; i++) {
 				const struct layout_mark *m = &pl.mark[i];
-				const char *mid = a->trace->rows[m->row].el->id;
-				int l = (int)utf8_cols(mid);
-
+				const struct trace_row *r = &a->trace->rows[m->row];
+				int l = (int)utf8_cols(r->el->id);
 				int at = m->col + l > pw ? pw - l : m->col;   /* the last ones shift left */
 
-				if (m->focus || m->row == sel || at < next_free || at < 0 ||
-				    (lo >= 0 && at + l >= lo && at <= hi))
+				if (m->focus || at < 0)
 					continue;
-				ui_put(a, ay + 1, LABEL_W + 1 + at, l, mid,
-				    a->trace->rows[m->row].status >= STATUS_CAUTION ?
-				    (a->trace->rows[m->row].status == STATUS_OVER ? UC_OVER : UC_CAUTION) :
-				    UC_NORMAL);
-				next_free = at + l + 1;
+				of[n] = i;
+				x[n] = at + l / 2.0;
+				wd[n] = l;
+				prio[n] = m->row == sel ? 9 : r->status == STATUS_OVER ? 3 :
+				    r->status == STATUS_CAUTION ? 2 : 0;
+				n++;
 			}
+			rep_labels_spread(x, wd, prio, n, 1, 2, lv, NULL);
+			for (size_t k = 0; k < n; k++) {
+				const struct layout_mark *m = &pl.mark[of[k]];
+				const struct trace_row *r = &a->trace->rows[m->row];
+				int l = (int)wd[k], at = (int)(x[k] - l / 2.0 + 0.5);
+
+				if (lv[k] < 0)
+					continue;
+				if (m->row == sel)
+					ui_put_attr(a, ay + 1 + lv[k], LABEL_W + 1 + at, l, r->el->id,
+					    ui_attr(a, UC_SELECT));
+				else
+					ui_put(a, ay + 1 + lv[k], LABEL_W + 1 + at, l, r->el->id,
+					    r->status == STATUS_OVER ? UC_OVER :
+					    r->status == STATUS_CAUTION ? UC_CAUTION : UC_NORMAL);
+			}
+			free(of);
+			free(x);
+			free(wd);
+			free(lv);
+			free(prio);
 		}
 		nt = layout_ticks(pl.z0, pl.z1, (size_t)(pw / 12 > 1 ? pw / 12 : 2), ticks);
-		ui_put(a, ay + 2, 0, LABEL_W, "z", UC_DIM);
+		ui_put(a, ay + 3, 0, LABEL_W, "z", UC_DIM);
 		for (size_t i = 0; i < nt; i++) {
 			int c = layout_map_col(ticks[i], pl.z0, pl.z1, pw);
 
 			units_format(t1, sizeof t1, ticks[i], DIM_LENGTH, 3, a->ascii);
 			if (c + (int)utf8_cols(t1) <= pw)
-				ui_put(a, ay + 2, LABEL_W + 1 + c, (int)utf8_cols(t1), t1, UC_DIM);
+				ui_put(a, ay + 3, LABEL_W + 1 + c, (int)utf8_cols(t1), t1, UC_DIM);
 		}
 	}
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);

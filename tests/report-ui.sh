@@ -1,0 +1,41 @@
+#!/bin/sh
+# report-ui.sh - the workbench's history screen writes the printed review
+# of the chosen setup (key v) into the current folder and says where; the
+# PDF it leaves opens; the terminal profile shows the ids of elements a
+# column apart on two rows.  Driven in tmux like tests/ui.sh.
+
+command -v "${TMUX_BIN:-tmux}" >/dev/null 2>&1 || { echo "1..0 # SKIP no tmux"; exit 0; }
+command -v pdfinfo >/dev/null 2>&1 || { echo "1..0 # SKIP no pdfinfo"; exit 0; }
+[ -n "$TMUX_BIN" ] || TMUX_BIN=tmux
+. "${srcdir:-.}/tests/ui-lib.sh"
+BL=${BEAMLEDGER:-./src/beamledger}
+case $BL in /*) ;; *) BL=$PWD/$BL ;; esac
+DB="$T_DIR/ui.db"
+B=table3-ablation
+
+"$BL" demo >"$T_DIR/demo.json"
+"$BL" --db "$DB" import "$T_DIR/demo.json" >/dev/null
+"$BL" --db "$DB" set "$B" L1 focal=300mm >/dev/null
+"$BL" --db "$DB" record "$B" -n "longer lens" >/dev/null
+mkdir "$T_DIR/here"
+t_start rv 100 30 env -C "$T_DIR/here" USER=lab-tester NO_COLOR= "$BL" --db "$DB" open "$B"
+check "the workbench opens the bench" wait_for rv "worst:"
+t_keys rv h
+check "history lists the setups" wait_for rv "longer lens"
+t_keys rv j
+t_keys rv v
+check "v says where the review went" wait_for rv "written to $T_DIR/here/$B-setup-2.pdf"
+check "the PDF is there and opens" sh -c 'pdfinfo "$1" | grep -q "^Pages: *[1-9]"' sh "$T_DIR/here/$B-setup-2.pdf"
+check "nothing else is left in the folder" [ "$(ls "$T_DIR/here" | wc -l)" -eq 1 ]
+# the terminal profile: W1 and T1 are 20 mm apart, one column at this
+# width; both ids are shown, on two rows, rather than one hiding the other
+t_keys rv Escape
+check "back on the chain" wait_for rv "worst:"
+t_keys rv G
+t_keys rv p
+check "the profile of T1's branch" wait_for rv "target T1 at z"
+check "T1's id under its mark" wait_line rv '^ .* L1 +T1 *$'
+check "W1's id on the second row, not hidden" wait_line rv ' W1 *$'
+t_keys rv Q
+check "quits" wait_exit rv 5
+done_testing
