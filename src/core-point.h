@@ -1,0 +1,61 @@
+/* core-point.h - operating points: the bench as it is really run.
+ *
+ * A point is a name and a short list of changes to the base bench, each a
+ * line of text in one grammar (the command line and the bench file alike):
+ *
+ *   ID.KEY=VALUE        a value of an element (a key of the model's table;
+ *                       an empty VALUE unsets an optional key)
+ *   source.KEY=VALUE    a value of the source (the keys of `set --bench`)
+ *   -ID                 the element is taken out of the beam (with its side
+ *                       branch), as if absent
+ *   +TYPE:ID@AFTER      a new element put in after element AFTER, in
+ *   +TYPE:ID@^BEFORE    AFTER's branch (or before BEFORE); its values come
+ *                       from ID.KEY=VALUE changes of the same point
+ *
+ * Source changes apply first, then the rest in the order written; the
+ * result must pass model_validate.  Pure computation. */
+#ifndef CORE_POINT_H
+#define CORE_POINT_H
+
+#include <stddef.h>
+
+#include "core-model.h"
+
+struct point {
+	char   *name;               /* owned; unique in the bench */
+	char  **change;             /* owned array of owned texts */
+	size_t  n, cap;
+};
+
+/* struct point_list is declared in core-model.h (the bench holds one). */
+void          point_list_release(struct point_list *);
+void          point_list_copy(struct point_list *dst, const struct point_list *src);
+struct point *point_list_find(const struct point_list *, const char *name);  /* borrowed; NULL */
+/* A new empty point at the end (borrowed; moves when the list grows). */
+struct point *point_list_push(struct point_list *, const char *name);
+void          point_list_remove(struct point_list *, size_t i);
+void          point_add_change(struct point *, const char *text);
+
+/* Checks a point's name: non-empty, UTF-8, no '@' or '=' or spaces at its
+ * ends ("base" is the name of the bench without a point). */
+int           point_name_check(const char *name, char **cause);
+
+/* Checks the grammar of one change text, without the bench. */
+int           point_change_check(const char *text, char **cause);
+
+/* A copy of the bench with the point applied (the copy holds no points).
+ * Messages name the point, the id and the key: "point 'align': ND9.od: ...". */
+struct bench *point_apply(const struct bench *, const struct point *,
+                  char **cause);                           /* caller frees */
+
+/* Every point of the bench applies cleanly (called by model_validate). */
+int           point_check_all(const struct bench *, char **cause);
+
+/* All-or-nothing edits of a bench's points: the named point is added (and
+ * refused when it exists, a change is malformed, or it does not apply), or
+ * removed (refused when it does not exist). */
+int           point_edit_add(struct bench *, const char *name,
+                  char *const *changes, size_t n, char **cause);
+int           point_edit_remove(struct bench *, const char *name, char **cause);
+
+#endif
