@@ -29,7 +29,16 @@ int  cmd_color(const char *when);
 /* Writes text to stdout; returns 0, or 2 after a message when it fails. */
 int  cmd_print(const char *text);
 
+/* FILE ("-": stdin) or BENCH[@REV] in the database; *origin gets "draft",
+ * "r3", ... (NULL for a file).  NULL with *cause NULL: already said why. */
+struct bench;
+struct bench *cmd_bench_open(struct cmd_ctx *, const char *arg, char **origin,
+                  char **cause);                          /* caller frees */
+
 int  cmd_trace(struct cmd_ctx *, int, char **);
+/* Operating points and sweeps (cmd-point.c, cmd-sweep.c). */
+int  cmd_point(struct cmd_ctx *, int, char **);
+int  cmd_sweep(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
 
 /* The bench database (cmd-store*.c). */

@@ -4,11 +4,13 @@
  * same value typed anywhere else. */
 #include <config.h>
 
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "core-edit.h"
 #include "core-point.h"
+#include "core-trace.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -379,4 +381,90 @@ point_edit_remove(struct bench *b, const char *name, char **cause)
 			return 0;
 		}
 	return fail_with(cause, "no point '%s' in bench '%s'", name, b->name);
+}
+
+/* ---- survey ---- */
+
+static struct point_worst *
+worst_slot(struct point_survey *sv, const char *id)
+{
+	for (size_t i = 0; i < sv->nel; i++)
+		if (strcmp(sv->el[i].id, id) == 0)
+			return &sv->el[i];
+	sv->el = xreallocarray(sv->el, sv->nel + 1, sizeof *sv->el);
+	memset(&sv->el[sv->nel], 0, sizeof *sv->el);
+	sv->el[sv->nel].id = xstrdup(id);
+	sv->el[sv->nel].ratio = NAN;
+	sv->el[sv->nel].status = STATUS_UNRATED;
+	return &sv->el[sv->nel++];
+}
+
+int
+point_survey_run(const struct bench *b, const char *only, struct point_survey *sv,
+    char **cause)
+{
+	const struct point *one = NULL;
+
+	memset(sv, 0, sizeof *sv);
+	if (only != NULL && (one = point_list_find(&b->points, only)) == NULL)
+		return fail_with(cause, "no point '%s' in bench '%s'%s", only, b->name,
+		    b->points.n == 0 ? " (it has no points)" : "");
+	sv->n = one != NULL ? 2 : 1 + b->points.n;
+	sv->name = xcalloc(sv->n, sizeof *sv->name);
+	sv->bench = xcalloc(sv->n, sizeof *sv->bench);
+	sv->trace = xcalloc(sv->n, sizeof *sv->trace);
+	sv->worst = xcalloc(sv->n, sizeof *sv->worst);
+	sv->status = xcalloc(sv->n, sizeof *sv->status);
+	sv->name[0] = "base";
+	sv->bench[0] = (struct bench *)b;
+	for (size_t i = 1; i < sv->n; i++) {
+		const struct point *p = one != NULL ? one : &b->points.p[i - 1];
+
+		sv->name[i] = p->name;
+		if ((sv->bench[i] = point_apply(b, p, cause)) == NULL) {
+			point_survey_release(sv);
+			return -1;
+		}
+	}
+	for (size_t i = 0; i < sv->n; i++) {
+		const struct trace *t = sv->trace[i] = trace_run(sv->bench[i]);
+
+		sv->worst[i] = t->worst;
+		sv->status[i] = STATUS_UNRATED;
+		for (size_t r = 0; r < t->nrows; r++) {
+			const struct trace_row *row = &t->rows[r];
+			struct point_worst *w = worst_slot(sv, row->el->id);
+
+			w->present++;
+			if (row->status > sv->status[i])
+				sv->status[i] = row->status;
+			if (!isnan(row->ratio) && (isnan(w->ratio) || row->ratio > w->ratio)) {
+				w->ratio = row->ratio;
+				w->status = row->status;
+				w->at = i;
+			}
+		}
+		if (sv->status[i] == STATUS_OVER)
+			sv->any_over = 1;
+	}
+	return 0;
+}
+
+void
+point_survey_release(struct point_survey *sv)
+{
+	for (size_t i = 0; i < sv->n; i++) {
+		trace_free(sv->trace != NULL ? sv->trace[i] : NULL);
+		if (i > 0 && sv->bench != NULL)
+			model_bench_free(sv->bench[i]);
+	}
+	for (size_t i = 0; i < sv->nel; i++)
+		free(sv->el[i].id);
+	free(sv->el);
+	free(sv->name);
+	free(sv->bench);
+	free(sv->trace);
+	free(sv->worst);
+	free(sv->status);
+	memset(sv, 0, sizeof *sv);
 }

@@ -19,6 +19,7 @@
 
 #include <stddef.h>
 
+#include "core-damage.h"
 #include "core-model.h"
 
 struct point {
@@ -57,5 +58,33 @@ int           point_check_all(const struct bench *, char **cause);
 int           point_edit_add(struct bench *, const char *name,
                   char *const *changes, size_t n, char **cause);
 int           point_edit_remove(struct bench *, const char *name, char **cause);
+
+/* The base and every point traced: per point its worst element, per
+ * element its worst ratio over all of them and at which point.  Index 0 is
+ * the base; index 1 + i is b->points.p[i].  The survey owns the applied
+ * benches and their traces. */
+struct trace;
+struct point_worst {
+	char               *id;         /* owned */
+	double              ratio;      /* NAN: unrated everywhere */
+	enum damage_status  status;
+	size_t              at;         /* index of the point (0: base) */
+	size_t              present;    /* how many of the points hold it */
+};
+struct point_survey {
+	size_t              n;          /* 1 + number of points */
+	const char        **name;       /* owned array; [0] "base", others borrowed */
+	struct bench      **bench;      /* owned; [0] borrowed: the base itself */
+	struct trace      **trace;      /* owned */
+	long               *worst;      /* owned [n]: row of the worst element, -1 none */
+	enum damage_status *status;     /* owned [n]: the highest at that point */
+	struct point_worst *el;         /* owned, base order then elements put in */
+	size_t              nel;
+	int                 any_over;
+};
+/* only_one: trace just the point of that name (NULL: every point). */
+int  point_survey_run(const struct bench *, const char *only_one,
+         struct point_survey *out, char **cause);
+void point_survey_release(struct point_survey *);
 
 #endif

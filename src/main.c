@@ -13,9 +13,15 @@
 #include "util-err.h"
 
 const struct cmd cmd_table[] = {
-	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii]",
+	{ "trace", cmd_trace, "FILE | BENCH[@REV] | --demo [--format table|json|csv] [--color WHEN] [--ascii] "
+	    "[--point NAME | --every-point]",
 	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
+	{ "sweep", cmd_sweep, "BENCH[@REV] | FILE KNOB FROM TO [--steps N] [--log] [--point NAME] "
+	    "[--format table|json|csv]",
+	    "trace the bench over a range of one value: crossings and safe intervals" },
+	{ "point", cmd_point, "add BENCH NAME CHANGE... | list BENCH | show BENCH NAME | "
+	    "remove BENCH NAME", "operating points: the bench as it is run at each setting" },
 	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
 	    "the terminal workbench (also with no command); BENCH opens that bench" },
 	/* The bench database: benches, drafts, revisions, the parts shelf. */

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "bench-file.h"
+#include "core-diff.h"
 #include "core-point.h"
 #include "core-trace.h"
 
@@ -251,6 +252,33 @@ START_TEST(test_point_guards_base)
 }
 END_TEST
 
+/* compare: a point added is a settings change "point.NAME" whose new
+ * text gives its changes and its worst element there; a point that is the
+ * same on both sides is no change. */
+START_TEST(test_diff_point)
+{
+	struct bench *a = bench_text("plain.json", ALIGN_BENCH, "");
+	struct bench *b = bench_text("align.json", ALIGN_BENCH, ALIGN_POINTS);
+	struct diff *d = diff_benches(a, b), *same = diff_benches(b, b);
+	int found = 0;
+
+	for (size_t i = 0; i < d->nch; i++)
+		for (size_t j = 0; d->ch[i].kind == DIFF_SETTINGS && j < d->ch[i].nvals; j++)
+			if (strcmp(d->ch[i].vals[j].key, "point.alignment") == 0) {
+				found = 1;
+				ck_assert_ptr_null(d->ch[i].vals[j].old_exact);
+				ck_assert_ptr_nonnull(strstr(d->ch[i].vals[j].new_text, "ND9.od=2"));
+				ck_assert_ptr_nonnull(strstr(d->ch[i].vals[j].new_text, "worst"));
+			}
+	ck_assert(found);
+	ck_assert_uint_eq(same->nch, 0);
+	diff_free(d);
+	diff_free(same);
+	model_bench_free(a);
+	model_bench_free(b);
+}
+END_TEST
+
 int
 main(void)
 {
@@ -264,6 +292,7 @@ main(void)
 	tcase_add_loop_test(tc, test_bad_points, 0, sizeof bad_files / sizeof *bad_files);
 	tcase_add_test(tc, test_edit_add_remove);
 	tcase_add_test(tc, test_point_guards_base);
+	tcase_add_test(tc, test_diff_point);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
