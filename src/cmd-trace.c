@@ -98,12 +98,12 @@ points_table(struct buf *out, const struct point_survey *sv)
 	buf_printf(out, "\nOperating points (%zu besides the base):\n", sv->n - 1);
 	buf_printf(out, "  %-16s %-12s %8s  %s\n", "point", "worst", "ratio", "status");
 	for (size_t i = 0; i < sv->n; i++) {
-		const struct trace *t = sv->trace[i];
-		const struct trace_row *w = t->worst >= 0 ? &t->rows[t->worst] : NULL;
+		const struct point_summary *p = &sv->pt[i];
 
-		snprintf(r, sizeof r, "%.1f %%", w != NULL ? 100 * w->ratio : NAN);
-		buf_printf(out, "  %-16s %-12s %8s  %s\n", sv->name[i], w != NULL ? w->el->id : "-",
-		    w != NULL ? r : "-", damage_status_name(sv->status[i]));
+		snprintf(r, sizeof r, "%.1f %%", 100 * p->worst_ratio);
+		buf_printf(out, "  %-16s %-12s %8s  %s\n", p->name,
+		    p->worst_id != NULL ? p->worst_id : "-", p->worst_id != NULL ? r : "-",
+		    p->status == STATUS_OVER ? "OVER" : damage_status_name(p->status));
 	}
 	buf_printf(out, "\nWorst over all points, per rated element:\n");
 	buf_printf(out, "  %-12s %8s  %-8s %s\n", "element", "ratio", "status", "at point");
@@ -115,7 +115,7 @@ points_table(struct buf *out, const struct point_survey *sv)
 		snprintf(r, sizeof r, "%.1f %%", 100 * e->ratio);
 		buf_printf(out, "  %-12s %8s  %-8s %s%s\n", e->id, r,
 		    e->status == STATUS_OVER ? "OVER" : damage_status_name(e->status),
-		    sv->name[e->at], e->present < sv->n ? " (not in every point)" : "");
+		    sv->pt[e->at].name, e->present < sv->n ? " (not in every point)" : "");
 	}
 }
 
@@ -124,29 +124,29 @@ points_json(struct buf *out, const struct point_survey *sv, const struct bench *
 {
 	buf_add(out, "  \"points\": [\n");
 	for (size_t i = 0; i < sv->n; i++) {
-		const struct trace *t = sv->trace[i];
-		const struct point *p = i > 0 ? point_list_find(&b->points, sv->name[i]) : NULL;
+		const struct point_summary *ps = &sv->pt[i];
+		const struct point *p = i > 0 ? point_list_find(&b->points, ps->name) : NULL;
 
 		buf_add(out, "    {\"name\": ");
-		json_put_string(out, sv->name[i]);
+		json_put_string(out, ps->name);
 		buf_add(out, ", \"changes\": [");
 		for (size_t j = 0; p != NULL && j < p->n; j++) {
 			buf_add(out, j ? ", " : "");
 			json_put_string(out, p->change[j]);
 		}
 		buf_add(out, "], \"worst\": ");
-		if (t->worst >= 0) {
+		if (ps->worst_id != NULL) {
 			buf_add(out, "{\"id\": ");
-			json_put_string(out, t->rows[t->worst].el->id);
+			json_put_string(out, ps->worst_id);
 			buf_add(out, ", \"ratio\": ");
-			json_put_number(out, t->rows[t->worst].ratio);
+			json_put_number(out, ps->worst_ratio);
 			buf_add(out, "}");
 		} else {
 			buf_add(out, "null");
 		}
 		buf_printf(out, ", \"status\": \"%s\", \"safe_source_power\": ",
-		    damage_status_name(sv->status[i]));
-		json_put_number(out, t->safe_source_power);
+		    damage_status_name(ps->status));
+		json_put_number(out, ps->safe_source_power);
 		buf_printf(out, "}%s\n", i + 1 < sv->n ? "," : "");
 	}
 	buf_add(out, "  ],\n  \"worst_by_element\": [\n");
@@ -160,7 +160,7 @@ points_json(struct buf *out, const struct point_survey *sv, const struct bench *
 		buf_add(out, ", \"ratio\": ");
 		json_put_number(out, e->ratio);
 		buf_printf(out, ", \"status\": \"%s\", \"point\": ", damage_status_name(e->status));
-		json_put_string(out, sv->name[e->at]);
+		json_put_string(out, sv->pt[e->at].name);
 		buf_add(out, "}");
 		first = 0;
 	}
@@ -177,7 +177,7 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 	struct buf out;
 	char *cause = NULL, *text, *origin = NULL;
 	int rc;
-	size_t shown = only != NULL ? 1 : 0;
+	const struct trace *shown;
 
 	if (point_survey_run(b, only, &sv, &cause) != 0)
 		return cmd_fail(cause);
@@ -186,8 +186,9 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 		    xasprintf("point %s", only);
 		ro->origin = origin;
 	}
-	text = fmt == REPORT_JSON ? report_json(sv.trace[shown]) :
-	    fmt == REPORT_CSV ? report_csv(sv.trace[shown]) : report_table(sv.trace[shown], ro);
+	shown = only != NULL ? sv.last_trace : sv.base_trace;
+	text = fmt == REPORT_JSON ? report_json(shown) :
+	    fmt == REPORT_CSV ? report_csv(shown) : report_table(shown, ro);
 	buf_init(&out);
 	if (fmt == REPORT_JSON) {
 		char *end = strrchr(text, '}');
@@ -213,7 +214,7 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 	free(text);
 	rc = cmd_print(out.s);
 	buf_release(&out);
-	rc = rc != 0 ? rc : (only != NULL ? sv.status[1] == STATUS_OVER : sv.any_over);
+	rc = rc != 0 ? rc : only != NULL ? sv.pt[1].status == STATUS_OVER : sv.any_over;
 	point_survey_release(&sv);
 	free(origin);
 	return rc;

@@ -457,6 +457,12 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 }
 
 int
+edit_set_bench_unchecked(struct bench *b, const char *key, const char *text, char **cause)
+{
+	return set_bench_key(b, key, text, cause);
+}
+
+int
 edit_set_bench(struct bench *b, const char *key, const char *text, char **cause)
 {
 	struct bench *copy = model_bench_dup(b);

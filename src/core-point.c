@@ -277,7 +277,7 @@ apply_one(struct bench *b, const char *text, int source_pass, char **cause)
 		if (source_pass) {
 			char *key = xasprintf("source.%s", c.key);
 
-			rc = edit_set_bench(b, key, c.value, cause);
+			rc = edit_set_bench_unchecked(b, key, c.value, cause);
 			free(key);
 		} else {
 			rc = apply_set(b, &c, text, cause);
@@ -297,12 +297,22 @@ apply_one(struct bench *b, const char *text, int source_pass, char **cause)
 	return rc;
 }
 
-struct bench *
-point_apply(const struct bench *base, const struct point *p, char **cause)
+/* A copy of the base without its points (they are not copied at all). */
+static struct bench *
+dup_without_points(const struct bench *base)
 {
-	struct bench *b = model_bench_dup(base);
+	struct bench tmp = *base, *b;
 
-	point_list_release(&b->points);
+	memset(&tmp.points, 0, sizeof tmp.points);
+	b = model_bench_dup(&tmp);
+	return b;
+}
+
+static struct bench *
+apply(const struct bench *base, const struct point *p, int validate, char **cause)
+{
+	struct bench *b = dup_without_points(base);
+
 	for (int pass = 1; pass >= 0; pass--)
 		for (size_t i = 0; i < p->n; i++)
 			if (apply_one(b, p->change[i], pass, cause) != 0) {
@@ -310,12 +320,18 @@ point_apply(const struct bench *base, const struct point *p, char **cause)
 				model_bench_free(b);
 				return NULL;
 			}
-	if (model_validate(b, cause) != 0) {
+	if (validate && model_validate(b, cause) != 0) {
 		cause_prefix(cause, "point '%s'", p->name);
 		model_bench_free(b);
 		return NULL;
 	}
 	return b;
+}
+
+struct bench *
+point_apply(const struct bench *base, const struct point *p, char **cause)
+{
+	return apply(base, p, 1, cause);
 }
 
 static int
@@ -385,9 +401,13 @@ point_edit_remove(struct bench *b, const char *name, char **cause)
 
 /* ---- survey ---- */
 
+/* The slot of an element; most points keep the base's order, so the slot
+ * at the row's own index is tried first. */
 static struct point_worst *
-worst_slot(struct point_survey *sv, const char *id)
+worst_slot(struct point_survey *sv, const char *id, size_t hint)
 {
+	if (hint < sv->nel && strcmp(sv->el[hint].id, id) == 0)
+		return &sv->el[hint];
 	for (size_t i = 0; i < sv->nel; i++)
 		if (strcmp(sv->el[i].id, id) == 0)
 			return &sv->el[i];
@@ -397,6 +417,32 @@ worst_slot(struct point_survey *sv, const char *id)
 	sv->el[sv->nel].ratio = NAN;
 	sv->el[sv->nel].status = STATUS_UNRATED;
 	return &sv->el[sv->nel++];
+}
+
+static void
+survey_trace(struct point_survey *sv, size_t i, const struct trace *t)
+{
+	struct point_summary *ps = &sv->pt[i];
+
+	ps->worst_id = t->worst >= 0 ? xstrdup(t->rows[t->worst].el->id) : NULL;
+	ps->worst_ratio = t->worst_ratio;
+	ps->safe_source_power = t->safe_source_power;
+	ps->status = STATUS_UNRATED;
+	for (size_t r = 0; r < t->nrows; r++) {
+		const struct trace_row *row = &t->rows[r];
+		struct point_worst *w = worst_slot(sv, row->el->id, r);
+
+		w->present++;
+		if (row->status > ps->status)
+			ps->status = row->status;
+		if (!isnan(row->ratio) && (isnan(w->ratio) || row->ratio > w->ratio)) {
+			w->ratio = row->ratio;
+			w->status = row->status;
+			w->at = i;
+		}
+	}
+	if (ps->status == STATUS_OVER)
+		sv->any_over = 1;
 }
 
 int
@@ -410,42 +456,23 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 		return fail_with(cause, "no point '%s' in bench '%s'%s", only, b->name,
 		    b->points.n == 0 ? " (it has no points)" : "");
 	sv->n = one != NULL ? 2 : 1 + b->points.n;
-	sv->name = xcalloc(sv->n, sizeof *sv->name);
-	sv->bench = xcalloc(sv->n, sizeof *sv->bench);
-	sv->trace = xcalloc(sv->n, sizeof *sv->trace);
-	sv->worst = xcalloc(sv->n, sizeof *sv->worst);
-	sv->status = xcalloc(sv->n, sizeof *sv->status);
-	sv->name[0] = "base";
-	sv->bench[0] = (struct bench *)b;
+	sv->pt = xcalloc(sv->n, sizeof *sv->pt);
+	sv->pt[0].name = "base";
+	sv->base_trace = trace_run(b);
+	survey_trace(sv, 0, sv->base_trace);
 	for (size_t i = 1; i < sv->n; i++) {
 		const struct point *p = one != NULL ? one : &b->points.p[i - 1];
 
-		sv->name[i] = p->name;
-		if ((sv->bench[i] = point_apply(b, p, cause)) == NULL) {
+		sv->pt[i].name = p->name;
+		model_bench_free(sv->last);
+		/* b passed model_validate, which applied every point and
+		 * validated the result: no need to do it twice */
+		if ((sv->last = apply(b, p, 0, cause)) == NULL) {
 			point_survey_release(sv);
 			return -1;
 		}
-	}
-	for (size_t i = 0; i < sv->n; i++) {
-		const struct trace *t = sv->trace[i] = trace_run(sv->bench[i]);
-
-		sv->worst[i] = t->worst;
-		sv->status[i] = STATUS_UNRATED;
-		for (size_t r = 0; r < t->nrows; r++) {
-			const struct trace_row *row = &t->rows[r];
-			struct point_worst *w = worst_slot(sv, row->el->id);
-
-			w->present++;
-			if (row->status > sv->status[i])
-				sv->status[i] = row->status;
-			if (!isnan(row->ratio) && (isnan(w->ratio) || row->ratio > w->ratio)) {
-				w->ratio = row->ratio;
-				w->status = row->status;
-				w->at = i;
-			}
-		}
-		if (sv->status[i] == STATUS_OVER)
-			sv->any_over = 1;
+		sv->last_trace = trace_rerun(sv->last_trace, sv->last);
+		survey_trace(sv, i, sv->last_trace);
 	}
 	return 0;
 }
@@ -453,18 +480,14 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 void
 point_survey_release(struct point_survey *sv)
 {
-	for (size_t i = 0; i < sv->n; i++) {
-		trace_free(sv->trace != NULL ? sv->trace[i] : NULL);
-		if (i > 0 && sv->bench != NULL)
-			model_bench_free(sv->bench[i]);
-	}
+	for (size_t i = 0; i < sv->n && sv->pt != NULL; i++)
+		free(sv->pt[i].worst_id);
 	for (size_t i = 0; i < sv->nel; i++)
 		free(sv->el[i].id);
+	free(sv->pt);
 	free(sv->el);
-	free(sv->name);
-	free(sv->bench);
-	free(sv->trace);
-	free(sv->worst);
-	free(sv->status);
+	trace_free(sv->base_trace);
+	trace_free(sv->last_trace);
+	model_bench_free(sv->last);
 	memset(sv, 0, sizeof *sv);
 }

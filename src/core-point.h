@@ -61,9 +61,17 @@ int           point_edit_remove(struct bench *, const char *name, char **cause);
 
 /* The base and every point traced: per point its worst element, per
  * element its worst ratio over all of them and at which point.  Index 0 is
- * the base; index 1 + i is b->points.p[i].  The survey owns the applied
- * benches and their traces. */
+ * the base; index 1 + i is b->points.p[i] (or the one point asked for).
+ * The points share one copy of the bench and one trace result in turn, so
+ * a survey costs about one copy and one trace per point. */
 struct trace;
+struct point_summary {
+	const char         *name;       /* borrowed: "base" or the point's name */
+	char               *worst_id;   /* owned; NULL: nothing rated */
+	double              worst_ratio;
+	double              safe_source_power;
+	enum damage_status  status;     /* the highest at that point */
+};
 struct point_worst {
 	char               *id;         /* owned */
 	double              ratio;      /* NAN: unrated everywhere */
@@ -72,17 +80,17 @@ struct point_worst {
 	size_t              present;    /* how many of the points hold it */
 };
 struct point_survey {
-	size_t              n;          /* 1 + number of points */
-	const char        **name;       /* owned array; [0] "base", others borrowed */
-	struct bench      **bench;      /* owned; [0] borrowed: the base itself */
-	struct trace      **trace;      /* owned */
-	long               *worst;      /* owned [n]: row of the worst element, -1 none */
-	enum damage_status *status;     /* owned [n]: the highest at that point */
-	struct point_worst *el;         /* owned, base order then elements put in */
-	size_t              nel;
-	int                 any_over;
+	size_t                n;        /* 1 + number of points traced */
+	struct point_summary *pt;       /* owned [n] */
+	struct point_worst   *el;       /* owned, base order then elements put in */
+	size_t                nel;
+	int                   any_over;
+	struct trace         *base_trace;   /* owned: of the base */
+	struct bench         *last;         /* owned: the last point applied; NULL when n == 1 */
+	struct trace         *last_trace;   /* owned: of `last` */
 };
-/* only_one: trace just the point of that name (NULL: every point). */
+/* The bench must have passed model_validate (which applies every point).
+ * only_one: trace just the point of that name (NULL: every point). */
 int  point_survey_run(const struct bench *, const char *only_one,
          struct point_survey *out, char **cause);
 void point_survey_release(struct point_survey *);

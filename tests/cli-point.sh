@@ -47,6 +47,12 @@ check "... with the change" out_has '"+filter:ND9@S0"'
 cp "$T_DIR/out" exported.json
 run trace exported.json --point alignment --color never
 check "the exported file traces the point" rc_is 0
+run --db "$DB" check
+check "the database with a point checks clean" rc_is 0
+run --db "$DB" point list $B@r1
+check "point list of the setup before the point: only the base" sh -c '[ "$(wc -l <"$1")" -eq 2 ]' sh "$T_DIR/out"
+run point list exported.json
+check "point list of a file" out_has "alignment"
 run --db "$DB" diff $B r1 r2
 check "diff: a new point is a change" out_has "point.alignment"
 
