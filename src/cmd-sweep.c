@@ -145,6 +145,7 @@ table(const struct sweep *sw, const struct sweep_knob *k, const struct bench *b,
 	}
 	buf_add(&out, "\nWhere each rated element first reaches caution and over:\n");
 	for (size_t i = 0; i < sw->nrated; i++) {
+		size_t start = out.len;
 		char c[64], o[64];
 
 		if (isnan(sw->rated[i].caution) && isnan(sw->rated[i].over))
@@ -152,7 +153,7 @@ table(const struct sweep *sw, const struct sweep_knob *k, const struct bench *b,
 		value_text(c, sizeof c, k, sw->rated[i].caution, 7);
 		value_text(o, sizeof o, k, sw->rated[i].over, 7);
 		buf_printf(&out, "  %-10s caution at %s", sw->rated[i].id, c);
-		buf_pad(&out, 40, out.len - strlen(c) - 26);
+		buf_pad(&out, 40, start);
 		buf_printf(&out, "  %s%s\n", isnan(sw->rated[i].over) ? "never over" : "over at ",
 		    isnan(sw->rated[i].over) ? "" : o);
 	}
