@@ -399,6 +399,34 @@ point_edit_remove(struct bench *b, const char *name, char **cause)
 	return fail_with(cause, "no point '%s' in bench '%s'", name, b->name);
 }
 
+void
+point_rename_id(struct bench *b, const char *old_id, const char *new_id)
+{
+	size_t n = strlen(old_id);
+
+	for (size_t i = 0; i < b->points.n; i++) {
+		struct point *p = &b->points.p[i];
+
+		for (size_t j = 0; j < p->n; j++) {
+			char *t = p->change[j], *nt = NULL, *at;
+
+			if (t[0] == '-' && strcmp(t + 1, old_id) == 0)
+				nt = xasprintf("-%s", new_id);
+			else if (t[0] == '+' && (at = strchr(t, '@')) != NULL) {
+				char *anchor = at + 1 + (at[1] == '^');
+
+				if (strcmp(anchor, old_id) == 0)
+					nt = xasprintf("%.*s%s", (int)(anchor - t), t, new_id);
+			} else if (t[0] != '+' && strncmp(t, old_id, n) == 0 && t[n] == '.')
+				nt = xasprintf("%s%s", new_id, t + n);
+			if (nt != NULL) {
+				free(t);
+				p->change[j] = nt;
+			}
+		}
+	}
+}
+
 /* ---- survey ---- */
 
 /* The slot of an element; most points keep the base's order, so the slot

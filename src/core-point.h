@@ -59,6 +59,9 @@ int           point_edit_add(struct bench *, const char *name,
                   char *const *changes, size_t n, char **cause);
 int           point_edit_remove(struct bench *, const char *name, char **cause);
 
+/* An element of the base renamed: every change that names it follows. */
+void          point_rename_id(struct bench *, const char *old_id, const char *new_id);
+
 /* The base and every point traced: per point its worst element, per
  * element its worst ratio over all of them and at which point.  Index 0 is
  * the base; index 1 + i is b->points.p[i] (or the one point asked for).

@@ -10,6 +10,7 @@
 
 #include "bench-file.h"
 #include "core-diff.h"
+#include "core-edit.h"
 #include "core-point.h"
 #include "core-trace.h"
 
@@ -252,6 +253,37 @@ START_TEST(test_point_guards_base)
 }
 END_TEST
 
+/* Through the edits: removing FM1, which 'flip-down' takes out, is refused
+ * and changes nothing; renaming S2 (the anchor of ND9) and ND1 carries the
+ * points along, and they still apply. */
+START_TEST(test_edits_keep_points)
+{
+	struct bench *b = bench_text("align.json", ALIGN_BENCH, ALIGN_POINTS);
+	char *before = bench_file_dump(b), *after, *cause = NULL;
+	struct point *p;
+	char *more[] = { "ND1.od=2" };
+
+	ck_assert_int_ne(edit_remove(b, "FM1", &cause), 0);
+	ck_assert_ptr_nonnull(strstr(cause, "point 'flip-down'"));
+	free(cause);
+	cause = NULL;
+	after = bench_file_dump(b);
+	ck_assert_str_eq(before, after);
+	free(after);
+	ck_assert_int_eq(edit_set(b, "S2", "id", "S2a", &cause), 0);
+	ck_assert_int_eq(point_edit_add(b, "thick", more, 1, &cause), 0);
+	ck_assert_int_eq(edit_set(b, "ND1", "id", "NDX", &cause), 0);
+	p = point_list_find(&b->points, "alignment");
+	ck_assert_str_eq(p->change[1], "+filter:ND9@S2a");
+	ck_assert_str_eq(point_list_find(&b->points, "thick")->change[0], "NDX.od=2");
+	ck_assert_int_eq(model_validate(b, &cause), 0);
+	/* a removal nothing refers to still goes through */
+	ck_assert_int_eq(edit_remove(b, "S3", &cause), 0);
+	free(before);
+	model_bench_free(b);
+}
+END_TEST
+
 /* compare: a point added is a settings change "point.NAME" whose new
  * text gives its changes and its worst element there; a point that is the
  * same on both sides is no change. */
@@ -293,6 +325,7 @@ main(void)
 	tcase_add_test(tc, test_edit_add_remove);
 	tcase_add_test(tc, test_point_guards_base);
 	tcase_add_test(tc, test_diff_point);
+	tcase_add_test(tc, test_edits_keep_points);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
