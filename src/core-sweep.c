@@ -5,6 +5,7 @@
 #include <config.h>
 
 #include <math.h>
+#include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -210,10 +211,48 @@ sweep_knob_set(const struct sweep_knob *k, struct bench *b, double v)
 
 /* The bench at one end of the range: the value goes through the key's own
  * check (range, nonzero) and the whole bench through model_validate. */
+/* What a knob touches, to put back exactly (a default stays a default, a
+ * pulse energy stays the value given). */
+struct saved {
+	struct source src;
+	uint64_t      set[2];
+	double        val[2];
+};
+
+static void
+save(struct saved *sv, const struct sweep_knob *k, const struct bench *b)
+{
+	memset(sv, 0, sizeof *sv);
+	sv->src = b->src;
+	if (k->el != NULL) {
+		sv->set[0] = k->el->set;
+		sv->val[0] = k->el->val[k->key];
+	}
+	if (k->el2 != NULL) {
+		sv->set[1] = k->el2->set;
+		sv->val[1] = k->el2->val[K_LENGTH];
+	}
+}
+
+static void
+restore(const struct saved *sv, const struct sweep_knob *k, struct bench *b)
+{
+	b->src = sv->src;
+	if (k->el != NULL) {
+		k->el->set = sv->set[0];
+		k->el->val[k->key] = sv->val[0];
+	}
+	if (k->el2 != NULL) {
+		k->el2->set = sv->set[1];
+		k->el2->val[K_LENGTH] = sv->val[1];
+	}
+}
+
 static int
 end_check(struct bench *b, const struct sweep_knob *k, double v, const char *which,
     char **cause)
 {
+	struct saved sv;
 	struct element tmp;
 	char shown[64];
 	int rc = 0;
@@ -228,9 +267,10 @@ end_check(struct bench *b, const struct sweep_knob *k, double v, const char *whi
 			    k->text, which, shown, k->el2->id);
 	}
 	if (rc == 0) {
+		save(&sv, k, b);
 		sweep_knob_set(k, b, v);
 		rc = model_validate(b, cause);
-		sweep_knob_set(k, b, k->base);
+		restore(&sv, k, b);
 	}
 	if (rc != 0)
 		cause_prefix(cause, "sweep %s at %s %s", k->text, which, shown);
@@ -371,6 +411,7 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
     size_t steps, int log, char **cause)
 {
 	struct sweep *sw;
+	struct saved saved;
 	struct ctx c;
 
 	if (steps < 2) {
@@ -394,6 +435,7 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
 	}
 	if (end_check(b, k, from, "FROM", cause) != 0 || end_check(b, k, to, "TO", cause) != 0)
 		return NULL;
+	save(&saved, k, b);
 	sw = xcalloc(1, sizeof *sw);
 	sw->nsteps = steps;
 	sw->tol = 1e-6 * fabs(to - from);
@@ -435,7 +477,7 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
 	}
 	intervals(&c, sw, STATUS_OVER, &sw->safe, &sw->nsafe);
 	intervals(&c, sw, STATUS_CAUTION, &sw->calm, &sw->ncalm);
-	sweep_knob_set(k, b, k->base);
+	restore(&saved, k, b);
 	trace_free(c.t);
 	return sw;
 }

@@ -9,7 +9,7 @@
  * element between the two gaps slides with the total fixed.
  *
  * The sweep changes the one value in place in the bench it is given (and
- * puts it back at the end) and reuses one trace result for every step:
+ * puts back exactly what it touched at the end) and reuses one trace result for every step:
  * no copy of the bench per step.  Pure computation. */
 #ifndef CORE_SWEEP_H
 #define CORE_SWEEP_H
