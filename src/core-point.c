@@ -447,8 +447,15 @@ worst_slot(struct point_survey *sv, const char *id, size_t hint)
 	return &sv->el[sv->nel++];
 }
 
+/* Ratios as they come, (point, slot, ratio), for the matrix at the end. */
+struct cells {
+	size_t (*v)[2];
+	double  *r;
+	size_t   n, cap;
+};
+
 static void
-survey_trace(struct point_survey *sv, size_t i, const struct trace *t)
+survey_trace(struct point_survey *sv, size_t i, const struct trace *t, struct cells *cl)
 {
 	struct point_summary *ps = &sv->pt[i];
 
@@ -461,6 +468,16 @@ survey_trace(struct point_survey *sv, size_t i, const struct trace *t)
 		struct point_worst *w = worst_slot(sv, row->el->id, r);
 
 		w->present++;
+		if (!isnan(row->ratio)) {
+			if (cl->n == cl->cap) {
+				cl->cap = cl->cap ? 2 * cl->cap : 64;
+				cl->v = xreallocarray(cl->v, cl->cap, sizeof *cl->v);
+				cl->r = xreallocarray(cl->r, cl->cap, sizeof *cl->r);
+			}
+			cl->v[cl->n][0] = i;
+			cl->v[cl->n][1] = (size_t)(w - sv->el);
+			cl->r[cl->n++] = row->ratio;
+		}
 		if (row->status > ps->status)
 			ps->status = row->status;
 		if (!isnan(row->ratio) && (isnan(w->ratio) || row->ratio > w->ratio)) {
@@ -478,6 +495,7 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
     char **cause)
 {
 	const struct point *one = NULL;
+	struct cells cl = { NULL, NULL, 0, 0 };
 
 	memset(sv, 0, sizeof *sv);
 	if (only != NULL && (one = point_list_find(&b->points, only)) == NULL)
@@ -487,7 +505,7 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 	sv->pt = xcalloc(sv->n, sizeof *sv->pt);
 	sv->pt[0].name = "base";
 	sv->base_trace = trace_run(b);
-	survey_trace(sv, 0, sv->base_trace);
+	survey_trace(sv, 0, sv->base_trace, &cl);
 	for (size_t i = 1; i < sv->n; i++) {
 		const struct point *p = one != NULL ? one : &b->points.p[i - 1];
 
@@ -496,12 +514,21 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 		/* b passed model_validate, which applied every point and
 		 * validated the result: no need to do it twice */
 		if ((sv->last = apply(b, p, 0, cause)) == NULL) {
+			free(cl.v);
+			free(cl.r);
 			point_survey_release(sv);
 			return -1;
 		}
 		sv->last_trace = trace_rerun(sv->last_trace, sv->last);
-		survey_trace(sv, i, sv->last_trace);
+		survey_trace(sv, i, sv->last_trace, &cl);
 	}
+	sv->ratio = xcalloc(sv->n * (sv->nel ? sv->nel : 1), sizeof *sv->ratio);
+	for (size_t i = 0; i < sv->n * sv->nel; i++)
+		sv->ratio[i] = NAN;
+	for (size_t c = 0; c < cl.n; c++)
+		sv->ratio[cl.v[c][0] * sv->nel + cl.v[c][1]] = cl.r[c];
+	free(cl.v);
+	free(cl.r);
 	return 0;
 }
 
@@ -514,6 +541,7 @@ point_survey_release(struct point_survey *sv)
 		free(sv->el[i].id);
 	free(sv->pt);
 	free(sv->el);
+	free(sv->ratio);
 	trace_free(sv->base_trace);
 	trace_free(sv->last_trace);
 	model_bench_free(sv->last);

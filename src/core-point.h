@@ -87,6 +87,8 @@ struct point_survey {
 	struct point_summary *pt;       /* owned [n] */
 	struct point_worst   *el;       /* owned, base order then elements put in */
 	size_t                nel;
+	double               *ratio;    /* owned [n * nel]: element j at point i is
+	                                 * ratio[i * nel + j]; NAN: unrated or absent */
 	int                   any_over;
 	struct trace         *base_trace;   /* owned: of the base */
 	struct bench         *last;         /* owned: the last point applied; NULL when n == 1 */

@@ -284,6 +284,42 @@ START_TEST(test_edits_keep_points)
 }
 END_TEST
 
+/* The survey: per point and per element.  At 'alignment' M1 gets 1 % of
+ * the base (ratio 1 % of the base's, as irradiance is linear in power);
+ * ND9 exists only there; at 'flip-down' T1 gets twice the base (FM1 out,
+ * 0.099 W instead of 0.0495 W into its 1 W rating). */
+START_TEST(test_survey)
+{
+	struct bench *b = bench_text("align.json", ALIGN_BENCH, ALIGN_POINTS);
+	struct point_survey sv;
+	char *cause = NULL;
+	size_t m1 = 99, t1 = 99;
+
+	ck_assert_int_eq(point_survey_run(b, NULL, &sv, &cause), 0);
+	ck_assert_uint_eq(sv.n, 3);
+	ck_assert_str_eq(sv.pt[0].name, "base");
+	ck_assert_str_eq(sv.pt[2].name, "flip-down");
+	for (size_t j = 0; j < sv.nel; j++) {
+		if (strcmp(sv.el[j].id, "M1") == 0)
+			m1 = j;
+		if (strcmp(sv.el[j].id, "T1") == 0)
+			t1 = j;
+	}
+	ck_assert(m1 < sv.nel && t1 < sv.nel);
+	ck_assert_double_eq_tol(sv.ratio[1 * sv.nel + m1], 0.01 * sv.ratio[m1], 1e-15);
+	ck_assert_double_eq_tol(sv.ratio[t1], 0.0495, 1e-12);          /* base */
+	ck_assert_double_eq_tol(sv.ratio[2 * sv.nel + t1], 0.099, 1e-12);  /* FM1 out */
+	ck_assert_uint_eq(sv.el[t1].at, 2);
+	ck_assert_str_eq(sv.el[sv.nel - 1].id, "ND9");
+	ck_assert_uint_eq(sv.el[sv.nel - 1].present, 1);
+	point_survey_release(&sv);
+	ck_assert_int_ne(point_survey_run(b, "nope", &sv, &cause), 0);
+	ck_assert_ptr_nonnull(strstr(cause, "no point 'nope'"));
+	free(cause);
+	model_bench_free(b);
+}
+END_TEST
+
 /* compare: a point added is a settings change "point.NAME" whose new
  * text gives its changes and its worst element there; a point that is the
  * same on both sides is no change. */
@@ -325,6 +361,7 @@ main(void)
 	tcase_add_test(tc, test_edit_add_remove);
 	tcase_add_test(tc, test_point_guards_base);
 	tcase_add_test(tc, test_diff_point);
+	tcase_add_test(tc, test_survey);
 	tcase_add_test(tc, test_edits_keep_points);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
