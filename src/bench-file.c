@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "bench-file.h"
+#include "bench-point.h"
 #include "util-buf.h"
 #include "util-err.h"
 #include "util-json.h"
@@ -444,9 +445,12 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 		} else if (strcmp(key, "source") == 0) {
 			if (read_source(v, &b->src, cause) != 0)
 				return -1;
+		} else if (strcmp(key, "points") == 0) {
+			if (bench_points_from_json(v, b, cause) != 0)
+				return -1;
 		} else {
 			return fail_with(cause, "unknown top-level key '%s' (format, name, "
-			    "notes, safety_factor, air_breakdown, source, path)", key);
+			    "notes, safety_factor, air_breakdown, source, points, path)", key);
 		}
 	}
 	if (b->name == NULL || b->name[0] == '\0')
@@ -834,6 +838,8 @@ head_json(const struct bench *b, int units)
 	else
 		json_object_set_new(src, "polarization", json_real(s->pol_angle_deg));
 	json_object_set_new(o, "source", src);
+	if (b->points.n > 0)
+		json_object_set_new(o, "points", bench_points_to_json(b));
 	return o;
 }
 

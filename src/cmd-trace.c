@@ -4,6 +4,7 @@
 #include <config.h>
 
 #include <getopt.h>
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -15,9 +16,12 @@
 #include "bench-file.h"
 #include "cmd.h"
 #include "cmd-store.h"
+#include "core-point.h"
 #include "core-trace.h"
 #include "report.h"
+#include "util-buf.h"
 #include "util-err.h"
+#include "util-json.h"
 
 /* Prints the report of one bench; returns the trace's exit status. */
 int cmd_trace_print(const struct bench *, enum report_format, const struct report_opts *);
@@ -78,6 +82,149 @@ load_from_db(struct cmd_ctx *ctx, const char *arg, char **shown, char **cause)
 	return b;
 }
 
+struct bench *
+cmd_bench_open(struct cmd_ctx *ctx, const char *arg, char **origin, char **cause)
+{
+	struct stat sb;
+
+	*origin = NULL;
+	if (strcmp(arg, "-") == 0 || stat(arg, &sb) == 0 || errno != ENOENT)
+		return bench_file_read(arg, cause);
+	return load_from_db(ctx, arg, origin, cause);
+}
+
+/* Every point's worst element, and per element its worst over all points,
+ * as text after the base's table. */
+static void
+points_table(struct buf *out, const struct point_survey *sv)
+{
+	char r[32];
+
+	buf_printf(out, "\nOperating points (%zu besides the base):\n", sv->n - 1);
+	buf_printf(out, "  %-16s %-12s %8s  %s\n", "point", "worst", "ratio", "status");
+	for (size_t i = 0; i < sv->n; i++) {
+		const struct point_summary *p = &sv->pt[i];
+
+		snprintf(r, sizeof r, "%.1f %%", 100 * p->worst_ratio);
+		buf_printf(out, "  %-16s %-12s %8s  %s\n", p->name,
+		    p->worst_id != NULL ? p->worst_id : "-", p->worst_id != NULL ? r : "-",
+		    p->status == STATUS_OVER ? "OVER" : damage_status_name(p->status));
+	}
+	buf_printf(out, "\nWorst over all points, per rated element:\n");
+	buf_printf(out, "  %-12s %8s  %-8s %s\n", "element", "ratio", "status", "at point");
+	for (size_t i = 0; i < sv->nel; i++) {
+		const struct point_worst *e = &sv->el[i];
+
+		if (isnan(e->ratio))
+			continue;
+		snprintf(r, sizeof r, "%.1f %%", 100 * e->ratio);
+		buf_printf(out, "  %-12s %8s  %-8s %s%s\n", e->id, r,
+		    e->status == STATUS_OVER ? "OVER" : damage_status_name(e->status),
+		    sv->pt[e->at].name, e->present < sv->n ? " (not in every point)" : "");
+	}
+}
+
+static void
+points_json(struct buf *out, const struct point_survey *sv, const struct bench *b)
+{
+	buf_add(out, "  \"points\": [\n");
+	for (size_t i = 0; i < sv->n; i++) {
+		const struct point_summary *ps = &sv->pt[i];
+		const struct point *p = i > 0 ? point_list_find(&b->points, ps->name) : NULL;
+
+		buf_add(out, "    {\"name\": ");
+		json_put_string(out, ps->name);
+		buf_add(out, ", \"changes\": [");
+		for (size_t j = 0; p != NULL && j < p->n; j++) {
+			buf_add(out, j ? ", " : "");
+			json_put_string(out, p->change[j]);
+		}
+		buf_add(out, "], \"worst\": ");
+		if (ps->worst_id != NULL) {
+			buf_add(out, "{\"id\": ");
+			json_put_string(out, ps->worst_id);
+			buf_add(out, ", \"ratio\": ");
+			json_put_number(out, ps->worst_ratio);
+			buf_add(out, "}");
+		} else {
+			buf_add(out, "null");
+		}
+		buf_printf(out, ", \"status\": \"%s\", \"safe_source_power\": ",
+		    damage_status_name(ps->status));
+		json_put_number(out, ps->safe_source_power);
+		buf_printf(out, "}%s\n", i + 1 < sv->n ? "," : "");
+	}
+	buf_add(out, "  ],\n  \"worst_by_element\": [\n");
+	for (size_t i = 0, first = 1; i < sv->nel; i++) {
+		const struct point_worst *e = &sv->el[i];
+
+		if (isnan(e->ratio))
+			continue;
+		buf_add(out, first ? "    {\"id\": " : ",\n    {\"id\": ");
+		json_put_string(out, e->id);
+		buf_add(out, ", \"ratio\": ");
+		json_put_number(out, e->ratio);
+		buf_printf(out, ", \"status\": \"%s\", \"point\": ", damage_status_name(e->status));
+		json_put_string(out, sv->pt[e->at].name);
+		buf_add(out, "}");
+		first = 0;
+	}
+	buf_add(out, "\n  ]\n");
+}
+
+/* trace --point NAME / --every-point: the report of one point, or of the
+ * base followed by every point's summary. */
+static int
+trace_points(const struct bench *b, const char *only, enum report_format fmt,
+    struct report_opts *ro)
+{
+	struct point_survey sv;
+	struct buf out;
+	char *cause = NULL, *text, *origin = NULL;
+	int rc;
+	const struct trace *shown;
+
+	if (point_survey_run(b, only, &sv, &cause) != 0)
+		return cmd_fail(cause);
+	if (only != NULL) {
+		origin = ro->origin != NULL ? xasprintf("%s, point %s", ro->origin, only) :
+		    xasprintf("point %s", only);
+		ro->origin = origin;
+	}
+	shown = only != NULL ? sv.last_trace : sv.base_trace;
+	text = fmt == REPORT_JSON ? report_json(shown) :
+	    fmt == REPORT_CSV ? report_csv(shown) : report_table(shown, ro);
+	buf_init(&out);
+	if (fmt == REPORT_JSON) {
+		char *end = strrchr(text, '}');
+
+		buf_addn(&out, text, (size_t)(end - text));
+		while (out.len > 0 && (out.s[out.len - 1] == '\n' || out.s[out.len - 1] == ' '))
+			out.len--;
+		out.s[out.len] = '\0';
+		buf_add(&out, ",\n");
+		if (only != NULL) {
+			buf_add(&out, "  \"point\": ");
+			json_put_string(&out, only);
+			buf_add(&out, "\n}\n");
+		} else {
+			points_json(&out, &sv, b);
+			buf_add(&out, "}\n");
+		}
+	} else {
+		buf_add(&out, text);
+		if (only == NULL && fmt == REPORT_TABLE)
+			points_table(&out, &sv);
+	}
+	free(text);
+	rc = cmd_print(out.s);
+	buf_release(&out);
+	rc = rc != 0 ? rc : only != NULL ? sv.pt[1].status == STATUS_OVER : sv.any_over;
+	point_survey_release(&sv);
+	free(origin);
+	return rc;
+}
+
 int
 cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 {
@@ -87,6 +234,8 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		{ "colour", required_argument, NULL, 'c' },
 		{ "ascii", no_argument, NULL, 'a' },
 		{ "demo", no_argument, NULL, 'd' },
+		{ "point", required_argument, NULL, 'p' },
+		{ "every-point", no_argument, NULL, 'e' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
@@ -95,7 +244,8 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	const char *color = "auto";
 	struct bench *b;
 	char *cause = NULL, *origin = NULL;
-	int demo = 0, ch, rc;
+	const char *point = NULL;
+	int demo = 0, every = 0, ch, rc;
 
 	optind = 0;
 	opterr = 0;
@@ -118,12 +268,22 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		case 'd':
 			demo = 1;
 			break;
+		case 'p':
+			point = optarg;
+			break;
+		case 'e':
+			every = 1;
+			break;
 		case 'h':
 			printf("Usage: " PROG " trace FILE | BENCH[@SETUP] | --demo"
 			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
+			    "       [--point NAME | --every-point]\n"
 			    "An operand that is not a file names a bench in the database: its\n"
 			    "draft, or with @SETUP a recorded setup (a number, 2 or #2, or a name).\n"
-			    "Exit status: 0 nothing over its threshold, 1 something over, 2 trouble.\n");
+			    "--point NAME traces that operating point; --every-point traces the base\n"
+			    "and every point and gives each element's worst ratio and where.\n"
+			    "Exit status: 0 nothing over its threshold (at any point traced),\n"
+			    "1 something over, 2 trouble.\n");
 			return 0;
 		default:
 			return cmd_usage("trace: unknown option '%s'", argv[optind - 1]);
@@ -137,6 +297,8 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		    (argv[optind + 1][0] >= '0' && argv[optind + 1][0] <= '9') ||
 		    argv[optind + 1][0] == '#' || strcmp(argv[optind + 1], "draft") == 0 ?
 		    "; for a setup write BENCH@SETUP" : "");
+	if (point != NULL && every)
+		return cmd_usage("trace: give --point NAME or --every-point, not both");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
@@ -153,7 +315,10 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	if (b == NULL)
 		return cmd_fail(cause);
 	ro.origin = origin;
-	rc = cmd_trace_print(b, fmt, &ro);
+	if (point != NULL || every)
+		rc = trace_points(b, point, fmt, &ro);
+	else
+		rc = cmd_trace_print(b, fmt, &ro);
 	model_bench_free(b);
 	free(origin);
 	return rc;

@@ -31,8 +31,16 @@ int  cmd_print(const char *text);
 
 /* `help [COMMAND]`: the overview of --help, or one command's own --help. */
 int  cmd_help(struct cmd_ctx *, int, char **);
+/* FILE ("-": stdin) or BENCH[@SETUP] in the database; *origin gets "draft",
+ * "#3", ... (NULL for a file).  NULL with *cause NULL: already said why. */
+struct bench;
+struct bench *cmd_bench_open(struct cmd_ctx *, const char *arg, char **origin,
+                  char **cause);                          /* caller frees */
 
 int  cmd_trace(struct cmd_ctx *, int, char **);
+/* Operating points and sweeps (cmd-point.c, cmd-sweep.c). */
+int  cmd_point(struct cmd_ctx *, int, char **);
+int  cmd_sweep(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
 /* The printed review (cmd-report.c). */
 int  cmd_report(struct cmd_ctx *, int, char **);

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "core-diff.h"
+#include "core-point.h"
 #include "core-edit.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -466,6 +467,67 @@ compare_settings(struct diff *d, const struct bench *a, const struct bench *b)
 	}
 }
 
+/* A point as text: its changes, then its worst element there (the effect
+ * of the point on the margins, as the diff's effect list gives the base's). */
+static char *
+point_show(const struct bench *b, const struct point *p, int exact)
+{
+	struct bench *applied;
+	struct trace *t;
+	struct buf out;
+
+	if (p == NULL)
+		return exact ? NULL : xstrdup("-");
+	buf_init(&out);
+	for (size_t i = 0; i < p->n; i++)
+		buf_printf(&out, "%s%s", i ? " " : "", p->change[i]);
+	if (exact || (applied = point_apply(b, p, NULL)) == NULL)
+		return buf_take(&out);
+	t = trace_run(applied);
+	if (t->worst >= 0)
+		buf_printf(&out, " (worst %s %.0f %% %s)", t->rows[t->worst].el->id,
+		    100 * t->rows[t->worst].ratio, damage_status_name(t->rows[t->worst].status));
+	trace_free(t);
+	model_bench_free(applied);
+	return buf_take(&out);
+}
+
+/* Points added, removed or changed: a settings value "point.NAME" each. */
+static void
+compare_points(struct diff *d, const struct bench *a, const struct bench *b)
+{
+	struct diff_change *c = NULL;
+
+	for (int side = 0; side < 2; side++) {
+		const struct point_list *l = side ? &a->points : &b->points;
+
+		for (size_t i = 0; i < l->n; i++) {
+			const struct point *pa = point_list_find(&a->points, l->p[i].name);
+			const struct point *pb = point_list_find(&b->points, l->p[i].name);
+			char *ea = point_show(a, pa, 1), *eb = point_show(b, pb, 1), *key;
+
+			if ((side && pb != NULL) || (ea != NULL && eb != NULL && strcmp(ea, eb) == 0)) {
+				free(ea);
+				free(eb);
+				continue;
+			}
+			if (c == NULL) {
+				for (size_t j = 0; j < d->nch && c == NULL; j++)
+					if (d->ch[j].kind == DIFF_SETTINGS)
+						c = &d->ch[j];
+				if (c == NULL) {
+					c = change_new(d, DIFF_SETTINGS, NULL, EL_SPACE);
+					free(c->id);
+					c->id = NULL;
+				}
+			}
+			key = xasprintf("point.%s", l->p[i].name);
+			value_add(c, key, point_show(a, pa, 0), point_show(b, pb, 0), ea, eb);
+			free(key);
+		}
+	}
+}
+
 struct diff *
 diff_benches(const struct bench *a, const struct bench *b)
 {
@@ -477,6 +539,7 @@ diff_benches(const struct bench *a, const struct bench *b)
 	side_init(&sa, a);
 	side_init(&sb, b);
 	compare_settings(d, a, b);
+	compare_points(d, a, b);
 	m.old = &sa;
 	m.new_s = &sb;
 	m.moved = xcalloc(sb.n + 1, 1);

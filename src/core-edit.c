@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "core-edit.h"
+#include "core-point.h"
 #include "util-err.h"
 
 /* Swaps the checked copy in; frees what it replaces. */
@@ -231,6 +232,8 @@ edit_set_pairs(struct bench *b, const char *id, char *const *kv, size_t nkv, cha
 			return -1;
 		}
 	}
+	if (strcmp(el->id, id) != 0)
+		point_rename_id(copy, id, el->id);    /* operating points follow a rename */
 	return commit_copy(b, copy, cause);
 }
 
@@ -252,6 +255,14 @@ edit_remove(struct bench *b, const char *id, char **cause)
 
 	if (model_find(b, id, &br, &i, NULL) == NULL)
 		return fail_with(cause, "no element '%s' in bench '%s'", id, b->name);
+	if (b->points.n > 0) {
+		/* an operating point may change or put something after it */
+		struct bench *copy = model_bench_dup(b);
+
+		model_find(copy, id, &br, &i, NULL);
+		model_branch_remove(br, i, NULL);
+		return commit_copy(b, copy, cause);
+	}
 	/* Removing never breaks a rule the bench already kept, except a
 	 * terminator that now stands last by accident of order: none can. */
 	model_branch_remove(br, i, NULL);
@@ -454,6 +465,12 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 		return fail_with(cause, "unknown bench key '%s'", key);
 	}
 	return 0;
+}
+
+int
+edit_set_bench_unchecked(struct bench *b, const char *key, const char *text, char **cause)
+{
+	return set_bench_key(b, key, text, cause);
 }
 
 int

@@ -44,6 +44,10 @@ int  edit_move(struct bench *, const char *id, const struct edit_place *, char *
  * pulse_width, shape, waist ("3 mm" or "3 mm, 2 mm"), waist_position,
  * m2 ("1.3" or "1.3, 1.5"), polarization (degrees, circular, unpolarized). */
 int  edit_set_bench(struct bench *, const char *key, const char *text, char **cause);
+/* The same on b itself, without validating the whole bench: for a copy
+ * that is validated once after several changes (operating points). */
+int  edit_set_bench_unchecked(struct bench *, const char *key, const char *text,
+         char **cause);
 /* The bench-level keys edit_set_bench takes, NULL-terminated. */
 extern const char *const edit_bench_keys[];
 /* Current value of a bench-level key as text that edit_set_bench reads back. */

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "core-model.h"
+#include "core-point.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -513,6 +514,7 @@ model_bench_free(struct bench *b)
 	free(b->name);
 	free(b->notes);
 	model_branch_release(&b->path);
+	point_list_release(&b->points);
 	free(b);
 }
 
@@ -525,6 +527,7 @@ model_bench_dup(const struct bench *src)
 	b->name = xstrdup(src->name);
 	b->notes = xstrdup(src->notes);
 	branch_copy(&b->path, &src->path);
+	point_list_copy(&b->points, &src->points);
 	return b;
 }
 

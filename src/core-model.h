@@ -102,6 +102,13 @@ struct source {
 	double           pol_angle_deg;
 };
 
+/* Operating points (core-point.h): named lists of changes to the bench. */
+struct point;
+struct point_list {
+	struct point  *p;           /* owned array */
+	size_t         n, cap;
+};
+
 struct bench {
 	char          *name;        /* owned */
 	char          *notes;       /* owned, may be NULL */
@@ -110,6 +117,7 @@ struct bench {
 	int            safety_given, air_given;
 	struct source  src;
 	struct branch  path;        /* owned */
+	struct point_list points;   /* owned; empty for most benches */
 };
 
 /* Life cycle. */

@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "core-model.h"
+#include "core-point.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -301,5 +302,5 @@ model_validate(const struct bench *bench, char **cause)
 		return -1;
 	if (model_walk(&b->path, order_fn, cause) != 0)
 		return -1;
-	return 0;
+	return point_check_all(b, cause);
 }

@@ -19,11 +19,17 @@
 
 const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@SETUP] | --demo [--format table|json|csv] [--color WHEN] "
-	    "[--ascii]", "trace a bench: power, beam size, irradiance and damage margins" },
+	    "[--ascii] [--point NAME | --every-point]",
+	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
 	{ "report", cmd_report, "BENCH[@SETUP] | FILE | --demo [-o FILE.pdf|FILE.svg|FILE.md] "
 	    "[--format pdf|svg|md] [--since SETUP]",
 	    "a review of a setup to print and sign: verdict, schematic, profile, table, changes" },
+	{ "sweep", cmd_sweep, "BENCH[@SETUP] | FILE KNOB FROM TO [--steps N] [--log] [--point NAME] "
+	    "[--format table|json|csv]",
+	    "trace the bench over a range of one value: crossings and safe intervals" },
+	{ "point", cmd_point, "add BENCH NAME CHANGE... | list BENCH | show BENCH NAME | "
+	    "remove BENCH NAME", "operating points: the bench as it is run at each setting" },
 	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
 	    "the terminal workbench (also with no command); BENCH opens that bench" },
 	{ "help", cmd_help, "[COMMAND]", "this overview, or the help of one command" },
