@@ -328,13 +328,18 @@ element_table(struct pdoc *d)
 	for (size_t i = 0; i < n; i++)
 		h[i] = l[i].h = tline_draw(d, &l[i], 0);
 	pdf_heading(d, "Elements");
-	npages = rep_paginate(h, n, d->bottom - d->y, d->bottom - d->top, table_header(d, 0), page);
+	/* later pages lose a line to "(continued)" */
+	npages = rep_paginate(h, n, d->bottom - d->y, d->bottom - d->top - 12, table_header(d, 0),
+	    page);
 	(void)npages;
 	table_header(d, 1);
 	for (size_t i = 0; i < n; i++) {
 		if (page[i] != cur) {
 			cur = page[i];
 			pdf_new_page(d);
+			cairo_set_source_rgb(d->cr, 0, 0, 0);
+			d->y += pdf_text(d, d->mx, d->y, 0, PDF_SANS " Oblique 7.5",
+			    "Elements (continued)", 0, 1) + 2;
 			table_header(d, 1);
 		}
 		tline_draw(d, &l[i], 1);
