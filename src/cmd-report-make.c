@@ -44,16 +44,6 @@ cmd_report_ext(int f)
 
 /* "3", "#3" -> "r3" for the store's reference parser; anything else as is. */
 static char *
-setup_ref(const char *s)
-{
-	const char *p = s[0] == '#' ? s + 1 : s;
-
-	if (p[0] != '\0' && strspn(p, "0123456789") == strlen(p))
-		return xasprintf("r%s", p);
-	return xstrdup(s);
-}
-
-static char *
 setup_shown(int no)
 {
 	return no == 0 ? xstrdup("the draft") : xasprintf("setup #%d", no);
@@ -91,7 +81,7 @@ review_src_record(struct store *s, const char *name, const char *rev_in, const c
 	struct review_src *g = xcalloc(1, sizeof *g);
 	struct store_rev *revs = NULL;
 	size_t nrev = 0;
-	char *rev = rev_in != NULL ? setup_ref(rev_in) : NULL;
+	const char *rev = rev_in;	/* 2, #2, a name or draft: the store reads them all */
 	int no = 0, old_no = -1, ok = 0;
 
 	if ((g->bench = store_bench_load(s, name, rev, &no, cause)) == NULL)
@@ -112,10 +102,7 @@ review_src_record(struct store *s, const char *name, const char *rev_in, const c
 	if (no == 0)
 		g->note = xstrdup("not recorded yet: the draft as it stands");
 	if (since != NULL) {
-		char *r = setup_ref(since);
-
-		g->old = store_bench_load(s, name, r, &old_no, cause);
-		free(r);
+		g->old = store_bench_load(s, name, since, &old_no, cause);
 		if (g->old == NULL)
 			goto out;
 	} else if (no > 1 || (no == 0 && nrev > 0)) {
@@ -133,7 +120,6 @@ review_src_record(struct store *s, const char *name, const char *rev_in, const c
 	ok = 1;
 out:
 	store_revs_free(revs, nrev);
-	free(rev);
 	if (!ok) {
 		review_src_free(g);
 		return NULL;
