@@ -215,9 +215,11 @@ void  ui_history_push(struct app *);            /* ui-history.c */
 void  ui_parts_push(struct app *);              /* ui-parts.c */
 void  ui_help_push(struct app *);               /* ui-help.c */
 void  ui_commit_prompt(struct app *);           /* ui-history.c */
+void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
+void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
-    ui_history_ops, ui_parts_ops, ui_text_ops;
+    ui_history_ops, ui_parts_ops, ui_text_ops, ui_points_ops, ui_sweep_ops;
 /* Keys every pane takes (help, quit, redraw). */
 extern const struct ui_key ui_global_keys[];
 

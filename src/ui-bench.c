@@ -800,6 +800,22 @@ k_parts(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
+static enum ui_reaction
+k_points(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_points_push(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+k_sweep(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_sweep_prompt(a);
+	return UI_REDRAW;
+}
+
 const struct ui_key ui_bench_chain_keys[] = {
 	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "select", 5, "select an element (also k, j; mouse click)", k_up, 0 },
 	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, k_down, 0 },
@@ -822,6 +838,8 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'n' }, "n", NULL, 0, "jump to the next element at caution or over", k_next_problem, 0 },
 	{ { 'p' }, "p", "profile", 1, "beam profile along the selected element's branch", k_profile, 0 },
 	{ { 'P' }, "P", "parts", 3, "the parts shelf: place a part, keep an element as a part", k_parts, 0 },
+	{ { 'o' }, "o", "points", 4, "every operating point side by side: each element's ratio at each", k_points, 0 },
+	{ { 'v' }, "v", "sweep", 4, "sweep a value of the selected element (or the source) over a range", k_sweep, 0 },
 	{ { 'h' }, "h", "history", 1, "revisions: diff, restore, label", k_history, 0 },
 	{ { 'c' }, "c", "commit", 1, "commit the draft as a new revision, with a note", k_commit, UI_K_EDITS },
 	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved)", k_back, 0 },

@@ -65,6 +65,8 @@ help_text(const struct app *a)
 	    "  element marked on the axis with its id, and the foci.\n");
 	section(&b, a, "History (h)", ui_history_ops.keys);
 	section(&b, a, "Parts shelf (P)", ui_parts_ops.keys);
+	section(&b, a, "Operating points side by side (o)", ui_points_ops.keys);
+	section(&b, a, "Sweep (v)", ui_sweep_ops.keys);
 	section(&b, a, "Help and diff screens", ui_text_keys);
 	section(&b, a, "Everywhere", ui_global_keys);
 	buf_add(&b,
