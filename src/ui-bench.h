@@ -22,7 +22,8 @@ struct wb {
 	int            editing;             /* the line editor is open on `field` */
 	struct ui_line line;
 	char          *error;               /* owned: why the last value was refused */
-	char          *moving;              /* owned: id being moved, NULL */
+	char          *moving;              /* owned: id being shifted, NULL */
+	char          *field_of;            /* owned: element whose field `field` is, NULL */
 	struct { int before; } add;         /* the add menu's argument */
 };
 

@@ -43,7 +43,7 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 {
 	size_t sel = sel_trace_row(a), *path, np;
 	const struct trace_row *sr = &a->trace->rows[sel];
-	int hp = (h - 7) / 4, hr = h - 7 - hp, pw = w - LABEL_W - 1, y0 = 2;
+	int hp = (h - 8) / 4, hr = h - 8 - hp, pw = w - LABEL_W - 1, y0 = 3;
 	struct layout_plot pl;
 	char t1[64], t2[64], t3[64], pct[32], br[160], *t;
 	double ticks[32];
@@ -52,18 +52,16 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	(void)p;
 	np = layout_profile_path(a->trace, sel, &path);
 	branch_of(a, sel, br, sizeof br);
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s %s %s beam profile to the end of branch %s", ui_glyph(a, GL_VBAR),
-	    a->name, ui_glyph(a, GL_VBAR), br);
-	ui_put(a, 0, 0, w, t, UC_TITLE);
+	t = xasprintf("profile along %s", br);
+	ui_frame(a, t, NULL, h, w);
 	free(t);
 	layout_radius_text(t1, sizeof t1, sr->wx, sr->wy, a->ascii);
 	units_format(t2, sizeof t2, sr->power_in, DIM_POWER, 3, a->ascii);
 	units_format(t3, sizeof t3, sr->z, DIM_LENGTH, 3, a->ascii);
 	layout_percent(pct, sizeof pct, sr->ratio);
 	t = xasprintf("%s %s at z = %s: radius %s, power %s, %s %s", model_type_name(sr->el->type),
-	    sr->el->id, t3, t1, t2, pct, layout_status_word(sr->status));
-	ui_put_attr(a, 1, 1, w - 2, t, ui_status_attr(a, sr->status) | A_BOLD);
+	    sr->el->id, t3, t1, t2, pct, layout_row_status_word(sr));
+	ui_put_attr(a, 2, 1, w - 2, t, ui_status_attr(a, sr->status) | A_BOLD);
 	free(t);
 	if (layout_profile(a->trace, path, np, sel, pw, hr, hp, &pl) != 0) {
 		ui_put(a, 3, 1, w - 2, "nothing to plot", UC_DIM);
@@ -104,7 +102,7 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	}
 	/* the axis: element marks, foci, z ticks, ids */
 	{
-		int ay = y0 + hr, next_free = 0;
+		int ay = y0 + hr;
 
 		for (int c = 0; c < pw; c++)
 			ui_put(a, ay, LABEL_W + 1 + c, 1, ui_glyph(a, GL_HBAR), UC_DIM);
@@ -116,38 +114,40 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 			    m->focus ? ui_glyph(a, GL_FOCUS) : a->ascii ? "+" : "\u253c",
 			    m->focus ? UC_FOCUS : is_sel ? UC_KEY : UC_NORMAL);
 		}
-		/* ids under their marks, the selected first, then left to right */
+		/* ids under their marks, the selected first, none over another */
 		{
-			const char *id = sr->el->id;
-			int c = pl.sel_col >= 0 ? pl.sel_col : -1, len = (int)utf8_cols(id);
-			int lo = -1, hi = -1;
+			int *col = xcalloc(pl.nmark + 1, sizeof *col), *len = xcalloc(pl.nmark + 1, sizeof *len);
+			int *at = xcalloc(pl.nmark + 1, sizeof *at);
+			size_t *mi = xcalloc(pl.nmark + 1, sizeof *mi), nl = 0;
+			long selk = -1;
 
-			if (c >= 0) {
-				lo = c;
-				hi = c + len;
-				if (hi > pw) {
-					lo = pw - len;
-					hi = pw;
-				}
-				ui_put_attr(a, ay + 1, LABEL_W + 1 + lo, len, id,
-				    ui_attr(a, UC_SELECT));
-			}
 			for (size_t i = 0; i < pl.nmark; i++) {
-				const struct layout_mark *m = &pl.mark[i];
-				const char *mid = a->trace->rows[m->row].el->id;
-				int l = (int)utf8_cols(mid);
-
-				int at = m->col + l > pw ? pw - l : m->col;   /* the last ones shift left */
-
-				if (m->focus || m->row == sel || at < next_free || at < 0 ||
-				    (lo >= 0 && at + l >= lo && at <= hi))
+				if (pl.mark[i].focus)
 					continue;
-				ui_put(a, ay + 1, LABEL_W + 1 + at, l, mid,
-				    a->trace->rows[m->row].status >= STATUS_CAUTION ?
-				    (a->trace->rows[m->row].status == STATUS_OVER ? UC_OVER : UC_CAUTION) :
-				    UC_NORMAL);
-				next_free = at + l + 1;
+				col[nl] = pl.mark[i].col;
+				len[nl] = (int)utf8_cols(a->trace->rows[pl.mark[i].row].el->id);
+				if (pl.mark[i].row == sel)
+					selk = (long)nl;
+				mi[nl++] = i;
 			}
+			layout_place_labels(col, len, nl, selk, pw, at);
+			for (size_t k = 0; k < nl; k++) {
+				const struct trace_row *tr = &a->trace->rows[pl.mark[mi[k]].row];
+
+				if (at[k] < 0)
+					continue;
+				if ((long)k == selk)
+					ui_put_attr(a, ay + 1, LABEL_W + 1 + at[k], len[k], tr->el->id,
+					    ui_attr(a, UC_SELECT));
+				else
+					ui_put(a, ay + 1, LABEL_W + 1 + at[k], len[k], tr->el->id,
+					    tr->status == STATUS_OVER ? UC_OVER :
+					    tr->status == STATUS_CAUTION ? UC_CAUTION : UC_NORMAL);
+			}
+			free(col);
+			free(len);
+			free(at);
+			free(mi);
 		}
 		nt = layout_ticks(pl.z0, pl.z1, (size_t)(pw / 12 > 1 ? pw / 12 : 2), ticks);
 		ui_put(a, ay + 2, 0, LABEL_W, "z", UC_DIM);
@@ -160,13 +160,14 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 		}
 	}
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
-	t = xasprintf("%s radius x  %s radius y  %s both  %s focus  %s power  %s selected "
-	    "(1/e%s radii, scale 0..%s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
+	t = xasprintf("%s=x radius  %s=y radius  %s=both  %s=focus  %s=power  %s=selected "
+	    "(1/e%s, 0 to %s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
 	    ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
 	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
 	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
 	free(t);
 	ui_key_line(a, ui_profile_ops.keys, h - 1, w);
+	(void)p;
 	layout_plot_release(&pl);
 	free(path);
 }
@@ -214,13 +215,13 @@ p_back(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key profile_keys[] = {
-	{ { UI_FKEY(KEY_LEFT), 'h', UI_FKEY(KEY_UP), 'k' }, "\u2190\u2192", "element", 0,
-	    "previous or next element along the path (also h, l)", p_prev, 0 },
-	{ { UI_FKEY(KEY_RIGHT), 'l', UI_FKEY(KEY_DOWN), 'j' }, "\u2192", NULL, 0,
-	    NULL, p_next, 0 },
-	{ { UI_ESC, 'q', 'p', '\r' }, "Esc", "back to the chain", 0,
-	    "back to the workbench, the element you reached selected (also q, p, Enter)", p_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_LEFT), UI_FKEY(KEY_UP) }, "\u2190\u2192", "element", 0,
+	    "previous or next element along the path (also the up and down arrows)", p_prev, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_RIGHT), UI_FKEY(KEY_DOWN) }, "\u2192", NULL, 0,
+	    NULL, p_next, 0, UG_MOVE },
+	{ { UI_ESC, 'q', 'z', '\r' }, "Esc", "back to the chain", 0,
+	    "back to the workbench, the element you reached selected (also q, z, Enter)", p_back, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_pane_ops ui_profile_ops = {
