@@ -35,6 +35,11 @@ size_t wb_hints(struct app *, struct wb *, struct layout_hint *, size_t max);
 /* Adds el (taken) after the selection, as `a` does. */
 int    wb_place(struct app *, struct element *el, char **cause);
 
+/* ui-place.c */
+enum ui_reaction wb_k_place(struct app *, struct ui_pane *);
+enum ui_reaction wb_k_place_before(struct app *, struct ui_pane *);
+enum ui_reaction wb_k_duplicate(struct app *, struct ui_pane *);
+
 /* ui-fields.c */
 enum ui_reaction wb_k_fields(struct app *, struct ui_pane *);
 enum ui_reaction wb_k_settings(struct app *, struct ui_pane *);

@@ -14,6 +14,7 @@
 #include "core-edit.h"
 #include "core-layout.h"
 #include "core-trace.h"
+#include "report.h"
 
 #include "check-util.h"
 
@@ -732,6 +733,36 @@ START_TEST(test_derivation)
 }
 END_TEST
 
+/* Issue 9.4 in the CLI's forms: the table writes the derivation under a
+ * row at caution or over, the JSON gives the factors (values by hand as
+ * in test_derivation: λ 1064/532 = 2, τ √(8/5) = 1.264911064). */
+START_TEST(test_derivation_reports)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	struct report_opts o = { 0, 0, NULL };
+	char *table = report_table(t, &o), *json = report_json(t);
+	const char *w1 = strstr(table, "\nW1 "), *why;
+
+	ck_assert_ptr_nonnull(w1);
+	why = strchr(w1 + 1, '\n');
+	ck_assert_ptr_nonnull(why);
+	ck_assert_msg(strncmp(why + 1, "  \u2514 why: fluence 1.20 J/cm\u00b2 \u00d7 2 \u03bb \u00d7 1.26 \u03c4 "
+	    "= 3.04 J/cm\u00b2 limit", 40) == 0, "under W1: %.80s", why + 1);
+	/* a row at ok gets no note */
+	ck_assert_int_eq(strncmp(strchr(strstr(table, "\nHWP1 ") + 1, '\n') + 1, "S1 ", 3), 0);
+	/* one percent form: the workbench's */
+	ck_assert_ptr_nonnull(strstr(table, "Worst: W1 at 109 % of its limit (OVER)"));
+	ck_assert_ptr_nonnull(strstr(json, "\"rating_key\": \"damage.fluence\", \"rating\": 12000, "
+	    "\"wavelength_factor\": 2, \"pulse_factor\": 1.264911064"));
+	ck_assert_ptr_nonnull(strstr(json, "\"limit_derivation\": null"));
+	free(table);
+	free(json);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* Issue 9.6: what placing asks for, type by type. */
 START_TEST(test_place_keys)
 {
@@ -1033,6 +1064,7 @@ main(void)
 	tcase_add_test(tc, test_margin_unrated);
 	tcase_add_test(tc, test_unrated_dump);
 	tcase_add_test(tc, test_derivation);
+	tcase_add_test(tc, test_derivation_reports);
 	tcase_add_test(tc, test_place_keys);
 	tcase_add_test(tc, test_key_hints);
 	tcase_add_test(tc, test_visibility);
