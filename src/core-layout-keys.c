@@ -76,7 +76,7 @@ static const struct {
 } bench_labels[] = {
 	{ "name", LKG_BENCH, "name" }, { "notes", LKG_BENCH, "notes" },
 	{ "safety_factor", LKG_BENCH, "safety factor" },
-	{ "air_breakdown", LKG_BENCH, "air breakdown level" },
+	{ "air_breakdown", LKG_BENCH, "breakdown level" },
 	{ "source.wavelength", LKG_SOURCE, "wavelength" },
 	{ "source.power", LKG_SOURCE, "average power" },
 	{ "source.pulsed", LKG_SOURCE, "pulsed" },

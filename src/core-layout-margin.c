@@ -239,9 +239,18 @@ layout_visibility(double wavelength)
 char *
 layout_beam_summary(const struct bench *b, int ascii)
 {
+	char *wlt = layout_quantity_text(b->src.wavelength, DIM_LENGTH);
 	char wl[48], p[48], e[48], f[48], tau[48];
 
-	units_format(wl, sizeof wl, b->src.wavelength, DIM_LENGTH, 4, ascii);
+	/* the wavelength as it would be typed: "532 nm", "1.064 µm" */
+	snprintf(wl, sizeof wl, "%s", wlt);
+	free(wlt);
+	if (ascii) {
+		char *x = layout_ascii(wl);
+
+		snprintf(wl, sizeof wl, "%s", x);
+		free(x);
+	}
 	units_format(p, sizeof p, b->src.power, DIM_POWER, 3, ascii);
 	if (!b->src.pulsed)
 		return xasprintf("%s CW %s", wl, p);
@@ -286,7 +295,14 @@ layout_caution_line(const struct bench *b, int ascii, int width)
 	const char *parts[3];
 	static const int prio[3] = { 0, 0, 1 };
 
-	units_format(wl, sizeof wl, b->src.wavelength, DIM_LENGTH, 4, ascii);
+	{
+		char *t = layout_quantity_text(b->src.wavelength, DIM_LENGTH);
+		char *u = ascii ? layout_ascii(t) : xstrdup(t);
+
+		snprintf(wl, sizeof wl, "%s", u);
+		free(t);
+		free(u);
+	}
 	beam = xasprintf("%s beam: %s", wl, strcmp(vis, "visible") == 0 ? "visible" : vis);
 	parts[0] = "design estimate, not a safety assessment";
 	parts[1] = beam;

@@ -551,8 +551,8 @@ layout_scroll(int sel, int top, int visible, int n)
 /* ---- values ---- */
 
 /* The shortest units_format form of v that parses back to v. */
-static char *
-quantity_text(double v, enum unit_dim dim)
+char *
+layout_quantity_text(double v, enum unit_dim dim)
 {
 	char tmp[64];
 
@@ -598,7 +598,7 @@ layout_value_text(const struct element *el, enum model_key k)
 		return xstrdup("");
 	switch (d->kind) {
 	case KIND_QUANTITY:
-		return quantity_text(v, d->dim);
+		return layout_quantity_text(v, d->dim);
 	case KIND_BOOL:
 	case KIND_AXIS:
 		return model_value_text(el, k);
@@ -640,6 +640,30 @@ layout_bench_key_help(const char *key)
 }
 
 char *
+layout_bench_key_hint(const char *key)
+{
+	for (size_t i = 0; i < NBENCH_KEYS; i++)
+		if (strcmp(bench_keys[i].key, key) == 0 && bench_keys[i].dim != DIM_COUNT) {
+			static const struct { enum unit_dim d; const char *ex; } ex[] = {
+				{ DIM_LENGTH, "532 nm, 3 mm" }, { DIM_POWER, "5 W" },
+				{ DIM_ENERGY, "200 mJ" }, { DIM_FREQUENCY, "10 Hz" },
+				{ DIM_TIME, "8 ns" }, { DIM_IRRADIANCE, "10 GW/cm^2" },
+			};
+
+			for (size_t k = 0; k < sizeof ex / sizeof *ex; k++)
+				if (ex[k].d == bench_keys[i].dim)
+					return xasprintf("with its unit, e.g. \"%s\"", ex[k].ex);
+		}
+	if (strcmp(key, "safety_factor") == 0)
+		return xstrdup("a plain number above 1");
+	if (strcmp(key, "source.pulsed") == 0)
+		return xstrdup("true or false");
+	if (strcmp(key, "source.m2") == 0)
+		return xstrdup("a plain number, 1 or more");
+	return xstrdup("");
+}
+
+char *
 layout_bench_value_text(const struct bench *b, const char *key)
 {
 	const struct source *s = &b->src;
@@ -654,26 +678,26 @@ layout_bench_value_text(const struct bench *b, const char *key)
 	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0))
 		return xstrdup("");
 	if (strcmp(key, "air_breakdown") == 0)
-		return quantity_text(b->air_breakdown, DIM_IRRADIANCE);
+		return layout_quantity_text(b->air_breakdown, DIM_IRRADIANCE);
 	if (strcmp(key, "source.wavelength") == 0)
-		return quantity_text(s->wavelength, DIM_LENGTH);
+		return layout_quantity_text(s->wavelength, DIM_LENGTH);
 	if (strcmp(key, "source.power") == 0)
-		return quantity_text(s->power, DIM_POWER);
+		return layout_quantity_text(s->power, DIM_POWER);
 	if (strcmp(key, "source.pulse_energy") == 0)
-		return quantity_text(s->pulse_energy, DIM_ENERGY);
+		return layout_quantity_text(s->pulse_energy, DIM_ENERGY);
 	if (strcmp(key, "source.rep_rate") == 0)
-		return quantity_text(s->rep_rate, DIM_FREQUENCY);
+		return layout_quantity_text(s->rep_rate, DIM_FREQUENCY);
 	if (strcmp(key, "source.pulse_width") == 0)
-		return quantity_text(s->pulse_width, DIM_TIME);
+		return layout_quantity_text(s->pulse_width, DIM_TIME);
 	if (strcmp(key, "source.waist_position") == 0)
-		return quantity_text(s->waist_position, DIM_LENGTH);
+		return layout_quantity_text(s->waist_position, DIM_LENGTH);
 	/* source.waist */
 	{
-		char *x = quantity_text(s->waist[0], DIM_LENGTH), *y, *r;
+		char *x = layout_quantity_text(s->waist[0], DIM_LENGTH), *y, *r;
 
 		if (!s->waist_pair)
 			return x;
-		y = quantity_text(s->waist[1], DIM_LENGTH);
+		y = layout_quantity_text(s->waist[1], DIM_LENGTH);
 		r = xasprintf("%s, %s", x, y);
 		free(x);
 		free(y);

@@ -130,6 +130,10 @@ int    layout_scroll(int sel, int top, int visible, int n);
 /* A key's value as short text that reads back to the same double ("250 mm"
  * rather than "0.25 m"); the given value or its default.  Caller frees. */
 char  *layout_value_text(const struct element *, enum model_key);
+/* v as the shortest units_format text that reads back to v ("532 nm"). */
+char  *layout_quantity_text(double v, enum unit_dim);                  /* caller frees */
+/* What a bench-level key's value looks like ("with its unit, e.g. ..."). */
+char  *layout_bench_key_hint(const char *key);                         /* caller frees */
 /* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm". */
 char  *layout_bench_value_text(const struct bench *, const char *key);
 /* A new, empty bench with a starting source the user then edits:

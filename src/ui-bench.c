@@ -133,8 +133,9 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	a->scroll = layout_scroll(a->sel, a->scroll, g->chain_h, (int)a->nrows);
 	if (a->nrows == 0) {
 		ui_put(a, g->chain_y + 1, 2, w - 4, "The bench has no elements yet: p places the "
-		    "first one (a space, then optics, and a dump, detector or target at the end).",
-		    UC_NORMAL);
+		    "first one.", UC_NORMAL);
+		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, and a dump, detector or "
+		    "target at the end; b sets the beam.", UC_NORMAL);
 		return;
 	}
 	for (int i = 0; i < g->chain_h && a->scroll + i < (int)a->nrows; i++) {

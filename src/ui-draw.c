@@ -460,7 +460,14 @@ ui_frame(struct app *a, const char *where, const char *more, int h, int w)
 		char *full = layout_beam_summary(a->bench, a->ascii);
 
 		/* the beam first: its full form where there is room */
-		units_format(wl, sizeof wl, a->bench->src.wavelength, DIM_LENGTH, 4, a->ascii);
+		{
+			char *t = layout_quantity_text(a->bench->src.wavelength, DIM_LENGTH);
+			char *u = a->ascii ? layout_ascii(t) : xstrdup(t);
+
+			snprintf(wl, sizeof wl, "%s", u);
+			free(t);
+			free(u);
+		}
 		units_format(pw, sizeof pw, a->bench->src.power, DIM_POWER, 3, a->ascii);
 		beam = xasprintf("%s %s%s", wl, pw, a->bench->src.pulsed ? " pulsed" : " CW");
 		parts[0] = full;
@@ -502,8 +509,8 @@ ui_frame(struct app *a, const char *where, const char *more, int h, int w)
 	if (a->bench != NULL) {
 		caution = layout_caution_line(a->bench, a->ascii, w - 3);
 	} else {
-		caution = xstrdup("design estimates, not a safety assessment: the laser safety "
-		    "officer and local rules decide");
+		caution = xstrdup("design estimates, not a safety assessment: the laser "
+		    "safety officer decides");
 	}
 	line = xasprintf("%s %s", ui_glyph(a, GL_HAZARD), caution);
 	ui_put(a, 1, 0, w, line, UC_CAUTION);

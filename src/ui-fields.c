@@ -182,7 +182,8 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		d->field_top = 0;
 	}
 	if (d->focus == WB_FIELDS && n > 0) {
-		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) : xstrdup("");
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
 		char *t = xasprintf(" %s: %s%s%s ", f[d->field].name, f[d->field].help,
 		    hint[0] ? "; " : "", hint);
 		int tw = (int)utf8_cols(t);
@@ -355,7 +356,7 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 			snprintf(line, sizeof line, "%s", hint);
 			free(hint);
 		} else {
-			snprintf(line, sizeof line, "%s %s of its limit: %s", bar, pct,
+			snprintf(line, sizeof line, "%s %s: %s", bar, pct,
 			    layout_status_word(r->status));
 		}
 		n += result_line(a, y + n, x, w, "damage", line,
@@ -458,7 +459,8 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 	d->error = NULL;
 	ui_line_set(&d->line, initial != NULL ? initial : f[d->field].given ? f[d->field].value : "");
 	{
-		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) : xstrdup("");
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
 
 		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
 		    hint);
@@ -637,7 +639,8 @@ f_move_to(struct app *a, struct wb *d, int by)
 	d->field += by;
 	clamp_field(d, n);
 	if (n > 0) {
-		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) : xstrdup("");
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
 
 		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
 		    hint);

@@ -345,7 +345,14 @@ confirm_draw(struct app *a, struct ui_pane *p, int h, int w)
 
 	ui_box(a, y, x, bh, bw, "question");
 	wrapped(a, d->question, y + 1, x + 2, bw - 4, 3, UC_NORMAL);
-	ui_put(a, y + bh - 2, x + 2, bw - 4, "y yes   n no   Esc no", UC_KEY);
+	{
+		struct layout_hint hh[2] = { { "y", "yes", 0, UG_VALUES }, { "n", "no (also Esc)", 0, UG_LEAVE } };
+		char *t = layout_hints_text(hh, 2, bw - 4), *u = a->ascii ? layout_ascii(t) : xstrdup(t);
+
+		ui_put(a, y + bh - 2, x + 2, bw - 4, u, UC_KEY);
+		free(t);
+		free(u);
+	}
 }
 
 static enum ui_reaction
@@ -472,11 +479,13 @@ menu_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ui_put_attr(a, y + 1 + i, x + 17, bw - 19, help, at | (i == d->sel ? 0 : ui_attr(a, UC_DIM)));
 	}
 	{
-		char *t = xasprintf("%s choose   Enter or key: pick   Esc cancel",
-		    ui_glyph(a, GL_UPDOWN));
+		struct layout_hint hh[3] = { { "\u2191\u2193", "choose", 0, UG_MOVE },
+			{ "Enter", "pick (or its letter)", 0, UG_VALUES }, { "Esc", "cancel", 0, UG_LEAVE } };
+		char *t = layout_hints_text(hh, 3, bw - 4), *u = a->ascii ? layout_ascii(t) : xstrdup(t);
 
-		ui_put(a, y + bh - 2, x + 2, bw - 4, t, UC_DIM);
+		ui_put(a, y + bh - 2, x + 2, bw - 4, u, UC_DIM);
 		free(t);
+		free(u);
 	}
 }
 

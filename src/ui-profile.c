@@ -160,10 +160,9 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 		}
 	}
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
-	t = xasprintf("%s=x radius  %s=y radius  %s=both  %s=focus  %s=power  %s=selected "
-	    "(1/e%s, 0 to %s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
-	    ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
-	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
+	t = xasprintf("%s=x %s=y radius  %s=both  %s=focus  %s=power  %s=selected  (1/e%s, top %s)",
+	    ui_glyph(a, GL_WX), ui_glyph(a, GL_WY), ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS),
+	    ui_glyph(a, GL_POWER), ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
 	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
 	free(t);
 	ui_key_line(a, ui_profile_ops.keys, h - 1, w);
