@@ -119,8 +119,9 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	double caution = 1 / a->bench->safety_factor;
 
 	chain_cols(a, cols);
-	/* column w-1 is kept for the scroll arrows, column 0 for the hazard sign */
-	layout_fit_columns(cols, C_NCOLS, w - 2, 1, cw);
+	/* column w-1 is kept for the scroll arrows (a blank before them), column
+	 * 0 for the hazard sign */
+	layout_fit_columns(cols, C_NCOLS, w - 3, 1, cw);
 	x = 1;
 	for (int c = 0; c < C_NCOLS; c++)
 		if (cw[c] > 0) {

@@ -168,8 +168,10 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	{
 		char *t = xasprintf(" %s ", title);
 		int tw = (int)utf8_cols(t);
+		/* with a field chosen its hint takes the right part of the line */
+		int room = d->focus == WB_FIELDS ? lw - 2 : w - 14;
 
-		title_end = 2 + (tw < w - 14 ? tw : w - 14);
+		title_end = 2 + (tw < room ? tw : room);
 		ui_put(a, g->sep_y, 2, title_end - 2, t, UC_HEADER);
 		free(t);
 	}

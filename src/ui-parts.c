@@ -321,7 +321,14 @@ s_edit(struct app *a, struct ui_pane *p)
 	pe->key = xstrdup(f[d->field].name);
 	v = f[d->field].given ? layout_field_value(&d->part, &f[d->field]) : xstrdup("");
 	title = xasprintf("part %s: %s", d->names[d->sel], f[d->field].name);
-	ui_prompt(a, title, f[d->field].help, v, part_set, pe, part_edit_free);
+	{
+		char *hint = f[d->field].kind == LF_KEY ? layout_key_hint(f[d->field].key) : xstrdup("");
+		char *help = xasprintf("%s%s%s", f[d->field].help, hint[0] ? "; " : "", hint);
+
+		ui_prompt(a, title, help, v, part_set, pe, part_edit_free);
+		free(help);
+		free(hint);
+	}
 	free(title);
 	free(v);
 	return UI_REDRAW;
