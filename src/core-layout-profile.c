@@ -309,3 +309,54 @@ layout_place_labels(const int *col, const int *len, size_t n, long sel, int widt
 	}
 	return placed;
 }
+
+int
+layout_profile_band(const struct trace *t, const size_t *path, size_t npath, size_t sel,
+    int w, int hr, int hp, struct layout_plot *p)
+{
+	int mid;
+
+	if (layout_profile(t, path, npath, sel, w, hr, hp, p) != 0)
+		return -1;
+	/* the radius rows again, now as the beam lies on the table: the axis
+	 * in the middle row, the x radius filled above and below it, the y
+	 * radius marked at its edges */
+	memset(p->cell, LG_EMPTY, (size_t)w * (size_t)hr);
+	mid = (hr - 1) / 2;
+	for (int c = 0; c < w; c++) {
+		double z = p->z0 + (c + 0.5) * (p->z1 - p->z0) / w, wx, wy;
+		int k = 0, ex, ey;
+		const struct trace_row *r;
+
+		while ((size_t)k + 1 < npath && t->rows[path[k + 1]].z <= z)
+			k++;
+		r = &t->rows[path[k]];
+		if (r->el->type == EL_SPACE) {
+			trace_radius_at(t, r, z - r->z, &wx, &wy);
+		} else {
+			wx = r->wx;
+			wy = r->wy;
+		}
+		/* rows from the axis to the edge, rounded; at least the axis row */
+		ex = p->rmax > 0 ? (int)floor(wx / p->rmax * mid + 0.5) : 0;
+		ey = p->rmax > 0 ? (int)floor(wy / p->rmax * mid + 0.5) : 0;
+		for (int d = 0; d <= ex && d <= mid; d++) {
+			setc(p, mid - d, c, LG_WX);
+			if (mid + d < hr)
+				setc(p, mid + d, c, LG_WX);
+		}
+		if (ey <= mid && ey != ex) {
+			p->cell[(size_t)(mid - ey) * (size_t)w + (size_t)c] = LG_WY;
+			if (mid + ey < hr)
+				p->cell[(size_t)(mid + ey) * (size_t)w + (size_t)c] = LG_WY;
+		}
+		if (p->sel_col == c)
+			for (int rr = 0; rr < hr; rr++)
+				if (p->cell[(size_t)rr * (size_t)w + (size_t)c] == LG_EMPTY)
+					p->cell[(size_t)rr * (size_t)w + (size_t)c] = LG_SEL;
+	}
+	for (size_t i = 0; i < p->nmark; i++)
+		if (p->mark[i].focus)
+			p->cell[(size_t)mid * (size_t)w + (size_t)p->mark[i].col] = LG_FOCUS;
+	return 0;
+}

@@ -284,6 +284,12 @@ struct layout_plot {
  * mark (or (size_t)-1).  Returns 0, or -1 when w, hr or hp is below 2. */
 int    layout_profile(const struct trace *, const size_t *path, size_t npath,
            size_t sel, int w, int hr, int hp, struct layout_plot *out);
+/* The same plot with the radius rows drawn as the beam lies on the table:
+ * the axis in row (hr-1)/2, LG_WX filling ±x radius about it, LG_WY at
+ * the ±y radius where it differs, foci on the axis; rmax is then the
+ * distance from the axis to the top row. */
+int    layout_profile_band(const struct trace *, const size_t *path, size_t npath,
+           size_t sel, int w, int hr, int hp, struct layout_plot *out);
 void   layout_plot_release(struct layout_plot *);
 /* A "nice" number >= x (1, 2, 2.5, 5 × 10^k); 0 stays 0. */
 double layout_nice_ceil(double x);

@@ -982,6 +982,37 @@ START_TEST(test_profile_plot)
 }
 END_TEST
 
+/* The band: symmetric about the middle row, as wide as the x radius. */
+START_TEST(test_profile_band)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	size_t *idx, n = layout_profile_path(t, row_of(t, "W1"), &idx);
+	struct layout_plot p;
+	int mid = (11 - 1) / 2, half = 0;
+
+	ck_assert_int_eq(layout_profile_band(t, idx, n, (size_t)-1, 60, 11, 4, &p), 0);
+	for (int c = 0; c < 60; c++) {
+		ck_assert_msg(p.cell[mid * 60 + c] == LG_WX || p.cell[mid * 60 + c] == LG_FOCUS,
+		    "column %d: no beam on the axis", c);
+		for (int d = 1; d <= mid; d++)
+			ck_assert_int_eq(p.cell[(mid - d) * 60 + c] == LG_WX,
+			    p.cell[(mid + d) * 60 + c] == LG_WX);
+	}
+	/* at the source the radius is 3.00 mm (demo: waist 3 mm, z_R of
+	 * π·(3 mm)²/(1.3·1064 nm) ≈ 20 m, so it has not grown): half-height
+	 * 3 mm / rmax × 5 rows, rounded */
+	for (int d = 0; d <= mid; d++)
+		if (p.cell[(mid - d) * 60 + 0] == LG_WX)
+			half = d;
+	ck_assert_int_eq(half, (int)floor(3e-3 / p.rmax * mid + 0.5));
+	layout_plot_release(&p);
+	free(idx);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 static const struct { double x, want; } nice_cases[] = {
 	{ 3.01e-3, 5e-3 }, { 2.1, 2.5 }, { 1, 1 }, { 0, 0 }, { 7.2, 10 },
 	{ 0.0011, 0.002 }, { 250, 250 },
@@ -1073,6 +1104,7 @@ main(void)
 	tc = tcase_create("profile");
 	tcase_add_test(tc, test_profile_path);
 	tcase_add_test(tc, test_profile_plot);
+	tcase_add_test(tc, test_profile_band);
 	LOOP(tc, test_nice_ceil, nice_cases);
 	LOOP(tc, test_ticks, tick_cases);
 	LOOP(tc, test_map_col, map_cases);

@@ -110,7 +110,10 @@ check "help keys are not the retired modal set" sh -c '! grep -E "^    (a|i|x|u|
 check "no help line is cut at 80 columns (9.13)" sh -c '! grep -q "…$" "$1"' _ "$T_DIR/help.txt"
 step "help closes" ui "worst: W1" q
 step "profile view draws radii and foci" ui "▸ profile along POL1.rejected" z
-check "profile legend reads right, whole (9.13)" wait_line ui '^ x=x y=y radius  ●=both  ◆=focus  ▀=power  ·=selected  \(1/e², top [0-9.]+ mm\)$'
+check "the beam drawn as a band about the axis (7f)" wait_line ui '^ +axis │.*▒'
+check "its legend, whole" wait_line ui '^ ▒=beam ±x radius  y=±y radius  ◆=focus  ▀=power  \(1/e²; v: curves\)$'
+t_keys ui v
+check "v: the radii as curves, legend whole (9.13)" wait_line ui '^ x=x y=y radius  ●=both  ◆=focus  ▀=power  ·=selected  \(1/e², top [0-9.]+ mm\)$'
 check "power scaled to the bench (2 W, not 5 W)" wait_line ui '^ +2\.00 W │'
 t_keys ui Escape
 check "profile closes" wait_for ui "worst: W1"
