@@ -147,11 +147,12 @@ pts_back(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key pts_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "element", 0, "choose an element (also k, j)", pts_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, pts_down, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "element", 0, "choose an element", pts_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, pts_down, 0, UG_MOVE },
 	{ { UI_ESC, 'q', 'o', '\r' }, "Esc", "back to the chain", 0,
-	    "back to the chain, the element chosen here selected (also q, o, Enter)", pts_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	    "back to the chain, the element chosen here selected (also q, o, Enter)", pts_back, 0,
+	    UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_pane_ops ui_points_ops = {
@@ -370,15 +371,16 @@ swp_back(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key swp_keys[] = {
-	{ { UI_FKEY(KEY_LEFT), 'h' }, "\u2190\u2192", "move along the knob", 0,
-	    "move the cursor one step along the knob (also h, l)", swp_left, 0 },
-	{ { UI_FKEY(KEY_RIGHT), 'l' }, "\u2192", NULL, 0, NULL, swp_right, 0 },
-	{ { UI_FKEY(KEY_PPAGE), 'H' }, "PgUp", NULL, 0, "20 steps back (also H)", swp_pgup, 0 },
-	{ { UI_FKEY(KEY_NPAGE), 'L' }, "PgDn", NULL, 0, "20 steps on (also L)", swp_pgdn, 0 },
-	{ { UI_FKEY(KEY_HOME), 'g' }, "Home", NULL, 0, "the start of the range (also g)", swp_home, 0 },
-	{ { UI_FKEY(KEY_END), 'G' }, "End", NULL, 0, "the end of the range (also G)", swp_end, 0 },
-	{ { UI_ESC, 'q', 'v' }, "Esc", "back to the chain", 0, "back to the chain (also q, v)", swp_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_LEFT) }, "\u2190\u2192", "move along the knob", 0,
+	    "move the cursor one step along the knob", swp_left, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_RIGHT) }, "\u2192", NULL, 0, NULL, swp_right, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "20 steps back", swp_pgup, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_NPAGE) }, "PgDn", NULL, 0, "20 steps on", swp_pgdn, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_HOME) }, "Home", NULL, 0, "the start of the range", swp_home, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_END) }, "End", NULL, 0, "the end of the range", swp_end, 0, UG_MOVE },
+	{ { UI_ESC, 'q', 'v' }, "Esc", "back to the chain", 0, "back to the chain (also q, v)", swp_back, 0,
+	    UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_pane_ops ui_sweep_ops = {

@@ -36,9 +36,9 @@ t_keys ui Enter
 check "the sweep opens" wait_for ui "sweep of HWP1.angle, 0 .. 45"
 check "... at the start of the range" wait_for ui "HWP1.angle = 0°: worst W1 128 % OVER"
 check "... the safe interval" wait_line ui "safe \(nothing over\): 13\.9[0-9]* deg|safe \(nothing over\): 13\.9[0-9]*°"
-t_keys ui l
-check "l: the cursor moves one step (45/200)" wait_for ui "HWP1.angle = 0.225°"
-t_keys ui L L L L L L L L L L
+t_keys ui Right
+check "Right: the cursor moves one step (45/200)" wait_for ui "HWP1.angle = 0.225°"
+t_keys ui NPage NPage NPage NPage NPage NPage NPage NPage NPage NPage
 check "PgDn: 20 steps at a time, to the end" wait_for ui "HWP1.angle = 45°: worst BD1 39.6 % ok"
 t_keys ui Home
 check "Home: the start again" wait_for ui "HWP1.angle = 0°: worst W1"
