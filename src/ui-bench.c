@@ -674,7 +674,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { '!' }, "!", "hazards", 1, "every hazard on the bench; Enter goes to its element", k_hazards, 0, UG_LOOK },
 	{ { 'z' }, "z", "profile", 4, "the beam along z to the end of the selected element's branch", k_profile, 0, UG_LOOK },
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
-	{ { 'q', UI_ESC }, "q", "benches", 2, "back to the bench list (the draft is saved)", k_back, 0, UG_LEAVE },
+	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };
 
