@@ -310,6 +310,7 @@ t_start direct 80 24 env LC_ALL=C XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB
 check "open BENCH goes to the bench" wait_for direct "focus-test > draft"
 check "ASCII fallback under LC_ALL=C" wait_line direct '^worst: [A-Z0-9]+ .*\|.*safe source power .*\|'
 check "ASCII key line" wait_line direct '^p>place  l>lift'
+check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
 t_keys direct q
@@ -317,8 +318,11 @@ check "and quits" wait_exit direct 5
 
 # ---- another writer changes the draft while the workbench is open ----
 "$BL" --db "$DB" clone focus-test two-writers >/dev/null 2>&1
+"$BL" --db "$DB" set two-writers W1 'damage.cw_linear=1 kW/cm' >/dev/null 2>&1
 t_start two 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open two-writers
 check "second bench open" wait_for two "two-writers"
+check "a CW rating per length brings the linear density column (9.12)" \
+	wait_line two '^ element .* lin\. dens\. +to LIDT'
 "$BL" --db "$DB" set two-writers S1 'length=321 mm' >/dev/null 2>&1
 t_keys two l
 check "an edit over another writer's change is not saved, and says so" \
