@@ -238,7 +238,7 @@ layout_rating_hint(enum elem_type t, int pulsed)
 	struct buf b;
 
 	if (n == 0)
-		return xstrdup("n/a: a space has nothing to damage");
+		return xstrdup("n/a: nothing to damage in a gap");
 	buf_init(&b);
 	buf_add(&b, "unrated: give ");
 	for (size_t i = 0; i < n; i++) {

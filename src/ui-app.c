@@ -206,7 +206,8 @@ app_set_base(struct app *a, int no)
 }
 
 /* Which setup the draft is, or came from: the newest it equals (only the
- * newest few are looked at), else the latest. */
+ * ten newest are looked at, so that opening a long history stays quick),
+ * else the latest. */
 static void
 find_base(struct app *a)
 {
@@ -218,7 +219,7 @@ find_base(struct app *a)
 	a->base_rev = 0;
 	if (a->bench == NULL || store_log(a->store, a->name, &revs, &n, NULL) != 0)
 		return;
-	for (size_t i = 0; i < n && i < 30; i++) {
+	for (size_t i = 0; i < n && i < 10; i++) {
 		char ref[24], *text;
 		struct bench *b;
 

@@ -57,7 +57,8 @@ typedef enum ui_reaction (*ui_action)(struct app *, struct ui_pane *);
 enum { UI_K_EDITS = 1 << 0 };   /* changes the database: refused when view-only */
 
 /* The tasks keys are grouped by, on the key line and in the help. */
-enum ui_group { UG_MOVE, UG_LAYOUT, UG_VALUES, UG_RECORD, UG_LOOK, UG_LEAVE, UG_COUNT };
+enum ui_group { UG_MOVE, UG_BENCHES, UG_LAYOUT, UG_VALUES, UG_RECORD, UG_LOOK, UG_LEAVE,
+	UG_COUNT };
 extern const char *const ui_group_names[UG_COUNT];
 
 struct ui_key {

@@ -692,7 +692,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
 	{ { 'o' }, "o", NULL, 0, "every operating point side by side: each element's ratio at each", k_points, 0, UG_LOOK },
 	{ { 'v' }, "v", NULL, 0, "sweep a value of the selected element (or the source) over a range", k_sweep, 0, UG_LOOK },
-	{ { 'q', UI_ESC }, "q", "benches", 2, "back to the bench list (the draft is saved)", k_back, 0, UG_LEAVE },
+	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };
 

@@ -128,7 +128,8 @@ static const char *const glyphs[GL_COUNT][2] = {
 };
 
 const char *const ui_group_names[UG_COUNT] = {
-	[UG_MOVE] = "Moving around", [UG_LAYOUT] = "Laying out the chain",
+	[UG_MOVE] = "Moving around", [UG_BENCHES] = "Benches",
+	[UG_LAYOUT] = "Laying out the chain",
 	[UG_VALUES] = "Values", [UG_RECORD] = "Record, history, compare",
 	[UG_LOOK] = "Looking closer", [UG_LEAVE] = "Leaving",
 };

@@ -309,6 +309,24 @@ result_line(struct app *a, int y, int x, int w, const char *label, const char *t
 	return 1;
 }
 
+/* A result that may need more than one line: wrapped under its label,
+ * at most `max` lines and never past the pane (h - n left). */
+static int
+result_wrapped(struct app *a, int y, int x, int w, int left, int max, const char *label,
+    const char *text, attr_t at)
+{
+	size_t st[4], ln[4], nl = layout_wrap(text, w - 11, st, ln, 4);
+	int used = 0;
+
+	for (size_t i = 0; i < nl && i < 4 && used < max && used < left; i++) {
+		char *part = xasprintf("%.*s", (int)ln[i], text + st[i]);
+
+		used += result_line(a, y + used, x, w, i == 0 ? label : "", part, at);
+		free(part);
+	}
+	return used;
+}
+
 void
 wb_draw_results(struct app *a, int y, int x, int h, int w)
 {
@@ -347,6 +365,12 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		snprintf(line, sizeof line, "peak %s, linear %s", t1, t2);
 	}
 	n += result_line(a, y + n, x, w, "irradiance", line, A_NORMAL);
+	if (n < h && r->has_focus && r->focus.air_breakdown) {
+		/* the worst a gap can do comes before the details */
+		qty(a, r->focus.peak_irradiance, DIM_IRRADIANCE, t1, sizeof t1);
+		snprintf(line, sizeof line, "AIR BREAKDOWN: the focus here reaches %s, a spark", t1);
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_OVER));
+	}
 	if (n < h) {
 		char bar[128], pct[32];
 
@@ -361,29 +385,16 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 			snprintf(line, sizeof line, "%s %s: %s", bar, pct,
 			    layout_status_word(r->status));
 		}
-		n += result_line(a, y + n, x, w, "damage", line,
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "damage", line,
 		    isnan(r->ratio) && layout_row_hazard(a->trace, (size_t)row->trace_row) ?
 		    ui_attr(a, UC_HAZARD) : ui_status_attr(a, r->status));
-	}
-	if (n < h && r->has_focus && r->focus.air_breakdown) {
-		/* the worst a gap can do comes before the details */
-		qty(a, r->focus.peak_irradiance, DIM_IRRADIANCE, t1, sizeof t1);
-		snprintf(line, sizeof line, "AIR BREAKDOWN: the focus here reaches %s, a spark", t1);
-		n += result_line(a, y + n, x, w, "hazard", line, ui_attr(a, UC_OVER));
 	}
 	if (n < h) {
 		/* why the limit is what it is, wrapped over as many lines as it needs */
 		char *why = layout_derivation_text(r, a->bench, a->ascii);
 
 		if (why != NULL) {
-			size_t st[4], ln[4], nl = layout_wrap(why, w - 11, st, ln, 4);
-
-			for (size_t i = 0; i < nl && i < 4 && n < h; i++) {
-				char *part = xasprintf("%.*s", (int)ln[i], why + st[i]);
-
-				n += result_line(a, y + n, x, w, i == 0 ? "why" : "", part, A_NORMAL);
-				free(part);
-			}
+			n += result_wrapped(a, y + n, x, w, h - n, 4, "why", why, A_NORMAL);
 			free(why);
 		}
 	}
@@ -430,7 +441,7 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 	if (n < h && r->critical_power > 0 && (r->flags & TF_SELF_FOCUSING)) {
 		qty(a, r->critical_power, DIM_POWER, t1, sizeof t1);
 		snprintf(line, sizeof line, "peak power above the critical %s: self-focusing", t1);
-		n += result_line(a, y + n, x, w, "hazard", line, ui_attr(a, UC_HAZARD));
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_HAZARD));
 	}
 }
 

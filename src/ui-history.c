@@ -141,10 +141,17 @@ entry_margin(struct app *a, struct hist *d, int e, enum damage_status *st)
 /* The older and the newer entry a compare takes: the pinned one and the
  * selection, or the selection and the one before it. */
 static int
-compare_pair(const struct hist *d, int *older, int *newer)
+compare_pair(const struct app *a, const struct hist *d, int *older, int *newer)
 {
 	*older = d->pin >= 0 ? (d->pin > d->sel ? d->pin : d->sel) : d->sel + 1;
 	*newer = d->pin >= 0 ? (d->pin > d->sel ? d->sel : d->pin) : d->sel;
+	/* the draft that is the latest setup: compare that setup with the one
+	 * before it, not with itself */
+	if (d->pin < 0 && d->sel == 0 && d->n > 0 && a->base_rev == d->revs[0].no &&
+	    a->base_text != NULL && a->stored != NULL && strcmp(a->base_text, a->stored) == 0) {
+		*older = 2;
+		*newer = 1;
+	}
 	return *older != *newer && *older <= (int)d->n;
 }
 
@@ -215,7 +222,7 @@ hist_draw(struct app *a, struct ui_pane *p, int h, int w)
 		char from[24], to[24];
 		int older, newer;
 
-		if (compare_pair(d, &older, &newer)) {
+		if (compare_pair(a, d, &older, &newer)) {
 			entry_name(d, older, from, sizeof from);
 			entry_name(d, newer, to, sizeof to);
 			t = xasprintf("Enter compares %s %s %s%s", from, ui_glyph(a, GL_ARROW), to,
@@ -328,7 +335,7 @@ h_compare(struct app *a, struct ui_pane *p)
 	struct bench *ob, *nb;
 	char from[24], to[24], *cause = NULL;
 
-	if (!compare_pair(d, &older, &newer)) {
+	if (!compare_pair(a, d, &older, &newer)) {
 		app_msg(a, 1, "nothing older to compare with: pin another setup with Space");
 		return UI_REDRAW;
 	}

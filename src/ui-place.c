@@ -168,8 +168,13 @@ ask_next(struct app *a, struct add_arg *x)
 	help = xasprintf("%s %s %s (%s): %s; %s.", layout_group_name(g),
 	    ui_glyph(a, GL_DOT), label, model_key_path((enum model_key)k), hint,
 	    required ? "needed" : "Enter with nothing skips it");
-	if (k == K_DMG_PULSE_WIDTH && a->bench->src.pulsed)
-		units_format(init, sizeof init, a->bench->src.pulse_width, DIM_TIME, 3, 0);
+	if (k == K_DMG_PULSE_WIDTH && a->bench->src.pulsed) {
+		/* the bench's own pulse, exactly as it reads back */
+		char *t = layout_quantity_text(a->bench->src.pulse_width, DIM_TIME);
+
+		snprintf(init, sizeof init, "%s", t);
+		free(t);
+	}
 	x->refs++;
 	ui_prompt(a, title, help, init, value_given, x, add_arg_release);
 	free(title);

@@ -849,6 +849,44 @@ START_TEST(test_visibility)
 }
 END_TEST
 
+/* The header's parts: the droppable ones go first, the rest stay. */
+START_TEST(test_join_fit)
+{
+	static const char *const parts[] = { "1.064 \u00b5m 2.00 W", "demo", "draft = #1", "29 elements" };
+	static const int prio[] = { 0, 0, 0, 1 };
+	char *all = layout_join_fit(parts, prio, 4, " > ", 80);
+	char *cut = layout_join_fit(parts, prio, 4, " > ", 40);
+	char *tiny = layout_join_fit(parts, prio, 4, " > ", 5);
+
+	ck_assert_str_eq(all, "1.064 \u00b5m 2.00 W > demo > draft = #1 > 29 elements");
+	ck_assert_str_eq(cut, "1.064 \u00b5m 2.00 W > demo > draft = #1");   /* 36 columns */
+	ck_assert_str_eq(tiny, cut);        /* prio 0 is never dropped */
+	free(all);
+	free(cut);
+	free(tiny);
+}
+END_TEST
+
+/* At every width from 80 up the margin line fits and keeps its words. */
+START_TEST(test_margin_widths)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+
+	for (int w = 80; w <= 200; w++) {
+		char *s = layout_margin_line(t, 0, w, "saved 12:34");
+
+		ck_assert_msg((int)utf8_cols(s) <= w, "%d columns: %s", w, s);
+		ck_assert_ptr_nonnull(strstr(s, "W1 109 % OVER"));
+		ck_assert_ptr_nonnull(strstr(s, "safe source power 914 mW"));
+		ck_assert_ptr_nonnull(strstr(s, "hazards"));
+		free(s);
+	}
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* Issue 9.13: ids under the profile's axis never overlap. */
 START_TEST(test_place_labels)
 {
@@ -1110,6 +1148,8 @@ main(void)
 	tcase_add_test(tc, test_key_hints);
 	tcase_add_test(tc, test_visibility);
 	tcase_add_test(tc, test_place_labels);
+	tcase_add_test(tc, test_join_fit);
+	tcase_add_test(tc, test_margin_widths);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("profile");
 	tcase_add_test(tc, test_profile_path);

@@ -82,6 +82,21 @@ step "Enter goes to the hazard's element" ui "S4r selected" Enter
 check "the workbench again, on S4r" wait_for ui "space S4r"
 check "the hazard screen's message is not stale on the chain" wait_gone ui "▸ hazards ·"
 
+# ---- placing on a pulsed bench asks for a fluence rating and its pulse (9.6) ----
+t_keys ui p
+wait_for ui "place after S4r" >/dev/null
+t_keys ui m
+check "a mirror: its angle first" wait_for ui "angle of incidence (aoi): degrees, 0 to 90"
+t_keys ui -l "45"
+t_keys ui Enter
+check "then its fluence rating" wait_for ui "pulse fluence (damage.fluence)"
+t_keys ui -l "10 J/cm^2"
+t_keys ui Enter
+check "then the pulse it was rated at, the bench's filled in" wait_line ui '\[8 ns +\]'
+step "placed, rated" ui "placed mirror M2 after S4r (" Enter
+check "and traced at once" wait_line ui '^ +M2 .* ok'
+step "undo takes it off again" ui "undone" -
+
 # ---- colour: a hazard row is bold, never dim (9.1) ----
 t_start colour 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open table3-ablation
 check "coloured workbench open" wait_for colour "table3-ablation"
@@ -108,15 +123,15 @@ check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/
 check "help has no label command (7)" sh -c '! grep -wE "label" "$1"' _ "$T_DIR/help.txt"
 check "help keys are not the retired modal set" sh -c '! grep -E "^    (a|i|x|u|j|k|g|G|\^R) " "$1"' _ "$T_DIR/help.txt"
 check "no help line is cut at 80 columns (9.13)" sh -c '! grep -q "…$" "$1"' _ "$T_DIR/help.txt"
-step "help closes" ui "worst: W1" q
-step "profile view draws radii and foci" ui "▸ profile along POL1.rejected" z
+step "help closes" ui "safe source power 914 mW" q
+step "profile view draws radii and foci" ui "▸ profile along " z
 check "the beam drawn as a band about the axis (7f)" wait_line ui '^ +axis │.*▒'
 check "its legend, whole" wait_line ui '^ ▒=beam ±x radius  y=±y radius  ◆=focus  ▀=power  \(1/e²; v: curves\)$'
 t_keys ui v
 check "v: the radii as curves, legend whole (9.13)" wait_line ui '^ x=x y=y radius  ●=both  ◆=focus  ▀=power  ·=selected  \(1/e², top [0-9.]+ mm\)$'
 check "power scaled to the bench (2 W, not 5 W)" wait_line ui '^ +2\.00 W │'
 t_keys ui Escape
-check "profile closes" wait_for ui "worst: W1"
+check "profile closes" wait_for ui "safe source power 914 mW"
 step "the shelf is empty" ui "The shelf is empty." S
 check "and drawn cleanly, no divider through it (9.13)" wait_line ui '^ The shelf is empty\.$'
 t_keys ui Escape
@@ -295,6 +310,7 @@ t_start direct 80 24 env LC_ALL=C XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB
 check "open BENCH goes to the bench" wait_for direct "focus-test > draft"
 check "ASCII fallback under LC_ALL=C" wait_line direct '^worst: [A-Z0-9]+ .*\|.*safe source power .*\|'
 check "ASCII key line" wait_line direct '^p>place  l>lift'
+check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
 t_keys direct q
@@ -302,8 +318,11 @@ check "and quits" wait_exit direct 5
 
 # ---- another writer changes the draft while the workbench is open ----
 "$BL" --db "$DB" copy focus-test two-writers >/dev/null 2>&1
+"$BL" --db "$DB" set two-writers W1 'damage.cw_linear=1 kW/cm' >/dev/null 2>&1
 t_start two 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open two-writers
 check "second bench open" wait_for two "two-writers"
+check "a CW rating per length brings the linear density column (9.12)" \
+	wait_line two '^ element .* lin\. dens\. +to LIDT'
 "$BL" --db "$DB" set two-writers S1 'length=321 mm' >/dev/null 2>&1
 t_keys two l
 check "an edit over another writer's change is not saved, and says so" \
