@@ -96,6 +96,10 @@ set_key_json(struct element *el, enum model_key k, json_t *v, char **cause)
 			return fail_with(cause, "%s: expected \"both\", \"x\" or \"y\", got %s",
 			    what, json_kind(v));
 		return model_set_text(el, k, json_string_value(v), cause);
+	case KIND_CHOICE:
+		if (!json_is_string(v))
+			return fail_with(cause, "%s: expected a name, got %s", what, json_kind(v));
+		return model_set_text(el, k, json_string_value(v), cause);
 	default:
 		if (get_number(v, &x, what, cause) != 0)
 			return -1;
@@ -526,6 +530,13 @@ key_json(const struct element *el, enum model_key k)
 		return json_boolean(el->val[k] != 0);
 	case KIND_AXIS:
 		return json_string(el->val[k] == AXIS_X ? "x" : el->val[k] == AXIS_Y ? "y" : "both");
+	case KIND_CHOICE: {
+		char *t = model_value_text(el, k);
+		json_t *j = json_string(t);
+
+		free(t);
+		return j;
+	}
 	default:
 		return json_real(el->val[k]);
 	}

@@ -404,6 +404,21 @@ static const struct bad_case {
 	    { "M1", "reflectance", "rp" } },
 	{ BENCH("{'id':'F1','type':'filter','od':1,'transmission':0.1}"),
 	    { "F1", "od", "transmission" } },
+	/* the keys of the physics review: a fit used outside its published
+	 * range (N-BK7 to 2.5 µm), material with index, focal with radii,
+	 * an unknown glass, a lens with neither */
+	{ BENCH_SRC("'wavelength':'3 um','power':'1 W','waist':'1 mm'",
+	    "{'id':'W1','type':'window','material':'n-bk7'}"),
+	    { "W1", "material n-bk7", "0.3-2.5 um", "3 um" } },
+	{ BENCH("{'id':'W1','type':'window','material':'caf2','index':1.4}"),
+	    { "W1", "material", "index" } },
+	{ BENCH("{'id':'L1','type':'lens','focal':'100 mm','r1':'50 mm'}"),
+	    { "L1", "focal", "r1" } },
+	{ BENCH("{'id':'W1','type':'window','material':'glass'}"),
+	    { "W1", "material", "'glass'", "fused_silica" } },
+	{ BENCH("{'id':'L1','type':'lens','thickness':'5 mm'}"),
+	    { "L1", "focal", "r1" } },
+	{ BENCH("{'id':'M1','type':'mirror','brewster':true}"), { "M1", "brewster" } },
 	{ BENCH("{'id':'BS1','type':'splitter','reflectance':0.5,'tp':0.9,"
 	    "'reflected':[{'id':'BD','type':'dump'}]}"), { "BS1", "tp" } },
 	{ BENCH("{'id':'BS1','type':'splitter','reflected':[{'id':'BD','type':'dump'}]}"),
@@ -679,10 +694,12 @@ gen_value(struct gen *g, enum model_key k)
 		return (double)(gen_next(g) % 2);
 	case KIND_AXIS:
 		return (double)(gen_next(g) % 3);
+	case KIND_CHOICE:
+		return (double)(gen_next(g) % (unsigned)(d->hi + 1));
 	default:
 		break;
 	}
-	if (k == K_ROC || k == K_FOCAL)
+	if (k == K_ROC || k == K_FOCAL || k == K_R1 || k == K_R2)
 		return gen_uniform(g, 0.01, 5) * (gen_chance(g, 0.5) ? 1 : -1);
 	/* positive, spread over orders of magnitude, never exactly the bound */
 	return fmax(d->lo, 0) + pow(10, gen_uniform(g, -25, 8)) * (d->lo >= 1 ? 1e3 : 1);
@@ -720,6 +737,12 @@ gen_element(struct gen *g, struct element *el, unsigned depth)
 	}
 	if (type == EL_FILTER && model_has(el, K_OD))
 		model_unset(el, K_TRANSMISSION);
+	if (model_has(el, K_FOCAL)) {
+		model_unset(el, K_R1);
+		model_unset(el, K_R2);
+	}
+	if (model_has(el, K_MATERIAL))
+		model_unset(el, K_INDEX);
 	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
 		model_unset(el, K_DMG_FLUENCE);
 	switch (type) {
@@ -728,7 +751,7 @@ gen_element(struct gen *g, struct element *el, unsigned depth)
 			model_set(el, K_LENGTH, 0.1, NULL);
 		break;
 	case EL_LENS:
-		if (!model_has(el, K_FOCAL))
+		if (!model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2))
 			model_set(el, K_FOCAL, 0.1, NULL);
 		break;
 	case EL_WAVEPLATE:
@@ -806,7 +829,7 @@ gen_bench(uint64_t seed)
 		b->air_breakdown = pow(10, gen_uniform(&g, 10, 16));
 		b->air_given = 1;
 	}
-	s->wavelength = gen_uniform(&g, 200e-9, 10e-6);
+	s->wavelength = gen_uniform(&g, 300e-9, 2.5e-6);
 	s->power = pow(10, gen_uniform(&g, -6, 4));
 	if (gen_chance(&g, 0.5)) {
 		s->pulsed = 1;
