@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "bench-file.h"
+#include "core-beam.h"
 #include "util-buf.h"
 #include "util-err.h"
 #include "util-json.h"
@@ -358,6 +359,15 @@ read_source(json_t *obj, struct source *s, char **cause)
 				return -1;
 			if (!(s->m2[0] >= 1 && s->m2[1] >= 1))
 				return fail_with(cause, "source: m2: must be >= 1 (M² of a real beam)");
+		} else if (strcmp(key, "divergence") == 0) {
+			if (read_pair(v, DIM_NONE, s->divergence, &s->m2_pair, "divergence",
+			    cause))
+				return -1;
+			if (!(s->divergence[0] > 0 && s->divergence[1] > 0) ||
+			    !isfinite(s->divergence[0] * s->divergence[1]))
+				return fail_with(cause, "source: divergence: must be > 0 "
+				    "(far-field half-angle, rad)");
+			s->divergence_given = 1;
 		} else if (strcmp(key, "polarization") == 0) {
 			if (json_is_number(v)) {
 				s->pol = POL_LINEAR;
@@ -372,11 +382,25 @@ read_source(json_t *obj, struct source *s, char **cause)
 			}
 		} else {
 			return fail_with(cause, "source: unknown key '%s' (wavelength, power, "
-			    "pulsed, waist, waist_position, m2, polarization)", key);
+			    "pulsed, waist, waist_position, m2, divergence, polarization)", key);
 		}
 	}
 	if (have_power && s->energy_given)
 		return fail_with(cause, "source: give power or pulsed.pulse_energy, not both");
+	if (s->divergence_given && json_object_get(obj, "m2") != NULL)
+		return fail_with(cause, "source: give m2 or divergence, not both");
+	if (s->divergence_given && !isnan(s->waist[0]) && !isnan(s->wavelength)) {
+		for (int i = 0; i < 2; i++) {
+			s->m2[i] = beam_m2_from_divergence(s->waist[i], s->divergence[i],
+			    s->wavelength);
+			if (!(s->m2[i] >= 1))
+				return fail_with(cause, "source: divergence: %.6g rad with "
+				    "waist %.6g mm at %.6g nm gives M² = π·w0·θ/λ = %.4g, "
+				    "below 1: no beam diverges less than a Gaussian",
+				    s->divergence[i], s->waist[i] * 1e3,
+				    s->wavelength * 1e9, s->m2[i]);
+		}
+	}
 	if (s->energy_given)
 		s->power = s->pulse_energy * s->rep_rate;
 	else if (s->pulsed && have_power)
@@ -621,7 +645,10 @@ bench_head_to_json(const struct bench *b)
 	}
 	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair));
 	json_object_set_new(src, "waist_position", json_real(s->waist_position));
-	json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair));
+	if (s->divergence_given)
+		json_object_set_new(src, "divergence", pair_json(s->divergence, s->m2_pair));
+	else
+		json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair));
 	if (s->pol == POL_CIRCULAR)
 		json_object_set_new(src, "polarization", json_string("circular"));
 	else if (s->pol == POL_UNPOLARIZED)

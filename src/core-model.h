@@ -103,6 +103,9 @@ struct source {
 	double           waist_position;     /* m, + downstream */
 	double           m2[2];
 	int              m2_pair;
+	double           divergence[2];      /* rad, far-field half-angle; when
+	                                      * given, m2 = π·w0·θ/λ (ISO 11146-1) */
+	int              divergence_given;   /* written instead of m2 */
 	enum pol_kind    pol;
 	double           pol_angle_deg;
 };

@@ -55,6 +55,19 @@ parse_ok(const char *text)
 	return b;
 }
 
+/* NULL when refused, the cause in *cause (caller frees). */
+static struct bench *
+parse(const char *text, char **cause)
+{
+	char *s = dq(text);
+	struct bench *b;
+
+	*cause = NULL;
+	b = bench_file_parse(s, strlen(s), "bad.json", cause);
+	free(s);
+	return b;
+}
+
 static struct element *
 find(struct bench *b, const char *id)
 {
@@ -656,6 +669,37 @@ round_trip(const struct bench *b)
 	model_bench_free(back);
 }
 
+/* M² from a measured divergence (ISO 11146-1: M² = π w0 θ/λ, from
+ * memory): w0 = 1 mm, θ = 0.5 mrad at 1064 nm gives 1.47631 (REFERENCE
+ * §1 and §15 check); the file keeps the divergence, and reads back the
+ * same.  A divergence below the Gaussian's λ/(π w0) = 0.338682 mrad
+ * (REFERENCE §1) is refused, naming the key and the M² it gives. */
+START_TEST(test_source_divergence)
+{
+	struct bench *b = parse_ok(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':5e-4", "{'id':'BD','type':'dump'}"));
+	char *cause = NULL, *text;
+
+	CHECK_ABS(b->src.m2[0], 1.47631, half_digit(5));
+	CHECK_ABS(b->src.m2[1], 1.47631, half_digit(5));
+	text = bench_file_dump(b);
+	ck_assert_ptr_nonnull(strstr(text, "\"divergence\""));
+	ck_assert_ptr_null(strstr(text, "\"m2\""));
+	free(text);
+	round_trip(b);
+	model_bench_free(b);
+	ck_assert_ptr_null(parse(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':3e-4", "{'id':'BD','type':'dump'}"), &cause));
+	ck_assert_ptr_nonnull(strstr(cause, "source: divergence"));
+	ck_assert_ptr_nonnull(strstr(cause, "below 1"));
+	free(cause);
+	ck_assert_ptr_null(parse(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':5e-4,'m2':1.2", "{'id':'BD','type':'dump'}"), &cause));
+	ck_assert_ptr_nonnull(strstr(cause, "not both"));
+	free(cause);
+}
+END_TEST
+
 START_TEST(test_round_trip_demo)
 {
 	char *cause = NULL;
@@ -957,6 +1001,7 @@ main(void)
 	tcase_set_timeout(tb, 120);
 	suite_add_tcase(s, tb);
 
+	tcase_add_test(tx, test_source_divergence);
 	tcase_add_test(tx, test_round_trip_demo);
 	tcase_add_test(tx, test_round_trip_full);
 	tcase_add_loop_test(tx, test_round_trip_random, 0, 10);
