@@ -13,6 +13,12 @@ beam_rayleigh(double w0, double m2, double lambda)
 	return M_PI * w0 * w0 / (m2 * lambda);
 }
 
+double
+beam_m2_from_divergence(double w0, double theta, double lambda)
+{
+	return M_PI * w0 * theta / lambda;
+}
+
 struct beam_axis
 beam_axis_from_waist(double w0, double m2, double lambda, double dz)
 {

@@ -83,6 +83,8 @@ show_raw(double v, const struct model_key_def *d, int ascii)
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
+	case KIND_CHOICE:
+		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "?");
 	case KIND_ANGLE:
 		t = diff_value_show(v, DIM_NONE, ascii);
 		u = xasprintf("%s%s", t, ascii ? " deg" : "°");

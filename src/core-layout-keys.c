@@ -174,6 +174,11 @@ layout_key_hint(int key)
 	case KIND_AXIS:
 		buf_add(&b, "both, x or y");
 		break;
+	case KIND_CHOICE:
+		buf_add(&b, "one of: ");
+		for (size_t i = 0; d->choices != NULL && d->choices[i] != NULL; i++)
+			buf_printf(&b, "%s%s", i ? ", " : "", d->choices[i]);
+		break;
 	}
 	return buf_take(&b);
 }

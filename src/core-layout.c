@@ -601,6 +601,7 @@ layout_value_text(const struct element *el, enum model_key k)
 		return layout_quantity_text(v, d->dim);
 	case KIND_BOOL:
 	case KIND_AXIS:
+	case KIND_CHOICE:
 		return model_value_text(el, k);
 	default:
 		return plain_text(v);

@@ -22,6 +22,10 @@
 #define TRANSMISSIVE (EL_BIT(EL_LENS) | EL_BIT(EL_WINDOW))
 #define TERMINATORS (EL_BIT(EL_DUMP) | EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
 
+static const char *const material_choices[MAT_COUNT + 1] = {
+	"fused_silica", "n-bk7", "caf2", "sapphire_o", NULL,
+};
+
 /* Ranges: angles of incidence stay below grazing; polarizer and waveplate
  * angles are any orientation (within ±360°).  Everything else is held to
  * what a bench can hold (beamledger-bench(5), RANGES): lengths, radii and
@@ -78,6 +82,17 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    TERMINATORS, NAN, "power rating" },
 	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 1e-9, 1e3, 0, 0, 0,
 	    ALL_TYPES, NAN, "clear-aperture diameter" },
+	[K_R1] = { "r1", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_LENS), NAN, "front surface radius, + centre downstream; absent = flat", 1e-9 },
+	[K_R2] = { "r2", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_LENS), NAN, "back surface radius, + centre downstream; absent = flat", 1e-9 },
+	[K_MATERIAL] = { "material", KIND_CHOICE, DIM_NONE, 0, MAT_COUNT - 1, 0, 0, 0,
+	    TRANSMISSIVE, NAN, "glass: fused_silica, n-bk7, caf2, sapphire_o (index from Sellmeier)",
+	    0, material_choices },
+	[K_BREWSTER] = { "brewster", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_WINDOW), 0, "true: a plate at Brewster's angle (no p loss)" },
+	[K_PHASE] = { "phase", KIND_ANGLE, DIM_NONE, -360, 360, 0, 0, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), 0, "s-p phase on reflection, degrees" },
 	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 1e-1, 1e12, 0, 0, 0,
 	    ALL_TYPES, NAN, "CW LIDT, linear power density (kW/cm)" },
 	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 10, 1e19, 0, 0, 0,
@@ -262,7 +277,7 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
 	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
 	    fabs(v) < d->min_abs;
-	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL)
+	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL || d->kind == KIND_CHOICE)
 		bad = bad || v != floor(v);
 	if (bad) {
 		buf_init(&b);
@@ -360,6 +375,20 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 			return fail_with(cause, "element '%s': %s: '%s' is not both, x or y",
 			    el->id, model_key_path(k), text);
 		break;
+	case KIND_CHOICE: {
+		struct buf names;
+
+		for (int i = 0; d->choices[i] != NULL; i++)
+			if (strcmp(text, d->choices[i]) == 0)
+				return model_set(el, k, i, cause);
+		buf_init(&names);
+		for (int i = 0; d->choices[i] != NULL; i++)
+			buf_printf(&names, "%s%s", i ? ", " : "", d->choices[i]);
+		fail_with(cause, "element '%s': %s: '%s' is not one of %s",
+		    el->id, model_key_path(k), text, names.s);
+		buf_release(&names);
+		return -1;
+	}
 	default:
 		if (parse_plain(text, &v) != 0)
 			return fail_with(cause, "element '%s': %s: '%s' is not a plain number%s",
@@ -385,6 +414,8 @@ model_value_text(const struct element *el, enum model_key k)
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
+	case KIND_CHOICE:
+		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "");
 	default:
 		units_format_exact(tmp, sizeof tmp, v, DIM_NONE);
 		return xstrdup(tmp);

@@ -32,7 +32,8 @@ enum key_kind {
 	KIND_ANGLE,             /* plain number, degrees */
 	KIND_NUMBER,            /* plain number (od, waves, ratio, index) */
 	KIND_BOOL,              /* true/false */
-	KIND_AXIS               /* "both" | "x" | "y" */
+	KIND_AXIS,              /* "both" | "x" | "y" */
+	KIND_CHOICE             /* one of the row's `choices`, stored as its index */
 };
 
 enum model_key {
@@ -40,6 +41,7 @@ enum model_key {
 	K_FOCAL, K_AXIS, K_TRANSMISSION, K_THICKNESS, K_N2, K_INDEX,
 	K_POLARIZING, K_OD, K_MAX_ABSORBED, K_RETARDANCE, K_ANGLE,
 	K_EXTINCTION, K_DIAMETER, K_MAX_POWER, K_APERTURE,
+	K_R1, K_R2, K_MATERIAL, K_BREWSTER, K_PHASE,
 	K_DMG_CW_LINEAR, K_DMG_CW_IRRADIANCE, K_DMG_FLUENCE,
 	K_DMG_WAVELENGTH, K_DMG_PULSE_WIDTH,
 	K_COUNT
@@ -48,6 +50,9 @@ enum model_key {
 #define KEY_BIT(k)  ((uint64_t)1 << (k))
 
 enum axis_sel { AXIS_BOTH = 0, AXIS_X = 1, AXIS_Y = 2 };
+/* Glasses of the `material` key, in the order of material_names[]
+ * (core-material.h has their Sellmeier fits). */
+enum material_id { MAT_FUSED_SILICA, MAT_N_BK7, MAT_CAF2, MAT_SAPPHIRE_O, MAT_COUNT };
 
 struct model_key_def {
 	const char     *name;       /* as in the file; damage keys without "damage." */
@@ -59,6 +64,7 @@ struct model_key_def {
 	double          dflt;       /* default when absent (NAN: none) */
 	const char     *help;       /* one line for the workbench */
 	double          min_abs;    /* nonzero keys: |v| at least this (0: no floor) */
+	const char *const *choices; /* KIND_CHOICE: the names, NULL-terminated */
 };
 extern const struct model_key_def model_keys[K_COUNT];
 
@@ -98,6 +104,9 @@ struct source {
 	double           waist_position;     /* m, + downstream */
 	double           m2[2];
 	int              m2_pair;
+	double           divergence[2];      /* rad, far-field half-angle; when
+	                                      * given, m2 = π·w0·θ/λ (ISO 11146-1) */
+	int              divergence_given;   /* written instead of m2 */
 	enum pol_kind    pol;
 	double           pol_angle_deg;
 };

@@ -444,7 +444,7 @@ ui_sweep_prompt(struct app *a)
 			key = (int)prefer[i];
 	for (int k = 0; el != NULL && key < 0 && k < K_COUNT; k++)
 		if (model_has(el, (enum model_key)k) && model_keys[k].kind != KIND_BOOL &&
-		    model_keys[k].kind != KIND_AXIS)
+		    model_keys[k].kind != KIND_AXIS && model_keys[k].kind != KIND_CHOICE)
 			key = k;
 	if (key >= 0) {
 		const struct model_key_def *d = &model_keys[key];

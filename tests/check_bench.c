@@ -55,6 +55,19 @@ parse_ok(const char *text)
 	return b;
 }
 
+/* NULL when refused, the cause in *cause (caller frees). */
+static struct bench *
+parse(const char *text, char **cause)
+{
+	char *s = dq(text);
+	struct bench *b;
+
+	*cause = NULL;
+	b = bench_file_parse(s, strlen(s), "bad.json", cause);
+	free(s);
+	return b;
+}
+
 static struct element *
 find(struct bench *b, const char *id)
 {
@@ -404,6 +417,21 @@ static const struct bad_case {
 	    { "M1", "reflectance", "rp" } },
 	{ BENCH("{'id':'F1','type':'filter','od':1,'transmission':0.1}"),
 	    { "F1", "od", "transmission" } },
+	/* the keys of the physics review: a fit used outside its published
+	 * range (N-BK7 to 2.5 µm), material with index, focal with radii,
+	 * an unknown glass, a lens with neither */
+	{ BENCH_SRC("'wavelength':'3 um','power':'1 W','waist':'1 mm'",
+	    "{'id':'W1','type':'window','material':'n-bk7'}"),
+	    { "W1", "material n-bk7", "0.3-2.5 um", "3 um" } },
+	{ BENCH("{'id':'W1','type':'window','material':'caf2','index':1.4}"),
+	    { "W1", "material", "index" } },
+	{ BENCH("{'id':'L1','type':'lens','focal':'100 mm','r1':'50 mm'}"),
+	    { "L1", "focal", "r1" } },
+	{ BENCH("{'id':'W1','type':'window','material':'glass'}"),
+	    { "W1", "material", "'glass'", "fused_silica" } },
+	{ BENCH("{'id':'L1','type':'lens','thickness':'5 mm'}"),
+	    { "L1", "focal", "r1" } },
+	{ BENCH("{'id':'M1','type':'mirror','brewster':true}"), { "M1", "brewster" } },
 	{ BENCH("{'id':'BS1','type':'splitter','reflectance':0.5,'tp':0.9,"
 	    "'reflected':[{'id':'BD','type':'dump'}]}"), { "BS1", "tp" } },
 	{ BENCH("{'id':'BS1','type':'splitter','reflected':[{'id':'BD','type':'dump'}]}"),
@@ -841,6 +869,37 @@ START_TEST(test_export_awkward_values)
 }
 END_TEST
 
+/* M² from a measured divergence (ISO 11146-1: M² = π w0 θ/λ, from
+ * memory): w0 = 1 mm, θ = 0.5 mrad at 1064 nm gives 1.47631 (REFERENCE
+ * §1 and §15 check); the file keeps the divergence, and reads back the
+ * same.  A divergence below the Gaussian's λ/(π w0) = 0.338682 mrad
+ * (REFERENCE §1) is refused, naming the key and the M² it gives. */
+START_TEST(test_source_divergence)
+{
+	struct bench *b = parse_ok(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':5e-4", "{'id':'BD','type':'dump'}"));
+	char *cause = NULL, *text;
+
+	CHECK_ABS(b->src.m2[0], 1.47631, half_digit(5));
+	CHECK_ABS(b->src.m2[1], 1.47631, half_digit(5));
+	text = bench_file_dump(b);
+	ck_assert_ptr_nonnull(strstr(text, "\"divergence\""));
+	ck_assert_ptr_null(strstr(text, "\"m2\""));
+	free(text);
+	round_trip(b);
+	model_bench_free(b);
+	ck_assert_ptr_null(parse(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':3e-4", "{'id':'BD','type':'dump'}"), &cause));
+	ck_assert_ptr_nonnull(strstr(cause, "source: divergence"));
+	ck_assert_ptr_nonnull(strstr(cause, "below 1"));
+	free(cause);
+	ck_assert_ptr_null(parse(BENCH_SRC("'wavelength':'1064 nm','power':'1 W',"
+	    "'waist':'1 mm','divergence':5e-4,'m2':1.2", "{'id':'BD','type':'dump'}"), &cause));
+	ck_assert_ptr_nonnull(strstr(cause, "not both"));
+	free(cause);
+}
+END_TEST
+
 START_TEST(test_round_trip_demo)
 {
 	char *cause = NULL;
@@ -879,10 +938,12 @@ gen_value(struct gen *g, enum model_key k)
 		return (double)(gen_next(g) % 2);
 	case KIND_AXIS:
 		return (double)(gen_next(g) % 3);
+	case KIND_CHOICE:
+		return (double)(gen_next(g) % (unsigned)(d->hi + 1));
 	default:
 		break;
 	}
-	if (k == K_ROC || k == K_FOCAL)
+	if (k == K_ROC || k == K_FOCAL || k == K_R1 || k == K_R2)
 		return gen_uniform(g, 0.01, 5) * (gen_chance(g, 0.5) ? 1 : -1);
 	/* positive, spread over orders of magnitude, inside the key's range */
 	if (d->lo >= 1)
@@ -924,6 +985,12 @@ gen_element(struct gen *g, struct element *el, unsigned depth)
 	}
 	if (type == EL_FILTER && model_has(el, K_OD))
 		model_unset(el, K_TRANSMISSION);
+	if (model_has(el, K_FOCAL)) {
+		model_unset(el, K_R1);
+		model_unset(el, K_R2);
+	}
+	if (model_has(el, K_MATERIAL))
+		model_unset(el, K_INDEX);
 	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
 		model_unset(el, K_DMG_FLUENCE);
 	switch (type) {
@@ -932,7 +999,7 @@ gen_element(struct gen *g, struct element *el, unsigned depth)
 			model_set(el, K_LENGTH, 0.1, NULL);
 		break;
 	case EL_LENS:
-		if (!model_has(el, K_FOCAL))
+		if (!model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2))
 			model_set(el, K_FOCAL, 0.1, NULL);
 		break;
 	case EL_WAVEPLATE:
@@ -1010,7 +1077,7 @@ gen_bench(uint64_t seed)
 		b->air_breakdown = pow(10, gen_uniform(&g, 10, 16));
 		b->air_given = 1;
 	}
-	s->wavelength = gen_uniform(&g, 200e-9, 10e-6);
+	s->wavelength = gen_uniform(&g, 300e-9, 2.5e-6);
 	s->power = pow(10, gen_uniform(&g, -6, 4));
 	if (gen_chance(&g, 0.5)) {
 		s->pulsed = 1;
@@ -1254,6 +1321,7 @@ main(void)
 	tcase_set_timeout(tb, 120);
 	suite_add_tcase(s, tb);
 
+	tcase_add_test(tx, test_source_divergence);
 	tcase_add_test(tx, test_round_trip_demo);
 	tcase_add_loop_test(tx, test_export_units, 0, NELEMS(export_texts));
 	tcase_add_loop_test(tx, test_export_awkward_values, 0, NELEMS(awkward));
