@@ -288,6 +288,9 @@ app_close_bench(struct app *a)
 	free(a->rows);
 	free_stack(a->undo, &a->nundo);
 	free_stack(a->redo, &a->nredo);
+	free(a->undo);              /* the arrays too, not only what they hold */
+	free(a->redo);
+	a->undo = a->redo = NULL;
 	free(a->unsaved);
 	free(a->stored);
 	a->stored = NULL;
