@@ -21,6 +21,7 @@
 #include "bench-file.h"
 #include "core-model.h"
 #include "core-trace.h"
+#include "report.h"
 
 #include "check-bench-util.h"
 #include "check-util.h"
@@ -1111,6 +1112,25 @@ START_TEST(test_clip_elliptic)
 }
 END_TEST
 
+/* Issue 9 item 8: the source line shows what was typed, however many
+ * figures it has, and never a round-off tail (M² 1.1, not
+ * 1.1000000000000001; 1.234, not 1.23). */
+START_TEST(test_source_line_as_typed)
+{
+	struct bench *b = parse_ok(BENCH_SRC("'wavelength':'1064.5 nm','power':'2.345 W',"
+	    "'waist':'1.1 mm','m2':[1.1,1.234],'polarization':22.25", ""));
+	char *line = report_source_line(b, 1);
+
+	ck_assert_msg(strstr(line, "1.0645 um") != NULL, "%s", line);
+	ck_assert_msg(strstr(line, "CW 2.345 W") != NULL, "%s", line);
+	ck_assert_msg(strstr(line, "waist 1.1 mm") != NULL, "%s", line);
+	ck_assert_msg(strstr(line, "M2 1.1 x 1.234") != NULL, "%s", line);
+	ck_assert_msg(strstr(line, "linear 22.25 deg") != NULL, "%s", line);
+	free(line);
+	model_bench_free(b);
+}
+END_TEST
+
 /* bench_file_read on a missing file fails with the path and the reason. */
 START_TEST(test_read_missing)
 {
@@ -1142,6 +1162,7 @@ main(void)
 	tcase_add_test(tr, test_negative_zero);
 	tcase_add_test(tr, test_trace_nonfinite);
 	tcase_add_test(tr, test_clip_elliptic);
+	tcase_add_test(tr, test_source_line_as_typed);
 	suite_add_tcase(s, tr);
 
 	tcase_add_loop_test(tb, test_bad_input, 0, NELEMS(bad_cases));
