@@ -48,11 +48,11 @@ const struct model_key_def model_keys[K_COUNT] = {
 	[K_TS] = { "ts", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_SPLITTER), NAN, "s-polarized power transmittance" },
 	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat", 1e-9 },
+	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat" },
 	[K_AOI] = { "aoi", KIND_ANGLE, DIM_NONE, 0, 90, 0, 1, 0,
 	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "angle of incidence, degrees" },
 	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_LENS), NAN, "focal length, - diverging", 1e-9 },
+	    EL_BIT(EL_LENS), NAN, "focal length, - diverging" },
 	[K_AXIS] = { "axis", KIND_AXIS, DIM_NONE, 0, 2, 0, 0, 0,
 	    EL_BIT(EL_LENS), AXIS_BOTH, "both, x or y (cylindrical)" },
 	[K_TRANSMISSION] = { "transmission", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
@@ -83,12 +83,12 @@ const struct model_key_def model_keys[K_COUNT] = {
 	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 1e-9, 1e3, 0, 0, 0,
 	    ALL_TYPES, NAN, "clear-aperture diameter" },
 	[K_R1] = { "r1", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_LENS), NAN, "front surface radius, + centre downstream; absent = flat", 1e-9 },
+	    EL_BIT(EL_LENS), NAN, "front surface radius, + centre downstream; absent = flat" },
 	[K_R2] = { "r2", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_LENS), NAN, "back surface radius, + centre downstream; absent = flat", 1e-9 },
+	    EL_BIT(EL_LENS), NAN, "back surface radius, + centre downstream; absent = flat" },
 	[K_MATERIAL] = { "material", KIND_CHOICE, DIM_NONE, 0, MAT_COUNT - 1, 0, 0, 0,
 	    TRANSMISSIVE, NAN, "glass: fused_silica, n-bk7, caf2, sapphire_o (index from Sellmeier)",
-	    0, material_choices },
+	    material_choices },
 	[K_BREWSTER] = { "brewster", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_WINDOW), 0, "true: a plate at Brewster's angle (no p loss)" },
 	[K_PHASE] = { "phase", KIND_ANGLE, DIM_NONE, -360, 360, 0, 0, 0,
@@ -103,6 +103,12 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    ALL_TYPES, NAN, "wavelength the LIDT was measured at" },
 	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 1e-18, 1, 0, 0, 0,
 	    ALL_TYPES, NAN, "pulse width the fluence LIDT was measured at" },
+};
+
+/* Signed keys that may be neither zero nor tighter than this: |v| at least
+ * (a 1e-320 m focal length would make 1/f infinite). */
+static const double min_abs[K_COUNT] = {
+	[K_ROC] = 1e-9, [K_FOCAL] = 1e-9, [K_R1] = 1e-9, [K_R2] = 1e-9,
 };
 
 static const char *const type_names[EL_NTYPES] = {
@@ -240,10 +246,10 @@ range_text(struct buf *b, const struct model_key_def *d)
 	} else if (isinf(d->hi)) {
 		buf_add(b, d->lo_open ? "> " : ">= ");
 		bound_text(b, d, d->lo);
-	} else if (d->min_abs > 0 && d->lo == -d->hi) {
+	} else if (min_abs[d - model_keys] > 0 && d->lo == -d->hi) {
 		/* "roc": either sign, neither too flat nor too tight */
 		buf_add(b, "± ");
-		bound_text(b, d, d->min_abs);
+		bound_text(b, d, min_abs[d - model_keys]);
 		buf_add(b, " to ± ");
 		bound_text(b, d, d->hi);
 	} else {
@@ -276,7 +282,7 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
 	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
-	    fabs(v) < d->min_abs;
+	    fabs(v) < min_abs[k];
 	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL || d->kind == KIND_CHOICE)
 		bad = bad || v != floor(v);
 	if (bad) {

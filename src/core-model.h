@@ -63,7 +63,6 @@ struct model_key_def {
 	unsigned        types;      /* EL_BIT mask of types taking it */
 	double          dflt;       /* default when absent (NAN: none) */
 	const char     *help;       /* one line for the workbench */
-	double          min_abs;    /* nonzero keys: |v| at least this (0: no floor) */
 	const char *const *choices; /* KIND_CHOICE: the names, NULL-terminated */
 };
 extern const struct model_key_def model_keys[K_COUNT];

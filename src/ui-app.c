@@ -389,7 +389,7 @@ app_close_bench(struct app *a)
 	free(a->rows);
 	free_stack(a->undo, &a->nundo);
 	free_stack(a->redo, &a->nredo);
-	free(a->undo);
+	free(a->undo);              /* the arrays too, not only what they hold */
 	free(a->redo);
 	a->undo = a->redo = NULL;
 	free(a->unsaved);
