@@ -112,8 +112,15 @@ wait_exit colour 5
 step "help opens" ui "Bench list:" '?'
 : >"$T_DIR/help.txt"
 for _p in 1 2 3 4 5 6 7 8 9 10 11 12 13 14; do
-	t_screen ui >>"$T_DIR/help.txt"
+	_was=$(t_screen ui)
+	printf '%s\n' "$_was" >>"$T_DIR/help.txt"
 	t_keys ui PgDn
+	# wait for the next page to be drawn (a loaded machine is slow), or
+	# for the last page to stay as it is
+	_n=0
+	while [ "$_n" -lt 40 ] && [ "$(t_screen ui)" = "$_was" ]; do
+		sleep 0.05; _n=$((_n+1))
+	done
 done
 check "help ends with the laser-safety cautions" grep -q "Align at reduced power" "$T_DIR/help.txt"
 check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.txt"
