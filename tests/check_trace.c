@@ -387,10 +387,9 @@ START_TEST(test_pulsed_quantities)
 	CHECK_REL(m->irradiance, 2 * 0.1 / (M_PI * w2), 1e-12);
 	CHECK_REL(m->peak_irradiance, 2 * ppk / (M_PI * w2), 1e-6);
 	CHECK_REL(m->linear_density, 100, 1e-12);
-	CHECK_REL(m->field, sqrt(2 * m->peak_irradiance / (299792458.0 * 8.8541878128e-12)),
-	    1e-12);
-	CHECK_REL(m->field, sqrt(2 * 2 * ppk / (M_PI * w2) / (299792458.0 * 8.8541878128e-12)),
-	    1e-6);
+	/* REFERENCE §5: 1 GW/cm² in air is 8.68021e7 V/m, and E0 ∝ √I (hand):
+	 * I_pk = 2·0.939437 MW/(π·0.25 mm²) = 239.2 GW/cm² */
+	CHECK_REL(m->field, 8.68021e7 * sqrt(2 * ppk / (M_PI * w2) / 1e13), 2e-6);
 	trace_free(t);
 	model_bench_free(b);
 }
@@ -825,7 +824,9 @@ START_TEST(test_worst_and_safe)
 	    "{'id':'BD','type':'dump','max_power':'50 W'}]}", c->power);
 	struct trace *t = trace_run(b);
 	double k = c->power / 10;
-	double r1 = 0.1 * k, r2 = 2 * 10 / (M_PI * 0.0025) / 1e4 * k, r3 = 0.2 * k;
+	/* r2: REFERENCE §4's 63.6620 W/cm² per W at w = 1 mm is 4 × that at
+	 * 0.5 mm, 2546.48 W/cm² for 10 W, over 10 kW/cm² */
+	double r1 = 0.1 * k, r2 = 0.254648 * k, r3 = 0.2 * k;
 	enum damage_status want[3];
 
 	/* statuses from the hand ratios and the SF 2 thresholds */
@@ -833,7 +834,7 @@ START_TEST(test_worst_and_safe)
 	want[1] = r2 >= 1 ? STATUS_OVER : r2 >= 0.5 ? STATUS_CAUTION : STATUS_OK;
 	want[2] = r3 >= 1 ? STATUS_OVER : r3 >= 0.5 ? STATUS_CAUTION : STATUS_OK;
 	CHECK_REL(row_of(t, "M1")->ratio, r1, 1e-12);
-	CHECK_REL(row_of(t, "M2")->ratio, r2, 1e-12);
+	CHECK_REL(row_of(t, "M2")->ratio, r2, 2e-6);
 	CHECK_REL(row_of(t, "BD")->ratio, r3, 1e-12);
 	ck_assert_int_eq(row_of(t, "M1")->status, want[0]);
 	ck_assert_int_eq(row_of(t, "M2")->status, want[1]);
@@ -843,10 +844,9 @@ START_TEST(test_worst_and_safe)
 	ck_assert_int_eq(row_of(t, "BD")->status, c->bd);
 	ck_assert(t->worst >= 0);
 	ck_assert_str_eq(t->rows[t->worst].el->id, "M2");
-	CHECK_REL(t->worst_ratio, r2, 1e-12);
+	CHECK_REL(t->worst_ratio, r2, 2e-6);
 	/* REFERENCE §4: 2546.48 W/cm² per 10 W; safe = 10/(2 × 0.254648) */
 	CHECK_REL(t->safe_source_power, 19.634954084936208, 1e-9);
-	CHECK_REL(t->safe_source_power, c->power / (2 * r2), 1e-12);
 	trace_free(t);
 	model_bench_free(b);
 }
@@ -1269,14 +1269,28 @@ check_conservation(const struct bench *b, const struct trace *t)
 	check_flow(t, &b->path, NULL, PORT_NONE, p);
 }
 
+/* The conservation, flow and linearity checks hold on the traces of every
+ * element type, both splitter ports, rejected branches, nested branches
+ * and apertures: each run of 100 benches must have traced all of them, so
+ * the checks above cannot pass by meeting only easy benches. */
 START_TEST(test_random_conservation)
 {
+	unsigned types = 0, ports = 0, apertures = 0;
+	size_t deepest = 0;
+
 	for (unsigned k = 0; k < 100; k++) {
 		uint64_t seed = (uint64_t)_i * 100 + k;
 		struct bench *b = gen_bench(seed), *b2;
 		struct trace *t = trace_run(b), *t2;
 
 		check_conservation(b, t);
+		for (size_t i = 0; i < t->nrows; i++) {
+			types |= EL_BIT(t->rows[i].el->type);
+			ports |= 1u << t->rows[i].el->side_port;
+			apertures += model_has(t->rows[i].el, K_APERTURE);
+			if (t->rows[i].depth > deepest)
+				deepest = t->rows[i].depth;
+		}
 
 		/* every ratio is proportional to the source power
 		 * (trace-conventions.md), so doubling it doubles each ratio
@@ -1305,33 +1319,6 @@ START_TEST(test_random_conservation)
 			CHECK_REL(t2->safe_source_power, t->safe_source_power, 1e-12);
 		trace_free(t2);
 		model_bench_free(b2);
-		trace_free(t);
-		model_bench_free(b);
-	}
-}
-END_TEST
-
-/* The generator really produces what it promises: across the seeds used
- * above, every element type, both splitter ports, rejected branches,
- * nested branches and apertures appear. */
-START_TEST(test_random_coverage)
-{
-	unsigned types = 0, ports = 0, apertures = 0;
-	size_t deepest = 0;
-
-	for (uint64_t seed = 0; seed < 100; seed++) {
-		struct bench *b = gen_bench(seed);
-		struct trace *t = trace_run(b);
-
-		for (size_t i = 0; i < t->nrows; i++) {
-			const struct element *el = t->rows[i].el;
-
-			types |= EL_BIT(el->type);
-			ports |= 1u << el->side_port;
-			apertures += model_has(el, K_APERTURE);
-			if (t->rows[i].depth > deepest)
-				deepest = t->rows[i].depth;
-		}
 		trace_free(t);
 		model_bench_free(b);
 	}
@@ -1697,8 +1684,24 @@ START_TEST(test_demo)
 	check_conservation(b, t);
 	ck_assert(t->worst >= 0);
 	ck_assert(t->rows[t->worst].status == STATUS_OVER);
-	CHECK_REL(t->safe_source_power, b->src.power / (b->safety_factor * t->worst_ratio),
-	    1e-12);
+	/* what the safe source power means (trace-conventions.md): traced at
+	 * that power, the worst element sits at 1/safety_factor of its
+	 * threshold and none is above it */
+	{
+		struct bench *b2 = model_bench_dup(b);
+		struct trace *t2;
+		double k = t->safe_source_power / b->src.power;
+
+		b2->src.power *= k;
+		b2->src.pulse_energy *= k;
+		t2 = trace_run(b2);
+		CHECK_REL(t2->worst_ratio, 1 / b->safety_factor, 1e-12);
+		for (size_t i = 0; i < t2->nrows; i++)
+			ck_assert(isnan(t2->rows[i].ratio) ||
+			    t2->rows[i].ratio <= 1 / b->safety_factor * (1 + 1e-12));
+		trace_free(t2);
+		model_bench_free(b2);
+	}
 	trace_free(t);
 	model_bench_free(b);
 }
@@ -1752,7 +1755,6 @@ main(void)
 	suite_add_tcase(s, tw);
 
 	tcase_add_loop_test(tr, test_random_conservation, 0, 12);
-	tcase_add_test(tr, test_random_coverage);
 	tcase_set_timeout(tr, 120);
 	suite_add_tcase(s, tr);
 
