@@ -22,9 +22,11 @@
  */
 START_TEST(test_peak_irradiance)
 {
-	/* REFERENCE §4: P = 1 W, w = 1 mm: I0 = 63.6620 W/cm² */
+	/* REFERENCE §4 (derived; Siegman ch. 17, from memory): P = 1 W, w = 1
+	 * mm: I0 = 63.6620 W/cm² */
 	CHECK_ABS(damage_peak_irradiance(1, 1e-3, 1e-3) / 1e4, 63.6620, half_digit(4));
-	/* REFERENCE §4: wx = 2 mm, wy = 0.5 mm: the same wx·wy, the same I0 */
+	/* REFERENCE §4 (derived; Siegman ch. 17, from memory): wx = 2 mm, wy
+	 * = 0.5 mm: the same wx·wy, the same I0 */
 	CHECK_ABS(damage_peak_irradiance(1, 2e-3, 0.5e-3) / 1e4, 63.6620, half_digit(4));
 	CHECK_REL(damage_peak_irradiance(1, 2e-3, 0.5e-3),
 	    damage_peak_irradiance(1, 1e-3, 1e-3), 1e-15);
@@ -34,7 +36,8 @@ START_TEST(test_peak_irradiance)
 }
 END_TEST
 
-/* REFERENCE §4: E = 10 mJ, w = 0.5 mm: F0 = 2.54648 J/cm², and the
+/* REFERENCE §4 (derived; Siegman ch. 17, from memory): E = 10 mJ, w = 0.5 mm:
+ * F0 = 2.54648 J/cm², and the
  * effective area E/F0 (ISO 21254-1, definition from memory) is
  * π w²/2 = 3.92699e-3 cm².  The fluence is the same formula with E for P. */
 START_TEST(test_fluence_area)
@@ -90,7 +93,8 @@ START_TEST(test_peak_factor)
 }
 END_TEST
 
-/* REFERENCE §4 table: 10 mJ in 10 ns gaussian: 0.939437 MW; 1 µJ in
+/* REFERENCE §4 (derived; Siegman ch. 17, from memory) table: 10 mJ in 10 ns
+ * gaussian: 0.939437 MW; 1 µJ in
  * 100 fs sech²: 8.81374 MW. */
 START_TEST(test_peak_power)
 {
@@ -153,13 +157,13 @@ static const struct lidt_case {
 	const char *src;
 } lidt_cases[] = {
 	{ 10, NAN, 10e-9, 1064e-9, 1e-9, 3.16228, 5, DAMAGE_PULSE_SCALED,
-	    "REFERENCE §10: 10 J/cm² @ 10 ns -> 1 ns" },
+	    "REFERENCE §10 (Stuart et al. 1996; common practice): 10 J/cm² @ 10 ns -> 1 ns" },
 	{ 10, NAN, 10e-9, 1064e-9, 20e-9, 14.1421, 4, DAMAGE_PULSE_SCALED,
-	    "REFERENCE §10: 10 J/cm² @ 10 ns -> 20 ns" },
+	    "REFERENCE §10 (Stuart et al. 1996; common practice): 10 J/cm² @ 10 ns -> 20 ns" },
 	{ 10, NAN, 20e-9, 1064e-9, 6e-9, 5.47723, 5, DAMAGE_PULSE_SCALED,
-	    "REFERENCE §10: 10 J/cm² @ 20 ns -> 6 ns" },
+	    "REFERENCE §10 (Stuart et al. 1996; common practice): 10 J/cm² @ 20 ns -> 6 ns" },
 	{ 10, 1064e-9, 10e-9, 532e-9, 10e-9, 5.00000, 5, DAMAGE_WL_SCALED,
-	    "REFERENCE §10: 10 J/cm² @ 1064 -> 532 nm, λ¹" },
+	    "REFERENCE §10 (Stuart et al. 1996; common practice): 10 J/cm² @ 1064 -> 532 nm, λ¹" },
 	{ 10, 1064e-9, 10e-9, 532e-9, 5e-9, 3.53553, 5,
 	    DAMAGE_WL_SCALED | DAMAGE_PULSE_SCALED,
 	    "REFERENCE §10: 10 J/cm² @ 1064 nm, 10 ns -> 532 nm, 5 ns" },
@@ -237,7 +241,8 @@ START_TEST(test_lidt_scaling)
 }
 END_TEST
 
-/* REFERENCE §10: CW 1000 W/cm @ 1064 -> 532 nm (λ¹) is 500 W/cm; the
+/* REFERENCE §10 (Stuart et al. 1996; common practice): CW 1000 W/cm @ 1064 ->
+ * 532 nm (λ¹) is 500 W/cm; the
  * conventions scale every threshold, so 1 kW/cm² becomes 0.5 kW/cm². */
 START_TEST(test_lidt_cw)
 {
@@ -266,7 +271,8 @@ START_TEST(test_lidt_cw)
 }
 END_TEST
 
-/* REFERENCE §10 [CP]: never scale a pulsed rating to CW: a fluence rating
+/* REFERENCE §10 (Stuart et al. 1996; common practice) [CP]: never scale a
+ * pulsed rating to CW: a fluence rating
  * alone, on a CW source, leaves the element unrated (flagged). */
 START_TEST(test_lidt_pulsed_on_cw)
 {
@@ -358,7 +364,8 @@ static const struct status_case {
 	{ NAN, 2, STATUS_UNRATED }, { 0.3, 3, STATUS_OK }, { 0.34, 3, STATUS_CAUTION },
 	{ 0.25, 4, STATUS_CAUTION }, { 0.24, 4, STATUS_OK }, { 0.95, 1.1, STATUS_CAUTION }, { 0.9, 1.1, STATUS_OK },
 	{ 0.9, 1.2, STATUS_CAUTION }, { 0.8, 1.2, STATUS_OK },
-	/* REFERENCE §10: "allowed level for 10 J/cm² with SF 2: 5 J/cm²" */
+	/* REFERENCE §10 (Stuart et al. 1996; common practice): "allowed level
+	 * for 10 J/cm² with SF 2: 5 J/cm²" */
 	{ 5.0 / 10.0, 2, STATUS_CAUTION }, { 4.999 / 10.0, 2, STATUS_OK },
 };
 
@@ -392,8 +399,8 @@ static const struct pcr_case {
 } pcr_cases[] = {
 	{ 1064e-9, 1.4496, 2.74e-20, 4.2755, 4.3009, 4.1649 },	/* REFERENCE §11 row 1 */
 	{ 800e-9, 1.4533, 2.74e-20, 2.4109, 2.4252, 2.3485 },	/* REFERENCE §11 row 2 */
-	{ 800e-9, 1.4533, 2.4e-20, 2.7524, 2.7688, 2.6812 },	/* REFERENCE §11 row 3 */
-	{ 1030e-9, 1.45, 2.7e-20, 4.0648, 4.0890, 3.9597 },	/* REFERENCE §11 row 4 */
+	{ 800e-9, 1.4533, 2.4e-20, 2.7524, 2.7688, 2.6812 },	/* REFERENCE §11 (Marburger 1975, from memory) row 3 */
+	{ 1030e-9, 1.45, 2.7e-20, 4.0648, 4.0890, 3.9597 },	/* REFERENCE §11 (Marburger 1975, from memory) row 4 */
 };
 
 START_TEST(test_critical_power)
@@ -429,14 +436,14 @@ END_TEST
 static const struct fresnel_case {
 	double n, aoi, rs, rp;
 } fresnel_cases[] = {
-	{ 1.45, 0, 0.0337359, 0.0337359 },	/* REFERENCE §6, n = 1.45, 0° */
-	{ 1.45, 30, 0.049409, 0.020878 },	/* REFERENCE §6, n = 1.45, 30° */
-	{ 1.45, 45, 0.080213, 0.006434 },	/* REFERENCE §6, n = 1.45, 45° */
-	{ 1.45, 60, 0.158935, 0.002546 },	/* REFERENCE §6, n = 1.45, 60° */
-	{ 1.50, 0, 0.0400000, 0.0400000 },	/* REFERENCE §6, n = 1.50, 0° */
-	{ 1.50, 30, 0.057796, 0.025249 },	/* REFERENCE §6, n = 1.50, 30° */
-	{ 1.50, 45, 0.092013, 0.008466 },	/* REFERENCE §6, n = 1.50, 45° */
-	{ 1.50, 60, 0.176571, 0.001802 },	/* REFERENCE §6, n = 1.50, 60° */
+	{ 1.45, 0, 0.0337359, 0.0337359 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.45, 0° */
+	{ 1.45, 30, 0.049409, 0.020878 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.45, 30° */
+	{ 1.45, 45, 0.080213, 0.006434 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.45, 45° */
+	{ 1.45, 60, 0.158935, 0.002546 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.45, 60° */
+	{ 1.50, 0, 0.0400000, 0.0400000 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.50, 0° */
+	{ 1.50, 30, 0.057796, 0.025249 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.50, 30° */
+	{ 1.50, 45, 0.092013, 0.008466 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.50, 45° */
+	{ 1.50, 60, 0.176571, 0.001802 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory), n = 1.50, 60° */
 };
 
 START_TEST(test_fresnel)
@@ -453,14 +460,15 @@ START_TEST(test_fresnel)
 }
 END_TEST
 
-/* REFERENCE §6: Brewster's angle tan θB = n2/n1 (55.4077°, 56.3099°), where
+/* REFERENCE §6 (Hecht sec. 4.6, from memory): Brewster's angle tan θB = n2/n1
+ * (55.4077°, 56.3099°), where
  * Rp = 0 and Rs = 0.12628 / 0.147929. */
 static const struct brewster_case {
 	double n, theta, rs;
 	int dec_theta, dec_rs;
 } brewster_cases[] = {
-	{ 1.45, 55.4077, 0.12628, 4, 5 },	/* REFERENCE §6 */
-	{ 1.50, 56.3099, 0.147929, 4, 6 },	/* REFERENCE §6 */
+	{ 1.45, 55.4077, 0.12628, 4, 5 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory) */
+	{ 1.50, 56.3099, 0.147929, 4, 6 },	/* REFERENCE §6 (Hecht sec. 4.6, from memory) */
 };
 
 START_TEST(test_brewster)
@@ -565,7 +573,8 @@ START_TEST(test_glass_range)
 	ck_assert(!isnan(material_index(MAT_CAF2, 3e-6, NULL, NULL)));
 	ck_assert(isnan(material_index(MAT_FUSED_SILICA, 0.2e-6, NULL, NULL)));
 	ck_assert(isnan(material_index(MAT_COUNT, 1e-6, NULL, NULL)));
-	/* Fresnel at normal incidence with a fit's index, REFERENCE §15: fused
+	/* Fresnel at normal incidence with a fit's index, REFERENCE §15
+	 * (Kogelnik & Li 1966; Hecht, from memory): fused
 	 * silica at 1064 nm reflects 3.3691 %, sapphire (o) 7.5027 % */
 	{
 		double rs, rp;
