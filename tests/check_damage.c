@@ -519,16 +519,16 @@ START_TEST(test_silica)
 {
 	const struct silica_case *c = &silica_cases[_i];
 
-	CHECK_ABS(material_silica_index(c->lambda_nm * 1e-9), c->n, 1e-6);
+	CHECK_ABS(material_index(MAT_FUSED_SILICA, c->lambda_nm * 1e-9, NULL, NULL), c->n, 1e-6);
 }
 END_TEST
 
 START_TEST(test_silica_range)
 {
-	ck_assert(isnan(material_silica_index(200e-9)));
-	ck_assert(isnan(material_silica_index(4e-6)));
-	ck_assert(!isnan(material_silica_index(0.22e-6)));
-	ck_assert(!isnan(material_silica_index(3.7e-6)));
+	ck_assert(isnan(material_index(MAT_FUSED_SILICA, 200e-9, NULL, NULL)));
+	ck_assert(isnan(material_index(MAT_FUSED_SILICA, 4e-6, NULL, NULL)));
+	ck_assert(!isnan(material_index(MAT_FUSED_SILICA, 0.22e-6, NULL, NULL)));
+	ck_assert(!isnan(material_index(MAT_FUSED_SILICA, 3.7e-6, NULL, NULL)));
 }
 END_TEST
 
