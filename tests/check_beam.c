@@ -13,6 +13,7 @@
 #include <stdlib.h>
 
 #include "core-beam.h"
+#include "core-thick.h"
 
 #include "check-util.h"
 
@@ -599,6 +600,30 @@ START_TEST(test_gap_focus_random)
 }
 END_TEST
 
+/* M² from a measured divergence, ISO 11146-1 (M² = π w0 θ/λ, from
+ * memory): w0 = 1 mm, θ = 0.5 mrad, 1064 nm gives 1.47631 (REFERENCE §1
+ * and §15 check, 1.476312); a Gaussian's own θ = λ/(π w0) = 0.338682 mrad
+ * (REFERENCE §1) gives 1. */
+START_TEST(test_m2_from_divergence)
+{
+	CHECK_ABS(beam_m2_from_divergence(1e-3, 0.5e-3, 1064e-9), 1.476312, half_digit(6));
+	CHECK_ABS(beam_m2_from_divergence(1e-3, 0.338682e-3, 1064e-9), 1, 2e-6);
+}
+END_TEST
+
+/* Brewster plate effective lengths, Kogelnik, Ippen, Dienes & Shank 1972
+ * (from memory), REFERENCE §1 check: n = 1.45, t = 10 mm gives 8.37761 mm
+ * sagittal and 3.98459 mm tangential. */
+START_TEST(test_brewster_lengths)
+{
+	double lt, ls;
+
+	thick_brewster_lengths(1.45, 10e-3, &lt, &ls);
+	CHECK_ABS(ls * 1e3, 8.37761, half_digit(5));
+	CHECK_ABS(lt * 1e3, 3.98459, half_digit(5));
+}
+END_TEST
+
 int
 main(void)
 {
@@ -609,6 +634,8 @@ main(void)
 
 	tcase_add_loop_test(tc, test_gauss_table, 0, NELEMS(gauss_cases));
 	tcase_add_test(tc, test_far_field_m2);
+	tcase_add_test(tc, test_m2_from_divergence);
+	tcase_add_test(tc, test_brewster_lengths);
 	tcase_add_test(tc, test_q_closed_form);
 	tcase_add_test(tc, test_waist_flat);
 	tcase_add_loop_test(tc, test_sigma_law, 0, 20);
