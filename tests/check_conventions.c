@@ -897,6 +897,18 @@ START_TEST(test_json_fields)
 			if (json_is_object(f)) {
 				need_keys(f, focus, NELEMS(focus), "a focus");
 				ck_assert(json_is_boolean(json_object_get(f, "air_breakdown")));
+				/* a focus concentrates the beam at least 2 times
+				 * (issue 9, item 9; trace-conventions.md) */
+				ck_assert(json_number_value(json_object_get(f,
+				    "concentration")) >= 2);
+			}
+			/* every waist is kept, with its concentration */
+			f = json_object_get(x, "waist");
+			ck_assert(f != NULL && (json_is_null(f) || json_is_object(f)));
+			if (json_is_object(f)) {
+				need_keys(f, focus, NELEMS(focus), "a waist");
+				ck_assert(json_object_get(f, "concentration") != NULL);
+				ck_assert(json_object_get(f, "on") != NULL);
 			}
 		}
 		/* ratio null when unrated */
