@@ -23,6 +23,18 @@ damage_peak_factor(enum pulse_shape shape)
 }
 
 double
+damage_peak_power(enum pulse_shape shape, double energy, double fwhm)
+{
+	return damage_peak_factor(shape) * energy / fwhm;
+}
+
+double
+damage_fluence(double energy, double wx, double wy)
+{
+	return 2 * energy / (M_PI * wx * wy);
+}
+
+double
 damage_peak_irradiance(double power, double wx, double wy)
 {
 	return 2 * power / (M_PI * wx * wy);

@@ -14,7 +14,9 @@
 
 /* Peak power = k · E / τ_FWHM: 2√(ln2/π) gaussian, ln(1+√2) sech², 1 square. */
 double damage_peak_factor(enum pulse_shape);
+double damage_peak_power(enum pulse_shape, double energy, double fwhm);  /* k·E/τ */
 double damage_peak_irradiance(double power, double wx, double wy);  /* 2P/(π wx wy) */
+double damage_fluence(double energy, double wx, double wy);         /* 2E/(π wx wy) */
 double damage_peak_field(double irradiance);                        /* √(2I/(c ε0)) V/m */
 double damage_linear_density(double power, double wx, double wy);   /* P/(2 min w) */
 /* Marburger: P_cr = 3.77 λ² / (8π n0 n2). */

@@ -83,8 +83,3 @@ material_source(int material)
 	return glasses[material].source;
 }
 
-double
-material_silica_index(double lambda)
-{
-	return material_index(0, lambda, NULL, NULL);
-}

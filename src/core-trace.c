@@ -294,7 +294,7 @@ gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
 	row->focus.irradiance = damage_peak_irradiance(p, wx, wy);
 	if (b->src.pulsed) {
 		double e = p / b->src.rep_rate;
-		double ppk = damage_peak_factor(b->src.shape) * e / b->src.pulse_width;
+		double ppk = damage_peak_power(b->src.shape, e, b->src.pulse_width);
 
 		row->focus.peak_irradiance = damage_peak_irradiance(ppk, wx, wy);
 		row->focus.air_breakdown = in_air &&
@@ -351,8 +351,8 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	if (src->pulsed) {
 		double e = p / src->rep_rate;
 
-		row->fluence = 2 * e / (M_PI * row->wx * row->wy);
-		row->peak_power = damage_peak_factor(src->shape) * e / src->pulse_width;
+		row->fluence = damage_fluence(e, row->wx, row->wy);
+		row->peak_power = damage_peak_power(src->shape, e, src->pulse_width);
 		row->peak_irradiance = damage_peak_irradiance(row->peak_power, row->wx, row->wy);
 	} else {
 		row->peak_irradiance = row->irradiance;

@@ -1121,13 +1121,16 @@ START_TEST(test_round_trip_random)
 }
 END_TEST
 
+/* glibc's mallinfo2 (2.33 and later) counts the heap in use; elsewhere
+ * the two leak tests below are not built and main says so. */
+#if defined(__GLIBC__) && (__GLIBC__ > 2 || (__GLIBC__ == 2 && __GLIBC_MINOR__ >= 33))
+#define HAVE_MALLINFO2 1
 /* Reading and freeing a bench gives back every byte: parsing the demo a
  * thousand times must not grow the heap (glibc's mallinfo2; a leak of
  * even one byte per element shows as a megabyte here).  Run under
  * valgrind this is the same check, element by element. */
 START_TEST(test_parse_no_leak)
 {
-#if defined(__GLIBC__) && (__GLIBC__ > 2 || (__GLIBC__ == 2 && __GLIBC_MINOR__ >= 33))
 	size_t before = 0, after;
 	char *cause = NULL;
 
@@ -1143,7 +1146,6 @@ START_TEST(test_parse_no_leak)
 	after = mallinfo2().uordblks;
 	ck_assert_msg(after <= before + 4096, "the heap grew by %zu bytes over 1000 "
 	    "parse/free cycles of the demo bench", after - before);
-#endif
 }
 END_TEST
 
@@ -1151,7 +1153,6 @@ END_TEST
  * nothing else stays allocated (same method as test_parse_no_leak). */
 START_TEST(test_dump_no_leak)
 {
-#if defined(__GLIBC__) && (__GLIBC__ > 2 || (__GLIBC__ == 2 && __GLIBC_MINOR__ >= 33))
 	size_t before = 0, after;
 	char *cause = NULL;
 	struct bench *b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo",
@@ -1167,9 +1168,9 @@ START_TEST(test_dump_no_leak)
 	model_bench_free(b);
 	ck_assert_msg(after <= before + 4096, "the heap grew by %zu bytes over 1000 "
 	    "exports of the demo bench", after - before);
-#endif
 }
 END_TEST
+#endif
 
 /*
  * Robustness (issue 14).
@@ -1359,8 +1360,13 @@ main(void)
 	tcase_add_test(tr, test_defaults);
 	tcase_add_loop_test(tr, test_source_forms, 0, NELEMS(source_cases));
 	tcase_add_test(tr, test_read_missing);
+#ifdef HAVE_MALLINFO2
 	tcase_add_test(tr, test_parse_no_leak);
 	tcase_add_test(tr, test_dump_no_leak);
+#else
+	/* a TAP comment: the driver shows it, and the skip is not a pass */
+	printf("# SKIP test_parse_no_leak, test_dump_no_leak: this libc has no mallinfo2\n");
+#endif
 	tcase_add_test(tr, test_size_cap);
 	tcase_add_test(tr, test_bom_and_nbsp);
 	tcase_add_test(tr, test_negative_zero);

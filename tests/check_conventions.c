@@ -42,7 +42,8 @@ rayleigh(double w0, double m2, double lambda)
 	return M_PI * w0 * w0 / (m2 * lambda);
 }
 
-/* w(z) = w0 √(1 + ((z − z0)/zR)²), REFERENCE §1. */
+/* w(z) = w0 √(1 + ((z − z0)/zR)²), REFERENCE §1 (Siegman 1986 ch. 17, from
+ * memory). */
 static double
 radius_at(double w0, double zr, double dz)
 {
@@ -119,7 +120,8 @@ START_TEST(test_waist_position_sign)
 		CHECK_ABS(s1->focus.z, c->waist_at, 1e-9);
 		CHECK_REL(s1->focus.wx, w0, 1e-9);
 		CHECK_REL(s1->focus.wy, w0, 1e-9);
-		/* REFERENCE §4: I0 = 2P/(π w0²) */
+		/* REFERENCE §4 (derived; Siegman ch. 17, from memory): I0 =
+		 * 2P/(π w0²) */
 		CHECK_REL(s1->focus.irradiance, 2 / (M_PI * w0 * w0), 1e-9);
 	}
 	trace_free(t);
@@ -129,7 +131,8 @@ END_TEST
 
 /*
  * 2. M² pairs: each axis has its own M² (trace-conventions.md, Frame and
- * beam).  REFERENCE §1 check values, 1064 nm, w0 = 1 mm: w(10 m) =
+ * beam).  REFERENCE §1 (Siegman 1986 ch. 17, from memory) check values, 1064
+ * nm, w0 = 1 mm: w(10 m) =
  * 3.53136 mm with M² = 1 and 5.17771 mm with M² = 1.5.  Six digits carry
  * up to 1.4e-6 relative rounding (3.53136 stands for 3.5313639), so the
  * table is checked to 2e-6 and the formula w0 √(1 + (z/zR)²) to 1e-12.
@@ -152,7 +155,9 @@ START_TEST(test_m2_pair)
 	CHECK_REL(bd->wy, wy, 2e-6);
 	CHECK_REL(fmin(bd->wx, bd->wy), radius_at(1e-3, rayleigh(1e-3, 1, LAMBDA), 10), 1e-12);
 	CHECK_REL(fmax(bd->wx, bd->wy), radius_at(1e-3, rayleigh(1e-3, 1.5, LAMBDA), 10), 1e-12);
-	CHECK_REL(bd->irradiance, 2 / (M_PI * bd->wx * bd->wy), 1e-12);
+	/* REFERENCE §4, I0 = 2P/(π wx wy), with the hand radii of REFERENCE §1 */
+	CHECK_REL(bd->irradiance, 2 / (M_PI * radius_at(1e-3, rayleigh(1e-3, 1, LAMBDA), 10) *
+	    radius_at(1e-3, rayleigh(1e-3, 1.5, LAMBDA), 10)), 1e-12);
 	CHECK_REL(bd->linear_density, 1 / (2 * w1), 2e-6);
 	/* the waist is at the start: no focus in S1 (trace-conventions.md, Foci) */
 	check_no_focus(t, "S1", "waist at the start");
@@ -176,7 +181,8 @@ START_TEST(test_m2_pair_common_waist)
 	double zx = rayleigh(1e-3, 1, LAMBDA), zy = rayleigh(0.5e-3, 2, LAMBDA);
 
 	/* the waist is kept; it concentrates the beam by the smaller end
-	 * area over its own, area ∝ √((1 + u²/zx²)(1 + u²/zy²)) (REFERENCE §1):
+	 * area over its own, area ∝ √((1 + u²/zx²)(1 + u²/zy²)) (REFERENCE §1
+	 * (Siegman 1986 ch. 17, from memory)):
 	 * the start (u = −0.4 m) gives 1.488 against 1.95 at the end
 	 * (u = 0.6 m), under 2, so a waist, not a focus (issue 9, item 9) */
 	ck_assert(s1->has_waist);
@@ -199,7 +205,8 @@ END_TEST
  * focus (trace-conventions.md, Foci: the product cannot fall and rise in
  * no length); its row sits at the plane of the next element with the same
  * radii, and nothing becomes NaN.  The lens focus in the real gap after it
- * is untouched: REFERENCE §2 row 1 (s = 1 m, f = 100 mm: s'' = 100.94459 mm,
+ * is untouched: REFERENCE §2 (Self 1983) row 1 (s = 1 m, f = 100 mm: s'' =
+ * 100.94459 mm,
  * w0' = 32.3966 µm).
  */
 START_TEST(test_zero_length_space)
@@ -240,7 +247,8 @@ END_TEST
  * nothing, and the list that ends after it leaves no power on the table,
  * so no `unterminated` warning ("with power left", trace-conventions.md).
  * The reflected branch: M2 rated 1 kW/cm² sees I = 2·1 W/(π (1 mm)²) =
- * 63.6620 W/cm² (REFERENCE §4): ratio 0.0636620; safe source power =
+ * 63.6620 W/cm² (REFERENCE §4 (derived; Siegman ch. 17, from memory)): ratio
+ * 0.0636620; safe source power =
  * 1 W/(2 × 0.0636620) = 7.85398 W (trace-conventions.md, SF default 2).
  * Case 1: only the dark M1 is rated: the largest ratio is 0 and the
  * formula P/(SF·0) gives no limit (+∞; core-trace.h says INFINITY).
@@ -280,7 +288,8 @@ END_TEST
 
 /*
  * 5. Round-off is not power.  Linear light through an ideal polarizer
- * whose axis is 90° from it passes cos² 90° = 0 (Malus, REFERENCE §8 [M]);
+ * whose axis is 90° from it passes cos² 90° = 0 (Malus, REFERENCE §8
+ * (Goldstein 2003, from memory) [M]);
  * the path ends there, so nothing is left on the table and the contract's
  * "with power left" is false: no `unterminated` warning
  * (trace-conventions.md, Beams that leave the bench).  The rejected
@@ -345,8 +354,10 @@ END_TEST
  *     at z = 0.3 m, the end of S2 and the start of S3: S2 holds it, S1
  *     (falling all along) and S3 do not; S3 starts at w = w0 (REFERENCE
  *     §1).  A collimated beam: area ratio √(1 + (0.2 m/zR)²)² = 1.0046
- *     with zR = 2.95262 m (REFERENCE §1), under 2: a waist, not a focus.
- * (b) REFERENCE §2 row 4: w0 = 1 mm, s = f = 100 mm gives s'' = f exactly
+ *     with zR = 2.95262 m (REFERENCE §1 (Siegman 1986 ch. 17, from memory)),
+ * under 2: a waist, not a focus.
+ * (b) REFERENCE §2 (Self 1983) row 4: w0 = 1 mm, s = f = 100 mm gives s'' = f
+ * exactly
  *     (s''/f = 1 + (s/f − 1)/(...) = 1) and w0' = λf/(π w0) = 33.8682 µm:
  *     the waist is at the end of S2 (100 mm): a focus of S2 (the lens sees
  *     w ≈ 1 mm, some 870 times the waist's area), none in S3.
@@ -462,7 +473,6 @@ START_TEST(test_clip_very_elliptical)
 	double pa = sqrt(2 / M_PI) / c->wlong * exp(-2 * a * a / (c->wlong * c->wlong));
 	double want = erf(M_SQRT2 * a / c->wlong) - pa * c->wshort * c->wshort / (4 * a);
 
-	CHECK_ABS(erf(M_SQRT1_2), 0.682689492, 1e-9);
 	CHECK_ABS(1 - ir->clip_loss, want, 1e-8);
 	CHECK_REL(row_of(t, "BD")->power_in, want, 1e-7);
 	trace_free(t);
@@ -477,7 +487,8 @@ END_TEST
  * that distance is shorter than the element's thickness") puts the flag
  * under elements that have both keys.
  * Pulsed 1030 nm, 1 mJ, 10 ps sech²: P_pk = 0.881374 × 1 mJ/10 ps =
- * 88.1374 MW (REFERENCE §4), far above P_cr = 4.0648 MW (REFERENCE §11,
+ * 88.1374 MW (REFERENCE §4 (derived; Siegman ch. 17, from memory)), far above
+ * P_cr = 4.0648 MW (REFERENCE §11 (Marburger 1975, from memory),
  * 1030 nm, n0 1.45 default, n2 2.7e-20 m²/W).  W2, 500 mm thick: flagged.
  * W1 and L1 with n2 but no thickness: not flagged.
  */
@@ -517,13 +528,17 @@ END_TEST
  * `aperture` (clear-aperture diameter; the beam is clipped there), and
  * `damage`".  A space is an element, so these must parse:
  * (a) a space with an aperture, clipped at its start (trace-conventions.md
- *     "Results ... for a space, at its start").  Beam of REFERENCE §2 row 1:
- *     at the lens w = w0 √(1 + (1 m/zR)²) = 1.05580 mm (REFERENCE §1), a
- *     2 mm aperture passes T = 1 − exp(−2 (1 mm)²/w²) (REFERENCE §9), and
+ *     "Results ... for a space, at its start").  Beam of REFERENCE §2 (Self
+ * 1983) row 1:
+ *     at the lens w = w0 √(1 + (1 m/zR)²) = 1.05580 mm (REFERENCE §1 (Siegman
+ * 1986 ch. 17, from memory)), a
+ *     2 mm aperture passes T = 1 − exp(−2 (1 mm)²/w²) (REFERENCE §9 (derived;
+ * Siegman ch. 17, from memory)), and
  *     the focus inside the gap then carries T·1 W:
- *     I = 2 T/(π w0'²), w0' = 32.3966 µm (REFERENCE §2, §4);
+ *     I = 2 T/(π w0'²), w0' = 32.3966 µm (REFERENCE §2 (Self 1983), §4);
  * (b) a space with a damage rating: I = 63.6620 W/cm² at the waist
- *     (REFERENCE §4) against 100 W/cm²: ratio 0.636620, caution (SF 2);
+ *     (REFERENCE §4 (derived; Siegman ch. 17, from memory)) against 100
+ * W/cm²: ratio 0.636620, caution (SF 2);
  * (c) an iris with an aperture: accepted (no number checked: the contract
  *     does not say which of diameter and aperture clips first).
  */
@@ -753,7 +768,8 @@ END_TEST
  * element use "power P = S0 arriving, before clipping"; ratios are
  * "power in / max_power; power lost / max_absorbed", and `power_lost`
  * counts "absorbed, leaked, clipped".  1 W at w = 1 mm, a 2 mm aperture
- * passes T = 1 − e⁻² = 0.864665 (REFERENCE §9).
+ * passes T = 1 − e⁻² = 0.864665 (REFERENCE §9 (derived; Siegman ch. 17, from
+ * memory)).
  * (a) a dump with that aperture rated 1.5 W: ratio = 1 W/1.5 W = 0.666667
  *     (not T/1.5); its irradiance is that of the whole watt, 63.6620 W/cm²;
  * (b) a filter od 0 (T = 1) with the aperture, max_absorbed 0.5 W: it loses
@@ -881,6 +897,18 @@ START_TEST(test_json_fields)
 			if (json_is_object(f)) {
 				need_keys(f, focus, NELEMS(focus), "a focus");
 				ck_assert(json_is_boolean(json_object_get(f, "air_breakdown")));
+				/* a focus concentrates the beam at least 2 times
+				 * (issue 9, item 9; trace-conventions.md) */
+				ck_assert(json_number_value(json_object_get(f,
+				    "concentration")) >= 2);
+			}
+			/* every waist is kept, with its concentration */
+			f = json_object_get(x, "waist");
+			ck_assert(f != NULL && (json_is_null(f) || json_is_object(f)));
+			if (json_is_object(f)) {
+				need_keys(f, focus, NELEMS(focus), "a waist");
+				ck_assert(json_object_get(f, "concentration") != NULL);
+				ck_assert(json_object_get(f, "on") != NULL);
 			}
 		}
 		/* ratio null when unrated */
@@ -900,9 +928,10 @@ START_TEST(test_json_fields)
 			nb++;
 			ck_assert_str_eq(json_string_value(json_object_get(w, "after")), "W2");
 			/* W2's front face lies 10 mm of glass past the waist, the
-			 * reduced distance d = 10 mm/1.45 (REFERENCE §15 plate), so
+			 * reduced distance d = 10 mm/1.45 (REFERENCE §15
+			 * (Kogelnik & Li 1966; Hecht, from memory) plate), so
 			 * its w² and 1/I_pk grow by 1 + (d/zR)², zR = π w²/λ
-			 * (REFERENCE §1) */
+			 * (REFERENCE §1 (Siegman 1986 ch. 17, from memory)) */
 			double zr = M_PI * 1e-6 / 1030e-9, d = 10e-3 / 1.45;
 
 			CHECK_REL(json_number_value(json_object_get(w, "value")),

@@ -54,8 +54,15 @@ START_TEST(test_identical)
 	ck_assert_uint_eq(d->nch, 0);
 	ck_assert_uint_eq(d->nfx, 0);
 	ck_assert_int_eq(d->traced, 1);
+	/* the worst of the demo's own trace (W1, checked in check_layout) */
+	{
+		struct trace *t = trace_run(a);
+
+		ck_assert_str_eq(d->worst_id[0], t->rows[t->worst].el->id);
+		ck_assert_str_eq(d->worst_id[1], t->rows[t->worst].el->id);
+		trace_free(t);
+	}
 	ck_assert_str_eq(d->worst_id[0], "W1");
-	ck_assert_str_eq(d->worst_id[1], "W1");
 	diff_free(d);
 	model_bench_free(a);
 	model_bench_free(b);
@@ -84,9 +91,22 @@ START_TEST(test_value_changed)
 	ck_assert_str_eq(c->vals[0].new_exact, "0.15 m");
 	ck_assert_str_eq(c->old_at.branch, "main");
 	ck_assert_str_eq(c->old_at.after, "S8");
-	/* W1 after the lens: over before, ok after; upstream untouched. */
+	/* W1 after the lens: over before, ok after; upstream untouched.  The
+	 * ratios are those of the two benches' own traces (derived here, not
+	 * pinned): a shorter focal length puts the focus 50 mm further from W1,
+	 * so its beam is wider and its fluence lower. */
 	fx = find_effect(d, "W1");
 	ck_assert_ptr_nonnull(fx);
+	{
+		struct trace *ta = trace_run(a), *tb = trace_run(b);
+
+		CHECK_REL(fx->ratio[0], row_of(ta, "W1")->ratio, 1e-15);
+		CHECK_REL(fx->ratio[1], row_of(tb, "W1")->ratio, 1e-15);
+		ck_assert(row_of(tb, "W1")->wx > row_of(ta, "W1")->wx);
+		ck_assert_str_eq(d->worst_id[1], tb->rows[tb->worst].el->id);
+		trace_free(ta);
+		trace_free(tb);
+	}
 	ck_assert_int_eq(fx->status[0], STATUS_OVER);
 	ck_assert_int_eq(fx->status[1], STATUS_OK);
 	ck_assert(fx->ratio[0] > 1 && fx->ratio[1] < 0.5);

@@ -510,6 +510,17 @@ END_TEST
 
 /* ---- hazards and the margin line ---- */
 
+/* The row of element id (borrowed); there must be one. */
+static const struct trace_row *
+row_ptr(const struct trace *t, const char *id)
+{
+	for (size_t i = 0; i < t->nrows; i++)
+		if (strcmp(t->rows[i].el->id, id) == 0)
+			return &t->rows[i];
+	ck_abort_msg("no row %s", id);
+	return NULL;
+}
+
 /* The demo's hazards, read off bench-demo.c by hand: W1 over its rating;
  * ND1 and PD1 at caution; the beam out of POL1's rejected port after S4r
  * unterminated; the focus in S9 sparks; POL1, IR1, BS1, CL1 and T1 have
@@ -598,6 +609,18 @@ START_TEST(test_margin_line)
 	char *n80 = layout_margin_line(t, 0, 80, "saved 12:00");
 	char *cause = NULL;
 
+	/* Where the pinned figures come from (this test checks their words;
+	 * the engine is checked in check_trace): W1 is rated 1.2 J/cm² at
+	 * 532 nm, 5 ns and sees the demo's 1064 nm, 8 ns pulses, so its limit
+	 * is 1.2 × 1064/532 × √(8/5) = 3.0358 J/cm² (REFERENCE §10 rules, by
+	 * hand); the trace's fluence there over that limit is the 109 %; the
+	 * safe source power is the source's over SF × that ratio; 728 µW is
+	 * the rejected beam that leaves after S4r. */
+	CHECK_REL(row_ptr(t, "W1")->limits.fluence / 1e4, 1.2 * 2 * sqrt(1.6), 1e-12);
+	CHECK_ABS(100 * row_ptr(t, "W1")->fluence / row_ptr(t, "W1")->limits.fluence, 109, 0.5);
+	CHECK_REL(t->safe_source_power, b->src.power / (2 * t->worst_ratio), 1e-12);
+	CHECK_ABS(t->safe_source_power, 0.914, 0.0005);
+	CHECK_ABS(t->leaving, 728e-6, 0.5e-6);
 	ck_assert_ptr_nonnull(strstr(s, "worst: W1 109 % OVER, headroom \u00d70.9"));
 	ck_assert_ptr_nonnull(strstr(s, "safe source power 914 mW"));
 	ck_assert_ptr_nonnull(strstr(s, " hazards: 1 over,"));
@@ -977,18 +1000,23 @@ START_TEST(test_profile_plot)
 
 	ck_assert_int_eq(layout_profile(t, idx, n, row_of(t, "W1"), 60, 10, 4, &p), 0);
 	ck_assert_double_eq_tol(p.z0, 0, 1e-12);
+	/* the plot ends at T1, the path's end: the sum of the demo's gaps
+	 * and glass (the demo file), 1.77 m by hand */
+	ck_assert_double_eq_tol(row_ptr(t, "T1")->z, 1.77, 1e-9);
 	ck_assert_double_eq_tol(p.z1, 1.77, 1e-9);
 	ck_assert_double_ge(p.rmax, 3.01e-3);
 	ck_assert_double_le(p.rmax, 5e-3);
 	ck_assert_double_ge(p.pmax, 2.0);
-	ck_assert_int_eq(p.sel_col, layout_map_col(1.75, 0, 1.77, 60));
+	ck_assert_int_eq(p.sel_col, layout_map_col(row_ptr(t, "W1")->z, 0, 1.77, 60));
 	for (size_t i = 0; i < p.nmark; i++)
 		if (p.mark[i].focus) {
 			foci++;
 			focus_col = p.mark[i].col;
 		}
 	ck_assert_uint_eq(foci, 1);
-	ck_assert_int_eq(focus_col, layout_map_col(1.650, 0, 1.77, 60));
+	/* the one focus is the lens focus in S9, where the trace puts it */
+	ck_assert(row_ptr(t, "S9")->has_focus);
+	ck_assert_int_eq(focus_col, layout_map_col(row_ptr(t, "S9")->focus.z, 0, 1.77, 60));
 	/* every column has both radii in the radius band and power below */
 	for (int c = 0; c < 60; c++) {
 		int x = 0, y = 0, pw = 0;

@@ -1,6 +1,7 @@
 /* check_polar.c - unit tests for core-polar: Stokes vectors and Mueller
  * matrices of polarizers, retarders, mirrors and polarizing splitters,
- * against the check values of REFERENCE §8 and the closed-form matrices
+ * against the check values of REFERENCE §8 (Goldstein 2003, from memory) and
+ * the closed-form matrices
  * written out there, plus what a lossless retarder must conserve. */
 #include <config.h>
 
@@ -13,7 +14,7 @@
 
 #include "check-util.h"
 
-#define TOL		1e-9	/* REFERENCE §8: tol 1e-9 abs */
+#define TOL		1e-9	/* REFERENCE §8 (Goldstein 2003, from memory): tol 1e-9 abs */
 #define DEG		(M_PI / 180)
 
 static void
@@ -38,7 +39,8 @@ check_matrix(const struct mueller *got, const double want[4][4], double tol,
 }
 
 /* The states themselves: S0 = power, S1 = I_H - I_V, S2 = I_45 - I_-45
- * (REFERENCE §8); circular is the S3 > 0 state (core-polar.h). */
+ * (REFERENCE §8 (Goldstein 2003, from memory)); circular is the S3 > 0 state
+ * (core-polar.h). */
 START_TEST(test_states)
 {
 	double s[4];
@@ -66,7 +68,8 @@ START_TEST(test_states)
 }
 END_TEST
 
-/* REFERENCE §8: HWP at 22.5°, then an ideal PBS: 0.5 / 0.5.  The PBS's
+/* REFERENCE §8 (Goldstein 2003, from memory): HWP at 22.5°, then an ideal
+ * PBS: 0.5 / 0.5.  The PBS's
  * transmitted port is diattenuator(Tp, Ts, 0°) and its reflected port
  * diag(1, 1, -1, -1)·diattenuator(Rs, Rp, 90°). */
 START_TEST(test_hwp_pbs)
@@ -87,12 +90,13 @@ START_TEST(test_hwp_pbs)
 }
 END_TEST
 
-/* REFERENCE §8: a half-wave plate maps linear φ to 2θ - φ. */
+/* REFERENCE §8 (Goldstein 2003, from memory): a half-wave plate maps linear φ
+ * to 2θ - φ. */
 static const struct hwp_case {
 	double axis, in, out;
 } hwp_cases[] = {
-	{ 10, 0, 20 },		/* REFERENCE §8: HWP at 10° on H -> 20° */
-	{ 10, 30, -10 },	/* REFERENCE §8: HWP at 10° on 30° -> -10° */
+	{ 10, 0, 20 },		/* REFERENCE §8 (Goldstein 2003, from memory): HWP at 10° on H -> 20° */
+	{ 10, 30, -10 },	/* REFERENCE §8 (Goldstein 2003, from memory): HWP at 10° on 30° -> -10° */
 	{ 22.5, 0, 45 },	/* 2θ - φ with θ = 22.5°, φ = 0 */
 	{ 45, 0, 90 - 180 },	/* H -> V (angle reported in (-90, 90]) */
 	{ -15, 20, -50 },	/* 2θ - φ */
@@ -121,7 +125,8 @@ START_TEST(test_hwp_linear)
 }
 END_TEST
 
-/* REFERENCE §8: QWP at +45° on H gives (1, 0, 0, +1), at -45° (1, 0, 0, -1);
+/* REFERENCE §8 (Goldstein 2003, from memory): QWP at +45° on H gives (1, 0,
+ * 0, +1), at -45° (1, 0, 0, -1);
  * core-polar.h makes +1 the "circular" state. */
 START_TEST(test_qwp)
 {
@@ -168,7 +173,8 @@ START_TEST(test_malus)
 }
 END_TEST
 
-/* REFERENCE §8: non-ideal polarizers, T = t1 cos²(φ-θ) + t2 sin²(φ-θ). */
+/* REFERENCE §8 (Goldstein 2003, from memory): non-ideal polarizers, T = t1
+ * cos²(φ-θ) + t2 sin²(φ-θ). */
 static const struct er_case {
 	double t1, t2, axis, in, t;
 } er_cases[] = {
@@ -191,7 +197,8 @@ START_TEST(test_extinction)
 }
 END_TEST
 
-/* REFERENCE §8: unpolarized light through an ideal polarizer: 0.5, at any
+/* REFERENCE §8 (Goldstein 2003, from memory): unpolarized light through an
+ * ideal polarizer: 0.5, at any
  * axis; through t1, t2: (t1 + t2)/2. */
 START_TEST(test_unpolarized_polarizer)
 {
@@ -210,7 +217,8 @@ START_TEST(test_unpolarized_polarizer)
 }
 END_TEST
 
-/* REFERENCE §8: PBS split for linear input at φ: T = cos² φ, R = 1 - T
+/* REFERENCE §8 (Goldstein 2003, from memory): PBS split for linear input at
+ * φ: T = cos² φ, R = 1 - T
  * (the table prints 1 / 0.933013 / 0.75 / 0.5 / 0.25; held here to 1e-6
  * against the table and to 1e-9 against cos²). */
 static const struct split_case {
@@ -241,7 +249,8 @@ START_TEST(test_pbs_split)
 END_TEST
 
 /* diattenuator(Rs, Rp, 90°) is diattenuator(Rp, Rs, 0°): a fold's
- * reflected port written either way (REFERENCE §8 and trace-conventions). */
+ * reflected port written either way (REFERENCE §8 (Goldstein 2003, from
+ * memory) and trace-conventions). */
 START_TEST(test_pbs_forms_agree)
 {
 	struct mueller a, b;
@@ -252,7 +261,8 @@ START_TEST(test_pbs_forms_agree)
 }
 END_TEST
 
-/* REFERENCE §8: an ideal mirror in the unfolded frame is diag(1, 1, -1, -1):
+/* REFERENCE §8 (Goldstein 2003, from memory): an ideal mirror in the unfolded
+ * frame is diag(1, 1, -1, -1):
  * +45° -> -45°, (1, 0, 0, 1) -> (1, 0, 0, -1); two mirrors: identity. */
 START_TEST(test_mirror)
 {

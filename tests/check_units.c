@@ -92,7 +92,10 @@ static const struct parse_case prefix_cases[] = {
 };
 
 /* Unit definitions: BIPM SI Brochure, 9th ed. (2019), Table 4 (units with
- * special names: Hz = s^-1, J, W = J/s, V) and Table 6 (W/m^2, V/m). */
+ * special names: Hz = s^-1, J, W = J/s, V) and Table 6 (W/m^2, V/m); the
+ * products and quotients W/m, J/m² and m²/W are coherent derived units by
+ * the rule of sec. 2.3.4 (a coherent derived unit is a product of powers
+ * of base units with factor one; from memory), listed in no table. */
 static const struct parse_case unit_cases[] = {
 	{ "1 m", DIM_LENGTH, 1 },		/* SI base unit */
 	{ "1 s", DIM_TIME, 1 },			/* SI base unit */
@@ -106,14 +109,14 @@ static const struct parse_case unit_cases[] = {
 	{ "1 W\u00b7s", DIM_ENERGY, 1 },	/* J = W s, SI Table 4 */
 	{ "1 W/Hz", DIM_ENERGY, 1 },		/* J = W/Hz, SI Table 4 */
 	{ "1 Hz*J", DIM_POWER, 1 },		/* W = J/s, SI Table 4 */
-	{ "1 W/m", DIM_LINEAR, 1 },		/* SI Table 4 */
+	{ "1 W/m", DIM_LINEAR, 1 },		/* coherent derived, SI sec. 2.3.4 */
 	{ "1 J/m*s", DIM_LINEAR, 1 },		/* W = J/s; '/' takes all after */
 	{ "1 W/m^2", DIM_IRRADIANCE, 1 },	/* SI Table 6 */
 	{ "1 W/m\u00b2", DIM_IRRADIANCE, 1 },	/* SI Table 6 */
-	{ "1 J/m2/s", DIM_IRRADIANCE, 1 },	/* W = J/s, SI Table 4 */
-	{ "1 J/m^2", DIM_FLUENCE, 1 },		/* SI Table 4 */
+	{ "1 J/m2/s", DIM_IRRADIANCE, 1 },	/* W = J/s (SI Table 4) per m², Table 6 */
+	{ "1 J/m^2", DIM_FLUENCE, 1 },		/* coherent derived, SI sec. 2.3.4 */
 	{ "1 W*s/m2", DIM_FLUENCE, 1 },		/* J = W s, SI Table 4 */
-	{ "1 m^2/W", DIM_N2, 1 },		/* SI Table 4 */
+	{ "1 m^2/W", DIM_N2, 1 },		/* coherent derived, SI sec. 2.3.4 */
 	{ "1 m\u00b2/W", DIM_N2, 1 },		/* SI Table 4 */
 	{ "1 m^2*s/J", DIM_N2, 1 },		/* W = J/s, SI Table 4 */
 	{ "1 m^+2/W", DIM_N2, 1 },		/* SI Table 4 */
