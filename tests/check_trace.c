@@ -1572,6 +1572,47 @@ START_TEST(test_thick_plate_focus_shift)
 }
 END_TEST
 
+/* Issue 8's case: a mirror behind a 50 mm plate (n = 1.5) in a converging
+ * 1 W CW beam, rated 10 kW/cm² CW.  The gap after the plate is chosen (by
+ * the closed forms below, not by the engine) so that the mirror stands
+ * d1 = zR'·√((59.6 µm/w0')² − 1) past the plate-shifted focus, where
+ * w = 59.6 µm: peak irradiance 2P/(πw²) = 17.92 kW/cm² (REFERENCE §4,
+ * Siegman 1986 ch. 17, from memory), ratio 1.79, over.  A thin plate (the
+ * focus not moved by t(1 − 1/n), Hecht sec. 5.2, from memory) would put
+ * the same mirror d1 + 16.67 mm past the focus, at w = 218 µm and ratio
+ * 0.13: ok, the unearned credit this guards against. */
+START_TEST(test_thick_plate_mirror)
+{
+	double spp, w0p, zrp, d1, zf, want_w = 59.6e-6;
+	struct bench *b;
+	struct trace *t;
+	const struct trace_row *m1;
+
+	self_focus(1064e-9, 1e-3, 1, 0, 0.1, &spp, &w0p, &zrp);
+	d1 = zrp * sqrt((want_w / w0p) * (want_w / w0p) - 1);
+	zf = spp + 0.050 * (1 - 1 / 1.5);
+	b = bench_text("test", HEAD CW_1W_1MM "'path':["
+	    "{'id':'L1','type':'lens','focal':'100 mm'},"
+	    "{'id':'S1','type':'space','length':'20 mm'},"
+	    "{'id':'P1','type':'window','thickness':'50 mm','index':1.5},"
+	    "{'id':'S2','type':'space','length':%.17g},"
+	    "{'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}},"
+	    "{'id':'S3','type':'space','length':'100 mm'},"
+	    "{'id':'BD','type':'dump'}]}", zf + d1 - 0.070);
+	t = trace_run(b);
+	m1 = row_of(t, "M1");
+	CHECK_ABS(m1->wx, 59.6e-6, 0.05e-6);
+	CHECK_ABS(m1->wy, 59.6e-6, 0.05e-6);
+	CHECK_ABS(m1->ratio, 2 * 1.0 / (M_PI * want_w * want_w) / 1e8, 0.005);
+	CHECK_ABS(m1->ratio, 1.79, 0.005);
+	ck_assert_int_eq(m1->status, STATUS_OVER);
+	/* the thin estimate the old trace gave, for the record: */
+	ck_assert(radius_at(w0p, zrp, d1 + 0.050 * (1 - 1 / 1.5)) > 3.5 * want_w);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* A thick lens by its radii: n = 1.5, r1 = 100 mm, r2 = −100 mm,
  * t = 10 mm has f = 101.6949 mm (thick-lens lensmaker's equation, Hecht
  * sec. 6.2, from memory; REFERENCE §15).  Its principal planes lie
@@ -1769,6 +1810,7 @@ main(void)
 	tcase_add_test(tw, test_self_focusing_edges);
 	tcase_add_loop_test(tw, test_focus_at_plane, 0, NELEMS(pinhole_cases));
 	tcase_add_test(tw, test_thick_plate_focus_shift);
+	tcase_add_test(tw, test_thick_plate_mirror);
 	tcase_add_test(tw, test_thick_lens_radii);
 	tcase_add_test(tw, test_material_index);
 	tcase_add_loop_test(tw, test_brewster_plate, 0, NELEMS(brewster_cases));
