@@ -10,6 +10,7 @@
 
 #include "core-model.h"
 #include "core-point.h"
+#include "core-tol.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -282,6 +283,7 @@ model_unset(struct element *el, enum model_key k)
 {
 	el->set &= ~KEY_BIT(k);
 	el->val[k] = NAN;
+	tol_put(el, k, NULL);
 }
 
 static int
@@ -318,8 +320,49 @@ other_key(enum elem_type t, enum model_key k, const char *text)
 	return NULL;
 }
 
+static int set_value_text(struct element *el, enum model_key k, const char *text,
+    char **cause);
+
 int
 model_set_text(struct element *el, enum model_key k, const char *text, char **cause)
+{
+	const struct model_key_def *d = &model_keys[k];
+	const char *rest;
+	struct tol t;
+	size_t vlen, i;
+	char *vt;
+	int rc = 0;
+
+	if (!tol_split(text, &vlen, &rest))
+		return set_value_text(el, k, text, cause);
+	if (!model_key_applies(k, el->type))
+		return fail_with(cause, "element '%s': a %s has no key '%s'",
+		    el->id, model_type_name(el->type), model_key_path(k));
+	if (d->kind == KIND_BOOL || d->kind == KIND_AXIS)
+		return fail_with(cause, "element '%s': %s: '%s': a tolerance needs a "
+		    "numeric key", el->id, model_key_path(k), text);
+	if (tol_parse(rest, d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, &t, cause) != 0)
+		return cause_prefix(cause, "element '%s': %s", el->id, model_key_path(k)), -1;
+	for (i = 0; i < vlen && (text[i] == ' ' || text[i] == '\t'); i++)
+		;
+	if (i < vlen) {
+		vt = xasprintf("%.*s", (int)vlen, text);
+		rc = set_value_text(el, k, vt, cause);
+		free(vt);
+	} else if (isnan(model_get(el, k))) {
+		rc = fail_with(cause, "element '%s': %s: '%s': no value to put the "
+		    "tolerance on (write the value before the sign)", el->id,
+		    model_key_path(k), text);
+	}
+	if (rc == 0)
+		rc = tol_check_range(el, k, model_get(el, k), &t, cause);
+	if (rc == 0)
+		tol_put(el, k, &t);
+	return rc;
+}
+
+static int
+set_value_text(struct element *el, enum model_key k, const char *text, char **cause)
 {
 	const struct model_key_def *d = &model_keys[k];
 	char *why = NULL;
@@ -375,19 +418,21 @@ model_value_text(const struct element *el, enum model_key k)
 {
 	const struct model_key_def *d = &model_keys[k];
 	double v = model_get(el, k);
-	char tmp[64];
+	char tmp[64], tt[80];
 
 	switch (d->kind) {
 	case KIND_QUANTITY:
 		units_format_exact(tmp, sizeof tmp, v, d->dim);
-		return xstrdup(tmp);
+		tol_format(tt, sizeof tt, tol_of(el, k), d->dim, 0);
+		return xasprintf("%s%s", tmp, tt);
 	case KIND_BOOL:
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
 	default:
 		units_format_exact(tmp, sizeof tmp, v, DIM_NONE);
-		return xstrdup(tmp);
+		tol_format(tt, sizeof tt, tol_of(el, k), DIM_NONE, 0);
+		return xasprintf("%s%s", tmp, tt);
 	}
 }
 
@@ -420,6 +465,8 @@ model_element_release(struct element *el)
 	free(el->label);
 	free(el->part);
 	model_branch_release(&el->side);
+	free(el->tol);
+	el->tol = NULL;
 	el->id = el->label = el->part = NULL;
 }
 
@@ -439,6 +486,10 @@ model_element_copy(struct element *dst, const struct element *src)
 	dst->id = xstrdup(src->id);
 	dst->label = xstrdup(src->label);
 	dst->part = xstrdup(src->part);
+	if (src->tol != NULL) {
+		dst->tol = xcalloc(K_COUNT, sizeof *dst->tol);
+		memcpy(dst->tol, src->tol, K_COUNT * sizeof *dst->tol);
+	}
 	branch_copy(&dst->side, &src->side);
 }
 
@@ -515,6 +566,7 @@ model_bench_free(struct bench *b)
 	free(b->notes);
 	model_branch_release(&b->path);
 	point_list_release(&b->points);
+	tol_bench_free(b->tol);
 	free(b);
 }
 
@@ -528,6 +580,7 @@ model_bench_dup(const struct bench *src)
 	b->notes = xstrdup(src->notes);
 	branch_copy(&b->path, &src->path);
 	point_list_copy(&b->points, &src->points);
+	b->tol = tol_bench_dup(src->tol);
 	return b;
 }
 
