@@ -343,6 +343,9 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 		    "numeric key", el->id, model_key_path(k), text);
 	if (tol_parse(rest, d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, &t, cause) != 0)
 		return cause_prefix(cause, "element '%s': %s", el->id, model_key_path(k)), -1;
+	double oldv = el->val[k];
+	uint64_t oldset = el->set;
+
 	for (i = 0; i < vlen && (text[i] == ' ' || text[i] == '\t'); i++)
 		;
 	if (i < vlen) {
@@ -356,8 +359,13 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 	}
 	if (rc == 0)
 		rc = tol_check_range(el, k, model_get(el, k), &t, cause);
-	if (rc == 0)
+	if (rc == 0) {
 		tol_put(el, k, &t);
+	} else {
+		/* all or nothing: the value stays as it was */
+		el->val[k] = oldv;
+		el->set = oldset;
+	}
 	return rc;
 }
 
