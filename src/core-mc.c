@@ -176,7 +176,9 @@ struct shared {
 	float                *z;        /* [n * nparam] standardized draws */
 	double               *safe;     /* [n] */
 	atomic_size_t         next, done_samples;
-	atomic_uint           finished;
+	unsigned              finished;     /* under lock */
+	pthread_mutex_t       lock;
+	pthread_cond_t        wake;         /* a worker finished */
 	atomic_uchar         *chunk_done;   /* [nchunks] */
 };
 
@@ -277,24 +279,53 @@ worker_main(void *arg)
 		atomic_store(&sh->chunk_done[c], 1);
 		atomic_fetch_add(&sh->done_samples, to - from);
 	}
-	atomic_fetch_add(&sh->finished, 1);
+	pthread_mutex_lock(&sh->lock);
+	sh->finished++;
+	pthread_cond_signal(&sh->wake);
+	pthread_mutex_unlock(&sh->lock);
 	return NULL;
 }
 
 /* ---- statistics over the slots, in sample order ---- */
 
-static int
-cmp_double(const void *a, const void *b)
+/* The k-th smallest (0-based) of a[0..n-1], which it reorders: Wirth's
+ * selection (Algorithms + Data Structures = Programs, 1976, from memory),
+ * O(n) on average.  The value is the order statistic itself, whatever the
+ * order the slots were in.  No NaN reaches it. */
+static double
+select_kth(double *a, size_t n, size_t k)
 {
-	double x = *(const double *)a, y = *(const double *)b;
+	long l = 0, m = (long)n - 1, kk = (long)k;
 
-	return x < y ? -1 : x > y;
+	while (l < m) {
+		double x = a[kk], tmp;
+		long i = l, j = m;
+
+		do {
+			while (a[i] < x)
+				i++;
+			while (x < a[j])
+				j--;
+			if (i <= j) {
+				tmp = a[i];
+				a[i] = a[j];
+				a[j] = tmp;
+				i++;
+				j--;
+			}
+		} while (i <= j);
+		if (j < kk)
+			l = i;
+		if (kk < i)
+			m = j;
+	}
+	return a[kk];
 }
 
 /* Nearest rank: the ceil(q·n)-th smallest (Hyndman & Fan 1996, definition
- * 1, from memory); sorted ascending. */
+ * 1, from memory). */
 static double
-nearest_rank(const double *sorted, size_t n, double q)
+nearest_rank(double *v, size_t n, double q)
 {
 	size_t k = (size_t)ceil(q * (double)n);
 
@@ -304,7 +335,7 @@ nearest_rank(const double *sorted, size_t n, double q)
 		k = 1;
 	if (k > n)
 		k = n;
-	return sorted[k - 1];
+	return select_kth(v, n, k - 1);
 }
 
 static double
@@ -358,12 +389,10 @@ reduce(struct shared *sh, size_t n, struct mc_result *res)
 		e->se_over = n ? sqrt(e->p_over * (1 - e->p_over) / (double)n) : NAN;
 		e->p_caution = n ? (double)caution / (double)n : NAN;
 		e->se_caution = n ? sqrt(e->p_caution * (1 - e->p_caution) / (double)n) : NAN;
-		qsort(col, n, sizeof *col, cmp_double);
 		e->median = nearest_rank(col, n, 0.5);
 		e->p95 = nearest_rank(col, n, 0.95);
 	}
 	memcpy(col, sh->safe, n * sizeof *col);
-	qsort(col, n, sizeof *col, cmp_double);
 	res->safe_p5 = nearest_rank(col, n, 0.05);
 	free(col);
 	/* the worst: highest P(over), then highest 95th percentile */
@@ -418,7 +447,6 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	struct trace *nom;
 	unsigned nthreads = o->threads ? o->threads : 1;
 	size_t *rows, n = o->samples, done;
-	struct timespec nap = { 0, 1000 * 1000 };
 
 	memset(res, 0, sizeof *res);
 	if (n == 0 || n > MC_MAX_SAMPLES)
@@ -461,7 +489,9 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	sh.chunk_done = xcalloc(sh.nchunks, sizeof *sh.chunk_done);
 	atomic_init(&sh.next, 0);
 	atomic_init(&sh.done_samples, 0);
-	atomic_init(&sh.finished, 0);
+	sh.finished = 0;
+	pthread_mutex_init(&sh.lock, NULL);
+	pthread_cond_init(&sh.wake, NULL);
 	if (nthreads > sh.nchunks)
 		nthreads = (unsigned)sh.nchunks;
 	w = xcalloc(nthreads, sizeof *w);
@@ -487,15 +517,26 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 		free(one.els);
 		model_bench_free(one.b);
 	}
-	/* naps from 1 ms up to 50 ms: a short run is not held up by the
-	 * polling, a long one reports about ten times a second */
-	while (atomic_load(&sh.finished) < nthreads) {
-		if (o->progress != NULL)
+	/* the workers wake this thread when they finish, and it wakes itself
+	 * ten times a second for the progress: a short run waits for nothing */
+	pthread_mutex_lock(&sh.lock);
+	while (sh.finished < nthreads) {
+		struct timespec until;
+
+		clock_gettime(CLOCK_REALTIME, &until);
+		until.tv_nsec += 100 * 1000 * 1000;
+		if (until.tv_nsec >= 1000000000L) {
+			until.tv_sec++;
+			until.tv_nsec -= 1000000000L;
+		}
+		pthread_cond_timedwait(&sh.wake, &sh.lock, &until);
+		if (o->progress != NULL && sh.finished < nthreads) {
+			pthread_mutex_unlock(&sh.lock);
 			o->progress(o->arg, atomic_load(&sh.done_samples), n);
-		nanosleep(&nap, NULL);
-		if (nap.tv_nsec < 50 * 1000 * 1000)
-			nap.tv_nsec *= 2;
+			pthread_mutex_lock(&sh.lock);
+		}
 	}
+	pthread_mutex_unlock(&sh.lock);
 	for (unsigned k = 0; k < nthreads; k++) {
 		pthread_join(w[k].tid, NULL);
 		trace_free(w[k].t);
@@ -518,6 +559,8 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	free(sh.z);
 	free(sh.safe);
 	free((void *)sh.chunk_done);
+	pthread_mutex_destroy(&sh.lock);
+	pthread_cond_destroy(&sh.wake);
 	free(rows);
 	return 0;
 }
