@@ -71,6 +71,15 @@ run --db "$DB" tolerance $B --samples 1000 --max-risk 100%
 check "--max-risk 100 %: exit 0" rc_is 0
 check "... says so" out_has "within the limit"
 
+# An operating point: its changes keep the tolerances of the values they set.
+run --db "$DB" point add $B low "source.pulse_energy=20 mJ"
+run --db "$DB" tolerance $B --point low --samples 2000
+check "--point: exit 0 (nothing over at a tenth of the energy)" rc_is 0
+check "--point: says which point" out_has "point low"
+check "--point: the energy's tolerance kept with the point's value" \
+    sh -c 'grep -q "^  source.pulse_energy  *20 mJ ± 5 % normal" "$1"' sh "$T_DIR/out"
+run --db "$DB" point remove $B low
+
 # A bench without tolerances: every probability 0 or 1, the trace's status.
 run tolerance demo.json --samples 500 --format json
 cp "$T_DIR/out" plain.json
