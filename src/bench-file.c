@@ -338,11 +338,13 @@ source_tol_of(const char *key)
 	return TS_COUNT;
 }
 
+/* *own: the value alone of the last key that carried a tolerance; the
+ * caller decrefs it whatever the result. */
 static int
-read_pulsed(json_t *obj, struct source *s, struct bench *b, char **cause)
+read_pulsed(json_t *obj, struct source *s, struct bench *b, json_t **own, char **cause)
 {
 	const char *key;
-	json_t *v, *own = NULL;
+	json_t *v;
 	int have_energy = 0;
 
 	if (!json_is_object(obj))
@@ -350,10 +352,10 @@ read_pulsed(json_t *obj, struct source *s, struct bench *b, char **cause)
 		    json_kind(obj));
 	s->pulsed = 1;
 	json_object_foreach(obj, key, v) {
-		json_decref(own);
-		own = NULL;
+		json_decref(*own);
+		*own = NULL;
 		if (source_tol_of(key) != TS_COUNT &&
-		    bench_tol_source_take(&v, &own, b, source_tol_of(key), key, cause) != 0)
+		    bench_tol_source_take(&v, own, b, source_tol_of(key), key, cause) != 0)
 			return -1;
 		if (strcmp(key, "rep_rate") == 0) {
 			if (get_positive(v, DIM_FREQUENCY, &s->rep_rate, "source: pulsed.rep_rate", cause))
@@ -374,28 +376,27 @@ read_pulsed(json_t *obj, struct source *s, struct bench *b, char **cause)
 			    "(rep_rate, pulse_width, shape, pulse_energy)", key);
 		}
 	}
-	json_decref(own);
 	s->energy_given = have_energy;
 	return 0;
 }
 
 static int
-read_source(json_t *obj, struct source *s, struct bench *b, char **cause)
+read_source(json_t *obj, struct source *s, struct bench *b, json_t **own, char **cause)
 {
 	const char *key;
-	json_t *v, *own = NULL;
-	int have_power = 0;
+	json_t *v, *own_pulsed = NULL;
+	int have_power = 0, rc;
 
 	if (!json_is_object(obj))
 		return fail_with(cause, "source: expected an object, got %s", json_kind(obj));
 	model_source_defaults(s);
 	json_object_foreach(obj, key, v) {
-		/* the value alone stays alive until the next key (freed on return
-		 * through the decref below or at the loop's end) */
-		json_decref(own);
-		own = NULL;
+		/* the value alone stays alive until the next key; the caller
+		 * drops the last */
+		json_decref(*own);
+		*own = NULL;
 		if (source_tol_of(key) != TS_COUNT &&
-		    bench_tol_source_take(&v, &own, b, source_tol_of(key), key, cause) != 0)
+		    bench_tol_source_take(&v, own, b, source_tol_of(key), key, cause) != 0)
 			return -1;
 		if (strcmp(key, "wavelength") == 0) {
 			if (get_positive(v, DIM_LENGTH, &s->wavelength, "source: wavelength", cause))
@@ -405,7 +406,10 @@ read_source(json_t *obj, struct source *s, struct bench *b, char **cause)
 				return -1;
 			have_power = 1;
 		} else if (strcmp(key, "pulsed") == 0) {
-			if (read_pulsed(v, s, b, cause) != 0)
+			rc = read_pulsed(v, s, b, &own_pulsed, cause);
+			json_decref(own_pulsed);
+			own_pulsed = NULL;
+			if (rc != 0)
 				return -1;
 		} else if (strcmp(key, "waist") == 0) {
 			if (read_pair(v, DIM_LENGTH, s->waist, &s->waist_pair, "waist", b,
@@ -439,7 +443,6 @@ read_source(json_t *obj, struct source *s, struct bench *b, char **cause)
 			    "pulsed, waist, waist_position, m2, polarization)", key);
 		}
 	}
-	json_decref(own);
 	if (have_power && s->energy_given)
 		return fail_with(cause, "source: give power or pulsed.pulse_energy, not both");
 	if (s->energy_given)
@@ -495,8 +498,11 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 				return -1;
 			b->air_given = 1;
 		} else if (strcmp(key, "source") == 0) {
-			if (read_source(v, &b->src, b, cause) != 0 ||
-			    bench_tol_source_check(b, cause) != 0)
+			json_t *own = NULL;
+			int rc = read_source(v, &b->src, b, &own, cause);
+
+			json_decref(own);
+			if (rc != 0 || bench_tol_source_check(b, cause) != 0)
 				return -1;
 		} else if (strcmp(key, "tolerances") == 0) {
 			if (bench_tol_defaults_from_json(v, b, cause) != 0)
