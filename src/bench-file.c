@@ -12,6 +12,7 @@
 #include "bench-file.h"
 #include "bench-point.h"
 #include "core-beam.h"
+#include "bench-tol.h"
 #include "util-buf.h"
 #include "util-err.h"
 #include "util-json.h"
@@ -98,6 +99,13 @@ set_key_json(struct element *el, enum model_key k, json_t *v, char **cause)
 	double x;
 
 	snprintf(what, sizeof what, "element '%s': %s", el->id, model_key_path(k));
+	if (json_is_string(v)) {
+		const char *rest;
+		size_t vlen;
+
+		if (tol_split(json_string_value(v), &vlen, &rest))
+			return model_set_text(el, k, json_string_value(v), cause);
+	}
 	switch (d->kind) {
 	case KIND_QUANTITY:
 		if (get_quantity(v, d->dim, &x, what, cause) != 0)
@@ -277,28 +285,54 @@ read_branch(json_t *arr, struct branch *br, const char *where, size_t depth,
 	return 0;
 }
 
+/* ts: the tolerance entry of x (y's is the next). */
+/* A string (or a pair holding one) that carries "±" or "+-". */
+static int
+has_tolerance_text(json_t *v)
+{
+	if (json_is_array(v)) {
+		for (size_t i = 0; i < json_array_size(v); i++)
+			if (has_tolerance_text(json_array_get(v, i)))
+				return 1;
+		return 0;
+	}
+	return json_is_string(v) && (strstr(json_string_value(v), "\u00b1") != NULL ||
+	    strstr(json_string_value(v), "+-") != NULL);
+}
+
 static int
 read_pair(json_t *v, enum unit_dim dim, double out[2], int *pair, const char *what,
-    char **cause)
+    struct bench *b, enum tol_src ts, char **cause)
 {
+	json_t *own = NULL;
+	int rc;
+
 	if (json_is_array(v)) {
 		if (json_array_size(v) != 2)
 			return fail_with(cause, "source: %s: expected [x, y]", what);
 		*pair = 1;
 		for (int i = 0; i < 2; i++) {
 			json_t *e = json_array_get(v, (size_t)i);
-			int rc = dim == DIM_NONE ?
+
+			if (bench_tol_source_take(&e, &own, b, (enum tol_src)(ts + i), what,
+			    cause) != 0)
+				return -1;
+			rc = dim == DIM_NONE ?
 			    get_number(e, &out[i], what, cause) :
 			    get_quantity(e, dim, &out[i], what, cause);
-
+			json_decref(own);
 			if (rc != 0)
 				return cause_prefix(cause, "source"), -1;
 		}
 		return 0;
 	}
 	*pair = 0;
-	if ((dim == DIM_NONE ? get_number(v, &out[0], what, cause) :
-	    get_quantity(v, dim, &out[0], what, cause)) != 0) {
+	if (bench_tol_source_take(&v, &own, b, ts, what, cause) != 0)
+		return -1;
+	rc = dim == DIM_NONE ? get_number(v, &out[0], what, cause) :
+	    get_quantity(v, dim, &out[0], what, cause);
+	json_decref(own);
+	if (rc != 0) {
 		cause_prefix(cause, "source");
 		return -1;
 	}
@@ -306,8 +340,27 @@ read_pair(json_t *v, enum unit_dim dim, double out[2], int *pair, const char *wh
 	return 0;
 }
 
+/* The tolerance entry a source key's value may carry (TS_COUNT: none). */
+static enum tol_src
+source_tol_of(const char *key)
+{
+	static const struct { const char *key; enum tol_src ts; } map[] = {
+		{ "wavelength", TS_WAVELENGTH }, { "power", TS_POWER },
+		{ "pulse_energy", TS_PULSE_ENERGY }, { "rep_rate", TS_REP_RATE },
+		{ "pulse_width", TS_PULSE_WIDTH }, { "waist_position", TS_WAIST_POSITION },
+		{ "polarization", TS_POLARIZATION },
+	};
+
+	for (size_t i = 0; i < sizeof map / sizeof *map; i++)
+		if (strcmp(key, map[i].key) == 0)
+			return map[i].ts;
+	return TS_COUNT;
+}
+
+/* *own: the value alone of the last key that carried a tolerance; the
+ * caller decrefs it whatever the result. */
 static int
-read_pulsed(json_t *obj, struct source *s, char **cause)
+read_pulsed(json_t *obj, struct source *s, struct bench *b, json_t **own, char **cause)
 {
 	const char *key;
 	json_t *v;
@@ -318,6 +371,11 @@ read_pulsed(json_t *obj, struct source *s, char **cause)
 		    json_kind(obj));
 	s->pulsed = 1;
 	json_object_foreach(obj, key, v) {
+		json_decref(*own);
+		*own = NULL;
+		if (source_tol_of(key) != TS_COUNT &&
+		    bench_tol_source_take(&v, own, b, source_tol_of(key), key, cause) != 0)
+			return -1;
 		if (strcmp(key, "rep_rate") == 0) {
 			if (get_positive(v, DIM_FREQUENCY, &s->rep_rate, "source: pulsed.rep_rate", cause))
 				return -1;
@@ -342,16 +400,23 @@ read_pulsed(json_t *obj, struct source *s, char **cause)
 }
 
 static int
-read_source(json_t *obj, struct source *s, char **cause)
+read_source(json_t *obj, struct source *s, struct bench *b, json_t **own, char **cause)
 {
 	const char *key;
-	json_t *v;
-	int have_power = 0;
+	json_t *v, *own_pulsed = NULL;
+	int have_power = 0, rc;
 
 	if (!json_is_object(obj))
 		return fail_with(cause, "source: expected an object, got %s", json_kind(obj));
 	model_source_defaults(s);
 	json_object_foreach(obj, key, v) {
+		/* the value alone stays alive until the next key; the caller
+		 * drops the last */
+		json_decref(*own);
+		*own = NULL;
+		if (source_tol_of(key) != TS_COUNT &&
+		    bench_tol_source_take(&v, own, b, source_tol_of(key), key, cause) != 0)
+			return -1;
 		if (strcmp(key, "wavelength") == 0) {
 			if (get_positive(v, DIM_LENGTH, &s->wavelength, "source: wavelength", cause))
 				return -1;
@@ -360,10 +425,14 @@ read_source(json_t *obj, struct source *s, char **cause)
 				return -1;
 			have_power = 1;
 		} else if (strcmp(key, "pulsed") == 0) {
-			if (read_pulsed(v, s, cause) != 0)
+			rc = read_pulsed(v, s, b, &own_pulsed, cause);
+			json_decref(own_pulsed);
+			own_pulsed = NULL;
+			if (rc != 0)
 				return -1;
 		} else if (strcmp(key, "waist") == 0) {
-			if (read_pair(v, DIM_LENGTH, s->waist, &s->waist_pair, "waist", cause))
+			if (read_pair(v, DIM_LENGTH, s->waist, &s->waist_pair, "waist", b,
+			    TS_WAIST_X, cause))
 				return -1;
 			if (!(s->waist[0] > 0 && s->waist[1] > 0))
 				return fail_with(cause, "source: waist: must be > 0");
@@ -372,13 +441,18 @@ read_source(json_t *obj, struct source *s, char **cause)
 			    "source: waist_position", cause))
 				return -1;
 		} else if (strcmp(key, "m2") == 0) {
-			if (read_pair(v, DIM_NONE, s->m2, &s->m2_pair, "m2", cause))
+			if (read_pair(v, DIM_NONE, s->m2, &s->m2_pair, "m2", b, TS_M2_X, cause))
 				return -1;
 			if (!(s->m2[0] >= 1 && s->m2[1] >= 1))
 				return fail_with(cause, "source: m2: must be >= 1 (M² of a real beam)");
 		} else if (strcmp(key, "divergence") == 0) {
+			/* M² follows from it; a tolerance belongs on a value the
+			 * file writes back, so the divergence takes none */
+			if (has_tolerance_text(v))
+				return fail_with(cause, "source: divergence: a tolerance is not "
+				    "taken here; give m2 with its tolerance instead");
 			if (read_pair(v, DIM_NONE, s->divergence, &s->m2_pair, "divergence",
-			    cause))
+			    b, TS_M2_X, cause))
 				return -1;
 			if (!(s->divergence[0] > 0 && s->divergence[1] > 0) ||
 			    !isfinite(s->divergence[0] * s->divergence[1]))
@@ -471,14 +545,21 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 				return -1;
 			b->air_given = 1;
 		} else if (strcmp(key, "source") == 0) {
-			if (read_source(v, &b->src, cause) != 0)
+			json_t *own = NULL;
+			int rc = read_source(v, &b->src, b, &own, cause);
+
+			json_decref(own);
+			if (rc != 0 || bench_tol_source_check(b, cause) != 0)
+				return -1;
+		} else if (strcmp(key, "tolerances") == 0) {
+			if (bench_tol_defaults_from_json(v, b, cause) != 0)
 				return -1;
 		} else if (strcmp(key, "points") == 0) {
 			if (bench_points_from_json(v, b, cause) != 0)
 				return -1;
 		} else {
 			return fail_with(cause, "unknown top-level key '%s' (format, name, "
-			    "notes, safety_factor, air_breakdown, source, points, path)", key);
+			    "notes, safety_factor, air_breakdown, source, points, tolerances, path)", key);
 		}
 	}
 	if (b->name == NULL || b->name[0] == '\0')
@@ -763,7 +844,9 @@ key_json(const struct element *el, enum model_key k, int units)
 		return j;
 	}
 	default:
-		return quantity_json(el->val[k], model_keys[k].dim, k == K_DMG_WAVELENGTH, units);
+		return bench_tol_wrap(quantity_json(el->val[k], model_keys[k].dim,
+		    k == K_DMG_WAVELENGTH, units), tol_of(el, k),
+		    model_keys[k].kind == KIND_QUANTITY ? model_keys[k].dim : DIM_NONE);
 	}
 }
 
@@ -818,16 +901,25 @@ branch_json(const struct branch *br, int units)
 	return a;
 }
 
+/* A source value with its tolerance, if any. */
 static json_t *
-pair_json(const double v[2], int pair, enum unit_dim dim, int units)
+src_json(const struct bench *b, enum tol_src ts, json_t *v)
+{
+	return b->tol == NULL ? v : bench_tol_wrap(v, &b->tol->src[ts], tol_src_dim(ts));
+}
+
+static json_t *
+pair_json(const struct bench *bn, enum tol_src ts, const double v[2], int pair,
+    enum unit_dim dim, int units)
 {
 	json_t *a;
 
 	if (!pair)
-		return quantity_json(v[0], dim, 0, units);
+		return src_json(bn, ts, quantity_json(v[0], dim, 0, units));
 	a = json_array();
-	json_array_append_new(a, quantity_json(v[0], dim, 0, units));
-	json_array_append_new(a, quantity_json(v[1], dim, 0, units));
+	json_array_append_new(a, src_json(bn, ts, quantity_json(v[0], dim, 0, units)));
+	json_array_append_new(a, src_json(bn, (enum tol_src)(ts + 1),
+	    quantity_json(v[1], dim, 0, units)));
 	return a;
 }
 
@@ -835,7 +927,7 @@ static json_t *
 head_json(const struct bench *b, int units)
 {
 	const struct source *s = &b->src;
-	json_t *o = json_object(), *src = json_object();
+	json_t *o = json_object(), *src = json_object(), *dflt;
 
 	json_object_set_new(o, "format", json_string(MODEL_FORMAT));
 	json_object_set_new(o, "name", json_string(b->name));
@@ -846,37 +938,49 @@ head_json(const struct bench *b, int units)
 	if (b->air_given)
 		json_object_set_new(o, "air_breakdown",
 		    quantity_json(b->air_breakdown, DIM_IRRADIANCE, 0, units));
-	json_object_set_new(src, "wavelength", quantity_json(s->wavelength, DIM_LENGTH, 1, units));
+	json_object_set_new(src, "wavelength", src_json(b, TS_WAVELENGTH,
+	    quantity_json(s->wavelength, DIM_LENGTH, 1, units)));
 	if (!s->energy_given)
-		json_object_set_new(src, "power", quantity_json(s->power, DIM_POWER, 0, units));
+		json_object_set_new(src, "power", src_json(b, TS_POWER,
+		    quantity_json(s->power, DIM_POWER, 0, units)));
 	if (s->pulsed) {
 		json_t *p = json_object();
 
-		json_object_set_new(p, "rep_rate", quantity_json(s->rep_rate, DIM_FREQUENCY, 0,
-		    units));
-		json_object_set_new(p, "pulse_width", quantity_json(s->pulse_width, DIM_TIME, 0,
-		    units));
+		json_object_set_new(p, "rep_rate", src_json(b, TS_REP_RATE,
+		    quantity_json(s->rep_rate, DIM_FREQUENCY, 0, units)));
+		json_object_set_new(p, "pulse_width", src_json(b, TS_PULSE_WIDTH,
+		    quantity_json(s->pulse_width, DIM_TIME, 0, units)));
 		json_object_set_new(p, "shape", json_string(model_shape_name(s->shape)));
 		if (s->energy_given)
-			json_object_set_new(p, "pulse_energy", quantity_json(s->pulse_energy,
-			    DIM_ENERGY, 0, units));
+			json_object_set_new(p, "pulse_energy", src_json(b, TS_PULSE_ENERGY,
+			    quantity_json(s->pulse_energy, DIM_ENERGY, 0, units)));
 		json_object_set_new(src, "pulsed", p);
 	}
-	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair, DIM_LENGTH, units));
-	json_object_set_new(src, "waist_position", quantity_json(s->waist_position, DIM_LENGTH,
-	    0, units));
-	if (s->divergence_given)
-		json_object_set_new(src, "divergence", pair_json(s->divergence, s->m2_pair,
-		    DIM_NONE, 0));
-	else
-		json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair, DIM_NONE, 0));
+	json_object_set_new(src, "waist", pair_json(b, TS_WAIST_X, s->waist, s->waist_pair,
+	    DIM_LENGTH, units));
+	json_object_set_new(src, "waist_position", src_json(b, TS_WAIST_POSITION,
+	    quantity_json(s->waist_position, DIM_LENGTH, 0, units)));
+	if (s->divergence_given) {
+		/* a measured divergence carries no tolerance of its own (M² does) */
+		json_t *d = s->m2_pair ? json_array() : NULL;
+
+		if (d != NULL) {
+			json_array_append_new(d, json_real(s->divergence[0]));
+			json_array_append_new(d, json_real(s->divergence[1]));
+		}
+		json_object_set_new(src, "divergence", d != NULL ? d : json_real(s->divergence[0]));
+	} else
+		json_object_set_new(src, "m2", pair_json(b, TS_M2_X, s->m2, s->m2_pair, DIM_NONE, 0));
 	if (s->pol == POL_CIRCULAR)
 		json_object_set_new(src, "polarization", json_string("circular"));
 	else if (s->pol == POL_UNPOLARIZED)
 		json_object_set_new(src, "polarization", json_string("unpolarized"));
 	else
-		json_object_set_new(src, "polarization", json_real(s->pol_angle_deg));
+		json_object_set_new(src, "polarization", src_json(b, TS_POLARIZATION,
+		    json_real(s->pol_angle_deg)));
 	json_object_set_new(o, "source", src);
+	if ((dflt = bench_tol_defaults_to_json(b)) != NULL)
+		json_object_set_new(o, "tolerances", dflt);
 	if (b->points.n > 0)
 		json_object_set_new(o, "points", bench_points_to_json(b));
 	return o;

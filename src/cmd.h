@@ -41,6 +41,8 @@ int  cmd_trace(struct cmd_ctx *, int, char **);
 /* Operating points and sweeps (cmd-point.c, cmd-sweep.c). */
 int  cmd_point(struct cmd_ctx *, int, char **);
 int  cmd_sweep(struct cmd_ctx *, int, char **);
+/* The tolerance Monte-Carlo (cmd-tolerance.c). */
+int  cmd_tolerance(struct cmd_ctx *, int, char **);
 int  cmd_demo(struct cmd_ctx *, int, char **);
 /* The printed review (cmd-report.c). */
 int  cmd_report(struct cmd_ctx *, int, char **);

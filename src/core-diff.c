@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "core-diff.h"
+#include "core-tol.h"
 #include "core-point.h"
 #include "core-edit.h"
 #include "util-buf.h"
@@ -101,8 +102,18 @@ diff_key_show(const struct element *el, enum model_key k, int ascii)
 	const struct model_key_def *d = &model_keys[k];
 	char *t, *u;
 
-	if (model_has(el, k))
-		return show_raw(el->val[k], d, ascii);
+	if (model_has(el, k)) {
+		char tt[96];
+
+		t = show_raw(el->val[k], d, ascii);
+		if (tol_of(el, k) == NULL)
+			return t;
+		tol_format(tt, sizeof tt, tol_of(el, k), d->kind == KIND_QUANTITY ? d->dim :
+		    DIM_NONE, ascii);
+		u = xasprintf("%s%s", t, tt);
+		free(t);
+		return u;
+	}
 	if (isnan(d->dflt))
 		return xstrdup("-");
 	t = show_raw(d->dflt, d, ascii);
@@ -282,6 +293,14 @@ exact_or_null(const struct element *el, enum model_key k)
 	return el != NULL && model_has(el, k) ? model_value_text(el, k) : NULL;
 }
 
+static int
+tol_same(const struct tol *a, const struct tol *b)
+{
+	if (a == NULL || b == NULL)
+		return a == b;
+	return a->amount == b->amount && a->rel == b->rel && a->uniform == b->uniform;
+}
+
 /* Values of a (old) and b (new); either may be NULL (added, removed). */
 static void
 compare_values(struct diff_change *c, const struct element *a, const struct element *b)
@@ -303,7 +322,7 @@ compare_values(struct diff_change *c, const struct element *a, const struct elem
 
 		if (!ha && !hb)
 			continue;
-		if (ha && hb && a->val[k] == b->val[k])
+		if (ha && hb && a->val[k] == b->val[k] && tol_same(tol_of(a, k), tol_of(b, k)))
 			continue;
 		value_add(c, model_key_path(k),
 		    a != NULL ? diff_key_show(a, k, 0) : NULL,
@@ -424,22 +443,63 @@ bench_key_show(const char *key, const char *exact)
 		buf_init(&out);
 		t = xstrdup(exact);
 		for (part = strtok_r(t, ",", &save); part != NULL; part = strtok_r(NULL, ",", &save)) {
+			const char *rest = NULL;
+			size_t vlen;
 			double v;
 			char *s;
 
+			/* a tolerance after the value is shown as written */
+			if (tol_split(part, &vlen, &rest))
+				part[vlen] = '\0';
 			if (units_parse(part, dims[i].dim, &v, NULL) != 0) {
 				buf_release(&out);
 				free(t);
 				return xstrdup(exact);
 			}
 			s = diff_value_show(v, dims[i].dim, 0);
-			buf_printf(&out, "%s%s", out.len > 0 ? ", " : "", s);
+			buf_printf(&out, "%s%s%s%s", out.len > 0 ? ", " : "", s,
+			    rest != NULL ? " " TOL_SIGN : "", rest != NULL ? rest : "");
 			free(s);
 		}
 		free(t);
 		return buf_take(&out);
 	}
 	return xstrdup(exact);
+}
+
+/* The bench-wide tolerance defaults, as settings "tolerance.TYPE.KEY". */
+static void
+compare_defaults(struct diff *d, const struct bench *a, const struct bench *b,
+    struct diff_change **c)
+{
+	const struct bench *side[2] = { a, b };
+
+	for (int s = 0; s < 2; s++) {
+		const struct tol_bench *tb = side[s]->tol;
+
+		for (size_t i = 0; tb != NULL && i < tb->ndflt; i++) {
+			char name[96], *key, *ea, *eb;
+
+			tol_default_name(&tb->dflt[i], name, sizeof name);
+			key = xasprintf("tolerance.%s", name);
+			ea = edit_bench_value(a, key);
+			eb = edit_bench_value(b, key);
+			/* the second pass only adds what the first could not see */
+			if (strcmp(ea, eb) != 0 && (s == 0 || ea[0] == '\0')) {
+				if (*c == NULL) {
+					*c = change_new(d, DIFF_SETTINGS, NULL, EL_SPACE);
+					free((*c)->id);
+					(*c)->id = NULL;
+				}
+				value_add(*c, key, xstrdup(ea[0] ? ea : "-"), xstrdup(eb[0] ? eb : "-"),
+				    ea[0] != '\0' ? xstrdup(ea) : NULL,
+				    eb[0] != '\0' ? xstrdup(eb) : NULL);
+			}
+			free(key);
+			free(ea);
+			free(eb);
+		}
+	}
 }
 
 static void
@@ -467,6 +527,7 @@ compare_settings(struct diff *d, const struct bench *a, const struct bench *b)
 		free(ea);
 		free(eb);
 	}
+	compare_defaults(d, a, b, &c);
 }
 
 /* A point as text: its changes, then its worst element there (the effect

@@ -10,6 +10,7 @@
 
 #include "core-edit.h"
 #include "core-point.h"
+#include "core-tol.h"
 #include "util-err.h"
 
 /* Swaps the checked copy in; frees what it replaces. */
@@ -468,10 +469,101 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 	return 0;
 }
 
+/* ---- tolerances on the source, and the bench-wide defaults ---- */
+
+static enum tol_src
+src_tol_key(const char *key)
+{
+	for (int i = 0; i < TS_COUNT; i++)
+		if (i != TS_WAIST_Y && i != TS_M2_Y && strcmp(key, tol_src_name((enum tol_src)i)) == 0)
+			return (enum tol_src)i;
+	return TS_COUNT;
+}
+
+/* One part of a value: the tolerance into *t (untouched without one) and
+ * the value text before it (caller frees; "" when only a tolerance). */
+static char *
+take_tol(const char *key, const char *part, enum unit_dim dim, struct tol *t, int *has,
+    char **cause)
+{
+	const char *rest;
+	size_t vlen;
+
+	*has = 0;
+	if (!tol_split(part, &vlen, &rest))
+		return xstrdup(part);
+	if (tol_parse(rest, dim, t, cause) != 0) {
+		cause_prefix(cause, "%s", key);
+		return NULL;
+	}
+	*has = 1;
+	while (vlen > 0 && (part[vlen - 1] == ' ' || part[vlen - 1] == '\t'))
+		vlen--;
+	while (*part == ' ' && vlen > 0)
+		part++, vlen--;
+	return xasprintf("%.*s", (int)vlen, part);
+}
+
+/* source.KEY=VALUE with "± ..." after the value (after each of a pair's
+ * two), and tolerance.TYPE.KEY=± AMOUNT; the rest as before.  A value
+ * without a tolerance keeps the one it had; a tolerance alone keeps the
+ * value. */
+static int
+set_bench_key_tol(struct bench *b, const char *key, const char *text, char **cause)
+{
+	enum tol_src ts = src_tol_key(key);
+	int pairkey = ts == TS_WAIST_X || ts == TS_M2_X, has[2] = { 0, 0 }, rc;
+	struct tol t[2] = { { 0, 0, 0 }, { 0, 0, 0 } };
+	char *v[2] = { NULL, NULL }, *copy, *comma, *value;
+
+	if (strncmp(key, "tolerance.", 10) == 0)
+		return tol_default_set(b, key + 10, text, cause);
+	if (ts == TS_COUNT || (strstr(text, TOL_SIGN) == NULL && strstr(text, "+-") == NULL))
+		return set_bench_key(b, key, text, cause);
+	if (ts == TS_POWER && b->src.energy_given && text[strspn(text, " \t")] != '\0' &&
+	    (strncmp(text + strspn(text, " \t"), TOL_SIGN, strlen(TOL_SIGN)) == 0 ||
+	    strncmp(text + strspn(text, " \t"), "+-", 2) == 0))
+		return fail_with(cause, "%s: '%s': the source is given by its pulse energy; "
+		    "put the tolerance on source.pulse_energy", key, text);
+	if (strcmp(key, "source.polarization") == 0 && (strstr(text, "circular") != NULL ||
+	    strstr(text, "unpolarized") != NULL))
+		return fail_with(cause, "%s: '%s': a tolerance needs an angle", key, text);
+	copy = xstrdup(text);
+	comma = pairkey ? strchr(copy, ',') : NULL;
+	if (comma != NULL)
+		*comma = '\0';
+	v[0] = take_tol(key, copy, tol_src_dim(ts), &t[0], &has[0], cause);
+	if (v[0] != NULL && comma != NULL)
+		v[1] = take_tol(key, comma + 1, tol_src_dim(ts), &t[1], &has[1], cause);
+	free(copy);
+	if (v[0] == NULL || (comma != NULL && v[1] == NULL)) {
+		free(v[0]);
+		free(v[1]);
+		return -1;
+	}
+	if (comma != NULL && (v[0][0] == '\0') != (v[1][0] == '\0')) {
+		free(v[0]);
+		free(v[1]);
+		return fail_with(cause, "%s: '%s': give both values or neither", key, text);
+	}
+	value = comma != NULL ? xasprintf("%s, %s", v[0], v[1]) : xstrdup(v[0]);
+	rc = v[0][0] != '\0' ? set_bench_key(b, key, value, cause) : 0;
+	free(value);
+	free(v[0]);
+	free(v[1]);
+	if (rc != 0)
+		return -1;
+	if (has[0])
+		tol_bench_of(b)->src[ts] = t[0];
+	if (pairkey && (has[1] || (comma == NULL && has[0])))
+		tol_bench_of(b)->src[ts + 1] = has[1] ? t[1] : t[0];
+	return 0;
+}
+
 int
 edit_set_bench_unchecked(struct bench *b, const char *key, const char *text, char **cause)
 {
-	return set_bench_key(b, key, text, cause);
+	return set_bench_key_tol(b, key, text, cause);
 }
 
 int
@@ -479,15 +571,55 @@ edit_set_bench(struct bench *b, const char *key, const char *text, char **cause)
 {
 	struct bench *copy = model_bench_dup(b);
 
-	if (set_bench_key(copy, key, text, cause) != 0) {
+	if (set_bench_key_tol(copy, key, text, cause) != 0) {
 		model_bench_free(copy);
 		return -1;
 	}
 	return commit_copy(b, copy, cause);
 }
 
+static char *bench_value_plain(const struct bench *b, const char *key);
+
+/* With the source value's tolerance after it ("2 W ± 5 %"). */
 char *
 edit_bench_value(const struct bench *b, const char *key)
+{
+	enum tol_src ts = src_tol_key(key);
+	char *v = bench_value_plain(b, key), *out, s0[96], s1[96];
+
+	if (strncmp(key, "tolerance.", 10) == 0 && b->tol != NULL) {
+		for (size_t i = 0; i < b->tol->ndflt; i++) {
+			const struct tol_default *d = &b->tol->dflt[i];
+			char name[96];
+
+			tol_default_name(d, name, sizeof name);
+			if (strcmp(name, key + 10) == 0) {
+				tol_format(s0, sizeof s0, &d->t, model_keys[d->key].kind ==
+				    KIND_QUANTITY ? model_keys[d->key].dim : DIM_NONE, 0);
+				free(v);
+				return xstrdup(s0 + 1);
+			}
+		}
+	}
+	if (ts == TS_COUNT || b->tol == NULL || v[0] == '\0' ||
+	    (ts == TS_POLARIZATION && b->src.pol != POL_LINEAR))
+		return v;
+	tol_format(s0, sizeof s0, &b->tol->src[ts], tol_src_dim(ts), 0);
+	if ((ts == TS_WAIST_X && b->src.waist_pair) || (ts == TS_M2_X && b->src.m2_pair)) {
+		char *comma = strchr(v, ',');
+
+		tol_format(s1, sizeof s1, &b->tol->src[ts + 1], tol_src_dim(ts), 0);
+		*comma = '\0';
+		out = xasprintf("%s%s,%s%s", v, s0, comma + 1, s1);
+	} else {
+		out = xasprintf("%s%s", v, s0);
+	}
+	free(v);
+	return out;
+}
+
+static char *
+bench_value_plain(const struct bench *b, const char *key)
 {
 	const struct source *s = &b->src;
 	const struct { const char *key; double v; enum unit_dim dim; } qty[] = {

@@ -10,6 +10,7 @@
 
 #include "core-model.h"
 #include "core-point.h"
+#include "core-tol.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -262,6 +263,20 @@ range_text(struct buf *b, const struct model_key_def *d)
 }
 
 int
+model_key_in_range(enum model_key k, double v)
+{
+	const struct model_key_def *d = &model_keys[k];
+
+	if (!isfinite(v) || (d->lo_open ? v <= d->lo : v < d->lo) ||
+	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
+	    fabs(v) < min_abs[k])
+		return 0;
+	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL || d->kind == KIND_CHOICE)
+		return v == floor(v);
+	return 1;
+}
+
+int
 model_set(struct element *el, enum model_key k, double v, char **cause)
 {
 	const struct model_key_def *d = &model_keys[k];
@@ -280,11 +295,7 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 	v = v == 0 ? 0.0 : v;           /* -0 is 0: one value, one text */
 	units_format_shortest(shown, sizeof shown, v,
 	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
-	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
-	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
-	    fabs(v) < min_abs[k];
-	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL || d->kind == KIND_CHOICE)
-		bad = bad || v != floor(v);
+	bad = !model_key_in_range(k, v);
 	if (bad) {
 		buf_init(&b);
 		range_text(&b, d);
@@ -303,6 +314,7 @@ model_unset(struct element *el, enum model_key k)
 {
 	el->set &= ~KEY_BIT(k);
 	el->val[k] = NAN;
+	tol_put(el, k, NULL);
 }
 
 static int
@@ -339,8 +351,57 @@ other_key(enum elem_type t, enum model_key k, const char *text)
 	return NULL;
 }
 
+static int set_value_text(struct element *el, enum model_key k, const char *text,
+    char **cause);
+
 int
 model_set_text(struct element *el, enum model_key k, const char *text, char **cause)
+{
+	const struct model_key_def *d = &model_keys[k];
+	const char *rest;
+	struct tol t;
+	size_t vlen, i;
+	char *vt;
+	int rc = 0;
+
+	if (!tol_split(text, &vlen, &rest))
+		return set_value_text(el, k, text, cause);
+	if (!model_key_applies(k, el->type))
+		return fail_with(cause, "element '%s': a %s has no key '%s'",
+		    el->id, model_type_name(el->type), model_key_path(k));
+	if (d->kind == KIND_BOOL || d->kind == KIND_AXIS)
+		return fail_with(cause, "element '%s': %s: '%s': a tolerance needs a "
+		    "numeric key", el->id, model_key_path(k), text);
+	if (tol_parse(rest, d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, &t, cause) != 0)
+		return cause_prefix(cause, "element '%s': %s", el->id, model_key_path(k)), -1;
+	double oldv = el->val[k];
+	uint64_t oldset = el->set;
+
+	for (i = 0; i < vlen && (text[i] == ' ' || text[i] == '\t'); i++)
+		;
+	if (i < vlen) {
+		vt = xasprintf("%.*s", (int)vlen, text);
+		rc = set_value_text(el, k, vt, cause);
+		free(vt);
+	} else if (isnan(model_get(el, k))) {
+		rc = fail_with(cause, "element '%s': %s: '%s': no value to put the "
+		    "tolerance on (write the value before the sign)", el->id,
+		    model_key_path(k), text);
+	}
+	if (rc == 0)
+		rc = tol_check_range(el, k, model_get(el, k), &t, cause);
+	if (rc == 0) {
+		tol_put(el, k, &t);
+	} else {
+		/* all or nothing: the value stays as it was */
+		el->val[k] = oldv;
+		el->set = oldset;
+	}
+	return rc;
+}
+
+static int
+set_value_text(struct element *el, enum model_key k, const char *text, char **cause)
 {
 	const struct model_key_def *d = &model_keys[k];
 	char *why = NULL;
@@ -410,12 +471,13 @@ model_value_text(const struct element *el, enum model_key k)
 {
 	const struct model_key_def *d = &model_keys[k];
 	double v = model_get(el, k);
-	char tmp[64];
+	char tmp[64], tt[80];
 
 	switch (d->kind) {
 	case KIND_QUANTITY:
 		units_format_exact(tmp, sizeof tmp, v, d->dim);
-		return xstrdup(tmp);
+		tol_format(tt, sizeof tt, tol_of(el, k), d->dim, 0);
+		return xasprintf("%s%s", tmp, tt);
 	case KIND_BOOL:
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
@@ -424,7 +486,8 @@ model_value_text(const struct element *el, enum model_key k)
 		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "");
 	default:
 		units_format_exact(tmp, sizeof tmp, v, DIM_NONE);
-		return xstrdup(tmp);
+		tol_format(tt, sizeof tt, tol_of(el, k), DIM_NONE, 0);
+		return xasprintf("%s%s", tmp, tt);
 	}
 }
 
@@ -457,6 +520,8 @@ model_element_release(struct element *el)
 	free(el->label);
 	free(el->part);
 	model_branch_release(&el->side);
+	free(el->tol);
+	el->tol = NULL;
 	el->id = el->label = el->part = NULL;
 }
 
@@ -476,6 +541,10 @@ model_element_copy(struct element *dst, const struct element *src)
 	dst->id = xstrdup(src->id);
 	dst->label = xstrdup(src->label);
 	dst->part = xstrdup(src->part);
+	if (src->tol != NULL) {
+		dst->tol = xcalloc(K_COUNT, sizeof *dst->tol);
+		memcpy(dst->tol, src->tol, K_COUNT * sizeof *dst->tol);
+	}
 	branch_copy(&dst->side, &src->side);
 }
 
@@ -552,6 +621,7 @@ model_bench_free(struct bench *b)
 	free(b->notes);
 	model_branch_release(&b->path);
 	point_list_release(&b->points);
+	tol_bench_free(b->tol);
 	free(b);
 }
 
@@ -565,6 +635,7 @@ model_bench_dup(const struct bench *src)
 	b->notes = xstrdup(src->notes);
 	branch_copy(&b->path, &src->path);
 	point_list_copy(&b->points, &src->points);
+	b->tol = tol_bench_dup(src->tol);
 	return b;
 }
 

@@ -67,6 +67,14 @@ struct model_key_def {
 };
 extern const struct model_key_def model_keys[K_COUNT];
 
+/* A tolerance on a value (core-tol.h): the spread the Monte-Carlo draws. */
+struct tol {
+	double        amount;       /* σ or half-width: SI (degrees, plain), or per cent when rel */
+	unsigned char rel;          /* written "± N %" */
+	unsigned char uniform;      /* uniform over ± amount; else normal with σ = amount */
+};
+struct tol_bench;               /* the source's tolerances and bench defaults */
+
 struct element;
 struct branch {
 	struct element *el;         /* owned array */
@@ -82,6 +90,7 @@ struct element {
 	double          val[K_COUNT];
 	enum port       side_port;  /* PORT_NONE: no side branch */
 	struct branch   side;       /* owned */
+	struct tol     *tol;        /* owned [K_COUNT]; NULL: no tolerance */
 };
 
 enum pulse_shape { PULSE_GAUSSIAN, PULSE_SECH2, PULSE_SQUARE };
@@ -126,6 +135,7 @@ struct bench {
 	struct source  src;
 	struct branch  path;        /* owned */
 	struct point_list points;   /* owned; empty for most benches */
+	struct tol_bench *tol;      /* owned; NULL: no source tolerance or default */
 };
 
 /* Life cycle. */
@@ -160,13 +170,20 @@ int             model_key_applies(enum model_key, enum elem_type);
 double          model_get(const struct element *, enum model_key);
 int             model_has(const struct element *, enum model_key);
 
+/* 1 when v is finite and inside key k's range (and whole, for a kind that
+ * counts); the one range test model_set and the tolerances share. */
+int             model_key_in_range(enum model_key, double v);
 /* Checks one value for a key on an element type (range, kind) and stores it.
  * Messages name the element and key: "element 'M1': reflectance 1.2 is outside 0..1". */
 int             model_set(struct element *, enum model_key, double v, char **cause);
 void            model_unset(struct element *, enum model_key);
-/* Parses text for a key ("250 mm", "0.99", "true", "x") and sets it. */
+/* Parses text for a key ("250 mm", "0.99", "true", "x") and sets it.  A
+ * tolerance after the value ("250 mm ± 2 mm", core-tol.h) is kept with it;
+ * text that is only a tolerance ("± 1 %") keeps the value; a value without
+ * one keeps the tolerance the key had ("± 0" removes it). */
 int             model_set_text(struct element *, enum model_key, const char *text, char **cause);
-/* Formats a key's value for text that is read back exactly ("0.25 m", "x", "true"). */
+/* Formats a key's value for text that is read back exactly ("0.25 m", "x",
+ * "true"), with its tolerance when it has one ("0.25 m ± 2 mm"). */
 char           *model_value_text(const struct element *, enum model_key);     /* caller frees */
 
 /* Cross-field checks over the whole bench: ids unique and non-empty,

@@ -28,6 +28,9 @@ const struct cmd cmd_table[] = {
 	{ "sweep", cmd_sweep, "BENCH[@SETUP] | FILE KNOB FROM TO [--steps N] [--log] [--point NAME] "
 	    "[--format table|json|csv]",
 	    "trace the bench over a range of one value: crossings and safe intervals" },
+	{ "tolerance", cmd_tolerance, "BENCH[@SETUP] | FILE | --demo [--samples N] [--seed S] "
+	    "[--point NAME] [--format table|json|csv] [--max-risk P] [--threads N]",
+	    "Monte-Carlo over every tolerance: the chance that each optic is over" },
 	{ "point", cmd_point, "add BENCH NAME CHANGE... | list BENCH | show BENCH NAME | "
 	    "remove BENCH NAME", "operating points: the bench as it is run at each setting" },
 	{ "open", cmd_open, "[BENCH | --demo] [--ascii]",
