@@ -332,6 +332,64 @@ START_TEST(test_p_over_uniform)
 }
 END_TEST
 
+/* The drivers, ranked: the dump's ratio P/M with P ± 10 % and M ± 1 % is
+ * near linear in both draws, so (a hand derivation: the correlation of a
+ * sum of independent terms with one of them is its share of the standard
+ * deviation) r_P ≈ 0.1/√(0.1² + 0.01²) = 0.995 and r_M ≈ −0.0995; the
+ * gap's length moves nothing a dump sees, r ≈ 0 (standard error of r
+ * about (1 − r²)/√n, from memory). */
+START_TEST(test_drivers_ranked)
+{
+	struct bench *b = bench_text("dump", DUMP_BENCH, "\xc2\xb1 10 %");
+	struct mc_result r;
+	char *cause = NULL;
+	const size_t n = 20000;
+
+	ck_assert_int_eq(edit_set(b, "BD1", "max_power", "\xc2\xb1 1 %", &cause), 0);
+	ck_assert_int_eq(edit_set(b, "S0", "length", "\xc2\xb1 1 mm", &cause), 0);
+	run(b, n, 2, &r);
+	ck_assert_uint_eq(r.nparam, 3);
+	ck_assert_uint_eq(r.el[0].nsens, 3);
+	ck_assert_str_eq(r.param[r.el[0].sens[0].param].name, "source.power");
+	ck_assert_str_eq(r.param[r.el[0].sens[1].param].name, "BD1.max_power");
+	ck_assert_str_eq(r.param[r.el[0].sens[2].param].name, "S0.length");
+	CHECK_ABS(r.el[0].sens[0].r, 0.995, 0.01);
+	CHECK_ABS(r.el[0].sens[1].r, -0.0995, 0.03);
+	CHECK_ABS(r.el[0].sens[2].r, 0, 4 / sqrt((double)n));
+	mc_result_release(&r);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Defaults: a type's wins over '*'; an element's own wins over both; a
+ * written key with no default takes none. */
+START_TEST(test_defaults)
+{
+	struct bench *b = demo();
+	struct element *s0, *l1, *cl1;
+	char *cause = NULL;
+
+	ck_assert_int_eq(tol_default_set(b, "*.focal", "\xc2\xb1 3 %", &cause), 0);
+	ck_assert_int_eq(tol_default_set(b, "lens.focal", "\xc2\xb1 1 %", &cause), 0);
+	ck_assert_int_eq(tol_default_set(b, "space.length", "+- 1 mm", &cause), 0);
+	ck_assert_int_eq(edit_set(b, "CL1", "focal", "\xc2\xb1 2 mm", &cause), 0);
+	s0 = model_find(b, "S0", NULL, NULL, NULL);
+	l1 = model_find(b, "L1", NULL, NULL, NULL);
+	cl1 = model_find(b, "CL1", NULL, NULL, NULL);
+	CHECK_REL(tol_effective(b, s0, K_LENGTH)->amount, 1e-3, 1e-15);
+	ck_assert_int_eq(tol_effective(b, l1, K_FOCAL)->rel, 1);
+	CHECK_REL(tol_effective(b, l1, K_FOCAL)->amount, 1, 1e-15);
+	CHECK_REL(tol_effective(b, cl1, K_FOCAL)->amount, 2e-3, 1e-15);
+	ck_assert_ptr_null(tol_effective(b, l1, K_THICKNESS));
+	/* removal: the '*' default shows through */
+	ck_assert_int_eq(tol_default_set(b, "lens.focal", "", &cause), 0);
+	CHECK_REL(tol_effective(b, l1, K_FOCAL)->amount, 3, 1e-15);
+	ck_assert_int_eq(tol_default_set(b, "lens.axis", "\xc2\xb1 1", &cause), -1);
+	free(cause);
+	model_bench_free(b);
+}
+END_TEST
+
 /* No tolerance: every sample is the bench as written, so each probability is
  * 0 or 1 exactly, the trace's status. */
 START_TEST(test_no_tolerance)
@@ -551,6 +609,8 @@ main(void)
 	tcase_add_test(tc, test_p_over_normal);
 	tcase_add_test(tc, test_p_over_uniform);
 	tcase_add_test(tc, test_no_tolerance);
+	tcase_add_test(tc, test_drivers_ranked);
+	tcase_add_test(tc, test_defaults);
 	tcase_add_test(tc, test_threads_identical);
 	tcase_add_test(tc, test_stopped_prefix);
 	tcase_add_test(tc, test_bad_samples);
