@@ -190,11 +190,12 @@ app_setup_name(int no, char *buf, size_t n)
 	snprintf(buf, n, "#%d", no);
 }
 
-/* The one place that spells a setup the way the store takes it. */
+/* The one place that spells a setup the way the store takes it: its
+ * number alone ("2"; the store reads 2, #2, a name or draft). */
 void
 app_setup_ref(int no, char *buf, size_t n)
 {
-	snprintf(buf, n, "r%d", no);
+	snprintf(buf, n, "%d", no);
 }
 
 void

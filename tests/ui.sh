@@ -120,6 +120,8 @@ check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.t
 check "help names the record's keys" grep -q "record the draft as a new numbered setup" "$T_DIR/help.txt"
 check "help has no retired verb (7)" sh -c '! grep -wiE "commit|diff|clone|restore|revision|show|log" "$1"' _ "$T_DIR/help.txt"
 check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/help.txt"
+check "no workbench file asks the store for a setup as the retired rN" \
+	sh -c '! grep -n "\"r%d\"" "$1"/src/ui-*.c "$1"/src/cmd-ui.c' _ "${srcdir:-.}"
 check "help has no label command (7)" sh -c '! grep -wE "label" "$1"' _ "$T_DIR/help.txt"
 check "help keys are not the retired modal set" sh -c '! grep -E "^    (a|i|x|u|j|k|g|G|\^R) " "$1"' _ "$T_DIR/help.txt"
 check "no help line is cut at 80 columns (9.13)" sh -c '! grep -q "…$" "$1"' _ "$T_DIR/help.txt"
