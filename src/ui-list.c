@@ -209,8 +209,9 @@ create_and_open(struct app *a, struct bench *b, const char *note, char **cause)
 	if (app_open_bench(a, b->name, cause) != 0)
 		return -1;
 	if (a->demo_name == NULL || strcmp(b->name, a->demo_name) != 0)
-		app_msg(a, 0, "bench '%s' created, recorded #1; every change is saved to its draft",
-		    b->name);
+		app_msg(a, 0, note != NULL ? "bench '%s' created, recorded #1; every change is "
+		    "saved to its draft" : "bench '%s' created: a draft, nothing recorded yet; "
+		    "every change is saved to it", b->name);
 	ui_bench_push(a);
 	return 0;
 }
@@ -273,11 +274,12 @@ new_bench(struct app *a, void *arg, const char *text, char **cause)
 	if (text[0] == '\0')
 		return fail_with(cause, "a bench needs a name");
 	b = layout_bench_new(text);
-	rc = create_and_open(a, b, "new bench: the source alone, no elements yet", cause);
+	/* no note: a draft only, so that the bench's first record is #1 */
+	rc = create_and_open(a, b, NULL, cause);
 	model_bench_free(b);
 	if (rc == 0)
-		app_msg(a, 0, "new bench '%s': b sets the beam (it starts at 1064 nm, CW 1 W), "
-		    "p places elements", text);
+		app_msg(a, 0, "new bench '%s', nothing recorded yet: b sets the beam (1064 nm, "
+		    "CW 1 W), p places elements, r records #1", text);
 	return rc;
 }
 

@@ -66,7 +66,7 @@ pts_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ncol = (int)sv->n;
 	t = sv->n == 1 ? xstrdup("This bench has no operating points: add them with "
 	    "'beamledger point add BENCH NAME CHANGE...'.") :
-	    xasprintf("%zu points besides the base%s.", sv->n - 1,
+	    xasprintf("%zu point%s besides the base%s.", sv->n - 1, sv->n == 2 ? "" : "s",
 	    (size_t)ncol < sv->n ? "; the widest terminal shows more" : "");
 	ui_put(a, 1, 1, w - 2, t, UC_DIM);
 	free(t);

@@ -143,6 +143,7 @@ step "back to the bench list" ui "updated (UTC)" q
 step "new bench prompt" ui "Name of the new bench" n
 t_keys ui -l "focus-test"
 step "new bench created" ui "new bench 'focus-test'" Enter
+check "a new bench has a draft only, nothing recorded (9.19)" wait_for ui "▸ draft, nothing recorded yet"
 check "a CW bench shows its irradiance, the quantity CW ratings use (9.12)" \
 	wait_line ui '^ element .* irradiance +to LIDT'
 check "no fluence column on a CW bench" no_line ui '^ element .*fluence'
@@ -216,10 +217,10 @@ step "placing after a dump is refused" ui "a dump ends its branch" Enter
 t_keys ui Escape
 wait_gone ui "Enter›accept" >/dev/null
 
-step "record prompt" ui "The draft becomes setup #2" r
+step "a new bench's first record is #1 (9.19)" ui "The draft becomes setup #1" r
 t_keys ui -l "window far from the focus"
-step "recorded #2" ui 'recorded #2: "window far from the focus"' Enter
-check "the header says the draft is #2" wait_for ui "▸ draft = #2 ▸"
+step "recorded #1" ui 'recorded #1: "window far from the focus"' Enter
+check "the header says the draft is #1" wait_for ui "▸ draft = #1 ▸"
 
 # ---- shift the lens: the window now sits near the focus ----
 t_keys ui Home
@@ -227,54 +228,54 @@ check "selected the first element" wait_for ui "space S1"
 step "selected the lens" ui "lens L1" Down
 step "lens shifted one place down" ui "shifted L1 after S2" '>'
 check "window now OVER" wait_line ui '^▲W1 .* OVER'
-check "the header says changed since #2" wait_for ui "draft: changed since #2, not recorded"
+check "the header says changed since #1" wait_for ui "draft: changed since #1, not recorded"
 step "undo brings ok back" ui "undone" -
 check "window ok after undo" wait_line ui '^ W1 .* ok *$'
-check "and the draft is #2 again" wait_for ui "▸ draft = #2 ▸"
+check "and the draft is #1 again" wait_for ui "▸ draft = #1 ▸"
 step "redo makes it OVER again" ui "redone" +
 check "window OVER after redo" wait_line ui '^▲W1 .* OVER'
 
 # ---- record, the logbook, compare, mark, reinstate ----
-step "record prompt again" ui "The draft becomes setup #3" r
+step "record prompt again" ui "The draft becomes setup #2" r
 t_keys ui -l "lens closer to the window"
-step "recorded #3" ui "recorded #3" Enter
-step "h opens the logbook" ui "logbook · 3 setups recorded" h
-check "the stale message of the workbench is gone (9.13)" no_line ui 'recorded #3:'
-check "a setup's number, time and author" wait_line ui '^  #3 +20[0-9-]+ [0-9:]+  lab-tester'
-check "each setup traced: #3 is over" wait_line ui 'OVER W1 [0-9.]+ %, safe source power'
-check "and #2 is ok" wait_line ui ' ok [A-Z0-9]+ [0-9.]+ %, safe source power'
+step "recorded #2" ui "recorded #2" Enter
+step "h opens the logbook" ui "logbook · 2 setups recorded" h
+check "the stale message of the workbench is gone (9.13)" no_line ui 'recorded #2:'
+check "a setup's number, time and author" wait_line ui '^  #2 +20[0-9-]+ [0-9:]+  lab-tester'
+check "each setup traced: #2 is over" wait_line ui 'OVER W1 [0-9.]+ %, safe source power'
+check "and #1 is ok" wait_line ui ' ok [A-Z0-9]+ [0-9.]+ %, safe source power'
 check "with its note" wait_for ui '"window far from the focus"'
 t_keys ui Down
-check "#3 selected" wait_for ui "Enter compares #2 → #3"
+check "#2 selected" wait_for ui "Enter compares #1 → #2"
 step "compare shows the chain change" ui "moved" Enter
 check "compare shows the margin effect" wait_line ui 'W1 .*ok → .*over'
 t_keys ui Escape
 check "compare closes" wait_for ui "Space›pin"
 t_keys ui m
-check "mark prompt" wait_for ui "A name for #3"
+check "mark prompt" wait_for ui "A name for #2"
 t_keys ui -l "near-focus"
-step "marked" ui "#3 marked 'near-focus'" Enter
+step "marked" ui "#2 marked 'near-focus'" Enter
 check "the name shown as a badge" wait_for ui "‹near-focus›"
 t_keys ui Space
-check "the compare pin is not a star" wait_line ui '^⇄ +#3'
+check "the compare pin is not a star" wait_line ui '^⇄ +#2'
 t_keys ui Space
 t_keys ui Down
-check "#2 selected" wait_for ui "Enter compares #1 → #2"
-step "reinstate asks" ui "Make #2 the draft again?" R
-step "reinstated" ui "#2 reinstated: draft = #2" y
-check "the logbook's draft says = #2 (9.16)" wait_line ui '^  draft += #2'
+check "#1 selected" wait_line ui '^ *#1 .*lab-tester'
+step "reinstate asks" ui "Make #1 the draft again?" R
+step "reinstated" ui "#1 reinstated: draft = #1" y
+check "the logbook's draft says = #1 (9.16)" wait_line ui '^  draft += #1'
 t_keys ui Escape
-check "the workbench says draft = #2 (9.16)" wait_for ui "▸ draft = #2 ▸"
+check "the workbench says draft = #1 (9.16)" wait_for ui "▸ draft = #1 ▸"
 check "reinstated draft: window ok again" wait_line ui '^ W1 .* ok *$'
 step "undo on the workbench brings the old draft back" ui "undone" -
 check "window OVER after undoing the reinstate" wait_line ui '^▲W1 .* OVER'
-check "and the draft is #3 again (9.16)" wait_for ui "▸ draft = #3 ▸"
+check "and the draft is #2 again (9.16)" wait_for ui "▸ draft = #2 ▸"
 step "and redo reinstates again" ui "redone" +
 check "window ok again" wait_line ui '^ W1 .* ok *$'
-check "draft = #2 once more" wait_for ui "▸ draft = #2 ▸"
+check "draft = #1 once more" wait_for ui "▸ draft = #1 ▸"
 step "logbook again" ui "logbook" h
 t_keys ui Down Down
-step "reinstating the setup the draft already is asks nothing" ui "the draft already is #2" R
+step "reinstating the setup the draft already is asks nothing" ui "the draft already is #1" R
 t_keys ui Escape
 check "back on the workbench" wait_for ui "p›place"
 
@@ -368,17 +369,17 @@ check "and creates no database" [ ! -e "$T_DIR/nodemo.db" ]
 
 # ---- the database, checked with the CLI ----
 log=$("$BL" --db "$DB" history focus-test 2>&1)
-check "log: r3 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
+check "log: #2 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
 check "log: the label" sh -c 'printf "%s" "$1" | grep -q "near-focus"' _ "$log"
 check "log: the author" sh -c 'printf "%s" "$1" | grep -q "lab-tester"' _ "$log"
-"$BL" --db "$DB" trace focus-test@3 >/dev/null 2>&1
-check "r3 traces over (exit 1)" [ $? -eq 1 ]
+"$BL" --db "$DB" trace focus-test@2 >/dev/null 2>&1
+check "#2 traces over (exit 1)" [ $? -eq 1 ]
 "$BL" --db "$DB" trace focus-test >/dev/null 2>&1
 check "restored draft traces ok (exit 0)" [ $? -eq 0 ]
 exp=$("$BL" --db "$DB" export focus-test 2>&1)
 check "export: the rating typed in the field, in its unit" sh -c 'printf "%s" "$1" | grep -q "\"cw_irradiance\": \"1 kW/cm^2\""' _ "$exp"
 check "export: the lens before S2 again (restored)" sh -c 'printf "%s" "$1" | tr -d "\n " | grep -q "\"id\":\"L1\".*\"id\":\"S2\""' _ "$exp"
-"$BL" --db "$DB" compare focus-test 2 3 >"$T_DIR/diff.txt" 2>&1
+"$BL" --db "$DB" compare focus-test 1 2 >"$T_DIR/diff.txt" 2>&1
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
 check "demo bench is in the database" sh -c '"$1" --db "$2" list | grep -q table3-ablation' _ "$BL" "$DB"
 check "database check passes" sh -c '"$1" --db "$2" check >/dev/null' _ "$BL" "$DB"
