@@ -316,6 +316,18 @@ check "ASCII key line" wait_line direct '^p>place  l>lift'
 check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
+# 9.15: renaming a bench from the list; a refused name is said at the prompt
+step "N asks the bench's new name" direct "A new name for bench 'focus-test'" N
+t_keys direct C-u
+t_keys direct -l "table3-ablation"
+step "a taken name is refused at the prompt" direct "bench 'table3-ablation' already exists" Enter
+t_keys direct C-u
+t_keys direct -l "focus-rail"
+step "renamed" direct "bench 'focus-test' is now 'focus-rail'" Enter
+check "the list shows the new name" wait_line direct '^ focus-rail +#2 '
+check "the store has the bench under its new name, with its setups" \
+	sh -c '"$1" --db "$2" history focus-rail | grep -q "^#2 "' _ "$BL" "$DB"
+step "renamed back" direct "is now 'focus-test'" N C-u focus-test Enter
 t_keys direct q
 check "and quits" wait_exit direct 5
 
