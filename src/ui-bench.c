@@ -141,8 +141,8 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	if (a->nrows == 0) {
 		ui_put(a, g->chain_y + 1, 2, w - 4, "The bench has no elements yet: p places the "
 		    "first one.", UC_NORMAL);
-		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, and a dump, detector or "
-		    "target at the end; b sets the beam.", UC_NORMAL);
+		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, then a dump, detector "
+		    "or target; b: the beam.", UC_NORMAL);
 		return;
 	}
 	for (int i = 0; i < g->chain_h && a->scroll + i < (int)a->nrows; i++) {
@@ -859,7 +859,33 @@ wb_hints(struct app *a, struct wb *d, struct layout_hint *h, size_t max)
 		memcpy(h, edit_hints, n * sizeof *h);
 		return n;
 	}
-	n = ui_table_hints(table, h, max - 1);
+	n = ui_table_hints(table, h, max - 2);
+	if (table == ui_bench_chain_keys && app_point_name(a) != NULL) {
+		/* a point shown: the layout keys are refused, so not offered */
+		size_t m = 0;
+
+		for (size_t i = 0; i < n; i++) {
+			int layout = 0;
+
+			for (const struct ui_key *k = table; k->fn != NULL; k++)
+				if ((k->flags & UI_K_LAYOUT) && k->hint != NULL &&
+				    strcmp(k->label, h[i].key) == 0)
+					layout = 1;
+			if (!layout)
+				h[m++] = h[i];
+		}
+		n = m;
+	}
+	if (table == ui_bench_chain_keys && a->bench->points.n > 0) {
+		/* with the other ways of looking, before leaving */
+		size_t at = n;
+
+		while (at > 0 && h[at - 1].group > UG_LOOK)
+			at--;
+		memmove(h + at + 1, h + at, (n - at) * sizeof *h);
+		h[at] = (struct layout_hint){ "O", "point", 3, UG_LOOK };
+		n++;
+	}
 	h[n++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };
 	return n;
 }

@@ -470,8 +470,8 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 		return UI_NONE;
 	}
 	if (f[d->field].fixed) {
-		app_msg(a, 1, "the bench's name is its key in the database: c on the bench "
-		    "list copies it under a new name");
+		app_msg(a, 1, "the bench's name: N on the bench list renames the bench and "
+		    "every setup");
 		fields_free(f, n);
 		return UI_REDRAW;
 	}

@@ -278,8 +278,8 @@ new_bench(struct app *a, void *arg, const char *text, char **cause)
 	rc = create_and_open(a, b, NULL, cause);
 	model_bench_free(b);
 	if (rc == 0)
-		app_msg(a, 0, "new bench '%s', nothing recorded yet: b sets the beam (1064 nm, "
-		    "CW 1 W), p places elements, r records #1", text);
+		app_msg(a, 0, "new bench '%s': b sets the beam (1064 nm, CW 1 W); p places "
+		    "elements", text);
 	return rc;
 }
 

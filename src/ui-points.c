@@ -482,8 +482,8 @@ ui_point_cycle(struct app *a)
 	if (a->bench == NULL)
 		return;
 	if (a->bench->points.n == 0) {
-		app_msg(a, 1, "this bench has no operating points: add them with 'beamledger "
-		    "point add BENCH NAME CHANGE...'");
+		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
+		    a->name);
 		return;
 	}
 	a->point = layout_point_next(a->bench, a->point);
@@ -518,7 +518,8 @@ ui_point_worst_toggle(struct app *a)
 	if (a->bench == NULL)
 		return;
 	if (!a->worst_all && a->bench->points.n == 0) {
-		app_msg(a, 1, "this bench has no operating points: the chain is the base's");
+		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
+		    a->name);
 		return;
 	}
 	a->worst_all = !a->worst_all;

@@ -1120,6 +1120,19 @@ add_point(struct bench *b, const char *name, const char *change)
 	    cause ? cause : "?");
 }
 
+START_TEST(test_bench_key_hint_examples)
+{
+	char *t = layout_bench_key_hint("source.wavelength");
+
+	/* a wavelength's example is a wavelength, not a waist size */
+	ck_assert_str_eq(t, "with its unit, e.g. \"532 nm\"");
+	free(t);
+	t = layout_bench_key_hint("source.waist");
+	ck_assert_str_eq(t, "with its unit, e.g. \"3 mm\"");
+	free(t);
+}
+END_TEST
+
 START_TEST(test_point_cycle)
 {
 	struct bench *b = demo();
@@ -1265,6 +1278,7 @@ Suite *s = suite_create("layout");
 	tcase_add_test(tc, test_join_fit);
 	tcase_add_test(tc, test_margin_widths);
 	tcase_add_test(tc, test_point_cycle);
+	tcase_add_test(tc, test_bench_key_hint_examples);
 	tcase_add_test(tc, test_point_override);
 	tcase_add_test(tc, test_survey_find);
 	suite_add_tcase(s, tc);

@@ -63,6 +63,8 @@ check "O: the first point on the margin line" wait_line ui '^point alignment 1/2
 check "... traced at that point: the source at 20 mW" wait_line ui '^1\.064 µm 20\.0 mW pulsed'
 check "... with the element the point puts in" wait_line ui '^.ND2 '
 check "... the values' line says they are the point's" wait_for ui "point alignment overrides"
+check "... the key line offers no layout key there, and the point key" \
+	sh -c 't_screen() { "${TMUX_BIN:-tmux}" -L "$1" capture-pane -p -t ui; }; t_screen "$1" | tail -1 | grep -v "p›place" | grep -q "O›point"' _ "$T_SOCK"
 t_keys ui p
 check "the layout is refused while a point is shown" \
 	wait_for ui "point alignment is shown: the layout is the base's"

@@ -117,6 +117,7 @@ for _p in 1 2 3 4 5 6 7 8 9 10 11 12 13 14; do
 done
 check "help ends with the laser-safety cautions" grep -q "Align at reduced power" "$T_DIR/help.txt"
 check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.txt"
+check "help tells how operating points are shown and edited" grep -q "a value typed is then that point's override" "$T_DIR/help.txt"
 check "help names the record's keys" grep -q "record the draft as a new numbered setup" "$T_DIR/help.txt"
 check "help has no retired verb (7)" sh -c '! grep -wiE "commit|diff|clone|restore|revision|show|log" "$1"' _ "$T_DIR/help.txt"
 check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/help.txt"
@@ -148,6 +149,9 @@ check "a CW bench shows its irradiance, the quantity CW ratings use (9.12)" \
 	wait_line ui '^ element .* irradiance +to LIDT'
 check "no fluence column on a CW bench" no_line ui '^ element .*fluence'
 check "empty bench says how to start" wait_for ui "p places the"
+check "... whole at 80 columns" wait_line ui '^  A space, then optics, then a dump, detector or target; b: the beam\.$'
+check "the new bench's message is whole at 80 columns" \
+	wait_line ui "^new bench 'focus-test': b sets the beam \\(1064 nm, CW 1 W\\); p places elements$"
 check "place a space: asks its length, with its unit" place s "placed space S1" "500 mm"
 t_keys ui p
 wait_for ui "place " >/dev/null
