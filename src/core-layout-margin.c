@@ -465,7 +465,11 @@ layout_point_override(struct bench *b, const char *name, const char *id, const c
 
 	if (pt == NULL)
 		return fail_with(cause, "bench '%s' has no point '%s'", b->name, name);
-	prefix = xasprintf("%s.%s=", id != NULL ? id : "source", key);
+	/* of the bench's settings a point changes only the source's */
+	if (id == NULL && strncmp(key, "source.", 7) != 0)
+		return fail_with(cause, "%s is the bench's, not point %s's: the base changes it",
+		    key, name);
+	prefix = id != NULL ? xasprintf("%s.%s=", id, key) : xasprintf("%s=", key);
 	text = xasprintf("%s%s", prefix, value);
 	plen = strlen(prefix);
 	for (i = 0; i < pt->n; i++)

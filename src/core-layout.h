@@ -260,8 +260,9 @@ long   layout_point_next(const struct bench *, long cur);
 /* What the margin line says is shown: "point alignment 1/2", or
  * "base (O: 2 points)"; NULL when the bench has no points.  Caller frees. */
 char  *layout_point_words(const struct bench *, long cur);
-/* Sets one override of point `name` to "ID.KEY=VALUE" (id NULL:
- * "source.KEY=VALUE"): the point's change of the same ID.KEY is replaced
+/* Sets one override of point `name` to "ID.KEY=VALUE" (id NULL: key is a
+ * bench-level key, and only the source's, "source.KEY", are a point's;
+ * "safety_factor" is refused): the point's change of the same key is replaced
  * where it stands, else the change is added at its end.  The base's values
  * are untouched.  Refused, with the point as it was, when the change is
  * malformed or the point no longer applies. */

@@ -546,8 +546,9 @@ apply_edit(struct app *a, struct wb *d)
 			d->editing = 0;
 			free(d->error);
 			d->error = NULL;
-			app_msg(a, 0, "point %s: %s.%s = %s, its override; the base keeps its own "
-			    "(- undoes)", pt, s.bench ? "source" : id, s.key, text[0] ? text : "(unset)");
+			app_msg(a, 0, "point %s: %s%s%s = %s, its override; the base keeps its own "
+			    "(- undoes)", pt, s.bench ? "" : id, s.bench ? "" : ".", s.key,
+			    text[0] ? text : "(unset)");
 		}
 		fields_free(f, n);
 		free(id);

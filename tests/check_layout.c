@@ -1176,7 +1176,8 @@ START_TEST(test_point_override)
 
 	add_point(b, "half", "source.power=1 W");
 	/* the same key again: replaced where it stands, not added */
-	ck_assert_int_eq(layout_point_override(b, "half", NULL, "power", "500 mW", &cause), 0);
+	ck_assert_int_eq(layout_point_override(b, "half", NULL, "source.power", "500 mW", &cause),
+	    0);
 	pt = point_list_find(&b->points, "half");
 	ck_assert_uint_eq(pt->n, 1);
 	ck_assert_str_eq(pt->change[0], "source.power=500 mW");
@@ -1196,6 +1197,11 @@ START_TEST(test_point_override)
 	free(cause);
 	cause = NULL;
 	ck_assert_int_eq(layout_point_override(b, "half", "NOPE", "length", "1 mm", &cause), -1);
+	free(cause);
+	cause = NULL;
+	/* the safety factor is the bench's, never a point's */
+	ck_assert_int_eq(layout_point_override(b, "half", NULL, "safety_factor", "3", &cause), -1);
+	ck_assert(strstr(cause, "safety_factor") != NULL);
 	free(cause);
 	cause = NULL;
 	pt = point_list_find(&b->points, "half");

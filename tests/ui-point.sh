@@ -79,6 +79,24 @@ check "a value typed at a point is its override" \
 t_keys ui Escape
 check "... stored in the point" sh -c '"$1" --db "$2" point show '$B' alignment | grep -q "^  S0.length=250 mm$"' _ "$BL" "$DB"
 check "... and not in the base" sh -c '"$1" --db "$2" export '$B' | grep -qF "\"id\": \"S0\", \"type\": \"space\", \"length\": \"300 mm\""' _ "$BL" "$DB"
+# the source at a point: b, then its power, replaces the point's own change
+t_keys ui b
+wait_for ui "the beam and bench settings" >/dev/null
+t_keys ui Down Enter C-u
+t_keys ui -l "50 mW"
+t_keys ui Enter
+check "the source's power typed at a point is its override" \
+	wait_for ui "point alignment: source.power = 50 mW, its override"
+check "... replacing the point's change of it" sh -c '"$1" --db "$2" point show '$B' alignment | grep -c "^  source.power=" | grep -qx 1 && "$1" --db "$2" point show '$B' alignment | grep -q "^  source.power=50 mW$"' _ "$BL" "$DB"
+t_keys ui Up Up Up Enter C-u
+t_keys ui -l "3"
+t_keys ui Enter
+check "the safety factor is refused at a point, with the reason" \
+	wait_for ui "safety_factor is the bench's, not point alignment's"
+t_keys ui Escape Escape
+t_keys ui -
+check "- undoes the override" wait_for ui "undone"
+check "... the point's power is 20 mW again" sh -c '"$1" --db "$2" point show '$B' alignment | grep -q "^  source.power=20 mW$"' _ "$BL" "$DB"
 t_keys ui O
 check "O: the next point" wait_line ui '^point full 2/2 │ (worst: )?W1 328 % OVER'
 t_keys ui O
