@@ -2,7 +2,9 @@
  * a whole, decided without curses: the list of hazards (every trace warning,
  * whatever its kind, plus the rows over or at caution and the unrated
  * optics that take power), the margin line, the header's beam summary, the
- * standing caution line and the one-line derivation of a damage limit.
+ * standing caution line, the one-line derivation of a damage limit, and
+ * the operating point shown (its words, the next one, an override typed
+ * while it is shown).
  * Split from core-layout.c; see core-layout.h.  Owned by the workbench. */
 #include <config.h>
 
@@ -12,6 +14,7 @@
 #include <string.h>
 
 #include "core-layout.h"
+#include "core-point.h"
 #include "util-err.h"
 
 /* ---- hazards ---- */
@@ -429,4 +432,81 @@ layout_derivation_text(const struct trace_row *r, const struct bench *b, int asc
 		buf_printf(&out, " %s %.3g %s", x, d.tau_factor, ascii ? "tau" : "\u03c4");
 	buf_printf(&out, " = %s limit; %s %g = %s caution", lim, dv, d.safety_factor, caut);
 	return buf_take(&out);
+}
+
+/* ---- operating points on the frame and in the chain ---- */
+
+long
+layout_point_next(const struct bench *b, long cur)
+{
+	if (b->points.n == 0 || cur + 1 >= (long)b->points.n)
+		return -1;
+	return cur < 0 ? 0 : cur + 1;
+}
+
+char *
+layout_point_words(const struct bench *b, long cur)
+{
+	if (b->points.n == 0)
+		return NULL;
+	if (cur < 0 || cur >= (long)b->points.n)
+		return xasprintf("base (O: %zu point%s)", b->points.n, b->points.n == 1 ? "" : "s");
+	return xasprintf("point %s %ld/%zu", b->points.p[cur].name, cur + 1, b->points.n);
+}
+
+int
+layout_point_override(struct bench *b, const char *name, const char *id, const char *key,
+    const char *value, char **cause)
+{
+	struct point *pt = point_list_find(&b->points, name);
+	char *text, *prefix, *old = NULL;
+	struct bench *applied;
+	size_t i, plen;
+
+	if (pt == NULL)
+		return fail_with(cause, "bench '%s' has no point '%s'", b->name, name);
+	/* of the bench's settings a point changes only the source's */
+	if (id == NULL && strncmp(key, "source.", 7) != 0)
+		return fail_with(cause, "%s is the bench's, not point %s's: the base changes it",
+		    key, name);
+	prefix = id != NULL ? xasprintf("%s.%s=", id, key) : xasprintf("%s=", key);
+	text = xasprintf("%s%s", prefix, value);
+	plen = strlen(prefix);
+	for (i = 0; i < pt->n; i++)
+		if (strncmp(pt->change[i], prefix, plen) == 0)
+			break;
+	free(prefix);
+	if (point_change_check(text, cause) != 0) {
+		free(text);
+		return -1;
+	}
+	if (i < pt->n) {
+		old = pt->change[i];
+		pt->change[i] = text;
+	} else {
+		point_add_change(pt, text);
+		free(text);
+	}
+	if ((applied = point_apply(b, pt, cause)) == NULL) {
+		pt = point_list_find(&b->points, name);
+		if (old != NULL) {
+			free(pt->change[i]);
+			pt->change[i] = old;
+		} else {
+			free(pt->change[--pt->n]);
+		}
+		return -1;
+	}
+	model_bench_free(applied);
+	free(old);
+	return 0;
+}
+
+long
+layout_survey_find(const struct point_survey *sv, const char *id)
+{
+	for (size_t j = 0; j < sv->nel; j++)
+		if (strcmp(sv->el[j].id, id) == 0)
+			return (long)j;
+	return -1;
 }

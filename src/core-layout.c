@@ -646,11 +646,13 @@ layout_bench_key_hint(const char *key)
 	for (size_t i = 0; i < NBENCH_KEYS; i++)
 		if (strcmp(bench_keys[i].key, key) == 0 && bench_keys[i].dim != DIM_COUNT) {
 			static const struct { enum unit_dim d; const char *ex; } ex[] = {
-				{ DIM_LENGTH, "532 nm, 3 mm" }, { DIM_POWER, "5 W" },
+				{ DIM_LENGTH, "3 mm" }, { DIM_POWER, "5 W" },
 				{ DIM_ENERGY, "200 mJ" }, { DIM_FREQUENCY, "10 Hz" },
 				{ DIM_TIME, "8 ns" }, { DIM_IRRADIANCE, "10 GW/cm^2" },
 			};
 
+			if (strcmp(key, "source.wavelength") == 0)
+				return xstrdup("with its unit, e.g. \"532 nm\"");
 			for (size_t k = 0; k < sizeof ex / sizeof *ex; k++)
 				if (ex[k].d == bench_keys[i].dim)
 					return xasprintf("with its unit, e.g. \"%s\"", ex[k].ex);

@@ -252,6 +252,26 @@ int    layout_derive(const struct trace_row *, const struct bench *, struct layo
  * caution"; NULL when unrated.  Caller frees. */
 char  *layout_derivation_text(const struct trace_row *, const struct bench *, int ascii);
 
+/* ---- operating points (core-layout-margin.c) ---- */
+
+/* The point after `cur` in the cycle base, first point, ..., last, base:
+ * -1 is the base, else an index into b->points. */
+long   layout_point_next(const struct bench *, long cur);
+/* What the margin line says is shown: "point alignment 1/2", or
+ * "base (O: 2 points)"; NULL when the bench has no points.  Caller frees. */
+char  *layout_point_words(const struct bench *, long cur);
+/* Sets one override of point `name` to "ID.KEY=VALUE" (id NULL: key is a
+ * bench-level key, and only the source's, "source.KEY", are a point's;
+ * "safety_factor" is refused): the point's change of the same key is replaced
+ * where it stands, else the change is added at its end.  The base's values
+ * are untouched.  Refused, with the point as it was, when the change is
+ * malformed or the point no longer applies. */
+int    layout_point_override(struct bench *, const char *name, const char *id,
+           const char *key, const char *value, char **cause);
+/* The entry of element id in a survey of every point; -1: none. */
+struct point_survey;
+long   layout_survey_find(const struct point_survey *, const char *id);
+
 /* ---- the beam profile ---- */
 
 /* Trace row indices along the path of row `sel`: from the source down the

@@ -139,6 +139,47 @@ app_select_id(struct app *a, const char *id, int port)
 /* Retraces and reselects the row of element `id` (a port row when port).
  * The id is a copy taken before any edit: the old rows point into the
  * bench as it was, which an edit may have freed. */
+/* The bench on screen: the draft, or a copy with the shown point applied
+ * (back to the base, said, when the point is gone or no longer applies). */
+static void
+set_shown(struct app *a)
+{
+	if (a->shown_owned)
+		model_bench_free(a->shown);
+	a->shown = a->bench;
+	a->shown_owned = 0;
+	if (a->have_survey) {
+		point_survey_release(&a->survey);
+		a->have_survey = 0;
+	}
+	if (a->bench == NULL)
+		return;
+	if (a->point >= (long)a->bench->points.n) {
+		app_msg(a, 1, "that operating point is gone: the base is shown");
+		a->point = -1;
+	}
+	if (a->point >= 0) {
+		char *cause = NULL;
+		struct bench *b = point_apply(a->bench, &a->bench->points.p[a->point], &cause);
+
+		if (b == NULL) {
+			app_msg(a, 1, "%s: the base is shown", cause != NULL ? cause : "point");
+			free(cause);
+			a->point = -1;
+		} else {
+			a->shown = b;
+			a->shown_owned = 1;
+		}
+	}
+}
+
+const char *
+app_point_name(const struct app *a)
+{
+	return a->bench != NULL && a->point >= 0 && a->point < (long)a->bench->points.n ?
+	    a->bench->points.p[a->point].name : NULL;
+}
+
 static void
 retrace_select(struct app *a, const char *id, int port, int old)
 {
@@ -146,8 +187,9 @@ retrace_select(struct app *a, const char *id, int port, int old)
 
 	trace_free(a->trace);
 	free(a->rows);
-	a->trace = trace_run(a->bench);
-	a->nrows = layout_chain(a->bench, a->trace, &a->rows);
+	set_shown(a);
+	a->trace = trace_run(a->shown);
+	a->nrows = layout_chain(a->shown, a->trace, &a->rows);
 	if (trace_check(a->trace, &cause) != 0)
 		app_msg_take(a, 1, cause);
 	a->sel = old;
@@ -190,11 +232,12 @@ app_setup_name(int no, char *buf, size_t n)
 	snprintf(buf, n, "#%d", no);
 }
 
-/* The one place that spells a setup the way the store takes it. */
+/* The one place that spells a setup the way the store takes it: its
+ * number alone ("2"; the store reads 2, #2, a name or draft). */
 void
 app_setup_ref(int no, char *buf, size_t n)
 {
-	snprintf(buf, n, "r%d", no);
+	snprintf(buf, n, "%d", no);
 }
 
 void
@@ -384,6 +427,15 @@ app_close_bench(struct app *a)
 	if (a->bench != NULL && a->unsaved != NULL)
 		app_save(a);
 	free(a->name);
+	if (a->shown_owned)
+		model_bench_free(a->shown);
+	a->shown = NULL;
+	a->shown_owned = 0;
+	a->point = -1;
+	a->worst_all = 0;
+	if (a->have_survey)
+		point_survey_release(&a->survey);
+	a->have_survey = 0;
 	model_bench_free(a->bench);
 	trace_free(a->trace);
 	free(a->rows);
@@ -429,6 +481,9 @@ app_edit(struct app *a, app_edit_fn fn, void *arg, char **cause)
 		return fail_with(cause, "no bench is open");
 	if (a->readonly)
 		return fail_with(cause, "view only: the database is read-only, nothing can be changed");
+	if (app_point_name(a) != NULL && !a->point_edit)
+		return fail_with(cause, "point %s is shown: the layout is the base's; O until the "
+		    "base is shown, then change it", app_point_name(a));
 	snap = model_bench_dup(a->bench);
 	id = sel_id(a, &port);          /* before fn frees what the rows point at */
 	if (fn(a->bench, arg, cause) != 0) {
@@ -690,6 +745,8 @@ ui_app_new(const struct ui_opts *o, char **cause)
 {
 	struct app *a = xcalloc(1, sizeof *a);
 	char *path = o->db_path != NULL ? xstrdup(o->db_path) : store_default_path();
+
+	a->point = -1;
 
 	a->author = xstrdup(o->author != NULL && o->author[0] != '\0' ? o->author : "unknown");
 	{

@@ -15,6 +15,7 @@
 
 #include "core-layout.h"
 #include "core-model.h"
+#include "core-point.h"
 #include "core-trace.h"
 #include "store.h"
 #include "ui.h"
@@ -54,7 +55,10 @@ struct ui_pane;
 
 typedef enum ui_reaction (*ui_action)(struct app *, struct ui_pane *);
 
-enum { UI_K_EDITS = 1 << 0 };   /* changes the database: refused when view-only */
+enum {
+	UI_K_EDITS  = 1 << 0,       /* changes the database: refused when view-only */
+	UI_K_LAYOUT = 1 << 1        /* changes the base's layout: refused while a point is shown */
+};
 
 /* The tasks keys are grouped by, on the key line and in the help. */
 enum ui_group { UG_MOVE, UG_BENCHES, UG_LAYOUT, UG_VALUES, UG_RECORD, UG_LOOK, UG_LEAVE,
@@ -140,6 +144,17 @@ struct app {
 	char              *demo_name;   /* owned: the demo bench's name */
 	int                demo_told;   /* "invented data" said once */
 	int                pane_seq;    /* bumped when the top pane changes */
+	/* the operating point on screen: -1 the base, else an index into
+	 * bench->points; `shown` is the bench traced and drawn (the draft
+	 * itself, or a copy with the point applied, owned then) */
+	long               point;
+	struct bench      *shown;
+	int                shown_owned;
+	int                point_edit;  /* app_edit may change the draft under a point */
+	/* the chain shows each element's worst over the base and every point */
+	int                worst_all;
+	struct point_survey survey;     /* owned when have_survey */
+	int                have_survey;
 };
 
 /* ---- ui-app.c: life cycle, frame, edits ---- */
@@ -155,6 +170,8 @@ void  app_close_bench(struct app *);
  * (the bench untouched) when fn or the view-only mode refuses. */
 typedef int (*app_edit_fn)(struct bench *, void *arg, char **cause);
 int   app_edit(struct app *, app_edit_fn, void *arg, char **cause);
+/* The point on screen by name; NULL: the base. */
+const char *app_point_name(const struct app *);
 int   app_undo(struct app *);
 int   app_redo(struct app *);
 /* Replaces the draft with a bench just loaded (restore); undo brings the
@@ -249,6 +266,15 @@ void  ui_help_push(struct app *);               /* ui-help.c */
 void  ui_record_prompt(struct app *);           /* ui-history.c */
 void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
 void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
+/* ui-points.c: the next operating point on the chain (base first); the
+ * chain's worst over every point on or off; a value typed while a point is
+ * shown, stored as that point's override (id NULL: a source key). */
+void  ui_point_cycle(struct app *);
+void  ui_point_worst_toggle(struct app *);
+int   ui_point_override(struct app *, const char *id, const char *key, const char *text,
+          char **cause);
+/* The survey behind the worst-of-all-points chain, NULL when off. */
+const struct point_survey *app_survey(struct app *);
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
     ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops;

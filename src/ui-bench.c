@@ -49,7 +49,7 @@ enum wb_col { C_ELEM, C_TYPE, C_Z, C_POWER, C_RADIUS, C_PEAK, C_FLUENCE, C_BAR,
 static void
 chain_cols(const struct app *a, struct layout_col *c)
 {
-	int pulsed = a->bench->src.pulsed, linear = 0;
+	int pulsed = a->shown->src.pulsed, linear = 0;
 
 	for (size_t i = 0; i < a->trace->nrows; i++)
 		if (!isnan(a->trace->rows[i].limits.cw_linear))
@@ -67,6 +67,11 @@ chain_cols(const struct app *a, struct layout_col *c)
 	c[C_RATIO] = (struct layout_col){ "ratio", 7, 7, 0 };
 	c[C_STATUS] = (struct layout_col){ "status", 7, 7, 0 };
 	c[C_FLAGS] = (struct layout_col){ "flags", 6, -1, 5 };
+	/* each element's worst over every point: where it is takes the type's place */
+	if (a->worst_all) {
+		c[C_TYPE] = (struct layout_col){ "worst at", 9, 12, 0 };
+		c[C_BAR] = (struct layout_col){ "all points", 10, 14, 1 };
+	}
 }
 
 static void
@@ -92,7 +97,7 @@ cell_text(struct app *a, const struct trace_row *r, enum wb_col c, char *buf, si
 		units_format(buf, n, r->peak_irradiance, DIM_IRRADIANCE, 3, asc);
 		break;
 	case C_FLUENCE:
-		if (a->bench->src.pulsed)
+		if (a->shown->src.pulsed)
 			units_format(buf, n, r->fluence, DIM_FLUENCE, 3, asc);
 		else
 			units_format(buf, n, r->linear_density, DIM_LINEAR, 3, asc);
@@ -116,7 +121,8 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 {
 	struct layout_col cols[C_NCOLS];
 	int cw[C_NCOLS], x;
-	double caution = 1 / a->bench->safety_factor;
+	double caution = 1 / a->shown->safety_factor;
+	const struct point_survey *sv = app_survey(a);
 
 	chain_cols(a, cols);
 	/* column w-1 is kept for the scroll arrows (a blank before them), column
@@ -135,8 +141,8 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	if (a->nrows == 0) {
 		ui_put(a, g->chain_y + 1, 2, w - 4, "The bench has no elements yet: p places the "
 		    "first one.", UC_NORMAL);
-		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, and a dump, detector or "
-		    "target at the end; b sets the beam.", UC_NORMAL);
+		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, then a dump, detector "
+		    "or target; b: the beam.", UC_NORMAL);
 		return;
 	}
 	for (int i = 0; i < g->chain_h && a->scroll + i < (int)a->nrows; i++) {
@@ -147,6 +153,8 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		char buf[256], name[200];
 		int moving = d->moving != NULL && row->kind == LROW_ELEMENT &&
 		    strcmp(row->el->id, d->moving) == 0;
+		long sj = sv != NULL && row->kind == LROW_ELEMENT ?
+		    layout_survey_find(sv, row->el->id) : -1;
 
 		int hazard = row->trace_row >= 0 && layout_row_hazard(a->trace, (size_t)row->trace_row);
 
@@ -179,11 +187,32 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				x += cw[c] + 1;
 				continue;
 			}
-			if (row->trace_row < 0) {
-				x += cw[c] + 1;
+			if (row->trace_row < 0 || (c == C_TYPE && sv != NULL &&
+			    (sj < 0 || isnan(sv->el[sj].ratio)))) {
+				x += cw[c] + 1;     /* nothing rated anywhere: no "worst at" */
 				continue;
 			}
 			tr = &a->trace->rows[row->trace_row];
+			if (sj >= 0 && !isnan(sv->el[sj].ratio) && (c == C_BAR || c == C_RATIO ||
+			    c == C_STATUS || c == C_TYPE)) {
+				const struct point_worst *pw = &sv->el[sj];
+
+				st = ui_status_attr(a, pw->status);
+				if (c == C_BAR)
+					layout_bar(buf, sizeof buf, pw->ratio, caution, cw[c], a->ascii);
+				else if (c == C_RATIO)
+					layout_percent(buf, sizeof buf, pw->ratio);
+				else if (c == C_STATUS)
+					snprintf(buf, sizeof buf, "%s", layout_status_word(pw->status));
+				else
+					snprintf(buf, sizeof buf, "%s", sv->pt[pw->at].name);
+				if (c == C_RATIO)
+					ui_put_right(a, y, x, cw[c], buf, at | st);
+				else
+					ui_put_attr(a, y, x, cw[c], buf, c == C_TYPE ? at : at | st);
+				x += cw[c] + 1;
+				continue;
+			}
 			/* a hazard is never dimmed as "unrated" */
 			st = hazard && tr->status == STATUS_UNRATED ?
 			    ui_attr(a, (tr->flags & TF_AIR_BREAKDOWN) ? UC_OVER : UC_HAZARD) :
@@ -214,8 +243,9 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 void
 wb_draw_status(struct app *a, int y, int w)
 {
-	char tail[64], *s;
+	char tail[64], *s, *pw;
 	const char *cut;
+	int ox = 0;
 	enum damage_status worst = a->trace->worst >= 0 ?
 	    a->trace->rows[a->trace->worst].status : STATUS_UNRATED;
 	const char *bar = a->ascii ? " |" : " \u2502";
@@ -233,10 +263,23 @@ wb_draw_status(struct app *a, int y, int w)
 	} else {
 		tail[0] = '\0';        /* nothing saved here yet */
 	}
-	s = layout_margin_line(a->trace, a->ascii, w, tail);
 	move(y, 0);
 	clrtoeol();
-	ui_put(a, y, 0, w, s, UC_NORMAL);
+	/* which operating point is shown comes first, when the bench has any */
+	pw = layout_point_words(a->bench, a->point);
+	if (pw != NULL) {
+		char *t = xasprintf("%s%s ", pw, bar);
+		int tw = (int)utf8_cols(t);
+
+		ui_put_attr(a, y, 0, tw < w ? tw : w, t, ui_attr(a, app_point_name(a) != NULL ?
+		    UC_KEY : UC_DIM) | (app_point_name(a) != NULL ? A_BOLD | A_REVERSE : 0));
+		ox = tw < w ? tw : w;
+		free(t);
+		free(pw);
+	}
+	w -= ox;
+	s = layout_margin_line(a->trace, a->ascii, w, tail);
+	ui_put(a, y, ox, w, s, UC_NORMAL);
 	/* the worst part in its status, the hazards part marked */
 	cut = strstr(s, bar);
 	if (cut != NULL) {
@@ -244,7 +287,7 @@ wb_draw_status(struct app *a, int y, int w)
 		int hw = (int)utf8_cols(head);
 		const char *st, *end;
 
-		ui_put_attr(a, y, 0, hw < w ? hw : w, head, ui_status_attr(a, worst) | A_BOLD);
+		ui_put_attr(a, y, ox, hw < w ? hw : w, head, ui_status_attr(a, worst) | A_BOLD);
 		free(head);
 		st = strstr(cut + strlen(bar), bar);
 		if (st != NULL) {
@@ -255,10 +298,10 @@ wb_draw_status(struct app *a, int y, int w)
 			if (strstr(st, "no hazards") != st + strspn(st, " ")) {
 				char *pre = xasprintf("%.*s", (int)(st - s), s);
 				char *part = xasprintf("%.*s", (int)(end - st), st);
-				int px = (int)utf8_cols(pre), pw = (int)utf8_cols(part);
+				int px = (int)utf8_cols(pre), pwd = (int)utf8_cols(part);
 
 				if (px < w)
-					ui_put_attr(a, y, px, px + pw < w ? pw : w - px, part,
+					ui_put_attr(a, y, ox + px, px + pwd < w ? pwd : w - px, part,
 					    ui_attr(a, UC_HAZARD) | A_BOLD);
 				free(pre);
 				free(part);
@@ -275,11 +318,16 @@ draw_wb(struct app *a, struct ui_pane *p, int h, int w)
 	struct wb_geom g;
 	char state[96], *where;
 	struct layout_hint hints[40];
-	size_t nh, n = model_count(&a->bench->path);
+	size_t nh, n = model_count(&a->shown->path);
 
 	wb_geometry(h, a->nrows, &g);
 	app_draft_words(a, state, sizeof state);
-	where = xasprintf("%zu element%s", n, n == 1 ? "" : "s");
+	if (app_survey(a) != NULL)
+		where = xasprintf("%zu element%s %s worst over base + %zu point%s", n,
+		    n == 1 ? "" : "s", ui_glyph(a, GL_DOT), a->bench->points.n,
+		    a->bench->points.n == 1 ? "" : "s");
+	else
+		where = xasprintf("%zu element%s", n, n == 1 ? "" : "s");
 	ui_frame(a, state, where, h, w);
 	free(where);
 	draw_chain(a, d, &g, w);
@@ -663,6 +711,22 @@ k_sweep(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
+static enum ui_reaction
+k_point_next(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_point_cycle(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+k_point_worst(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_point_worst_toggle(a);
+	return UI_REDRAW;
+}
+
 const struct ui_key ui_bench_chain_keys[] = {
 	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", NULL, 0, "select an element (the mouse too)", k_up, 0, UG_MOVE },
 	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, k_down, 0, UG_MOVE },
@@ -672,13 +736,13 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { UI_FKEY(KEY_END) }, "End", NULL, 0, "the last element", k_end, 0, UG_MOVE },
 	{ { 'w' }, "w", NULL, 0, "the worst element", k_worst, 0, UG_MOVE },
 	{ { 'n' }, "n", NULL, 0, "the next element with a hazard", k_next_problem, 0, UG_MOVE },
-	{ { 'p', UI_FKEY(KEY_IC) }, "p", "place", 1, "place an element after the selection (on a port row: into that branch; also Insert)", wb_k_place, UI_K_EDITS, UG_LAYOUT },
-	{ { 'P' }, "P", NULL, 0, "place an element before the selection", wb_k_place_before, UI_K_EDITS, UG_LAYOUT },
-	{ { 'l', UI_FKEY(KEY_DC) }, "l", "lift", 2, "lift the selected element off the bench, with its side branch (also Delete)", k_delete, UI_K_EDITS, UG_LAYOUT },
-	{ { 's' }, "s", "shift", 4, "shift the selection: choose a row, then Enter", k_move, UI_K_EDITS, UG_LAYOUT },
-	{ { '<', UI_FKEY(KEY_SR) }, "<", NULL, 0, "shift the selection one place up its branch (also Shift-Up)", k_nudge_up, UI_K_EDITS, UG_LAYOUT },
-	{ { '>', UI_FKEY(KEY_SF) }, ">", NULL, 0, "shift the selection one place down its branch (also Shift-Down)", k_nudge_down, UI_K_EDITS, UG_LAYOUT },
-	{ { 'd' }, "d", "duplicate", 5, "duplicate the selected element with a new id, right after it", wb_k_duplicate, UI_K_EDITS, UG_LAYOUT },
+	{ { 'p', UI_FKEY(KEY_IC) }, "p", "place", 1, "place an element after the selection (on a port row: into that branch; also Insert)", wb_k_place, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { 'P' }, "P", NULL, 0, "place an element before the selection", wb_k_place_before, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { 'l', UI_FKEY(KEY_DC) }, "l", "lift", 2, "lift the selected element off the bench, with its side branch (also Delete)", k_delete, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { 's' }, "s", "shift", 4, "shift the selection: choose a row, then Enter", k_move, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { '<', UI_FKEY(KEY_SR) }, "<", NULL, 0, "shift the selection one place up its branch (also Shift-Up)", k_nudge_up, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { '>', UI_FKEY(KEY_SF) }, ">", NULL, 0, "shift the selection one place down its branch (also Shift-Down)", k_nudge_down, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { 'd' }, "d", "duplicate", 5, "duplicate the selected element with a new id, right after it", wb_k_duplicate, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
 	{ { '-' }, "-", "undo", 2, "undo the last change to the draft", k_undo, UI_K_EDITS, UG_LAYOUT },
 	{ { '+', '=' }, "+", NULL, 0, "redo a change undone (also =)", k_redo, UI_K_EDITS, UG_LAYOUT },
 	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "edit", 0,
@@ -692,6 +756,8 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
 	{ { 'o' }, "o", NULL, 0, "every operating point side by side: each element's ratio at each", k_points, 0, UG_LOOK },
 	{ { 'v' }, "v", NULL, 0, "sweep a value of the selected element (or the source) over a range", k_sweep, 0, UG_LOOK },
+	{ { 'O' }, "O", NULL, 0, "the next operating point on the chain, the base first (values typed then are its overrides)", k_point_next, 0, UG_LOOK },
+	{ { 'W' }, "W", NULL, 0, "the chain's ratio and status as each element's worst over every point, and where (again: back)", k_point_worst, 0, UG_LOOK },
 	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };
@@ -720,6 +786,11 @@ wb_key(struct app *a, struct ui_pane *p, int key)
 		if (ui_key_match(k, key)) {
 			if ((k->flags & UI_K_EDITS) && app_refuse_readonly(a))
 				return UI_REDRAW;
+			if ((k->flags & UI_K_LAYOUT) && app_point_name(a) != NULL) {
+				app_msg(a, 1, "point %s is shown: the layout is the base's; O until "
+				    "the base is shown, then change it", app_point_name(a));
+				return UI_REDRAW;
+			}
 			return k->fn(a, p);
 		}
 	if (d->focus == WB_FIELDS && d->moving == NULL)
@@ -788,7 +859,33 @@ wb_hints(struct app *a, struct wb *d, struct layout_hint *h, size_t max)
 		memcpy(h, edit_hints, n * sizeof *h);
 		return n;
 	}
-	n = ui_table_hints(table, h, max - 1);
+	n = ui_table_hints(table, h, max - 2);
+	if (table == ui_bench_chain_keys && app_point_name(a) != NULL) {
+		/* a point shown: the layout keys are refused, so not offered */
+		size_t m = 0;
+
+		for (size_t i = 0; i < n; i++) {
+			int layout = 0;
+
+			for (const struct ui_key *k = table; k->fn != NULL; k++)
+				if ((k->flags & UI_K_LAYOUT) && k->hint != NULL &&
+				    strcmp(k->label, h[i].key) == 0)
+					layout = 1;
+			if (!layout)
+				h[m++] = h[i];
+		}
+		n = m;
+	}
+	if (table == ui_bench_chain_keys && a->bench->points.n > 0) {
+		/* with the other ways of looking, before leaving */
+		size_t at = n;
+
+		while (at > 0 && h[at - 1].group > UG_LOOK)
+			at--;
+		memmove(h + at + 1, h + at, (n - at) * sizeof *h);
+		h[at] = (struct layout_hint){ "O", "point", 3, UG_LOOK };
+		n++;
+	}
 	h[n++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };
 	return n;
 }

@@ -458,19 +458,19 @@ ui_frame(struct app *a, const char *where, const char *more, int h, int w)
 		char wl[48], pw[48];
 		const char *parts[4];
 		int prio[4] = { 0, 0, 0, 1 };
-		char *full = layout_beam_summary(a->bench, a->ascii);
+		char *full = layout_beam_summary(a->shown, a->ascii);
 
 		/* the beam first: its full form where there is room */
 		{
-			char *t = layout_quantity_text(a->bench->src.wavelength, DIM_LENGTH);
+			char *t = layout_quantity_text(a->shown->src.wavelength, DIM_LENGTH);
 			char *u = a->ascii ? layout_ascii(t) : xstrdup(t);
 
 			snprintf(wl, sizeof wl, "%s", u);
 			free(t);
 			free(u);
 		}
-		units_format(pw, sizeof pw, a->bench->src.power, DIM_POWER, 3, a->ascii);
-		beam = xasprintf("%s %s%s", wl, pw, a->bench->src.pulsed ? " pulsed" : " CW");
+		units_format(pw, sizeof pw, a->shown->src.power, DIM_POWER, 3, a->ascii);
+		beam = xasprintf("%s %s%s", wl, pw, a->shown->src.pulsed ? " pulsed" : " CW");
 		parts[0] = full;
 		parts[1] = a->name;
 		parts[2] = where;
@@ -508,7 +508,7 @@ ui_frame(struct app *a, const char *where, const char *more, int h, int w)
 	free(line);
 	free(beam);
 	if (a->bench != NULL) {
-		caution = layout_caution_line(a->bench, a->ascii, w - 3);
+		caution = layout_caution_line(a->shown, a->ascii, w - 3);
 	} else {
 		caution = xstrdup("design estimates, not a safety assessment: the laser "
 		    "safety officer decides");

@@ -46,7 +46,7 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 			out[n].help = layout_bench_key_help(*k);
 			out[n].label = layout_bench_key_label(*k, &out[n].group);
 			out[n].key = -1;
-			out[n].value = layout_bench_value_text(a->bench, *k);
+			out[n].value = layout_bench_value_text(a->shown, *k);
 			out[n].given = out[n].value[0] != '\0';
 			out[n].fixed = strcmp(*k, "name") == 0;
 		}
@@ -162,6 +162,14 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		title = xasprintf("%s %s%s%s%s", model_type_name(r->el->type), r->el->id,
 		    r->el->label != NULL ? " \"" : "", r->el->label != NULL ? r->el->label : "",
 		    r->el->label != NULL ? "\"" : "");
+	if (app_point_name(a) != NULL) {
+		/* values typed now go to the point shown: said before the rest */
+		char *t = xasprintf("point %s overrides %s %s", app_point_name(a),
+		    ui_glyph(a, GL_HEAD), title);
+
+		free(title);
+		title = t;
+	}
 	ui_fill(a, g->sep_y, 0, w, ui_attr(a, UC_HEADER));
 	for (int i = 0; i < w; i++)
 		mvaddstr(g->sep_y, i, ui_glyph(a, GL_HBAR));
@@ -374,10 +382,10 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 	if (n < h) {
 		char bar[128], pct[32];
 
-		layout_bar(bar, sizeof bar, r->ratio, 1 / a->bench->safety_factor, 12, a->ascii);
+		layout_bar(bar, sizeof bar, r->ratio, 1 / a->shown->safety_factor, 12, a->ascii);
 		layout_percent(pct, sizeof pct, r->ratio);
 		if (isnan(r->ratio)) {
-			char *hint = layout_rating_hint(r->el->type, a->bench->src.pulsed);
+			char *hint = layout_rating_hint(r->el->type, a->shown->src.pulsed);
 
 			snprintf(line, sizeof line, "%s", hint);
 			free(hint);
@@ -391,7 +399,7 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 	}
 	if (n < h) {
 		/* why the limit is what it is, wrapped over as many lines as it needs */
-		char *why = layout_derivation_text(r, a->bench, a->ascii);
+		char *why = layout_derivation_text(r, a->shown, a->ascii);
 
 		if (why != NULL) {
 			n += result_wrapped(a, y + n, x, w, h - n, 4, "why", why, A_NORMAL);
@@ -462,8 +470,8 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 		return UI_NONE;
 	}
 	if (f[d->field].fixed) {
-		app_msg(a, 1, "the bench's name is its key in the database: c on the bench "
-		    "list copies it under a new name");
+		app_msg(a, 1, "the bench's name: N on the bench list renames the bench and "
+		    "every setup");
 		fields_free(f, n);
 		return UI_REDRAW;
 	}
@@ -520,6 +528,33 @@ apply_edit(struct app *a, struct wb *d)
 	s.id = id;
 	s.key = f[d->field].name;
 	s.text = text;
+	if (app_point_name(a) != NULL) {
+		/* a point shown: the value is its override, the base keeps its own */
+		const char *pt = app_point_name(a);
+		int rc;
+
+		if (f[d->field].key < 0 && (!s.bench || strcmp(s.key, "name") == 0))
+			rc = fail_with(&cause, "%s belongs to the base, not to point %s: O until the "
+			    "base is shown", s.key, pt);
+		else
+			rc = ui_point_override(a, s.bench ? NULL : id, s.key, text, &cause);
+		if (rc != 0) {
+			free(d->error);
+			d->error = cause != NULL ? cause : xstrdup("refused");
+			app_msg(a, 1, "refused, nothing stored: %s", d->error);
+		} else {
+			d->editing = 0;
+			free(d->error);
+			d->error = NULL;
+			app_msg(a, 0, "point %s: %s%s%s = %s, its override; the base keeps its own "
+			    "(- undoes)", pt, s.bench ? "" : id, s.bench ? "" : ".", s.key,
+			    text[0] ? text : "(unset)");
+		}
+		fields_free(f, n);
+		free(id);
+		free(text);
+		return UI_REDRAW;
+	}
 	if (app_edit(a, do_set, &s, &cause) != 0) {
 		free(d->error);
 		d->error = cause != NULL ? cause : xstrdup("refused");

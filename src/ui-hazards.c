@@ -27,7 +27,7 @@ hazard_text(struct app *a, const struct layout_hazard *h)
 	case LH_WARNING:
 		return report_warning_text(a->trace, h->warn, a->ascii);
 	case LH_UNRATED: {
-		char *hint = layout_rating_hint(r->el->type, a->bench->src.pulsed);
+		char *hint = layout_rating_hint(r->el->type, a->shown->src.pulsed);
 
 		units_format(v, sizeof v, r->power_in, DIM_POWER, 3, a->ascii);
 		{
@@ -39,7 +39,7 @@ hazard_text(struct app *a, const struct layout_hazard *h)
 		}
 	}
 	default: {
-		char *why = layout_derivation_text(r, a->bench, a->ascii), *s;
+		char *why = layout_derivation_text(r, a->shown, a->ascii), *s;
 
 		layout_percent(pct, sizeof pct, r->ratio);
 		s = xasprintf("%s %s at %s of its limit%s%s", model_type_name(r->el->type), r->el->id,

@@ -1,6 +1,6 @@
 /* ui-list.c - the first screen: every bench in the database with its
  * latest setup, whether the draft has changed, and its worst element;
- * open, create, copy, delete, or load the demo bench.  On an empty
+ * open, create, copy, rename, delete, or load the demo bench.  On an empty
  * database it offers the demo at once.  Owned by the workbench. */
 #include <config.h>
 
@@ -209,8 +209,9 @@ create_and_open(struct app *a, struct bench *b, const char *note, char **cause)
 	if (app_open_bench(a, b->name, cause) != 0)
 		return -1;
 	if (a->demo_name == NULL || strcmp(b->name, a->demo_name) != 0)
-		app_msg(a, 0, "bench '%s' created, recorded #1; every change is saved to its draft",
-		    b->name);
+		app_msg(a, 0, note != NULL ? "bench '%s' created, recorded #1; every change is "
+		    "saved to its draft" : "bench '%s' created: a draft, nothing recorded yet; "
+		    "every change is saved to it", b->name);
 	ui_bench_push(a);
 	return 0;
 }
@@ -273,11 +274,12 @@ new_bench(struct app *a, void *arg, const char *text, char **cause)
 	if (text[0] == '\0')
 		return fail_with(cause, "a bench needs a name");
 	b = layout_bench_new(text);
-	rc = create_and_open(a, b, "new bench: the source alone, no elements yet", cause);
+	/* no note: a draft only, so that the bench's first record is #1 */
+	rc = create_and_open(a, b, NULL, cause);
 	model_bench_free(b);
 	if (rc == 0)
-		app_msg(a, 0, "new bench '%s': b sets the beam (it starts at 1064 nm, CW 1 W), "
-		    "p places elements", text);
+		app_msg(a, 0, "new bench '%s': b sets the beam (1064 nm, CW 1 W); p places "
+		    "elements", text);
 	return rc;
 }
 
@@ -317,6 +319,49 @@ list_copy(struct app *a, struct ui_pane *p)
 	ui_prompt(a, "copy bench", "Name of the new bench, a copy of this bench's draft:",
 	    init, copy_bench, xstrdup(d->rows[d->sel].name), free);
 	free(init);
+	return UI_REDRAW;
+}
+
+static int
+rename_bench(struct app *a, void *arg, const char *text, char **cause)
+{
+	const char *from = arg;
+	struct list *d;
+
+	if (text[0] == '\0')
+		return fail_with(cause, "a bench needs a name");
+	if (strcmp(text, from) == 0)
+		return fail_with(cause, "that is its name already: type a new one, or Esc");
+	if (store_bench_rename(a->store, from, text, cause) != 0)
+		return -1;
+	if (a->demo_name != NULL && strcmp(a->demo_name, from) == 0) {
+		free(a->demo_name);
+		a->demo_name = xstrdup(text);
+	}
+	app_msg(a, 0, "bench '%s' is now '%s', with its draft and every setup", from, text);
+	if (a->top != NULL && a->top->below != NULL && a->top->below->ops == &ui_list_ops) {
+		d = a->top->below->data;
+		list_load(a, d);
+		for (size_t i = 0; i < d->n; i++)
+			if (strcmp(d->rows[i].name, text) == 0)
+				d->sel = (int)i;
+	}
+	return 0;
+}
+
+static enum ui_reaction
+list_rename(struct app *a, struct ui_pane *p)
+{
+	struct list *d = p->data;
+	char *help;
+
+	if (d->n == 0)
+		return UI_NONE;
+	help = xasprintf("A new name for bench '%s' (its draft and every setup go with it):",
+	    d->rows[d->sel].name);
+	ui_prompt(a, "rename bench", help, d->rows[d->sel].name, rename_bench,
+	    xstrdup(d->rows[d->sel].name), free);
+	free(help);
 	return UI_REDRAW;
 }
 
@@ -418,6 +463,7 @@ static const struct ui_key list_keys[] = {
 	{ { 'n', UI_FKEY(KEY_IC) }, "n", "new", 1, "a new bench (name it; it starts with a 1 W CW source; also Insert)", list_new, UI_K_EDITS, UG_BENCHES },
 	{ { 'd' }, "d", "demo", 1, "load the demo bench (invented data: an ablation line)", list_demo, UI_K_EDITS, UG_BENCHES },
 	{ { 'c' }, "c", "copy", 3, "copy the bench's draft to a new bench", list_copy, UI_K_EDITS, UG_BENCHES },
+	{ { 'N' }, "N", "rename", 3, "give the bench a new name (its draft and every setup keep it)", list_rename, UI_K_EDITS, UG_BENCHES },
 	{ { UI_FKEY(KEY_DC), 'D' }, "Del", "delete", 4, "delete the bench and all its setups (asks first; also D)", list_delete, UI_K_EDITS, UG_BENCHES },
 	{ { 'q', UI_ESC }, "q", "quit", 0, "quit (everything is already saved)", list_quit, 0, UG_LEAVE },
 	UI_KEYS_END,

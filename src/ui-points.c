@@ -1,9 +1,11 @@
 /* ui-points.c - two workbench screens for a bench run at more than one
  * setting: every operating point side by side (each rated element's ratio
  * at the base and at each point, its worst and where), and a sweep of one
- * knob with a cursor that walks along it.  The numbers come from
- * point_survey_run and sweep_run, the plot from sweep_plot_layout; this
- * only paints.  Owned by the workbench. */
+ * knob with a cursor that walks along it (at the point shown); and the
+ * chain at one point at a time, where a value typed is that point's
+ * override, or with each element's worst over all of them.  The numbers
+ * come from point_survey_run and sweep_run, the plot from
+ * sweep_plot_layout; this only paints.  Owned by the workbench. */
 #include <config.h>
 
 #include <math.h>
@@ -66,7 +68,7 @@ pts_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ncol = (int)sv->n;
 	t = sv->n == 1 ? xstrdup("This bench has no operating points: add them with "
 	    "'beamledger point add BENCH NAME CHANGE...'.") :
-	    xasprintf("%zu points besides the base%s.", sv->n - 1,
+	    xasprintf("%zu point%s besides the base%s.", sv->n - 1, sv->n == 2 ? "" : "s",
 	    (size_t)ncol < sv->n ? "; the widest terminal shows more" : "");
 	ui_put(a, 1, 1, w - 2, t, UC_DIM);
 	free(t);
@@ -407,13 +409,16 @@ sweep_typed(struct app *a, void *arg, const char *text, char **cause)
 	for (size_t n = strlen(from); n > 0 && from[n - 1] == ' '; n--)
 		from[n - 1] = '\0';
 	to = xstrdup(dots + 2);
-	v->work = model_bench_dup(a->bench);
+	/* at the point shown, when one is: its copy holds no points */
+	v->work = model_bench_dup(a->shown);
 	point_list_release(&v->work->points);
 	if (sweep_knob_parse(v->work, knob, &v->k, cause) == 0 &&
 	    sweep_knob_value(&v->k, from, &x0, cause) == 0 &&
 	    sweep_knob_value(&v->k, to, &x1, cause) == 0 &&
 	    (v->sw = sweep_run(v->work, &v->k, x0, x1, 201, 0, cause)) != NULL) {
-		v->range = xasprintf("%s .. %s", from + strspn(from, " "), to + strspn(to, " "));
+		v->range = xasprintf("%s .. %s%s%s", from + strspn(from, " "), to + strspn(to, " "),
+		    app_point_name(a) != NULL ? " at point " : "",
+		    app_point_name(a) != NULL ? app_point_name(a) : "");
 		rc = 0;
 	}
 	free(knob);
@@ -465,4 +470,91 @@ ui_sweep_prompt(struct app *a)
 	    "values with units", init != NULL ? init : "source.power 0.1 W .. 1 W", sweep_typed,
 	    NULL, NULL);
 	free(init);
+}
+
+/* ---- the chain at one point, and its worst over all of them ---- */
+
+void
+ui_point_cycle(struct app *a)
+{
+	const char *name;
+
+	if (a->bench == NULL)
+		return;
+	if (a->bench->points.n == 0) {
+		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
+		    a->name);
+		return;
+	}
+	a->point = layout_point_next(a->bench, a->point);
+	app_retrace(a);
+	if ((name = app_point_name(a)) != NULL)
+		app_msg(a, 0, "point %s shown: values typed are its overrides; O: next", name);
+	else
+		app_msg(a, 0, "the base shown: values typed change the base; O: the first point");
+}
+
+const struct point_survey *
+app_survey(struct app *a)
+{
+	char *cause = NULL;
+
+	if (!a->worst_all || a->bench == NULL)
+		return NULL;
+	if (!a->have_survey) {
+		if (point_survey_run(a->bench, NULL, &a->survey, &cause) != 0) {
+			app_msg_take(a, 1, cause);
+			a->worst_all = 0;
+			return NULL;
+		}
+		a->have_survey = 1;
+	}
+	return &a->survey;
+}
+
+void
+ui_point_worst_toggle(struct app *a)
+{
+	if (a->bench == NULL)
+		return;
+	if (!a->worst_all && a->bench->points.n == 0) {
+		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
+		    a->name);
+		return;
+	}
+	a->worst_all = !a->worst_all;
+	if (a->worst_all && app_survey(a) != NULL)
+		app_msg(a, 0, "ratio and status: each element's worst over the base and %zu "
+		    "point%s; W: back", a->bench->points.n,
+		    a->bench->points.n == 1 ? "" : "s");
+	else if (!a->worst_all)
+		app_msg(a, 0, "ratio and status: as traced at the %s shown",
+		    app_point_name(a) != NULL ? "point" : "base");
+}
+
+struct override_arg {
+	const char *point, *id, *key, *text;
+};
+
+static int
+do_override(struct bench *b, void *arg, char **cause)
+{
+	struct override_arg *o = arg;
+
+	return layout_point_override(b, o->point, o->id, o->key, o->text, cause);
+}
+
+int
+ui_point_override(struct app *a, const char *id, const char *key, const char *text,
+    char **cause)
+{
+	struct override_arg o = { app_point_name(a), id, key, text };
+	int rc;
+
+	if (o.point == NULL)
+		return fail_with(cause, "no operating point is shown");
+	a->point_edit = 1;
+	rc = app_edit(a, do_override, &o, cause);
+	a->point_edit = 0;
+	return rc;
 }

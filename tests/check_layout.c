@@ -13,6 +13,7 @@
 #include "bench-file.h"
 #include "core-edit.h"
 #include "core-layout.h"
+#include "core-point.h"
 #include "core-trace.h"
 #include "report.h"
 
@@ -1135,12 +1136,144 @@ START_TEST(test_map_col)
 }
 END_TEST
 
+/* ---- operating points on the frame and in the chain ---- */
+
+static void
+add_point(struct bench *b, const char *name, const char *change)
+{
+	char *cause = NULL, *ch[1];
+
+	ch[0] = (char *)change;
+	ck_assert_msg(point_edit_add(b, name, ch, 1, &cause) == 0, "%s: %s", name,
+	    cause ? cause : "?");
+}
+
+START_TEST(test_bench_key_hint_examples)
+{
+	char *t = layout_bench_key_hint("source.wavelength");
+
+	/* a wavelength's example is a wavelength, not a waist size */
+	ck_assert_str_eq(t, "with its unit, e.g. \"532 nm\"");
+	free(t);
+	t = layout_bench_key_hint("source.waist");
+	ck_assert_str_eq(t, "with its unit, e.g. \"3 mm\"");
+	free(t);
+}
+END_TEST
+
+START_TEST(test_point_cycle)
+{
+	struct bench *b = demo();
+	char *t;
+
+	/* no points: the base only, and nothing to say */
+	ck_assert_int_eq(layout_point_next(b, -1), -1);
+	ck_assert_ptr_null(layout_point_words(b, -1));
+	add_point(b, "alignment", "source.power=20 mW");
+	add_point(b, "full", "source.pulse_energy=600 mJ");
+	/* base first, then each point in its order, then the base again */
+	ck_assert_int_eq(layout_point_next(b, -1), 0);
+	ck_assert_int_eq(layout_point_next(b, 0), 1);
+	ck_assert_int_eq(layout_point_next(b, 1), -1);
+	t = layout_point_words(b, -1);
+	ck_assert_str_eq(t, "base (O: 2 points)");
+	free(t);
+	t = layout_point_words(b, 1);
+	ck_assert_str_eq(t, "point full 2/2");
+	free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+static double
+s0_length(const struct bench *b)
+{
+	const struct element *el = model_find((struct bench *)b, "S0", NULL, NULL, NULL);
+
+	ck_assert_ptr_nonnull(el);
+	return model_get(el, K_LENGTH);
+}
+
+START_TEST(test_point_override)
+{
+	struct bench *b = demo();
+	struct point *pt;
+	struct bench *ap;
+	char *cause = NULL;
+	double base_len = s0_length(b);
+
+	add_point(b, "half", "source.power=1 W");
+	/* the same key again: replaced where it stands, not added */
+	ck_assert_int_eq(layout_point_override(b, "half", NULL, "source.power", "500 mW", &cause),
+	    0);
+	pt = point_list_find(&b->points, "half");
+	ck_assert_uint_eq(pt->n, 1);
+	ck_assert_str_eq(pt->change[0], "source.power=500 mW");
+	/* an element's value: added after it; the base keeps its own */
+	ck_assert_int_eq(layout_point_override(b, "half", "S0", "length", "250 mm", &cause), 0);
+	pt = point_list_find(&b->points, "half");
+	ck_assert_uint_eq(pt->n, 2);
+	ck_assert_str_eq(pt->change[1], "S0.length=250 mm");
+	ck_assert(s0_length(b) == base_len);
+	ap = point_apply(b, pt, &cause);
+	ck_assert_ptr_nonnull(ap);
+	ck_assert(fabs(s0_length(ap) - 0.25) < 1e-12);
+	model_bench_free(ap);
+	/* refused: the point as it was, with the reason */
+	ck_assert_int_eq(layout_point_override(b, "half", "S0", "length", "banana", &cause), -1);
+	ck_assert_ptr_nonnull(cause);
+	free(cause);
+	cause = NULL;
+	ck_assert_int_eq(layout_point_override(b, "half", "NOPE", "length", "1 mm", &cause), -1);
+	free(cause);
+	cause = NULL;
+	/* the safety factor is the bench's, never a point's */
+	ck_assert_int_eq(layout_point_override(b, "half", NULL, "safety_factor", "3", &cause), -1);
+	ck_assert(strstr(cause, "safety_factor") != NULL);
+	free(cause);
+	cause = NULL;
+	pt = point_list_find(&b->points, "half");
+	ck_assert_uint_eq(pt->n, 2);
+	ck_assert_str_eq(pt->change[0], "source.power=500 mW");
+	ck_assert_str_eq(pt->change[1], "S0.length=250 mm");
+	ck_assert_int_eq(layout_point_override(b, "none", "S0", "length", "1 mm", &cause), -1);
+	ck_assert(strstr(cause, "none") != NULL);
+	free(cause);
+	model_bench_free(b);
+}
+END_TEST
+
+START_TEST(test_survey_find)
+{
+	struct bench *b = demo();
+	struct point_survey sv;
+	char *cause = NULL;
+	long j;
+
+	add_point(b, "full", "source.pulse_energy=600 mJ");
+	ck_assert_int_eq(point_survey_run(b, NULL, &sv, &cause), 0);
+	j = layout_survey_find(&sv, "W1");
+	ck_assert_int_ge(j, 0);
+	ck_assert_str_eq(sv.el[j].id, "W1");
+	ck_assert_int_eq(layout_survey_find(&sv, "NOPE"), -1);
+	/* W1's worst is at 'full': three times the pulse energy (200 -> 600 mJ)
+	 * on the same spot is three times the fluence, so three times the
+	 * ratio (fluence = E / area is linear in E; hand derivation, a
+	 * self-consistency check) */
+	ck_assert_uint_eq(sv.el[j].at, 1);
+	ck_assert_str_eq(sv.pt[sv.el[j].at].name, "full");
+	ck_assert(fabs(sv.el[j].ratio / sv.ratio[0 * sv.nel + (size_t)j] - 3) < 1e-9);
+	point_survey_release(&sv);
+	model_bench_free(b);
+}
+END_TEST
+
 #define LOOP(tc, fn, arr) tcase_add_loop_test(tc, fn, 0, (int)(sizeof arr / sizeof *arr))
 
 int
 main(void)
 {
-	Suite *s = suite_create("layout");
+Suite *s = suite_create("layout");
 	TCase *tc = tcase_create("format");
 
 	LOOP(tc, test_bar, bar_cases);
@@ -1178,6 +1311,10 @@ main(void)
 	tcase_add_test(tc, test_place_labels);
 	tcase_add_test(tc, test_join_fit);
 	tcase_add_test(tc, test_margin_widths);
+	tcase_add_test(tc, test_point_cycle);
+	tcase_add_test(tc, test_bench_key_hint_examples);
+	tcase_add_test(tc, test_point_override);
+	tcase_add_test(tc, test_survey_find);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("profile");
 	tcase_add_test(tc, test_profile_path);

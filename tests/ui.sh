@@ -124,9 +124,12 @@ for _p in 1 2 3 4 5 6 7 8 9 10 11 12 13 14; do
 done
 check "help ends with the laser-safety cautions" grep -q "Align at reduced power" "$T_DIR/help.txt"
 check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.txt"
+check "help tells how operating points are shown and edited" grep -q "a value typed is then that point's override" "$T_DIR/help.txt"
 check "help names the record's keys" grep -q "record the draft as a new numbered setup" "$T_DIR/help.txt"
 check "help has no retired verb (7)" sh -c '! grep -wiE "commit|diff|clone|restore|revision|show|log" "$1"' _ "$T_DIR/help.txt"
 check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/help.txt"
+check "no workbench file asks the store for a setup as the retired rN" \
+	sh -c '! grep -n "\"r%d\"" "$1"/src/ui-*.c "$1"/src/cmd-ui.c' _ "${srcdir:-.}"
 check "help has no label command (7)" sh -c '! grep -wE "label" "$1"' _ "$T_DIR/help.txt"
 check "help keys are not the retired modal set" sh -c '! grep -E "^    (a|i|x|u|j|k|g|G|\^R) " "$1"' _ "$T_DIR/help.txt"
 check "no help line is cut at 80 columns (9.13)" sh -c '! grep -q "…$" "$1"' _ "$T_DIR/help.txt"
@@ -148,10 +151,14 @@ step "back to the bench list" ui "updated (UTC)" q
 step "new bench prompt" ui "Name of the new bench" n
 t_keys ui -l "focus-test"
 step "new bench created" ui "new bench 'focus-test'" Enter
+check "a new bench has a draft only, nothing recorded (9.19)" wait_for ui "▸ draft, nothing recorded yet"
 check "a CW bench shows its irradiance, the quantity CW ratings use (9.12)" \
 	wait_line ui '^ element .* irradiance +to LIDT'
 check "no fluence column on a CW bench" no_line ui '^ element .*fluence'
 check "empty bench says how to start" wait_for ui "p places the"
+check "... whole at 80 columns" wait_line ui '^  A space, then optics, then a dump, detector or target; b: the beam\.$'
+check "the new bench's message is whole at 80 columns" \
+	wait_line ui "^new bench 'focus-test': b sets the beam \\(1064 nm, CW 1 W\\); p places elements$"
 check "place a space: asks its length, with its unit" place s "placed space S1" "500 mm"
 t_keys ui p
 wait_for ui "place " >/dev/null
@@ -221,10 +228,10 @@ step "placing after a dump is refused" ui "a dump ends its branch" Enter
 t_keys ui Escape
 wait_gone ui "Enter›accept" >/dev/null
 
-step "record prompt" ui "The draft becomes setup #2" r
+step "a new bench's first record is #1 (9.19)" ui "The draft becomes setup #1" r
 t_keys ui -l "window far from the focus"
-step "recorded #2" ui 'recorded #2: "window far from the focus"' Enter
-check "the header says the draft is #2" wait_for ui "▸ draft = #2 ▸"
+step "recorded #1" ui 'recorded #1: "window far from the focus"' Enter
+check "the header says the draft is #1" wait_for ui "▸ draft = #1 ▸"
 
 # ---- shift the lens: the window now sits near the focus ----
 t_keys ui Home
@@ -232,54 +239,54 @@ check "selected the first element" wait_for ui "space S1"
 step "selected the lens" ui "lens L1" Down
 step "lens shifted one place down" ui "shifted L1 after S2" '>'
 check "window now OVER" wait_line ui '^▲W1 .* OVER'
-check "the header says changed since #2" wait_for ui "draft: changed since #2, not recorded"
+check "the header says changed since #1" wait_for ui "draft: changed since #1, not recorded"
 step "undo brings ok back" ui "undone" -
 check "window ok after undo" wait_line ui '^ W1 .* ok *$'
-check "and the draft is #2 again" wait_for ui "▸ draft = #2 ▸"
+check "and the draft is #1 again" wait_for ui "▸ draft = #1 ▸"
 step "redo makes it OVER again" ui "redone" +
 check "window OVER after redo" wait_line ui '^▲W1 .* OVER'
 
 # ---- record, the logbook, compare, mark, reinstate ----
-step "record prompt again" ui "The draft becomes setup #3" r
+step "record prompt again" ui "The draft becomes setup #2" r
 t_keys ui -l "lens closer to the window"
-step "recorded #3" ui "recorded #3" Enter
-step "h opens the logbook" ui "logbook · 3 setups recorded" h
-check "the stale message of the workbench is gone (9.13)" no_line ui 'recorded #3:'
-check "a setup's number, time and author" wait_line ui '^  #3 +20[0-9-]+ [0-9:]+  lab-tester'
-check "each setup traced: #3 is over" wait_line ui 'OVER W1 [0-9.]+ %, safe source power'
-check "and #2 is ok" wait_line ui ' ok [A-Z0-9]+ [0-9.]+ %, safe source power'
+step "recorded #2" ui "recorded #2" Enter
+step "h opens the logbook" ui "logbook · 2 setups recorded" h
+check "the stale message of the workbench is gone (9.13)" no_line ui 'recorded #2:'
+check "a setup's number, time and author" wait_line ui '^  #2 +20[0-9-]+ [0-9:]+  lab-tester'
+check "each setup traced: #2 is over" wait_line ui 'OVER W1 [0-9.]+ %, safe source power'
+check "and #1 is ok" wait_line ui ' ok [A-Z0-9]+ [0-9.]+ %, safe source power'
 check "with its note" wait_for ui '"window far from the focus"'
 t_keys ui Down
-check "#3 selected" wait_for ui "Enter compares #2 → #3"
+check "#2 selected" wait_for ui "Enter compares #1 → #2"
 step "compare shows the chain change" ui "moved" Enter
 check "compare shows the margin effect" wait_line ui 'W1 .*ok → .*over'
 t_keys ui Escape
 check "compare closes" wait_for ui "Space›pin"
 t_keys ui m
-check "mark prompt" wait_for ui "A name for #3"
+check "mark prompt" wait_for ui "A name for #2"
 t_keys ui -l "near-focus"
-step "marked" ui "#3 marked 'near-focus'" Enter
+step "marked" ui "#2 marked 'near-focus'" Enter
 check "the name shown as a badge" wait_for ui "‹near-focus›"
 t_keys ui Space
-check "the compare pin is not a star" wait_line ui '^⇄ +#3'
+check "the compare pin is not a star" wait_line ui '^⇄ +#2'
 t_keys ui Space
 t_keys ui Down
-check "#2 selected" wait_for ui "Enter compares #1 → #2"
-step "reinstate asks" ui "Make #2 the draft again?" R
-step "reinstated" ui "#2 reinstated: draft = #2" y
-check "the logbook's draft says = #2 (9.16)" wait_line ui '^  draft += #2'
+check "#1 selected" wait_line ui '^ *#1 .*lab-tester'
+step "reinstate asks" ui "Make #1 the draft again?" R
+step "reinstated" ui "#1 reinstated: draft = #1" y
+check "the logbook's draft says = #1 (9.16)" wait_line ui '^  draft += #1'
 t_keys ui Escape
-check "the workbench says draft = #2 (9.16)" wait_for ui "▸ draft = #2 ▸"
+check "the workbench says draft = #1 (9.16)" wait_for ui "▸ draft = #1 ▸"
 check "reinstated draft: window ok again" wait_line ui '^ W1 .* ok *$'
 step "undo on the workbench brings the old draft back" ui "undone" -
 check "window OVER after undoing the reinstate" wait_line ui '^▲W1 .* OVER'
-check "and the draft is #3 again (9.16)" wait_for ui "▸ draft = #3 ▸"
+check "and the draft is #2 again (9.16)" wait_for ui "▸ draft = #2 ▸"
 step "and redo reinstates again" ui "redone" +
 check "window ok again" wait_line ui '^ W1 .* ok *$'
-check "draft = #2 once more" wait_for ui "▸ draft = #2 ▸"
+check "draft = #1 once more" wait_for ui "▸ draft = #1 ▸"
 step "logbook again" ui "logbook" h
 t_keys ui Down Down
-step "reinstating the setup the draft already is asks nothing" ui "the draft already is #2" R
+step "reinstating the setup the draft already is asks nothing" ui "the draft already is #1" R
 t_keys ui Escape
 check "back on the workbench" wait_for ui "p›place"
 
@@ -320,6 +327,18 @@ check "ASCII key line" wait_line direct '^p>place  l>lift'
 check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
+# 9.15: renaming a bench from the list; a refused name is said at the prompt
+step "N asks the bench's new name" direct "A new name for bench 'focus-test'" N
+t_keys direct C-u
+t_keys direct -l "table3-ablation"
+step "a taken name is refused at the prompt" direct "bench 'table3-ablation' already exists" Enter
+t_keys direct C-u
+t_keys direct -l "focus-rail"
+step "renamed" direct "bench 'focus-test' is now 'focus-rail'" Enter
+check "the list shows the new name" wait_line direct '^ focus-rail +#2 '
+check "the store has the bench under its new name, with its setups" \
+	sh -c '"$1" --db "$2" history focus-rail | grep -q "^#2 "' _ "$BL" "$DB"
+step "renamed back" direct "is now 'focus-test'" N C-u focus-test Enter
 t_keys direct q
 check "and quits" wait_exit direct 5
 
@@ -373,17 +392,17 @@ check "and creates no database" [ ! -e "$T_DIR/nodemo.db" ]
 
 # ---- the database, checked with the CLI ----
 log=$("$BL" --db "$DB" history focus-test 2>&1)
-check "log: r3 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
+check "log: #2 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
 check "log: the label" sh -c 'printf "%s" "$1" | grep -q "near-focus"' _ "$log"
 check "log: the author" sh -c 'printf "%s" "$1" | grep -q "lab-tester"' _ "$log"
-"$BL" --db "$DB" trace focus-test@3 >/dev/null 2>&1
-check "r3 traces over (exit 1)" [ $? -eq 1 ]
+"$BL" --db "$DB" trace focus-test@2 >/dev/null 2>&1
+check "#2 traces over (exit 1)" [ $? -eq 1 ]
 "$BL" --db "$DB" trace focus-test >/dev/null 2>&1
 check "restored draft traces ok (exit 0)" [ $? -eq 0 ]
 exp=$("$BL" --db "$DB" export focus-test 2>&1)
 check "export: the rating typed in the field, in its unit" sh -c 'printf "%s" "$1" | grep -q "\"cw_irradiance\": \"1 kW/cm^2\""' _ "$exp"
 check "export: the lens before S2 again (restored)" sh -c 'printf "%s" "$1" | tr -d "\n " | grep -q "\"id\":\"L1\".*\"id\":\"S2\""' _ "$exp"
-"$BL" --db "$DB" compare focus-test 2 3 >"$T_DIR/diff.txt" 2>&1
+"$BL" --db "$DB" compare focus-test 1 2 >"$T_DIR/diff.txt" 2>&1
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
 check "demo bench is in the database" sh -c '"$1" --db "$2" list | grep -q table3-ablation' _ "$BL" "$DB"
 check "database check passes" sh -c '"$1" --db "$2" check >/dev/null' _ "$BL" "$DB"
