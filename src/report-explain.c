@@ -41,7 +41,7 @@ exposure_name(enum layout_metric m)
 	}
 }
 
-/* "damage.fluence and damage.pulse_width, or damage.cw_linear": the keys that
+/* "max_absorbed or damage.fluence with damage.pulse_width": the keys that
  * would rate this type on this bench. */
 static void
 rating_keys(struct buf *b, enum elem_type type, int pulsed)
@@ -50,8 +50,7 @@ rating_keys(struct buf *b, enum elem_type type, int pulsed)
 	size_t n = layout_rating_keys(type, pulsed, k, 4);
 
 	for (size_t i = 0; i < n; i++) {
-		const char *sep = i == 0 ? "" : k[i] == K_DMG_PULSE_WIDTH ? " with " :
-		    i + 1 == n ? " or " : ", ";
+		const char *sep = i == 0 ? "" : k[i] == K_DMG_PULSE_WIDTH ? " with " : " or ";
 
 		buf_printf(b, "%s%s", sep, model_key_path((enum model_key)k[i]));
 	}

@@ -339,5 +339,19 @@ check "--explain an unknown id: exit 2" status_is ex_none 2
 check "... names the id" err_has ex_none "no element 'NOPE'"
 check "... nothing on stdout" out_empty ex_none
 usage_case explain_json trace --demo --explain W1 --format json
+# at an operating point: a point doubling the pulse energy doubles W1's
+# fluence and so its ratio (fluence linear in energy), the limit unchanged
+"$BEAMLEDGER" demo | sed 's/^  "path": \[/  "points": [ { "name": "double", "changes": ["source.pulse_energy=400 mJ"] } ],\n  "path": [/' >"$T_DIR/ex_pts.json"
+run ex_pt trace "$T_DIR/ex_pts.json" --point double --explain W1
+check "--explain at a point: exit 1" status_is ex_pt 1
+check "... the same limit as at the base" out_has ex_pt "= 3.036 J/cm²"
+if have python3; then
+	check "... and twice the base's fluence" python3 -c '
+import re, sys
+f = lambda p: float(re.search(r"the beam +fluence ([0-9.]+) J/cm", open(p).read()).group(1))
+assert abs(f(sys.argv[1]) / f(sys.argv[2]) - 2) < 1e-3, (f(sys.argv[1]), f(sys.argv[2]))' "$T_DIR/ex_pt.out" "$T_DIR/ex_w1.out"
+fi
+run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
+check "--explain with an unknown point: exit 2" status_is ex_filter 2
 
 done_testing
