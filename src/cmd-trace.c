@@ -16,6 +16,7 @@
 #include "bench-file.h"
 #include "cmd.h"
 #include "cmd-store.h"
+#include "core-layout.h"
 #include "core-point.h"
 #include "core-trace.h"
 #include "report.h"
@@ -105,10 +106,10 @@ points_table(struct buf *out, const struct point_survey *sv)
 	for (size_t i = 0; i < sv->n; i++) {
 		const struct point_summary *p = &sv->pt[i];
 
-		snprintf(r, sizeof r, "%.1f %%", 100 * p->worst_ratio);
+		layout_percent(r, sizeof r, p->worst_ratio);
 		buf_printf(out, "  %-16s %-12s %8s  %s\n", p->name,
 		    p->worst_id != NULL ? p->worst_id : "-", p->worst_id != NULL ? r : "-",
-		    p->status == STATUS_OVER ? "OVER" : damage_status_name(p->status));
+		    layout_status_word(p->status));
 	}
 	buf_printf(out, "\nWorst over all points, per rated element:\n");
 	buf_printf(out, "  %-12s %8s  %-8s %s\n", "element", "ratio", "status", "at point");
@@ -117,9 +118,9 @@ points_table(struct buf *out, const struct point_survey *sv)
 
 		if (isnan(e->ratio))
 			continue;
-		snprintf(r, sizeof r, "%.1f %%", 100 * e->ratio);
+		layout_percent(r, sizeof r, e->ratio);
 		buf_printf(out, "  %-12s %8s  %-8s %s%s\n", e->id, r,
-		    e->status == STATUS_OVER ? "OVER" : damage_status_name(e->status),
+		    layout_status_word(e->status),
 		    sv->pt[e->at].name, e->present < sv->n ? " (not in every point)" : "");
 	}
 }

@@ -192,7 +192,8 @@ review_row_cells(const struct trace *t, const struct trace_row *r,
 		snprintf(c[7], REVIEW_CELL, "-");
 	else
 		layout_percent(c[7], REVIEW_CELL, r->ratio);
-	snprintf(c[8], REVIEW_CELL, "%s", layout_status_word(r->status));
+	/* the table's words: "n/a" for free space, "spark" for a breakdown */
+	snprintf(c[8], REVIEW_CELL, "%s", layout_row_status_word(r));
 	report_flags(r->flags, c[9], REVIEW_CELL, ", ");
 }
 
@@ -200,12 +201,14 @@ char *
 review_worst_text(const struct trace *t)
 {
 	const struct trace_row *w;
+	char pct[32];
 
 	if (t->worst < 0)
 		return xstrdup("Worst element: none (no element has a damage rating: nothing was checked)");
 	w = &t->rows[t->worst];
-	return xasprintf("Worst element: %s (%s), %.0f %% of its threshold (%s)", w->el->id,
-	    model_type_name(w->el->type), t->worst_ratio * 100, layout_status_word(w->status));
+	layout_percent(pct, sizeof pct, t->worst_ratio);
+	return xasprintf("Worst element: %s (%s), %s of its threshold (%s)", w->el->id,
+	    model_type_name(w->el->type), pct, layout_status_word(w->status));
 }
 
 char *

@@ -107,6 +107,11 @@ check "MD: every caution line" [ -z "$missing" ]
 rows=$(awk '/^## Elements/ { on = 1; next } on && /^\| / { n++ } on && /^$/ && n { exit } END { print n - 1 }' review.md)
 want=$("$BEAMLEDGER" trace "$B@2" --format json | python3 -c 'import json, sys; print(len(json.load(sys.stdin)["elements"]))')
 check "MD: a table row per element ($rows of $want)" [ "$rows" -eq "$want" ]
+# the table's status words (issue 9 item 18): free space is n/a, the
+# sparking focus (S9, an air breakdown in the trace's JSON) is "spark"
+spark=$(python3 -c 'import json,sys; print([e["id"] for e in json.load(open(sys.argv[1]))["elements"] if "air_breakdown" in e["flags"]][0])' trace2.json)
+check "MD: free space says n/a, as trace's table does" grep -q '^| S0 | space | .* | - | n/a |' review.md
+check "MD: the sparking focus ($spark) says spark, as trace's table does" grep -q "^| $spark | space | .* | spark |" review.md
 run mdout report "$B" --format md -o -
 check "'-o -' with --format md writes to standard output" out_has mdout "# Review of bench $B, the draft"
 
