@@ -223,6 +223,55 @@ review_worst_text_of(const struct review *rv)
 	return at;
 }
 
+static const char *
+warn_words(enum trace_warn_kind k, int plural)
+{
+	switch (k) {
+	case TW_AIR_BREAKDOWN:		return plural ? "sparks" : "spark";
+	case TW_UNTERMINATED:		return plural ? "unterminated beams" : "unterminated beam";
+	case TW_UNRATED_ABSORBER:	return plural ? "unrated absorbers" : "unrated absorber";
+	case TW_UNRATED_DUMP:		return plural ? "unrated dumps" : "unrated dump";
+	case TW_SELF_FOCUSING:		return "self-focusing";
+	case TW_B_INTEGRAL:		return "B-integral over 3 rad";
+	default:			return trace_warn_name(k);
+	}
+}
+
+char *
+review_warnings_text(const struct trace *t)
+{
+	int kinds[32];
+	size_t counts[32], nk = 0, notes = 0;
+	struct buf b;
+
+	for (size_t i = 0; i < t->nwarn; i++) {
+		size_t k = 0;
+
+		while (k < nk && kinds[k] != (int)t->warn[i].kind)
+			k++;
+		if (k == nk && nk < sizeof kinds / sizeof *kinds) {
+			kinds[nk] = (int)t->warn[i].kind;
+			counts[nk++] = 0;
+		}
+		if (k < nk)
+			counts[k]++;
+	}
+	for (size_t i = 0; i < t->nrows; i++)
+		if (t->rows[i].flags & TF_ABOVE_CRITICAL)
+			notes++;
+	buf_init(&b);
+	buf_add(&b, "Warnings:");
+	if (nk == 0)
+		buf_add(&b, " none");
+	for (size_t k = 0; k < nk; k++)
+		buf_printf(&b, "%s %zu %s", k ? "," : "", counts[k],
+		    warn_words((enum trace_warn_kind)kinds[k], counts[k] != 1));
+	if (notes > 0)
+		buf_printf(&b, "; notes: %zu above critical power (self-focusing phase, "
+		    "no collapse inside the element)", notes);
+	return buf_take(&b);
+}
+
 char *
 review_safe_text(const struct trace *t)
 {
@@ -392,6 +441,9 @@ review_markdown(const struct review *rv)
 	    n.over, n.caution, n.ok, n.unrated);
 	buf_printf(&b, "- Unterminated beams: %zu\n- Air-breakdown foci: %zu\n", n.unterminated,
 	    n.air_breakdown);
+	s = review_warnings_text(t);
+	buf_printf(&b, "- %s\n", s);
+	free(s);
 	s = review_points_text(rv);
 	buf_printf(&b, "- %s\n", s);
 	free(s);

@@ -190,6 +190,9 @@ verdict_and_signoff(struct pdoc *d)
 	snprintf(buf, sizeof buf, "Unterminated beams: %zu    air-breakdown foci: %zu",
 	    n.unterminated, n.air_breakdown);
 	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", buf, 0, 1) + 1;
+	s = review_warnings_text(t);
+	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", s, 0, 1) + 1;
+	free(s);
 	s = review_points_text(d->rv);
 	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", s, 0, 1) + 1;
 	free(s);

@@ -71,6 +71,11 @@ void  review_row_cells(const struct trace *, const struct trace_row *,
  * shared by the PDF and the Markdown. */
 char *review_worst_text(const struct trace *);                /* caller frees */
 char *review_safe_text(const struct trace *);                 /* caller frees */
+/* Every kind of warning the trace gives, counted, then the notes:
+ * "Warnings: 1 spark, 1 unterminated beam, 1 unrated absorber; notes: 2
+ * above critical power".  A kind added to the trace later is counted under
+ * its own name. */
+char *review_warnings_text(const struct trace *);             /* caller frees */
 /* review_worst_text of the review's trace, "..., at the base" with a survey. */
 char *review_worst_text_of(const struct review *);            /* caller frees */
 

@@ -74,6 +74,25 @@ print("Over: %d caution: %d ok: %d unrated: %d Unterminated beams: %d air-breakd
 EOF
 )
 check "PDF: the verdict's counts ($counts)" has review.txt "$counts"
+# every kind of warning the trace gives, counted from its JSON, and the
+# above-critical-power notes (a flag of the rows)
+warns=$(python3 - trace2.json <<'EOF'
+import json, sys
+t = json.load(open(sys.argv[1]))
+words = {"air_breakdown": ("spark", "sparks"), "unterminated": ("unterminated beam", "unterminated beams"),
+         "unrated_absorber": ("unrated absorber", "unrated absorbers"),
+         "unrated_dump": ("unrated dump", "unrated dumps")}
+order, n = [], {}
+for w in t["warnings"]:
+    if w["kind"] not in n:
+        order.append(w["kind"]); n[w["kind"]] = 0
+    n[w["kind"]] += 1
+parts = ["%d %s" % (n[k], words.get(k, (k, k))[n[k] != 1]) for k in order]
+notes = sum(1 for e in t["elements"] if "above_critical_power" in e["flags"])
+print("Warnings: " + (", ".join(parts) or "none") + ("; notes: %d above critical power" % notes if notes else ""))
+EOF
+)
+check "PDF: every warning kind with its count ($warns)" has review.txt "$warns"
 
 # the draft compares with the latest setup; --since chooses
 run sincepdf report "$B@2" --since 1 -o since.pdf
@@ -94,6 +113,7 @@ tr -s ' \n' '  ' <review.md >review.mdw
 check "MD: bench and setup" has review.mdw "# Review of bench $B, setup #2"
 check "MD: the worst element" has review.mdw "Worst element: $worst"
 check "MD: the safe source power" has review.mdw "Safe source power: $safe"
+check "MD: every warning kind with its count" has review.mdw "$warns"
 check "MD: the content hash" has review.mdw "$h"
 # the chain counts free space per branch: S5 (150 mm in the bench file)
 # lies before CM1; the 80 mm of POL1's rejected branch do not
