@@ -351,6 +351,11 @@ import re, sys
 f = lambda p: float(re.search(r"the beam +fluence ([0-9.]+) J/cm", open(p).read()).group(1))
 assert abs(f(sys.argv[1]) / f(sys.argv[2]) - 2) < 1e-3, (f(sys.argv[1]), f(sys.argv[2]))' "$T_DIR/ex_pt.out" "$T_DIR/ex_w1.out"
 fi
+# one number form (issue 9 item 18): point list writes W1's ratio and
+# status as trace's table does
+run pl_words point list "$T_DIR/ex_pts.json"
+w1cell=$(awk '$1 == "W1" { for (i = 2; i <= NF; i++) if ($i == "%") print $(i-1) " %" }' "$T_DIR/demo.out")
+check "point list: the base's worst as the table writes it ($w1cell OVER)" out_has pl_words "W1 at $w1cell (OVER)"
 run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
 check "--explain with an unknown point: exit 2" status_is ex_filter 2
 
