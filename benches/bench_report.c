@@ -82,8 +82,9 @@ time_one(const char *what, struct bench *b, int form, double target_ms, int reps
 
 		t0 = now();
 		t = trace_run(b);
-		rv = (struct review){ b, t, "setup #1", NULL, "2026-01-01 00:00:00", "bench",
-			"timing run", "benchmark", hash, "2026-01-01 00:00:00", NULL, NULL, NULL };
+		rv = (struct review){ .bench = b, .trace = t, .setup = "setup #1",
+			.time = "2026-01-01 00:00:00", .author = "bench", .note = "timing run",
+			.origin = "benchmark", .hash = hash, .printed = "2026-01-01 00:00:00" };
 		out = form == 0 ? review_pdf(&rv, &len, &cause) : form == 1 ?
 		    review_svg(&rv, &len, &cause) : (unsigned char *)review_markdown(&rv);
 		if (out == NULL) {

@@ -10,6 +10,7 @@
 #include <string.h>
 
 #include "cmd-store.h"
+#include "core-layout.h"
 #include "core-point.h"
 #include "core-trace.h"
 #include "util-buf.h"
@@ -58,10 +59,14 @@ worst_text(struct buf *out, const struct bench *b)
 {
 	struct trace *t = trace_run(b);
 
-	if (t->worst >= 0)
-		buf_printf(out, "%s at %.1f %% (%s)", t->rows[t->worst].el->id,
-		    100 * t->rows[t->worst].ratio, damage_status_name(t->rows[t->worst].status));
-	else
+	if (t->worst >= 0) {
+		char pct[32];
+
+		/* the table's percent form and status word */
+		layout_percent(pct, sizeof pct, t->rows[t->worst].ratio);
+		buf_printf(out, "%s at %s (%s)", t->rows[t->worst].el->id, pct,
+		    layout_status_word(t->rows[t->worst].status));
+	} else
 		buf_add(out, "nothing rated");
 	trace_free(t);
 }

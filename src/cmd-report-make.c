@@ -53,6 +53,8 @@ setup_shown(int no)
 struct review_src {
 	struct bench *bench, *old;
 	char *setup, *names, *time, *author, *note, *origin, *since, *why, *stem;
+	char *point;                /* NULL: the base */
+	int every;                  /* the base and every point */
 };
 
 void
@@ -71,7 +73,48 @@ review_src_free(struct review_src *g)
 	free(g->since);
 	free(g->why);
 	free(g->stem);
+	free(g->point);
 	free(g);
+}
+
+/* A point's name in a file name: no folder separators or blanks. */
+static char *
+name_for_file(const char *s)
+{
+	char *o = xstrdup(s);
+
+	for (char *c = o; *c; c++)
+		if (*c == '/' || *c == ' ' || *c == '\\' || *c == '\t')
+			*c = '-';
+	return o;
+}
+
+void
+review_src_points(struct review_src *g, const char *point, int every)
+{
+	char *s;
+
+	if (point != NULL) {
+		char *f = name_for_file(point);
+
+		free(g->point);
+		g->point = xstrdup(point);
+		s = xasprintf("%s-point-%s", g->stem, f);
+		free(f);
+		free(g->stem);
+		g->stem = s;
+		s = xasprintf("%s, point %s", g->setup, point);
+	} else if (every) {
+		g->every = 1;
+		s = xasprintf("%s-every-point", g->stem);
+		free(g->stem);
+		g->stem = s;
+		s = xasprintf("%s, the base and every operating point", g->setup);
+	} else {
+		return;
+	}
+	free(g->setup);
+	g->setup = s;
 }
 
 struct review_src *
@@ -239,21 +282,44 @@ review_src_setup(const struct review_src *g)
 int
 review_src_write(const struct review_src *g, const char *path, int fmt, char **cause)
 {
-	struct trace *t = trace_run(g->bench);
-	struct diff *d = g->old != NULL ? diff_run(g->old, g->bench) : NULL;
-	char *dump = bench_file_dump(g->bench), hash[65], printed[32];
+	struct point_survey sv;
+	struct trace *t = NULL;
+	struct diff *d;
+	char *dump, hash[65], printed[32];
 	time_t now = time(NULL);
 	struct review rv;
-	int rc;
+	int rc, surveyed = g->point != NULL || g->every;
 
+	/* the survey traces the base and the point(s) once, as trace does */
+	if (surveyed && point_survey_run(g->bench, g->point, &sv, cause) != 0)
+		return -1;
+	if (!surveyed)
+		t = trace_run(g->bench);
+	d = g->old != NULL ? diff_run(g->old, g->bench) : NULL;
+	/* the hash is of the setup as recorded (its points included) */
+	dump = bench_file_dump(g->bench);
 	sha256_hex(dump, strlen(dump), hash);
 	free(dump);
 	strftime(printed, sizeof printed, "%Y-%m-%d %H:%M:%S", gmtime(&now));
-	rv = (struct review){ g->bench, t, g->setup, g->names, g->time, g->author, g->note,
-		g->origin, hash, printed, d, g->since, g->why };
+	rv = (struct review){ .bench = g->bench, .trace = t, .setup = g->setup,
+		.setup_names = g->names, .time = g->time, .author = g->author, .note = g->note,
+		.origin = g->origin, .hash = hash, .printed = printed, .changes = d,
+		.since = g->since, .no_changes_why = g->why };
+	rv.npoints = g->bench->points.n;
+	if (g->point != NULL) {
+		rv.bench = sv.last;
+		rv.trace = sv.last_trace;
+		rv.point = g->point;
+		rv.point_def = point_list_find(&g->bench->points, g->point);
+	} else if (g->every) {
+		rv.trace = sv.base_trace;
+		rv.survey = &sv;
+	}
 	rc = cmd_report_write(&rv, path, fmt, cause);
 	diff_free(d);
 	trace_free(t);
+	if (surveyed)
+		point_survey_release(&sv);
 	return rc;
 }
 

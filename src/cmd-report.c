@@ -52,13 +52,15 @@ cmd_report(struct cmd_ctx *ctx, int argc, char **argv)
 		{ "format", required_argument, NULL, 'f' },
 		{ "since", required_argument, NULL, 's' },
 		{ "demo", no_argument, NULL, 'd' },
+		{ "point", required_argument, NULL, 'p' },
+		{ "every-point", no_argument, NULL, 'e' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
-	const char *out = NULL, *fmt_text = NULL, *since = NULL;
+	const char *out = NULL, *fmt_text = NULL, *since = NULL, *point = NULL;
 	struct review_src *g;
 	char *cause = NULL, *path = NULL;
-	int ch, demo = 0, fmt = 1, rc, said = 0;
+	int ch, demo = 0, every = 0, fmt = 1, rc, said = 0;
 
 	cmd_getopt_reset();
 	while ((ch = getopt_long(argc, argv, "o:f:", opts, NULL)) != -1) {
@@ -67,9 +69,11 @@ cmd_report(struct cmd_ctx *ctx, int argc, char **argv)
 		case 'f': fmt_text = optarg; break;
 		case 's': since = optarg; break;
 		case 'd': demo = 1; break;
+		case 'p': point = optarg; break;
+		case 'e': every = 1; break;
 		case 'h':
 			printf("Usage: " PROG " report BENCH[@SETUP] | FILE | --demo [-o FILE.pdf|FILE.svg|FILE.md]\n"
-			    "           [--format pdf|svg|md] [--since SETUP]\n"
+			    "           [--format pdf|svg|md] [--since SETUP] [--point NAME | --every-point]\n"
 			    "A review of a bench setup to print and sign: title block (setup, time,\n"
 			    "author, note, record and content hash), verdict, sign-off lines, the\n"
 			    "chain schematic, beam-profile plots, the element table, the changes\n"
@@ -77,6 +81,10 @@ cmd_report(struct cmd_ctx *ctx, int argc, char **argv)
 			    "cautions.  .svg writes the profile plots alone, .md the whole review as\n"
 			    "Markdown; '-o -' writes to standard output.  Without -o the file is\n"
 			    "BENCH-setup-N.pdf in the current folder.\n"
+			    "--point NAME reviews that operating point (the setup with the point's\n"
+			    "changes); --every-point reviews the base and gives, in the verdict and\n"
+			    "the element table, each element's worst ratio over the base and every\n"
+			    "point, and at which point.\n"
 			    "Exit status: 0 written, 2 trouble (nothing is written then).\n");
 			return 0;
 		default:
@@ -89,6 +97,8 @@ cmd_report(struct cmd_ctx *ctx, int argc, char **argv)
 		    "report: which bench? give BENCH[@SETUP], a bench file or --demo");
 	if (optind + 1 < argc)
 		return cmd_usage("report: one bench at a time ('%s' is extra)", argv[optind + 1]);
+	if (point != NULL && every)
+		return cmd_usage("report: give --point NAME or --every-point, not both");
 	if (out != NULL && (fmt = cmd_report_format_of(out, fmt_text, &cause)) < 0)
 		return cmd_fail(cause);
 	if (out == NULL && fmt_text != NULL && (fmt = cmd_report_format_word(fmt_text)) == 0)
@@ -108,6 +118,7 @@ cmd_report(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (g == NULL)
 		return said ? 2 : cmd_fail(cause);
+	review_src_points(g, point, every);
 	path = out != NULL ? xstrdup(out) :
 	    xasprintf("%s.%s", review_src_stem(g), cmd_report_ext(fmt));
 	rc = review_src_write(g, path, fmt, &cause) == 0 ? 0 : cmd_fail(cause);

@@ -29,9 +29,12 @@ struct review_src *review_src_record(struct store *, const char *name, const cha
 /* A bench file (or, demo != 0, the built-in demo bench). */
 struct review_src *review_src_file(const char *path, int demo, char **cause); /* caller frees */
 void        review_src_free(struct review_src *);   /* NULL ok */
+/* Review one operating point (name, copied) or, every != 0, the base and
+ * every point; the stem and the setup's words follow. */
+void        review_src_points(struct review_src *, const char *point, int every);
 /* "table3-ablation-setup-2": a file name without extension. */
 const char *review_src_stem(const struct review_src *);
-/* "setup #2", "the draft", "a bench file". */
+/* "setup #2", "the draft", "a bench file" (", point full"). */
 const char *review_src_setup(const struct review_src *);
 /* Traces, compares, hashes and writes the review. */
 int         review_src_write(const struct review_src *, const char *path, int fmt,

@@ -20,6 +20,7 @@
 #include "bench-file.h"
 #include "cmd-store.h"
 #include "core-diff.h"
+#include "core-layout.h"
 #include "core-trace.h"
 #include "report.h"
 #include "util-buf.h"
@@ -374,7 +375,7 @@ cmd_list(struct cmd_ctx *ctx, int argc, char **argv)
 			snprintf(draft, sizeof draft, "= #%d", ds.same_as);
 		else
 			snprintf(draft, sizeof draft, ds.latest > 0 ? "changed" : "new");
-		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev, draft, damage_status_name(worst),
+		buf_printf(&out, "%-6s  %-9s  %-7s  %s\n", rev, draft, layout_status_word(worst),
 		    rows[i].updated);
 	}
 	store_bench_rows_free(rows, n);
@@ -855,7 +856,7 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 				wn = utf8_cols(revs[i].labels);
 		}
 		buf_printf(&out, "setup  recorded (UTC)       %-*s  %-*s  %snote\n", (int)wa,
-		    "author", (int)wn, "name", mg != NULL ? "worst    safe power  " : "");
+		    "author", (int)wn, "name", mg != NULL ? "worst    safe source power  " : "");
 		for (size_t i = 0; i < n; i++) {
 			char rev[24];
 			size_t start = out.len;
@@ -875,9 +876,9 @@ cmd_history(struct cmd_ctx *ctx, int argc, char **argv)
 					snprintf(v, sizeof v, "no limit");
 				else
 					units_format(v, sizeof v, mg[i].safe, DIM_POWER, 3, 0);
-				buf_printf(&out, "%-7s  ", damage_status_name(mg[i].worst));
+				buf_printf(&out, "%-7s  ", layout_status_word(mg[i].worst));
 				buf_add(&out, v);
-				buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2 + wn + 2 + 9 + 12, start);
+				buf_pad(&out, 6 + 1 + 19 + 2 + wa + 2 + wn + 2 + 9 + 19, start);
 			}
 			buf_printf(&out, "%s\n", revs[i].note);
 		}

@@ -16,6 +16,7 @@
 #include "bench-file.h"
 #include "cmd.h"
 #include "cmd-store.h"
+#include "core-layout.h"
 #include "core-point.h"
 #include "core-trace.h"
 #include "report.h"
@@ -105,10 +106,10 @@ points_table(struct buf *out, const struct point_survey *sv)
 	for (size_t i = 0; i < sv->n; i++) {
 		const struct point_summary *p = &sv->pt[i];
 
-		snprintf(r, sizeof r, "%.1f %%", 100 * p->worst_ratio);
+		layout_percent(r, sizeof r, p->worst_ratio);
 		buf_printf(out, "  %-16s %-12s %8s  %s\n", p->name,
 		    p->worst_id != NULL ? p->worst_id : "-", p->worst_id != NULL ? r : "-",
-		    p->status == STATUS_OVER ? "OVER" : damage_status_name(p->status));
+		    layout_status_word(p->status));
 	}
 	buf_printf(out, "\nWorst over all points, per rated element:\n");
 	buf_printf(out, "  %-12s %8s  %-8s %s\n", "element", "ratio", "status", "at point");
@@ -117,9 +118,9 @@ points_table(struct buf *out, const struct point_survey *sv)
 
 		if (isnan(e->ratio))
 			continue;
-		snprintf(r, sizeof r, "%.1f %%", 100 * e->ratio);
+		layout_percent(r, sizeof r, e->ratio);
 		buf_printf(out, "  %-12s %8s  %-8s %s%s\n", e->id, r,
-		    e->status == STATUS_OVER ? "OVER" : damage_status_name(e->status),
+		    layout_status_word(e->status),
 		    sv->pt[e->at].name, e->present < sv->n ? " (not in every point)" : "");
 	}
 }
@@ -225,6 +226,43 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 	return rc;
 }
 
+/* trace --explain ID [--point NAME]: 0, 1 when that element is over, 2
+ * for an unknown id or an element without a rating. */
+static int
+trace_explain(const struct bench *b, const char *point, const char *id, int ascii)
+{
+	struct point_survey sv;
+	const struct trace *t;
+	struct trace *own = NULL;
+	char *cause = NULL, *text;
+	int rc;
+
+	if (point != NULL) {
+		if (point_survey_run(b, point, &sv, &cause) != 0)
+			return cmd_fail(cause);
+		t = sv.last_trace;
+	} else {
+		t = own = trace_run(b);
+	}
+	if ((text = report_explain(t, id, ascii, &cause)) == NULL) {
+		rc = cmd_fail(cause);
+	} else {
+		const struct trace_row *r = NULL;
+
+		for (size_t i = 0; i < t->nrows && r == NULL; i++)
+			if (strcmp(t->rows[i].el->id, id) == 0)
+				r = &t->rows[i];
+		rc = cmd_print(text);
+		if (rc == 0 && r != NULL && r->status == STATUS_OVER)
+			rc = 1;
+		free(text);
+	}
+	trace_free(own);
+	if (point != NULL)
+		point_survey_release(&sv);
+	return rc;
+}
+
 int
 cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 {
@@ -236,6 +274,7 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		{ "demo", no_argument, NULL, 'd' },
 		{ "point", required_argument, NULL, 'p' },
 		{ "every-point", no_argument, NULL, 'e' },
+		{ "explain", required_argument, NULL, 'x' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
@@ -244,7 +283,7 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	const char *color = "auto";
 	struct bench *b;
 	char *cause = NULL, *origin = NULL;
-	const char *point = NULL;
+	const char *point = NULL, *explain = NULL;
 	int demo = 0, every = 0, ch, rc;
 
 	optind = 0;
@@ -274,14 +313,21 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		case 'e':
 			every = 1;
 			break;
+		case 'x':
+			explain = optarg;
+			break;
 		case 'h':
 			printf("Usage: " PROG " trace FILE | BENCH[@SETUP] | --demo"
 			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
-			    "       [--point NAME | --every-point]\n"
+			    "       [--point NAME | --every-point] [--explain ID]\n"
 			    "An operand that is not a file names a bench in the database: its\n"
 			    "draft, or with @SETUP a recorded setup (a number, 2 or #2, or a name).\n"
 			    "--point NAME traces that operating point; --every-point traces the base\n"
 			    "and every point and gives each element's worst ratio and where.\n"
+			    "--explain ID writes how element ID's limit comes from its rating: the\n"
+			    "rating as given, the wavelength and pulse-width factors and their rules,\n"
+			    "the limit, the caution level, the beam's value there and the ratio\n"
+			    "(with --point NAME, at that point).\n"
 			    "Exit status: 0 nothing over its threshold (at any point traced),\n"
 			    "1 something over, 2 trouble.\n");
 			return 0;
@@ -299,6 +345,9 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		    "; for a setup write BENCH@SETUP" : "");
 	if (point != NULL && every)
 		return cmd_usage("trace: give --point NAME or --every-point, not both");
+	if (explain != NULL && (every || fmt != REPORT_TABLE))
+		return cmd_usage("trace: --explain ID writes text for one bench or one point "
+		    "(not with --every-point or --format)");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
@@ -315,7 +364,9 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	if (b == NULL)
 		return cmd_fail(cause);
 	ro.origin = origin;
-	if (point != NULL || every)
+	if (explain != NULL)
+		rc = trace_explain(b, point, explain, ro.ascii);
+	else if (point != NULL || every)
 		rc = trace_points(b, point, fmt, &ro);
 	else
 		rc = cmd_trace_print(b, fmt, &ro);

@@ -12,6 +12,7 @@
 
 #include "core-diff.h"
 #include "core-tol.h"
+#include "core-layout.h"
 #include "core-point.h"
 #include "core-edit.h"
 #include "util-buf.h"
@@ -547,9 +548,13 @@ point_show(const struct bench *b, const struct point *p, int exact)
 	if (exact || (applied = point_apply(b, p, NULL)) == NULL)
 		return buf_take(&out);
 	t = trace_run(applied);
-	if (t->worst >= 0)
-		buf_printf(&out, " (worst %s %.0f %% %s)", t->rows[t->worst].el->id,
-		    100 * t->rows[t->worst].ratio, damage_status_name(t->rows[t->worst].status));
+	if (t->worst >= 0) {
+		char pct[32];
+
+		layout_percent(pct, sizeof pct, t->rows[t->worst].ratio);
+		buf_printf(&out, " (worst %s %s %s)", t->rows[t->worst].el->id, pct,
+		    layout_status_word(t->rows[t->worst].status));
+	}
 	trace_free(t);
 	model_bench_free(applied);
 	return buf_take(&out);

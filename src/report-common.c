@@ -4,8 +4,10 @@
 
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
+#include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -63,8 +65,16 @@ report_source_line(const struct bench *b, int ascii)
 	 * what was derived from it (energy from power, or power from energy)
 	 * with three figures. */
 	buf_init(&out);
-	units_format_shortest(t1, sizeof t1, s->wavelength, DIM_LENGTH, ascii);
-	buf_add(&out, t1);
+	{
+		/* the wavelength as typed, as the workbench and the caution line
+		 * write it ("532 nm", not "532.0 nm"): one function for all */
+		char *wl = layout_quantity_text(s->wavelength, DIM_LENGTH);
+		char *shown = ascii ? layout_ascii(wl) : xstrdup(wl);
+
+		buf_add(&out, shown);
+		free(shown);
+		free(wl);
+	}
 	if (s->pulsed) {
 		units_format_shortest(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY, ascii);
 		units_format_shortest(t2, sizeof t2, s->pulse_width, DIM_TIME, ascii);

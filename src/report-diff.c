@@ -1,6 +1,7 @@
 /* report-diff.c - the diff of two bench states as text (changes one per
  * line, then a table of what the results did) and as JSON.  Status is
- * always a word, as in the trace report. */
+ * always a word, as in the trace report, and the same word ("OVER"); JSON
+ * keeps the lowercase names of bench-format.md. */
 #include <config.h>
 
 #include <math.h>
@@ -10,6 +11,7 @@
 
 #include <jansson.h>
 
+#include "core-layout.h"
 #include "report-diff.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -25,10 +27,14 @@ report_diff_status(char *buf, size_t n, int present, double ratio, enum damage_s
 	if (!present)
 		snprintf(buf, n, "absent");
 	else if (isnan(ratio))
-		snprintf(buf, n, "%s", damage_status_name(st));
-	else
-		snprintf(buf, n, ratio >= 1 ? "%.0f %% %s" : "%.1f %% %s", ratio * 100,
-		    damage_status_name(st));
+		snprintf(buf, n, "%s", layout_status_word(st));
+	else {
+		/* the table's and the workbench's forms: "109 % OVER", "0.91 % ok" */
+		char pct[32];
+
+		layout_percent(pct, sizeof pct, ratio);
+		snprintf(buf, n, "%s %s", pct, layout_status_word(st));
+	}
 }
 
 static void

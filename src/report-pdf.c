@@ -173,12 +173,12 @@ verdict_and_signoff(struct pdoc *d)
 	char buf[200], *s;
 	enum damage_status worst = t->worst >= 0 ? t->rows[t->worst].status : STATUS_UNRATED;
 
-	review_count(t, &n);
+	review_count_all(d->rv, &n);
 	y = y0 + 6;
 	cairo_set_source_rgb(d->cr, 0, 0, 0);
 	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " Bold 9", "Verdict", 0, 1) + 2;
 	pdf_status_tile(d->cr, x + 8, y + 1, 12, 12, worst);
-	s = review_worst_text(t);
+	s = review_worst_text_of(d->rv);
 	y += pdf_text(d, x + 26, y, w - 34, PDF_SANS " Bold 8.5", s, 0, 1) + 2;
 	free(s);
 	s = review_safe_text(t);
@@ -190,6 +190,20 @@ verdict_and_signoff(struct pdoc *d)
 	snprintf(buf, sizeof buf, "Unterminated beams: %zu    air-breakdown foci: %zu",
 	    n.unterminated, n.air_breakdown);
 	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", buf, 0, 1) + 1;
+	s = review_warnings_text(t);
+	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", s, 0, 1) + 1;
+	free(s);
+	s = review_points_text(d->rv);
+	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 8", s, 0, 1) + 1;
+	free(s);
+	if (d->rv->survey != NULL) {
+		s = review_survey_worst_text(d->rv);
+		y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " Bold 8", s, 0, 1) + 1;
+		free(s);
+		s = review_survey_list_text(d->rv, 6);
+		y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 7.5", s, 0, 1) + 1;
+		free(s);
+	}
 	snprintf(buf, sizeof buf, "Safety factor %g: caution from %.0f %% of a threshold, "
 	    "over from 100 %%.", d->rv->bench->safety_factor, 100 / d->rv->bench->safety_factor);
 	y += pdf_text(d, x + 8, y, w - 16, PDF_SANS " 7", buf, 0, 1) + 6;
@@ -223,7 +237,32 @@ verdict_and_signoff(struct pdoc *d)
 
 /* ---- the element table ---- */
 
+/* Display columns: the review's cells, with every point's worst before
+ * the flags when there is a survey; the last column takes what is left. */
+enum { PCOLS = REVIEW_NCOLS + 1, PC_WORST = REVIEW_NCOLS - 1 };
 static const double col_w[REVIEW_NCOLS] = { 64, 42, 40, 40, 62, 50, 48, 34, 44, 0 };
+static const double col_w_sv[PCOLS] = { 56, 40, 36, 38, 58, 46, 46, 34, 44, 58, 0 };
+
+static int
+ncols(const struct pdoc *d)
+{
+	return d->rv->survey != NULL ? PCOLS : REVIEW_NCOLS;
+}
+
+static double
+width_of(const struct pdoc *d, int c)
+{
+	return d->rv->survey != NULL ? col_w_sv[c] : col_w[c];
+}
+
+/* The text of display column c. */
+static const char *
+col_text(const struct pdoc *d, int c, char cells[REVIEW_NCOLS][REVIEW_CELL], const char *worst)
+{
+	if (d->rv->survey == NULL || c < PC_WORST)
+		return cells[c];
+	return c == PC_WORST ? worst : cells[c - 1];
+}
 #define TFONT PDF_SANS " 6.5"
 #define THEAD PDF_SANS " Bold 6.5"
 
@@ -239,8 +278,8 @@ col_x(const struct pdoc *d, int c, double *w)
 	double x = d->mx;
 
 	for (int i = 0; i < c; i++)
-		x += col_w[i];
-	*w = col_w[c] > 0 ? col_w[c] : d->pw - d->mx - x;
+		x += width_of(d, i);
+	*w = width_of(d, c) > 0 ? width_of(d, c) : d->pw - d->mx - x;
 	return x;
 }
 
@@ -255,11 +294,13 @@ table_header(struct pdoc *d, int draw)
 	cairo_rectangle(d->cr, d->mx, d->y, d->pw - 2 * d->mx, h);
 	cairo_fill(d->cr);
 	cairo_set_source_rgb(d->cr, 0, 0, 0);
-	for (int c = 0; c < REVIEW_NCOLS; c++) {
+	for (int c = 0; c < ncols(d); c++) {
 		double x = col_x(d, c, &w);
+		const char *name = d->rv->survey == NULL || c < PC_WORST ?
+		    review_col_name(d->rv->trace, c) : c == PC_WORST ? "worst, at point" :
+		    review_col_name(d->rv->trace, c - 1);
 
-		pdf_text(d, x + 1, d->y + 1.5, w - 2, THEAD, review_col_name(d->rv->trace, c),
-		    c >= 2 && c <= 7 ? 2 : 0, 1);
+		pdf_text(d, x + 1, d->y + 1.5, w - 2, THEAD, name, c >= 2 && c <= 7 ? 2 : 0, 1);
 	}
 	d->y += h;
 	return h;
@@ -270,7 +311,7 @@ tline_draw(struct pdoc *d, const struct tline *l, int draw)
 {
 	const struct trace *t = d->rv->trace;
 	const struct trace_row *r = &t->rows[l->row];
-	char cells[REVIEW_NCOLS][REVIEW_CELL];
+	char cells[REVIEW_NCOLS][REVIEW_CELL], worst[REVIEW_CELL] = "";
 	double h = 0, w, ind = r->depth * 6.0;
 
 	if (l->port) {
@@ -283,7 +324,9 @@ tline_draw(struct pdoc *d, const struct tline *l, int draw)
 		    txt, 0, draw) + 2;
 	}
 	review_row_cells(t, r, cells);
-	for (int c = 0; c < REVIEW_NCOLS; c++) {
+	if (d->rv->survey != NULL)
+		review_survey_cell(d->rv->survey, r->el->id, worst, sizeof worst);
+	for (int c = 0; c < ncols(d); c++) {
 		double x = col_x(d, c, &w), th, dx = 0;
 
 		if (c == 0)
@@ -295,7 +338,7 @@ tline_draw(struct pdoc *d, const struct tline *l, int draw)
 		}
 		cairo_set_source_rgb(d->cr, 0, 0, 0);
 		th = pdf_text(d, x + 1 + dx, d->y + 1, w - 2 - dx,
-		    c == 8 && r->status == STATUS_OVER ? THEAD : TFONT, cells[c],
+		    c == 8 && r->status == STATUS_OVER ? THEAD : TFONT, col_text(d, c, cells, worst),
 		    c >= 2 && c <= 7 ? 2 : 0, draw);
 		if (th > h)
 			h = th;
@@ -422,6 +465,54 @@ foci_and_warnings(struct pdoc *d)
 	}
 }
 
+/* Every point's worst element and its changes; the elements only points
+ * put in (the base's come first in the survey). */
+static void
+points_section(struct pdoc *d)
+{
+	const struct point_survey *sv = d->rv->survey;
+
+	if (sv == NULL)
+		return;
+	pdf_heading(d, "Operating points: each one's worst element");
+	for (size_t i = 0; i < sv->n; i++) {
+		const struct point_summary *ps = &sv->pt[i];
+		const struct point *p = i > 0 ? point_list_find(&d->rv->bench->points, ps->name) :
+		    NULL;
+		char pct[32], v[48];
+		struct buf b;
+
+		layout_percent(pct, sizeof pct, ps->worst_id != NULL ? ps->worst_ratio : NAN);
+		if (ps->worst_id == NULL || isnan(ps->safe_source_power))
+			snprintf(v, sizeof v, "-");
+		else if (isinf(ps->safe_source_power))
+			snprintf(v, sizeof v, "no limit");
+		else
+			units_format(v, sizeof v, ps->safe_source_power, DIM_POWER, 3, 0);
+		buf_init(&b);
+		buf_printf(&b, "• %s: worst %s %s (%s); safe source power %s", ps->name,
+		    ps->worst_id != NULL ? ps->worst_id : "none", pct,
+		    layout_status_word(ps->status), v);
+		if (i == 0)
+			buf_add(&b, "; the bench as recorded");
+		for (size_t j = 0; p != NULL && j < p->n; j++)
+			buf_printf(&b, "%s%s", j ? "; " : "; changes ", p->change[j]);
+		para(d, ps->status == STATUS_OVER ? PDF_SANS " Bold 7.5" : PDF_SANS " 7.5", b.s, 8);
+		buf_release(&b);
+	}
+	for (size_t i = d->rv->trace->nrows, any = 0; i < sv->nel; i++) {
+		char w[REVIEW_CELL], *s;
+
+		if (!any++)
+			para(d, PDF_SANS " 7.5", "Elements only operating points put in:", 0);
+		review_survey_cell(sv, sv->el[i].id, w, sizeof w);
+		s = xasprintf("• %s: %s%s", sv->el[i].id, strcmp(w, "-") == 0 ? "" : "worst ",
+		    strcmp(w, "-") == 0 ? "unrated at every point that puts it in" : w);
+		para(d, PDF_SANS " 7.5", s, 8);
+		free(s);
+	}
+}
+
 static void
 changes(struct pdoc *d)
 {
@@ -470,6 +561,7 @@ document(struct pdoc *d)
 	}
 	free(ends);
 	element_table(d);
+	points_section(d);
 	foci_and_warnings(d);
 	changes(d);
 	pdf_heading(d, "Laser safety");

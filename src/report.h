@@ -26,6 +26,10 @@ char *report_source_line(const struct bench *, int ascii);            /* caller 
 void  report_flags(unsigned flags, char *buf, size_t n, const char *sep);
 /* A warning in one line ("beam leaves the bench after S4r (POL1.rejected): 1.23 mW"). */
 char *report_warning_text(const struct trace *, const struct trace_warning *, int ascii); /* caller frees */
+/* `trace --explain ID`: the derivation of element id's limit in full, from
+ * its rating as given to the ratio.  NULL with *cause for an unknown id, free
+ * space or an unrated element (naming the keys that would rate it). */
+char *report_explain(const struct trace *, const char *id, int ascii, char **cause); /* caller frees */
 /* The cautions shown by --help, the man page and the workbench help. */
 extern const char report_safety_text[];
 

@@ -12,8 +12,11 @@
 
 #include "bench-demo.h"
 #include "bench-file.h"
+#include "core-layout.h"
 #include "core-report.h"
 #include "core-trace.h"
+#include "report-diff.h"
+#include "report.h"
 #include "util-sha256.h"
 
 #include "check-util.h"
@@ -377,6 +380,61 @@ START_TEST(test_schematic_lanes)
 }
 END_TEST
 
+/* ---- one vocabulary (issue 9 item 18): compare's status cells use the
+ * table's percent form and status words ("OVER", as the table and the
+ * workbench write it), and the source line writes the wavelength as the
+ * workbench does, the shortest form that reads back ("532 nm") ---- */
+static const struct { int present; double ratio; enum damage_status st; const char *want; }
+    word_cases[] = {
+	{ 1, 1.094, STATUS_OVER, "109 % OVER" },
+	{ 1, 0.413, STATUS_OK, "41.3 % ok" },
+	{ 1, 0.0091, STATUS_OK, "0.91 % ok" },
+	{ 1, 0.00005, STATUS_OK, "<0.01 % ok" },
+	{ 1, 0.6, STATUS_CAUTION, "60.0 % caution" },
+	{ 1, NAN, STATUS_UNRATED, "unrated" },
+	{ 0, 0.5, STATUS_OK, "absent" },
+};
+
+START_TEST(test_diff_words)
+{
+	char buf[64];
+
+	report_diff_status(buf, sizeof buf, word_cases[_i].present, word_cases[_i].ratio,
+	    word_cases[_i].st);
+	ck_assert_str_eq(buf, word_cases[_i].want);
+}
+END_TEST
+
+/* The source line writes values as typed (issue 9 item 8): "5 W", not "5.00 W". */
+static const struct { const char *wl; int ascii; const char *start; } source_cases[] = {
+	{ "532 nm", 0, "532 nm, CW 5 W" },
+	{ "1064 nm", 0, "1.064 \u00b5m, CW 5 W" },
+	{ "1064 nm", 1, "1.064 um, CW 5 W" },
+	{ "632.8 nm", 0, "632.8 nm, CW 5 W" },
+};
+
+START_TEST(test_source_line_wavelength)
+{
+	char text[400], *line, *beam;
+	struct bench *b;
+
+	snprintf(text, sizeof text, "{\"format\": \"beamledger-bench-1\", \"name\": \"w\", "
+	    "\"source\": {\"wavelength\": \"%s\", \"power\": \"5 W\", \"waist\": \"1 mm\"}, "
+	    "\"path\": [{\"id\": \"S1\", \"type\": \"space\", \"length\": \"1 m\"}]}",
+	    source_cases[_i].wl);
+	b = parse(text);
+	line = report_source_line(b, source_cases[_i].ascii);
+	ck_assert_msg(strncmp(line, source_cases[_i].start, strlen(source_cases[_i].start)) == 0,
+	    "'%s' does not start with '%s'", line, source_cases[_i].start);
+	/* the same words as the workbench's beam summary */
+	beam = layout_beam_summary(b, source_cases[_i].ascii);
+	ck_assert_msg(strncmp(line, beam, strcspn(line, ",")) == 0, "'%s' vs '%s'", line, beam);
+	free(beam);
+	free(line);
+	model_bench_free(b);
+}
+END_TEST
+
 #define LOOP(tc, fn, arr) tcase_add_loop_test(tc, fn, 0, (int)(sizeof arr / sizeof *arr))
 
 int
@@ -399,6 +457,10 @@ main(void)
 	tc = tcase_create("profile");
 	tcase_add_test(tc, test_profile_free_space);
 	tcase_add_test(tc, test_profile_demo_through_trace);
+	suite_add_tcase(s, tc);
+	tc = tcase_create("words");
+	LOOP(tc, test_diff_words, word_cases);
+	LOOP(tc, test_source_line_wavelength, source_cases);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("schematic");
 	tcase_add_test(tc, test_schematic_demo);

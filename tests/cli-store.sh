@@ -43,8 +43,9 @@ check "... and BEAMLEDGER_DB's file holds nothing" \
 # ---- the walkthrough ----
 export BEAMLEDGER_DB="$DB"
 run list
-check "list: the bench, #1, draft = #1, worst over" \
-	sh -c "grep -q '^$B  *#1  *= #1  *over ' '$T_DIR/out'"
+# the status word is the table's and the workbench's, OVER (issue 9 item 18)
+check "list: the bench, #1, draft = #1, worst OVER" \
+	sh -c "grep -q '^$B  *#1  *= #1  *OVER ' '$T_DIR/out'"
 run import demo.json
 check "import twice: refused" trouble "bench '$B' already exists"
 run chain $B
@@ -84,7 +85,8 @@ cp "$T_DIR/out" margins.txt
 safe1=$(sed -n 's/^Safe source power: \([^(]*\) (.*/\1/p' trace1.txt | sed 's/ *$//')
 safe2=$(sed -n 's/^Safe source power: \([^(]*\) (.*/\1/p' trace2.txt | sed 's/ *$//')
 check "history --margins: #1 over, at the safe power its trace gives ($safe1)" \
-	sh -c "grep -q '^#1 .* over  *$safe1  *imported from demo.json' margins.txt && grep -q OVER trace1.txt"
+	sh -c "grep -q '^#1 .* OVER  *$safe1  *imported from demo.json' margins.txt && grep -q OVER trace1.txt"
+check "history --margins: the column says safe source power, as trace does" grep -q "worst  *safe source power  *note" margins.txt
 check "history --margins: #2 caution, at the safe power its trace gives ($safe2)" \
 	sh -c "grep -q '^#2 .* caution  *$safe2  *shorter focus' margins.txt && ! grep -q OVER trace2.txt"
 run history $B --margins --format json
@@ -94,8 +96,8 @@ run compare $B 1 2
 check "compare: the value old -> new with units" out_has "L1 (lens): focal 200 mm → 150 mm"
 check "compare: the setups by number" out_has "Bench $B: #1 → #2"
 check "compare: the effect on the margins" \
-	sh -c "grep -q '^  W1  *window .*109 % over → 41.3 % ok' '$T_DIR/out'"
-check "compare: the worst element on both sides" out_has "Worst: W1 109 % over → ND1 82.7 % caution"
+	sh -c "grep -q '^  W1  *window .*109 % OVER → 41.3 % ok' '$T_DIR/out'"
+check "compare: the worst element on both sides" out_has "Worst: W1 109 % OVER → ND1 82.7 % caution"
 check "compare: exit status 0" rc_is 0
 run compare $B '#1' '#2'
 check "compare: #1 and #2 are the same setups as 1 and 2" out_has "Bench $B: #1 → #2"

@@ -265,4 +265,98 @@ else
 	skip "no script(1): --color=never on a terminal"
 fi
 
+# --- trace --explain ID: a limit derived in full (issue 9 item 4) ---
+
+run ex_w1 trace --demo --explain W1 --color never
+check "--explain W1: exit 1 (W1 is over)" status_is ex_w1 1
+check "--explain W1: the rating as given, with its wavelength and pulse" \
+	out_has ex_w1 "damage.fluence = 1.2 J/cm² at 532 nm, 5 ns pulses"
+check "--explain W1: the beam's wavelength and pulse" out_has ex_w1 "8 ns pulses"
+check "--explain W1: the λ rule named" out_has ex_w1 "threshold proportional to λ"
+check "--explain W1: the τ rule named, not capped" out_has ex_w1 "Stuart et al. 1996; both widths inside 50 ps-100 ns: not capped"
+# Hand derivation (the demo's W1, bench-demo.c): rated 1.2 J/cm² at 532 nm,
+# 5 ns; the beam is 1064 nm, 8 ns.  λ factor 1064/532 = 2; τ factor
+# √(8/5) = 1.26491; limit 1.2 × 2 × 1.26491 = 3.03579 J/cm²; safety
+# factor 2: caution at 1.51789 J/cm².  The ratio is the fluence the trace
+# gives at W1 (JSON) over that hand limit.
+"$BEAMLEDGER" trace --demo --format json >"$T_DIR/ex_demo.json"
+if have python3; then
+	check "--explain W1: factors, limit, caution level and ratio as derived by hand" python3 - "$T_DIR/ex_w1.out" "$T_DIR/ex_demo.json" <<'EOF'
+import json, math, re, sys
+out = open(sys.argv[1]).read()
+t = json.load(open(sys.argv[2]))
+def num(label):
+    m = re.search(r"^  %s .*?([0-9.]+) J/cm²$" % label, out, re.M)
+    assert m, label
+    return float(m.group(1))
+lam, tau = 1064 / 532, math.sqrt(8 / 5)
+limit = 1.2 * lam * tau
+assert re.search(r"λ factor +× 2 = ", out), out
+assert abs(float(re.search(r"τ factor +× ([0-9.]+)", out).group(1)) - tau) < 5e-4
+assert abs(num("limit") - limit) < 5e-4 * limit, (num("limit"), limit)
+assert abs(num("caution level") - limit / 2) < 5e-4 * limit, num("caution level")
+w1 = [e for e in t["elements"] if e["id"] == "W1"][0]
+f = w1["fluence"] / 1e4           # J/m² -> J/cm²
+m = re.search(r"^  the beam +fluence ([0-9.]+) J/cm² at W1$", out, re.M)
+assert m and abs(float(m.group(1)) - f) < 5e-4 * f, (m and m.group(1), f)
+pct = re.search(r"^  ratio .* = ([0-9.]+) %: OVER$", out, re.M)
+assert pct and abs(float(pct.group(1)) - round(100 * f / limit)) < 0.5, pct and pct.group(1)
+EOF
+else
+	skip "no python3: --explain hand derivation"
+fi
+
+# the √τ law is capped outside 50 ps..100 ns (core-damage.c, REFERENCE §10):
+# hand: a 2 J/cm² rating at 100 fs under 10 ns pulses would be × √(1e5) =
+# × 316, capped at × 1: limit 2 J/cm² (also λ: rated at 532 nm, beam 1064 nm,
+# × 2: 4 J/cm²); at 20 ps under a 10 ns rating the law lowers it,
+# × √(20 ps / 10 ns) = × 0.04472, and that is kept: 0.08944 J/cm².
+PSRC="'source':{'wavelength':'1064 nm','pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','shape':'gaussian','pulse_energy':'1 mJ'},'waist':'1 mm'}"
+bench ex_cap.json "{$HEAD,$PSRC,'path':[
+  {'id':'S1','type':'space','length':'100 mm'},
+  {'id':'MF','type':'mirror','damage':{'fluence':'2 J/cm^2','pulse_width':'100 fs','wavelength':'532 nm'}},
+  {'id':'MP','type':'mirror'},
+  {'id':'BD','type':'dump','max_power':'1 W'}]}"
+run ex_cap trace "$T_DIR/ex_cap.json" --explain MF
+check "--explain, a femtosecond rating on ns pulses: exit 0" status_is ex_cap 0
+check "... the τ factor capped at 1, saying why" out_has ex_cap "capped at 1 (outside 50 ps-100 ns the √τ law only lowers a threshold"
+check "... the limit: 2 J/cm² × 2 (λ) × 1 = 4 J/cm²" out_has ex_cap "= 4.000 J/cm²"
+sed 's/"10 ns","shape"/"20 ps","shape"/; s/"100 fs","wavelength":"532 nm"/"10 ns"/' "$T_DIR/ex_cap.json" >"$T_DIR/ex_low.json"
+run ex_low trace "$T_DIR/ex_low.json" --explain MF
+check "--explain, 20 ps pulses on a 10 ns rating: the law lowers it, not capped" out_has ex_low "× 0.04472 = √(20 ps / 10 ns)"
+check "... the limit 2 J/cm² × 0.04472 = 0.08944 J/cm²" out_has ex_low "= 89.44 mJ/cm²"
+run ex_bd trace "$T_DIR/ex_cap.json" --explain BD
+check "--explain a dump: the power rating is the limit" out_has ex_bd "limit         1.000 W, the rating itself"
+
+run ex_unrated trace "$T_DIR/ex_cap.json" --explain MP
+check "--explain an unrated mirror: exit 2" status_is ex_unrated 2
+check "... nothing on stdout" out_empty ex_unrated
+check "... says it is unrated and which keys would rate it" err_has ex_unrated "element 'MP' (mirror) is unrated: give damage.fluence with damage.pulse_width to rate it"
+run ex_space trace "$T_DIR/ex_cap.json" --explain S1
+check "--explain free space: exit 2, says it has no rating" sh -c '[ "$1" -eq 2 ] && grep -qF "is free space" "$2"' sh "$(rc_of ex_space)" "$T_DIR/ex_space.err"
+run ex_none trace --demo --explain NOPE
+check "--explain an unknown id: exit 2" status_is ex_none 2
+check "... names the id" err_has ex_none "no element 'NOPE'"
+check "... nothing on stdout" out_empty ex_none
+usage_case explain_json trace --demo --explain W1 --format json
+# at an operating point: a point doubling the pulse energy doubles W1's
+# fluence and so its ratio (fluence linear in energy), the limit unchanged
+"$BEAMLEDGER" demo | sed 's/^  "path": \[/  "points": [ { "name": "double", "changes": ["source.pulse_energy=400 mJ"] } ],\n  "path": [/' >"$T_DIR/ex_pts.json"
+run ex_pt trace "$T_DIR/ex_pts.json" --point double --explain W1
+check "--explain at a point: exit 1" status_is ex_pt 1
+check "... the same limit as at the base" out_has ex_pt "= 3.036 J/cm²"
+if have python3; then
+	check "... and twice the base's fluence" python3 -c '
+import re, sys
+f = lambda p: float(re.search(r"the beam +fluence ([0-9.]+) J/cm", open(p).read()).group(1))
+assert abs(f(sys.argv[1]) / f(sys.argv[2]) - 2) < 1e-3, (f(sys.argv[1]), f(sys.argv[2]))' "$T_DIR/ex_pt.out" "$T_DIR/ex_w1.out"
+fi
+# one number form (issue 9 item 18): point list writes W1's ratio and
+# status as trace's table does
+run pl_words point list "$T_DIR/ex_pts.json"
+w1cell=$(awk '$1 == "W1" { for (i = 2; i <= NF; i++) if ($i == "%") print $(i-1) " %" }' "$T_DIR/demo.out")
+check "point list: the base's worst as the table writes it ($w1cell OVER)" out_has pl_words "W1 at $w1cell (OVER)"
+run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
+check "--explain with an unknown point: exit 2" status_is ex_filter 2
+
 done_testing

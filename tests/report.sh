@@ -74,6 +74,25 @@ print("Over: %d caution: %d ok: %d unrated: %d Unterminated beams: %d air-breakd
 EOF
 )
 check "PDF: the verdict's counts ($counts)" has review.txt "$counts"
+# every kind of warning the trace gives, counted from its JSON, and the
+# above-critical-power notes (a flag of the rows)
+warns=$(python3 - trace2.json <<'EOF'
+import json, sys
+t = json.load(open(sys.argv[1]))
+words = {"air_breakdown": ("spark", "sparks"), "unterminated": ("unterminated beam", "unterminated beams"),
+         "unrated_absorber": ("unrated absorber", "unrated absorbers"),
+         "unrated_dump": ("unrated dump", "unrated dumps")}
+order, n = [], {}
+for w in t["warnings"]:
+    if w["kind"] not in n:
+        order.append(w["kind"]); n[w["kind"]] = 0
+    n[w["kind"]] += 1
+parts = ["%d %s" % (n[k], words.get(k, (k, k))[n[k] != 1]) for k in order]
+notes = sum(1 for e in t["elements"] if "above_critical_power" in e["flags"])
+print("Warnings: " + (", ".join(parts) or "none") + ("; notes: %d above critical power" % notes if notes else ""))
+EOF
+)
+check "PDF: every warning kind with its count ($warns)" has review.txt "$warns"
 
 # the draft compares with the latest setup; --since chooses
 run sincepdf report "$B@2" --since 1 -o since.pdf
@@ -94,6 +113,7 @@ tr -s ' \n' '  ' <review.md >review.mdw
 check "MD: bench and setup" has review.mdw "# Review of bench $B, setup #2"
 check "MD: the worst element" has review.mdw "Worst element: $worst"
 check "MD: the safe source power" has review.mdw "Safe source power: $safe"
+check "MD: every warning kind with its count" has review.mdw "$warns"
 check "MD: the content hash" has review.mdw "$h"
 # the chain counts free space per branch: S5 (150 mm in the bench file)
 # lies before CM1; the 80 mm of POL1's rejected branch do not
@@ -107,6 +127,11 @@ check "MD: every caution line" [ -z "$missing" ]
 rows=$(awk '/^## Elements/ { on = 1; next } on && /^\| / { n++ } on && /^$/ && n { exit } END { print n - 1 }' review.md)
 want=$("$BEAMLEDGER" trace "$B@2" --format json | python3 -c 'import json, sys; print(len(json.load(sys.stdin)["elements"]))')
 check "MD: a table row per element ($rows of $want)" [ "$rows" -eq "$want" ]
+# the table's status words (issue 9 item 18): free space is n/a, the
+# sparking focus (S9, an air breakdown in the trace's JSON) is "spark"
+spark=$(python3 -c 'import json,sys; print([e["id"] for e in json.load(open(sys.argv[1]))["elements"] if "air_breakdown" in e["flags"]][0])' trace2.json)
+check "MD: free space says n/a, as trace's table does" grep -q '^| S0 | space | .* | - | n/a |' review.md
+check "MD: the sparking focus ($spark) says spark, as trace's table does" grep -q "^| $spark | space | .* | spark |" review.md
 run mdout report "$B" --format md -o -
 check "'-o -' with --format md writes to standard output" out_has mdout "# Review of bench $B, the draft"
 
@@ -223,5 +248,84 @@ run nob report no-such-bench -o nb.pdf
 check "unknown bench: exit 2" status_is nob 2
 check "unknown bench: no file" [ ! -e nb.pdf ]
 check "no temporary file is left anywhere" [ -z "$(ls -a | grep -E '\.(pdf|md|svg)\.' )" ]
+
+# ---- operating points: one point, or the base and every point ----
+run pa point add "$B" full source.pulse_energy=250mJ
+run pb point add "$B" align source.pulse_energy=2mJ +filter:ND9@S0 ND9.od=1
+run prec record "$B" -n "two operating points"
+check "a setup with two operating points is recorded" sh -c '[ "$1" -eq 0 ] && [ "$2" -eq 0 ] && [ "$3" -eq 0 ]' sh "$(rc_of pa)" "$(rc_of pb)" "$(rc_of prec)"
+run ppdf report "$B@3" --point full -o point.pdf
+check "report --point full: exit 0" status_is ppdf 0
+check "... says which point it wrote" out_has ppdf "setup #3, point full"
+pdf_words point.pdf >point.txt
+check "--point PDF: the title names the point" has point.txt "Review of bench $B, setup #3, point full"
+check "--point PDF: the verdict names the point" has point.txt "Operating point: full (one of 2"
+check "... and its change" has point.txt "source.pulse_energy=250mJ"
+# the worst at that point, from trace --point's JSON (not from the report)
+"$BEAMLEDGER" trace "$B@3" --point full --format json >pfull.json
+"$BEAMLEDGER" trace "$B@3" --format json >pbase.json
+pw=$(python3 -c 'import json,sys; w=json.load(open(sys.argv[1]))["worst"]; print("%s %.0f" % (w["id"], 100 * w["ratio"]))' pfull.json)
+check "--point PDF: the worst element at the point (${pw% *}, ${pw#* } %)" has point.txt "Worst element: ${pw% *} (window), ${pw#* } %"
+# hand: the point raises the pulse energy from 200 to 250 mJ and changes
+# nothing else, so every fluence, and W1's ratio, is 250/200 = 1.25 times
+# the base's (fluence is linear in pulse energy)
+check "--point: the point's worst ratio is 1.25 times the base's (fluence linear in energy)" python3 -c '
+import json, sys
+p = json.load(open(sys.argv[1]))["worst"]; b = json.load(open(sys.argv[2]))["worst"]
+assert p["id"] == b["id"] == "W1", (p, b)
+assert abs(p["ratio"] / b["ratio"] - 1.25) < 1e-9, (p, b)' pfull.json pbase.json
+run pmd report "$B@3" --point full -o point.md
+check "--point Markdown: exit 0" status_is pmd 0
+tr -s ' \n' '  ' <point.md >point.mdw
+check "--point MD: the title names the point" has point.mdw "# Review of bench $B, setup #3, point full"
+check "--point MD: the worst element at the point" has point.mdw "Worst element: ${pw% *} (window), ${pw#* } %"
+check "--point MD: the point's change" has point.mdw "changes source.pulse_energy=250mJ"
+run pdef report "$B@3" --point full
+check "--point without -o: BENCH-setup-3-point-full.pdf" sh -c '[ "$1" -eq 0 ] && pdfinfo "$2" >/dev/null 2>&1' sh "$(rc_of pdef)" "$B-setup-3-point-full.pdf"
+
+run epdf report "$B@3" --every-point -o every.pdf
+check "report --every-point: exit 0" status_is epdf 0
+pdf_words every.pdf >every.txt
+"$BEAMLEDGER" trace "$B@3" --every-point --format json >every.json
+ew=$(python3 -c '
+import json, sys
+t = json.load(open(sys.argv[1]))
+w = max(t["worst_by_element"], key=lambda e: e["ratio"])
+print("%s %.0f %s %d" % (w["id"], 100 * w["ratio"], w["point"], len(t["points"]) - 1))' every.json)
+set -- $ew
+check "--every-point PDF: the title says every point" has every.txt "setup #3, the base and every operating point"
+check "--every-point PDF: the verdict counts the points ($4)" has every.txt "Operating points: $4 besides the base"
+check "--every-point PDF: the worst anywhere and where ($1 $2 % at $3)" has every.txt "Worst over the base and every point: $1, $2 % of its threshold at point $3"
+check "--every-point PDF: the table's column" has every.txt "worst, at point"
+check "--every-point PDF: each point's summary" has every.txt "align: worst"
+run emd report "$B@3" --every-point -o every.md
+check "--every-point Markdown: exit 0" status_is emd 0
+tr -s ' \n' '  ' <every.md >every.mdw
+check "--every-point MD: the verdict counts the points" has every.mdw "Operating points: $4 besides the base"
+check "--every-point MD: the worst anywhere and where" has every.mdw "Worst over the base and every point: $1, $2 % of its threshold at point $3"
+# per element: the table's last cell names the point trace --every-point names
+cat >rows.py <<'EOF'
+import json, sys
+t = json.load(open(sys.argv[2]))
+rows = {}
+for line in open(sys.argv[1]):
+    if line.startswith("| ") and " at " in line:
+        cells = [c.strip() for c in line.strip().strip("|").split("|")]
+        rows[cells[0].split(" (in ")[0]] = cells[-1]
+n = 0
+for e in t["worst_by_element"]:
+    if e["id"] not in rows:
+        continue        # an element only a point puts in: listed, not a row
+    assert rows[e["id"]].endswith(" at " + e["point"]), (e, rows[e["id"]])
+    n += 1
+assert n >= 5, n
+EOF
+check "--every-point MD: every rated element's worst is at the point trace names" python3 rows.py every.md every.json
+run pbad report "$B@3" --point nosuch -o bad.pdf
+check "--point with an unknown point: exit 2" status_is pbad 2
+check "... names it" err_has pbad "no point 'nosuch'"
+check "... and no file" [ ! -e bad.pdf ]
+run pboth report "$B@3" --point full --every-point -o both.pdf
+check "--point with --every-point: exit 2, no file" sh -c '[ "$1" -eq 2 ] && [ ! -e both.pdf ]' sh "$(rc_of pboth)"
 
 done_testing

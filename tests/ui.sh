@@ -259,7 +259,7 @@ check "with its note" wait_for ui '"window far from the focus"'
 t_keys ui Down
 check "#2 selected" wait_for ui "Enter compares #1 → #2"
 step "compare shows the chain change" ui "moved" Enter
-check "compare shows the margin effect" wait_line ui 'W1 .*ok → .*over'
+check "compare shows the margin effect" wait_line ui 'W1 .*ok → .*OVER'
 t_keys ui Escape
 check "compare closes" wait_for ui "Space›pin"
 t_keys ui m
