@@ -79,6 +79,13 @@ check "a value typed at a point is its override" \
 t_keys ui Escape
 check "... stored in the point" sh -c '"$1" --db "$2" point show '$B' alignment | grep -q "^  S0.length=250 mm$"' _ "$BL" "$DB"
 check "... and not in the base" sh -c '"$1" --db "$2" export '$B' | grep -qF "\"id\": \"S0\", \"type\": \"space\", \"length\": \"300 mm\""' _ "$BL" "$DB"
+# the logbook's draft line is the base's, as every setup's is
+t_keys ui h
+check "the logbook opens at a point" wait_for ui "setup recorded"
+check "... its draft line is the base's (W1 over), not the point's" \
+	sh -c '"${TMUX_BIN:-tmux}" -L "$1" capture-pane -p -t ui | grep -c "OVER W1 109 %" | grep -qx 2' _ "$T_SOCK"
+t_keys ui Escape
+wait_gone ui "setup recorded" >/dev/null
 # the source at a point: b, then its power, replaces the point's own change
 t_keys ui b
 wait_for ui "the beam and bench settings" >/dev/null
