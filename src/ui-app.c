@@ -155,7 +155,7 @@ set_shown(struct app *a)
 	if (a->bench == NULL)
 		return;
 	if (a->point >= (long)a->bench->points.n) {
-		app_msg(a, 1, "that operating point is gone: the base is shown");
+		app_msg(a, 0, "that operating point is gone: the base is shown");
 		a->point = -1;
 	}
 	if (a->point >= 0) {

@@ -6,7 +6,10 @@
  * Rules: a pane's key handler changes state and returns what must happen
  * next (enum ui_reaction); only ui_app_frame() paints.  Every change to the
  * bench goes through app_edit(), which snapshots for undo, retraces and
- * saves the draft.  Owned by the workbench. */
+ * saves the draft.  The screens draw `shown` (the draft, or a copy at the
+ * operating point on screen) and edit `bench` (the draft); with a point on
+ * screen app_edit refuses layout changes, and values go to the point's
+ * overrides (ui_point_override).  Owned by the workbench. */
 #ifndef UI_APP_H
 #define UI_APP_H
 

@@ -115,8 +115,17 @@ margin_words(const struct trace *t, enum damage_status *st)
 static char *
 entry_margin(struct app *a, struct hist *d, int e, enum damage_status *st)
 {
-	if (e == 0)
+	if (e == 0 && a->shown == a->bench)
 		return margin_words(a->trace, st);
+	if (e == 0) {
+		/* a point is on the chain: the draft's own line is its base, as
+		 * every setup's is */
+		struct trace *t = trace_run(a->bench);
+		char *m = margin_words(t, st);
+
+		trace_free(t);
+		return m;
+	}
 	if (d->margin[e - 1] == NULL) {
 		char ref[24];
 		struct bench *b;

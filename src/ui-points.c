@@ -66,8 +66,7 @@ pts_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ncol = 1;
 	if ((size_t)ncol > sv->n)
 		ncol = (int)sv->n;
-	t = sv->n == 1 ? xstrdup("This bench has no operating points: add them with "
-	    "'beamledger point add BENCH NAME CHANGE...'.") :
+	t = sv->n == 1 ? xstrdup("This bench has no operating points yet: n adds one.") :
 	    xasprintf("%zu point%s besides the base%s.", sv->n - 1, sv->n == 2 ? "" : "s",
 	    (size_t)ncol < sv->n ? "; the widest terminal shows more" : "");
 	ui_put(a, 1, 1, w - 2, t, UC_DIM);
@@ -148,9 +147,13 @@ pts_back(struct app *a, struct ui_pane *p)
 	return UI_POP | UI_REDRAW;
 }
 
+static enum ui_reaction pts_new(struct app *, struct ui_pane *);
+static void pts_enter(struct app *, struct ui_pane *);
+
 static const struct ui_key pts_keys[] = {
 	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "element", 0, "choose an element", pts_up, 0, UG_MOVE },
 	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, pts_down, 0, UG_MOVE },
+	{ { 'n', UI_FKEY(KEY_IC) }, "n", "new point", 1, "a new operating point: its name and first change (also Insert)", pts_new, UI_K_EDITS, UG_VALUES },
 	{ { UI_ESC, 'q', 'o', '\r' }, "Esc", "back to the chain", 0,
 	    "back to the chain, the element chosen here selected (also q, o, Enter)", pts_back, 0,
 	    UG_LEAVE },
@@ -158,20 +161,20 @@ static const struct ui_key pts_keys[] = {
 };
 
 const struct ui_pane_ops ui_points_ops = {
-	"operating points", 0, pts_keys, pts_draw, NULL, NULL, NULL, NULL, pts_release,
+	"operating points", 0, pts_keys, pts_draw, NULL, NULL, pts_enter, NULL, pts_release,
 };
 
-void
-ui_points_push(struct app *a)
+/* Traces the base and every point for the screen; -1 (said) when it cannot. */
+static int
+pts_load(struct app *a, struct pts_view *v)
 {
-	struct pts_view *v = xcalloc(1, sizeof *v);
 	const struct layout_row *sr = app_sel_row(a);
 	char *cause = NULL;
 
+	v->nrows = v->sel = 0;
 	if (point_survey_run(a->bench, NULL, &v->sv, &cause) != 0) {
 		app_msg_take(a, 1, cause);
-		free(v);
-		return;
+		return -1;
 	}
 	v->rows = xcalloc(v->sv.nel + 1, sizeof *v->rows);
 	for (size_t j = 0; j < v->sv.nel; j++) {
@@ -185,7 +188,116 @@ ui_points_push(struct app *a)
 			v->sel = v->nrows;
 		v->rows[v->nrows++] = j;
 	}
+	return 0;
+}
+
+void
+ui_points_push(struct app *a)
+{
+	struct pts_view *v = xcalloc(1, sizeof *v);
+
+	if (pts_load(a, v) != 0) {
+		free(v);
+		return;
+	}
 	app_push(a, &ui_points_ops, v);
+}
+
+/* Back on top (after the new-point prompt): the points again. */
+static void
+pts_enter(struct app *a, struct ui_pane *p)
+{
+	struct pts_view *v = p->data;
+	struct point_survey old = v->sv;
+
+	free(v->rows);
+	v->rows = NULL;
+	memset(&v->sv, 0, sizeof v->sv);
+	if (pts_load(a, v) != 0)
+		v->sv = old;        /* keep what was shown */
+	else
+		point_survey_release(&old);
+	if (v->rows == NULL)
+		v->rows = xcalloc(1, sizeof *v->rows);
+}
+
+struct new_point {
+	const char *name;
+	char      **change;
+	size_t      n;
+};
+
+static int
+do_new_point(struct bench *b, void *arg, char **cause)
+{
+	struct new_point *np = arg;
+
+	return point_edit_add(b, np->name, np->change, np->n, cause);
+}
+
+static char *
+trimmed(const char *s, size_t len)
+{
+	while (len > 0 && (*s == ' ' || *s == '\t')) {
+		s++;
+		len--;
+	}
+	while (len > 0 && (s[len - 1] == ' ' || s[len - 1] == '\t'))
+		len--;
+	return xasprintf("%.*s", (int)len, s);
+}
+
+/* "NAME: CHANGE; CHANGE ...": the point added to the draft and shown. */
+static int
+new_point(struct app *a, void *arg, const char *text, char **cause)
+{
+	const char *colon = strchr(text, ':'), *c;
+	struct new_point np = { NULL, NULL, 0 };
+	char *name;
+	int rc;
+
+	(void)arg;
+	if (colon == NULL)
+		return fail_with(cause, "write NAME: CHANGE, e.g. alignment: source.power=20 mW");
+	name = trimmed(text, (size_t)(colon - text));
+	for (c = colon + 1; *c != '\0';) {
+		const char *end = strchr(c, ';');
+		size_t len = end != NULL ? (size_t)(end - c) : strlen(c);
+		char *one = trimmed(c, len);
+
+		if (one[0] != '\0') {
+			np.change = xreallocarray(np.change, np.n + 1, sizeof *np.change);
+			np.change[np.n++] = one;
+		} else {
+			free(one);
+		}
+		c += len + (end != NULL);
+	}
+	np.name = name;
+	a->point_edit = 1;
+	rc = app_edit(a, do_new_point, &np, cause);
+	a->point_edit = 0;
+	if (rc == 0) {
+		a->point = (long)a->bench->points.n - 1;
+		app_retrace(a);
+		app_msg(a, 0, "point %s added and shown on the chain: values typed there are its "
+		    "overrides", name);
+	}
+	for (size_t i = 0; i < np.n; i++)
+		free(np.change[i]);
+	free(np.change);
+	free(name);
+	return rc;
+}
+
+static enum ui_reaction
+pts_new(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_prompt(a, "new operating point", "Its name and its first change (more after ';'), "
+	    "e.g. alignment: source.power=20 mW; ND1.od=2. Then values typed on the chain "
+	    "while it is shown are its overrides.", "", new_point, NULL, NULL);
+	return UI_REDRAW;
 }
 
 /* ---- a sweep with a cursor ---- */
@@ -482,8 +594,7 @@ ui_point_cycle(struct app *a)
 	if (a->bench == NULL)
 		return;
 	if (a->bench->points.n == 0) {
-		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
-		    a->name);
+		app_msg(a, 1, "no operating points yet: o, then n adds one");
 		return;
 	}
 	a->point = layout_point_next(a->bench, a->point);
@@ -518,8 +629,7 @@ ui_point_worst_toggle(struct app *a)
 	if (a->bench == NULL)
 		return;
 	if (!a->worst_all && a->bench->points.n == 0) {
-		app_msg(a, 1, "no operating points yet: beamledger point add %s NAME CHANGE...",
-		    a->name);
+		app_msg(a, 1, "no operating points yet: o, then n adds one");
 		return;
 	}
 	a->worst_all = !a->worst_all;

@@ -79,6 +79,13 @@ check "a value typed at a point is its override" \
 t_keys ui Escape
 check "... stored in the point" sh -c '"$1" --db "$2" point show '$B' alignment | grep -q "^  S0.length=250 mm$"' _ "$BL" "$DB"
 check "... and not in the base" sh -c '"$1" --db "$2" export '$B' | grep -qF "\"id\": \"S0\", \"type\": \"space\", \"length\": \"300 mm\""' _ "$BL" "$DB"
+# the logbook's draft line is the base's, as every setup's is
+t_keys ui h
+check "the logbook opens at a point" wait_for ui "setup recorded"
+check "... its draft line is the base's (W1 over), not the point's" \
+	sh -c '"${TMUX_BIN:-tmux}" -L "$1" capture-pane -p -t ui | grep -c "OVER W1 109 %" | grep -qx 2' _ "$T_SOCK"
+t_keys ui Escape
+wait_gone ui "setup recorded" >/dev/null
 # the source at a point: b, then its power, replaces the point's own change
 t_keys ui b
 wait_for ui "the beam and bench settings" >/dev/null
@@ -118,6 +125,22 @@ check "v at a point: the sweep says so" wait_for ui "sweep of HWP1.angle, 0 .. 4
 check "... and is traced there" wait_line ui 'HWP1\.angle = 0°: worst W1 38[3-6] % OVER'
 t_keys ui Escape
 wait_gone ui "sweep of HWP1.angle" >/dev/null
+# a new point from the workbench: o, then n; refusals said at the prompt
+t_keys ui o
+wait_for ui "operating points side by side" >/dev/null
+t_keys ui n
+check "n on the points screen asks a new point" wait_for ui "Its name and its first change"
+t_keys ui -l "full: source.power=1 W"
+t_keys ui Enter
+check "a name in use is refused at the prompt" wait_for ui "point 'full' exists already"
+t_keys ui C-u
+t_keys ui -l "quarter: source.power=500 mW"
+t_keys ui Enter
+check "the point added and shown" wait_for ui "point quarter added and shown on the chain"
+check "... a column for it on the screen" wait_line ui "element +base +alignment +full +quarter"
+check "... the margin line says it is shown" wait_line ui '^point quarter 3/3 │ '
+check "... and it is in the draft" sh -c '"$1" --db "$2" point show '$B' quarter | grep -q "^  source.power=500 mW$"' _ "$BL" "$DB"
+t_keys ui Escape
 t_keys ui Q
 check "Q quits" wait_exit ui 5
 check "... with status 0" [ "$(t_status ui)" = 0 ]
