@@ -390,6 +390,34 @@ check "the demo is now #1 in that database" sh -c '"$1" --db "$2" history table3
 check "open --demo without a terminal is a usage error" [ $? -eq 2 ]
 check "and creates no database" [ ! -e "$T_DIR/nodemo.db" ]
 
+# ---- a waist is not a focus (9.9): a 1:2 Kepler telescope ----
+# L1 (50 mm) focuses the 1 mm beam to a real focus 50 mm on (concentration
+# far above 2); L2 (100 mm), 150 mm after L1, recollimates it to 2 mm,
+# whose waist downstream concentrates it by less than 2: no focus mark.
+cat >"$T_DIR/tel.json" <<'EOT'
+{"format":"beamledger-bench-1","name":"telescope","source":{"wavelength":"532 nm","power":"5 W","waist":"1 mm"},
+"path":[{"id":"S0","type":"space","length":"100 mm"},{"id":"L1","type":"lens","focal":"50 mm"},
+{"id":"S1","type":"space","length":"150 mm"},{"id":"L2","type":"lens","focal":"100 mm"},
+{"id":"S2","type":"space","length":"1500 mm"},{"id":"BD","type":"dump","max_power":"10 W"}]}
+EOT
+"$BL" --db "$DB" import "$T_DIR/tel.json" >/dev/null 2>&1
+t_start tel 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open telescope
+check "telescope bench open" wait_for tel "telescope"
+t_keys tel z
+check "telescope profile drawn" wait_for tel "profile along main"
+check "one focus on the axis: the real one between the lenses, not the collimated waist" \
+	wait_line tel '^ +axis │[^◆]*◆[^◆]*$'
+t_keys tel Escape
+t_keys tel Down Down
+check "the gap with the real focus selected" wait_for tel "space S1"
+check "its results say focus" wait_for tel "focus"
+t_keys tel End
+t_keys tel Up
+check "the collimated gap selected" wait_for tel "space S2"
+check "its results call no focus" no_line tel '(focus|FOCUS)'
+t_keys tel Q
+check "telescope quits" wait_exit tel 5
+
 # ---- the database, checked with the CLI ----
 log=$("$BL" --db "$DB" history focus-test 2>&1)
 check "log: #2 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
