@@ -528,7 +528,12 @@ changes(struct pdoc *d)
 	snprintf(title, sizeof title, "Changes since %s and their effect on the margins",
 	    rv->since);
 	pdf_heading(d, title);
-	s = report_diff_text(rv->changes, rv->bench->name, rv->since, rv->setup);
+	if (rv->point != NULL || rv->survey != NULL)
+		para(d, PDF_SANS " Oblique 7.5", "Between the two setups as recorded (their base "
+		    "benches); the operating points' own changes are in the verdict and the "
+		    "point list.", 0);
+	s = report_diff_text(rv->changes, rv->bench->name, rv->since,
+	    rv->base_setup != NULL ? rv->base_setup : rv->setup);
 	lines(d, PDF_MONO " 6.3", s);
 	free(s);
 }
