@@ -358,6 +358,15 @@ fi
 run pl_words point list "$T_DIR/ex_pts.json"
 w1cell=$(awk '$1 == "W1" { for (i = 2; i <= NF; i++) if ($i == "%") print $(i-1) " %" }' "$T_DIR/demo.out")
 check "point list: the base's worst as the table writes it ($w1cell OVER)" out_has pl_words "W1 at $w1cell (OVER)"
+# ... and a sweep at the demo's own HWP1 angle (11.25°) writes every
+# rated element's ratio as the table's cells do
+run sw_words sweep --demo HWP1.angle 11.25 22.5 --steps 2
+check "sweep: the first step's ratios are the table's cells" sh -c '
+	row=$(sed -n "3p" "$1")
+	for id in HWP1 ND1 PD1 W1; do
+		cell=$(awk -v id="$id" "\$1 == id { for (i = 2; i <= NF; i++) if (\$i == \"%\") print \$(i-1) \" %\" }" "$2")
+		printf "%s\n" "$row" | grep -qF " $cell " || { echo "# $id: $cell not in: $row"; exit 1; }
+	done' sh "$T_DIR/sw_words.out" "$T_DIR/demo.out"
 run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
 check "--explain with an unknown point: exit 2" status_is ex_filter 2
 
