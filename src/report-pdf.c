@@ -237,6 +237,8 @@ verdict_and_signoff(struct pdoc *d)
 
 /* ---- the element table ---- */
 
+static void para(struct pdoc *, const char *font, const char *text, double indent);
+
 /* Display columns: the review's cells, with every point's worst before
  * the flags when there is a survey; the last column takes what is left. */
 enum { PCOLS = REVIEW_NCOLS + 1, PC_WORST = REVIEW_NCOLS - 1 };
@@ -371,6 +373,9 @@ element_table(struct pdoc *d)
 	for (size_t i = 0; i < n; i++)
 		h[i] = l[i].h = tline_draw(d, &l[i], 0);
 	pdf_heading(d, "Elements");
+	if (d->rv->survey != NULL)
+		para(d, PDF_SANS " Oblique 7", "Values at the base; \"worst, at point\" is the "
+		    "element's worst ratio over the base and every operating point, and where.", 0);
 	/* later pages lose a line to "(continued)" */
 	npages = rep_paginate(h, n, d->bottom - d->y, d->bottom - d->top - 12, table_header(d, 0),
 	    page);
