@@ -99,12 +99,15 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	char v1[48], v2[48], v3[48], pct[32];
 	struct buf o;
 
-	if (r == NULL)
-		return fail_with(cause, "bench '%s': no element '%s' to explain", b->name, id),
-		    NULL;
-	if (r->el->type == EL_SPACE)
-		return fail_with(cause, "bench '%s': '%s' is free space: it has no rating "
-		    "(n/a); explain an optic", b->name, id), NULL;
+	if (r == NULL) {
+		fail_with(cause, "bench '%s': no element '%s' to explain", b->name, id);
+		return NULL;
+	}
+	if (r->el->type == EL_SPACE) {
+		fail_with(cause, "bench '%s': '%s' is free space: it has no rating (n/a); "
+		    "explain an optic", b->name, id);
+		return NULL;
+	}
 	if (layout_derive(r, b, &d) != 0) {
 		struct buf k;
 
@@ -123,9 +126,9 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 		return NULL;
 	}
 	buf_init(&o);
+	layout_percent(pct, sizeof pct, d.ratio);
 	buf_printf(&o, "Why %s (%s) is at %s of its limit, on bench %s:\n\n", id,
-	    model_type_name(r->el->type), (layout_percent(pct, sizeof pct, d.ratio), pct),
-	    b->name);
+	    model_type_name(r->el->type), pct, b->name);
 	/* the rating as given, with the conditions it was specified at */
 	units_format_shortest(v1, sizeof v1, d.rating, d.dim, ascii);
 	lab(&o, "rating", "");

@@ -332,6 +332,9 @@ run ex_unrated trace "$T_DIR/ex_cap.json" --explain MP
 check "--explain an unrated mirror: exit 2" status_is ex_unrated 2
 check "... nothing on stdout" out_empty ex_unrated
 check "... says it is unrated and which keys would rate it" err_has ex_unrated "element 'MP' (mirror) is unrated: give damage.fluence with damage.pulse_width to rate it"
+bench ex_cw.json "{$HEAD,$SRC,'path':[{'id':'MC','type':'mirror','damage':{'fluence':'2 J/cm^2','pulse_width':'10 ns'}}]}"
+run ex_cw trace "$T_DIR/ex_cw.json" --explain MC
+check "--explain a pulsed rating on a CW bench: exit 2, says why and what rates it" sh -c '[ "$1" -eq 2 ] && grep -qF "unrated on this CW bench: its damage.fluence rating says nothing about a CW beam; give damage.cw_irradiance" "$2"' sh "$(rc_of ex_cw)" "$T_DIR/ex_cw.err"
 run ex_space trace "$T_DIR/ex_cap.json" --explain S1
 check "--explain free space: exit 2, says it has no rating" sh -c '[ "$1" -eq 2 ] && grep -qF "is free space" "$2"' sh "$(rc_of ex_space)" "$T_DIR/ex_space.err"
 run ex_none trace --demo --explain NOPE
