@@ -54,6 +54,7 @@ struct review_src {
 	struct bench *bench, *old;
 	char *setup, *names, *time, *author, *note, *origin, *since, *why, *stem;
 	char *point;                /* NULL: the base */
+	char *base_setup;           /* setup before the point's words were added */
 	int every;                  /* the base and every point */
 };
 
@@ -74,6 +75,7 @@ review_src_free(struct review_src *g)
 	free(g->why);
 	free(g->stem);
 	free(g->point);
+	free(g->base_setup);
 	free(g);
 }
 
@@ -113,7 +115,10 @@ review_src_points(struct review_src *g, const char *point, int every)
 	} else {
 		return;
 	}
-	free(g->setup);
+	if (g->base_setup == NULL)
+		g->base_setup = g->setup;
+	else
+		free(g->setup);
 	g->setup = s;
 }
 
@@ -306,6 +311,7 @@ review_src_write(const struct review_src *g, const char *path, int fmt, char **c
 		.origin = g->origin, .hash = hash, .printed = printed, .changes = d,
 		.since = g->since, .no_changes_why = g->why };
 	rv.npoints = g->bench->points.n;
+	rv.base_setup = g->base_setup;
 	if (g->point != NULL) {
 		rv.bench = sv.last;
 		rv.trace = sv.last_trace;

@@ -12,6 +12,7 @@
 #include "bench-demo.h"
 #include "bench-file.h"
 #include "cmd.h"
+#include "core-layout.h"
 #include "core-point.h"
 #include "core-sweep.h"
 #include "report.h"
@@ -37,13 +38,12 @@ value_text(char *buf, size_t n, const struct sweep_knob *k, double v, int sig)
 		units_format(buf, n, v, k->dim, sig, 0);
 }
 
+/* The table's and the workbench's percent form ("<0.01 %", "0.91 %",
+ * "128 %"), so a sweep reads as the trace does. */
 static void
 ratio_text(char *buf, size_t n, double r)
 {
-	if (isnan(r))
-		snprintf(buf, n, "-");
-	else
-		snprintf(buf, n, "%.1f%%", 100 * r);
+	layout_percent(buf, n, r);
 }
 
 static const char series_mark[] = "*+ox#@%&";

@@ -19,11 +19,11 @@
 
 const struct cmd cmd_table[] = {
 	{ "trace", cmd_trace, "FILE | BENCH[@SETUP] | --demo [--format table|json|csv] [--color WHEN] "
-	    "[--ascii] [--point NAME | --every-point]",
+	    "[--ascii] [--point NAME | --every-point] [--explain ID]",
 	    "trace a bench: power, beam size, irradiance and damage margins" },
 	{ "demo", cmd_demo, "", "print the built-in demo bench as a bench file" },
 	{ "report", cmd_report, "BENCH[@SETUP] | FILE | --demo [-o FILE.pdf|FILE.svg|FILE.md] "
-	    "[--format pdf|svg|md] [--since SETUP]",
+	    "[--format pdf|svg|md] [--since SETUP] [--point NAME | --every-point]",
 	    "a review of a setup to print and sign: verdict, schematic, profile, table, changes" },
 	{ "sweep", cmd_sweep, "BENCH[@SETUP] | FILE KNOB FROM TO [--steps N] [--log] [--point NAME] "
 	    "[--format table|json|csv]",

@@ -65,6 +65,20 @@ find_row(const struct trace *t, const char *id)
 	return NULL;
 }
 
+/* "  rating        ": a label in a column 14 wide, whatever its script. */
+static void
+lab(struct buf *o, const char *a, const char *b)
+{
+	size_t start;
+
+	buf_add(o, "  ");
+	start = o->len;
+	buf_printf(o, "%s%s", a, b);
+	buf_pad(o, 14, start);
+	if (utf8_cols(o->s + start) >= 14)
+		buf_addc(o, ' ');
+}
+
 /* Four significant digits: enough to check a derivation by hand. */
 static void
 q4(char *buf, size_t n, double v, enum unit_dim dim, int ascii)
@@ -79,17 +93,21 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	const struct trace_row *r = find_row(t, id);
 	const struct source *s = &b->src;
 	const char *x = ascii ? "x" : "\u00d7", *lam = ascii ? "lambda" : "\u03bb",
-	    *tau = ascii ? "tau" : "\u03c4", *sq = ascii ? "sqrt" : "\u221a";
+	    *tau = ascii ? "tau" : "\u03c4", *sq = ascii ? "sqrt" : "\u221a",
+	    *law = ascii ? "sqrt(tau)" : "\u221a\u03c4";
 	struct layout_derivation d;
 	char v1[48], v2[48], v3[48], pct[32];
 	struct buf o;
 
-	if (r == NULL)
-		return fail_with(cause, "bench '%s': no element '%s' to explain", b->name, id),
-		    NULL;
-	if (r->el->type == EL_SPACE)
-		return fail_with(cause, "bench '%s': '%s' is free space: it has no rating "
-		    "(n/a); explain an optic", b->name, id), NULL;
+	if (r == NULL) {
+		fail_with(cause, "bench '%s': no element '%s' to explain", b->name, id);
+		return NULL;
+	}
+	if (r->el->type == EL_SPACE) {
+		fail_with(cause, "bench '%s': '%s' is free space: it has no rating (n/a); "
+		    "explain an optic", b->name, id);
+		return NULL;
+	}
 	if (layout_derive(r, b, &d) != 0) {
 		struct buf k;
 
@@ -108,12 +126,13 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 		return NULL;
 	}
 	buf_init(&o);
+	layout_percent(pct, sizeof pct, d.ratio);
 	buf_printf(&o, "Why %s (%s) is at %s of its limit, on bench %s:\n\n", id,
-	    model_type_name(r->el->type), (layout_percent(pct, sizeof pct, d.ratio), pct),
-	    b->name);
+	    model_type_name(r->el->type), pct, b->name);
 	/* the rating as given, with the conditions it was specified at */
 	units_format_shortest(v1, sizeof v1, d.rating, d.dim, ascii);
-	buf_printf(&o, "  rating        %s = %s", model_key_path((enum model_key)d.key), v1);
+	lab(&o, "rating", "");
+	buf_printf(&o, "%s = %s", model_key_path((enum model_key)d.key), v1);
 	if (d.metric == LD_FLUENCE || d.metric == LD_CW_LINEAR || d.metric == LD_CW_IRRADIANCE) {
 		if (model_has(r->el, K_DMG_WAVELENGTH)) {
 			units_format_shortest(v2, sizeof v2, r->el->val[K_DMG_WAVELENGTH],
@@ -130,7 +149,8 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	}
 	buf_addc(&o, '\n');
 	units_format_shortest(v1, sizeof v1, s->wavelength, DIM_LENGTH, ascii);
-	buf_printf(&o, "  beam          %s", v1);
+	lab(&o, "beam", "");
+	buf_printf(&o, "%s", v1);
 	if (s->pulsed) {
 		units_format_shortest(v2, sizeof v2, s->pulse_width, DIM_TIME, ascii);
 		buf_printf(&o, ", %s pulses", v2);
@@ -140,23 +160,25 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	buf_addc(&o, '\n');
 	/* the λ factor */
 	if (d.metric == LD_MAX_POWER || d.metric == LD_MAX_ABSORBED) {
-		buf_printf(&o, "  %s factor      none: a power rating is not scaled\n", lam);
-		buf_printf(&o, "  %s factor      none: a power rating is not scaled\n", tau);
+		lab(&o, lam, " factor");
+		buf_add(&o, "none: a power rating is not scaled\n");
+		lab(&o, tau, " factor");
+		buf_add(&o, "none: a power rating is not scaled\n");
 	} else {
 		if (model_has(r->el, K_DMG_WAVELENGTH) && r->el->val[K_DMG_WAVELENGTH] != s->wavelength) {
 			units_format_shortest(v1, sizeof v1, s->wavelength, DIM_LENGTH, ascii);
 			units_format_shortest(v2, sizeof v2, r->el->val[K_DMG_WAVELENGTH],
 			    DIM_LENGTH, ascii);
-			buf_printf(&o, "  %s factor      %s %.4g = %s / %s (threshold proportional "
-			    "to %s: rule of thumb, common practice)\n", lam, x, d.lambda_factor,
-			    v1, v2, lam);
+			lab(&o, lam, " factor");
+			buf_printf(&o, "%s %.4g = %s / %s (threshold proportional to %s: rule of "
+			    "thumb, common practice)\n", x, d.lambda_factor, v1, v2, lam);
 		} else {
-			buf_printf(&o, "  %s factor      %s 1: rated at the beam's wavelength\n",
-			    lam, x);
+			lab(&o, lam, " factor");
+			buf_printf(&o, "%s 1: rated at the beam's wavelength\n", x);
 		}
 		if (d.metric != LD_FLUENCE) {
-			buf_printf(&o, "  %s factor      none: a CW rating is not scaled by pulse "
-			    "width\n", tau);
+			lab(&o, tau, " factor");
+			buf_add(&o, "none: a CW rating is not scaled by pulse width\n");
 		} else {
 			double ts = r->el->val[K_DMG_PULSE_WIDTH], raw = sqrt(s->pulse_width / ts);
 			int inside = ts >= DAMAGE_TAU_MIN && ts <= DAMAGE_TAU_MAX &&
@@ -164,38 +186,41 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 
 			units_format_shortest(v1, sizeof v1, s->pulse_width, DIM_TIME, ascii);
 			units_format_shortest(v2, sizeof v2, ts, DIM_TIME, ascii);
+			lab(&o, tau, " factor");
 			if (s->pulse_width == ts)
-				buf_printf(&o, "  %s factor      %s 1: rated at the beam's pulse "
-				    "width\n", tau, x);
+				buf_printf(&o, "%s 1: rated at the beam's pulse width\n", x);
 			else if (inside)
-				buf_printf(&o, "  %s factor      %s %.4g = %s(%s / %s) (the %s%s law "
-				    "for fluence, Stuart et al. 1996; both widths inside 50 ps-100 ns: "
-				    "not capped)\n", tau, x, d.tau_factor, sq, v1, v2, sq, tau);
+				buf_printf(&o, "%s %.4g = %s(%s / %s) (the %s law for fluence, Stuart "
+				    "et al. 1996; both widths inside 50 ps-100 ns: not capped)\n", x,
+				    d.tau_factor, sq, v1, v2, law);
 			else if (raw > 1)
-				buf_printf(&o, "  %s factor      %s %.4g: %s(%s / %s) = %.4g capped at 1 "
-				    "(outside 50 ps-100 ns the %s%s law only lowers a threshold, "
-				    "never raises it; ask the vendor for a rating)\n", tau, x,
-				    d.tau_factor, sq, v1, v2, raw, sq, tau);
+				buf_printf(&o, "%s %.4g: %s(%s / %s) = %.4g capped at 1 (outside "
+				    "50 ps-100 ns the %s law only lowers a threshold, never raises it; "
+				    "ask the vendor for a rating)\n", x, d.tau_factor, sq, v1, v2, raw,
+				    law);
 			else
-				buf_printf(&o, "  %s factor      %s %.4g = %s(%s / %s) (outside 50 ps-100 ns: "
-				    "the %s%s law is not established there, but it only lowers the "
-				    "threshold, so it is kept; not capped)\n", tau, x, d.tau_factor,
-				    sq, v1, v2, sq, tau);
+				buf_printf(&o, "%s %.4g = %s(%s / %s) (outside 50 ps-100 ns: the %s law "
+				    "is not established there, but it only lowers the threshold, so it "
+				    "is kept; not capped)\n", x, d.tau_factor, sq, v1, v2, law);
 		}
 	}
 	q4(v1, sizeof v1, d.rating, d.dim, ascii);
 	q4(v2, sizeof v2, d.limit, d.dim, ascii);
+	lab(&o, "limit", "");
 	if (d.metric == LD_MAX_POWER || d.metric == LD_MAX_ABSORBED)
-		buf_printf(&o, "  limit         %s, the rating itself\n", v2);
+		buf_printf(&o, "%s, the rating itself\n", v2);
 	else
-		buf_printf(&o, "  limit         %s %s %.4g %s %.4g = %s\n", v1, x, d.lambda_factor, x,
+		buf_printf(&o, "%s %s %.4g %s %.4g = %s\n", v1, x, d.lambda_factor, x,
 		    d.tau_factor, v2);
 	q4(v3, sizeof v3, d.caution_level, d.dim, ascii);
-	buf_printf(&o, "  caution level %s / %g (the bench's safety factor) = %s\n", v2,
+	lab(&o, "caution level", "");
+	buf_printf(&o, "%s / %g (the bench's safety factor) = %s\n", v2,
 	    d.safety_factor, v3);
 	q4(v1, sizeof v1, exposure_of(r, d.metric), d.dim, ascii);
-	buf_printf(&o, "  the beam      %s %s at %s\n", exposure_name(d.metric), v1, id);
-	buf_printf(&o, "  ratio         %s / %s = %s: %s\n", v1, v2, pct,
+	lab(&o, "the beam", "");
+	buf_printf(&o, "%s %s at %s\n", exposure_name(d.metric), v1, id);
+	lab(&o, "ratio", "");
+	buf_printf(&o, "%s / %s = %s: %s\n", v1, v2, pct,
 	    layout_status_word(r->status));
 	return buf_take(&o);
 }

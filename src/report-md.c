@@ -515,8 +515,13 @@ review_markdown(const struct review *rv)
 		buf_addc(&b, '\n');
 	}
 	if (rv->changes != NULL) {
-		buf_printf(&b, "## Changes since %s\n\n```text\n", rv->since);
-		s = report_diff_text(rv->changes, rv->bench->name, rv->since, rv->setup);
+		buf_printf(&b, "## Changes since %s\n\n", rv->since);
+		if (rv->point != NULL || rv->survey != NULL)
+			buf_add(&b, "Between the two setups as recorded (their base benches); the "
+			    "operating points' own changes are in the verdict and the point list.\n\n");
+		buf_add(&b, "```text\n");
+		s = report_diff_text(rv->changes, rv->bench->name, rv->since,
+		    rv->base_setup != NULL ? rv->base_setup : rv->setup);
 		buf_add(&b, s);
 		free(s);
 		buf_add(&b, "```\n\n");

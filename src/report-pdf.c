@@ -237,6 +237,8 @@ verdict_and_signoff(struct pdoc *d)
 
 /* ---- the element table ---- */
 
+static void para(struct pdoc *, const char *font, const char *text, double indent);
+
 /* Display columns: the review's cells, with every point's worst before
  * the flags when there is a survey; the last column takes what is left. */
 enum { PCOLS = REVIEW_NCOLS + 1, PC_WORST = REVIEW_NCOLS - 1 };
@@ -371,6 +373,9 @@ element_table(struct pdoc *d)
 	for (size_t i = 0; i < n; i++)
 		h[i] = l[i].h = tline_draw(d, &l[i], 0);
 	pdf_heading(d, "Elements");
+	if (d->rv->survey != NULL)
+		para(d, PDF_SANS " Oblique 7", "Values at the base; \"worst, at point\" is the "
+		    "element's worst ratio over the base and every operating point, and where.", 0);
 	/* later pages lose a line to "(continued)" */
 	npages = rep_paginate(h, n, d->bottom - d->y, d->bottom - d->top - 12, table_header(d, 0),
 	    page);
@@ -528,7 +533,12 @@ changes(struct pdoc *d)
 	snprintf(title, sizeof title, "Changes since %s and their effect on the margins",
 	    rv->since);
 	pdf_heading(d, title);
-	s = report_diff_text(rv->changes, rv->bench->name, rv->since, rv->setup);
+	if (rv->point != NULL || rv->survey != NULL)
+		para(d, PDF_SANS " Oblique 7.5", "Between the two setups as recorded (their base "
+		    "benches); the operating points' own changes are in the verdict and the "
+		    "point list.", 0);
+	s = report_diff_text(rv->changes, rv->bench->name, rv->since,
+	    rv->base_setup != NULL ? rv->base_setup : rv->setup);
 	lines(d, PDF_MONO " 6.3", s);
 	free(s);
 }

@@ -34,6 +34,8 @@ struct review {
 	const struct point *point_def;  /* borrowed, with point: its changes */
 	const struct point_survey *survey; /* borrowed, may be NULL: every point */
 	size_t npoints;                 /* the setup's operating points, besides the base */
+	const char *base_setup;         /* borrowed, may be NULL (then setup): "setup #3"
+	                                 * without the point's words, for the changes */
 };
 
 /* The survey's slot of element id (NULL: not in the survey). */

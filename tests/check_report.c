@@ -2,7 +2,9 @@
  * the content hash (util-sha256.c): labels spread so none overlaps,
  * pagination that loses no row, profile samples that pass through the
  * trace and follow Gaussian propagation, schematic cells that never share
- * a place, and SHA-256 against the standard's examples. */
+ * a place, SHA-256 against the standard's examples; the words the review
+ * shares with the table (compare's cells, the source line) and the
+ * verdict's survey of every operating point. */
 #include <config.h>
 
 #include <check.h>
@@ -15,8 +17,11 @@
 #include "core-layout.h"
 #include "core-report.h"
 #include "core-trace.h"
+#include "core-point.h"
 #include "report-diff.h"
+#include "report-review.h"
 #include "report.h"
+#include "util-err.h"
 #include "util-sha256.h"
 
 #include "check-util.h"
@@ -435,6 +440,80 @@ START_TEST(test_source_line_wavelength)
 }
 END_TEST
 
+/* ---- the review of every operating point: the verdict's list and the
+ * table's cell come from the survey, worst first ---- */
+static struct bench *
+demo_with_points(void)
+{
+	const char *at = strstr(bench_demo_text, "  \"path\": [");
+	char *text;
+	struct bench *b;
+
+	ck_assert_ptr_nonnull(at);
+	text = xasprintf("%.*s  \"points\": [ { \"name\": \"full\", \"changes\": "
+	    "[\"source.pulse_energy=250 mJ\"] }, { \"name\": \"low\", \"changes\": "
+	    "[\"source.pulse_energy=20 mJ\"] } ],\n%s", (int)(at - bench_demo_text),
+	    bench_demo_text, at);
+	b = parse(text);
+	free(text);
+	return b;
+}
+
+START_TEST(test_survey_texts)
+{
+	struct bench *b = demo_with_points();
+	struct point_survey sv;
+	struct review rv;
+	char *cause = NULL, *s, cell[64], want[160], pct[32];
+	const struct point_worst *w1;
+	double base_w1 = NAN;
+	size_t ncaution = 0;
+
+	ck_assert_msg(point_survey_run(b, NULL, &sv, &cause) == 0, "%s", cause);
+	memset(&rv, 0, sizeof rv);
+	rv.bench = b;
+	rv.trace = sv.base_trace;
+	rv.survey = &sv;
+	rv.npoints = b->points.n;
+	/* hand: 'full' raises the pulse energy 200 -> 250 mJ and nothing else,
+	 * so W1's fluence and ratio are 1.25 times the base's; 'low' lowers it */
+	for (size_t i = 0; i < sv.base_trace->nrows; i++)
+		if (strcmp(sv.base_trace->rows[i].el->id, "W1") == 0)
+			base_w1 = sv.base_trace->rows[i].ratio;
+	w1 = review_survey_worst(&sv, "W1");
+	ck_assert_ptr_nonnull(w1);
+	ck_assert_str_eq(sv.pt[w1->at].name, "full");
+	ck_assert_double_eq_tol(w1->ratio / base_w1, 1.25, 1e-9);
+	review_survey_cell(&sv, "W1", cell, sizeof cell);
+	layout_percent(pct, sizeof pct, 1.25 * base_w1);
+	snprintf(want, sizeof want, "%s at full", pct);
+	ck_assert_str_eq(cell, want);
+	review_survey_cell(&sv, "S0", cell, sizeof cell);
+	ck_assert_str_eq(cell, "-");
+	/* the list: worst first; with max 1 the rest are counted */
+	for (size_t i = 0; i < sv.nel; i++)
+		if (!isnan(sv.el[i].ratio) && sv.el[i].status >= STATUS_CAUTION)
+			ncaution++;
+	ck_assert_uint_ge(ncaution, 2);
+	s = review_survey_list_text(&rv, 1);
+	snprintf(want, sizeof want, "Over or at caution at some point: W1 %s OVER at full; "
+	    "and %zu more", pct, ncaution - 1);
+	ck_assert_msg(strncmp(s, want, strlen(want)) == 0, "'%s' vs '%s'", s, want);
+	free(s);
+	s = review_points_text(&rv);
+	/* over at the base (W1 109 %) and at full; not at low (20 mJ: 1/10) */
+	ck_assert_str_eq(s, "Operating points: 2 besides the base; something is over at 2 of "
+	    "the 3 traced (the base included)");
+	free(s);
+	s = review_survey_worst_text(&rv);
+	snprintf(want, sizeof want, "Worst over the base and every point: W1, %s", pct);
+	ck_assert_msg(strncmp(s, want, strlen(want)) == 0, "'%s'", s);
+	free(s);
+	point_survey_release(&sv);
+	model_bench_free(b);
+}
+END_TEST
+
 #define LOOP(tc, fn, arr) tcase_add_loop_test(tc, fn, 0, (int)(sizeof arr / sizeof *arr))
 
 int
@@ -461,6 +540,7 @@ main(void)
 	tc = tcase_create("words");
 	LOOP(tc, test_diff_words, word_cases);
 	LOOP(tc, test_source_line_wavelength, source_cases);
+	tcase_add_test(tc, test_survey_texts);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("schematic");
 	tcase_add_test(tc, test_schematic_demo);

@@ -326,12 +326,15 @@ run ex_low trace "$T_DIR/ex_low.json" --explain MF
 check "--explain, 20 ps pulses on a 10 ns rating: the law lowers it, not capped" out_has ex_low "× 0.04472 = √(20 ps / 10 ns)"
 check "... the limit 2 J/cm² × 0.04472 = 0.08944 J/cm²" out_has ex_low "= 89.44 mJ/cm²"
 run ex_bd trace "$T_DIR/ex_cap.json" --explain BD
-check "--explain a dump: the power rating is the limit" out_has ex_bd "limit         1.000 W, the rating itself"
+check "--explain a dump: the power rating is the limit" out_has ex_bd "1.000 W, the rating itself"
 
 run ex_unrated trace "$T_DIR/ex_cap.json" --explain MP
 check "--explain an unrated mirror: exit 2" status_is ex_unrated 2
 check "... nothing on stdout" out_empty ex_unrated
 check "... says it is unrated and which keys would rate it" err_has ex_unrated "element 'MP' (mirror) is unrated: give damage.fluence with damage.pulse_width to rate it"
+bench ex_cw.json "{$HEAD,$SRC,'path':[{'id':'MC','type':'mirror','damage':{'fluence':'2 J/cm^2','pulse_width':'10 ns'}}]}"
+run ex_cw trace "$T_DIR/ex_cw.json" --explain MC
+check "--explain a pulsed rating on a CW bench: exit 2, says why and what rates it" sh -c '[ "$1" -eq 2 ] && grep -qF "unrated on this CW bench: its damage.fluence rating says nothing about a CW beam; give damage.cw_irradiance" "$2"' sh "$(rc_of ex_cw)" "$T_DIR/ex_cw.err"
 run ex_space trace "$T_DIR/ex_cap.json" --explain S1
 check "--explain free space: exit 2, says it has no rating" sh -c '[ "$1" -eq 2 ] && grep -qF "is free space" "$2"' sh "$(rc_of ex_space)" "$T_DIR/ex_space.err"
 run ex_none trace --demo --explain NOPE
@@ -339,6 +342,8 @@ check "--explain an unknown id: exit 2" status_is ex_none 2
 check "... names the id" err_has ex_none "no element 'NOPE'"
 check "... nothing on stdout" out_empty ex_none
 usage_case explain_json trace --demo --explain W1 --format json
+run ex_ascii trace --demo --explain W1 --ascii
+check "--explain --ascii: plain ASCII, the rules still named" sh -c '! LC_ALL=C grep -q "[^ -~]" "$1" && grep -qF "x 1.265 = sqrt(8 ns / 5 ns) (the sqrt(tau) law" "$1"' sh "$T_DIR/ex_ascii.out"
 # at an operating point: a point doubling the pulse energy doubles W1's
 # fluence and so its ratio (fluence linear in energy), the limit unchanged
 "$BEAMLEDGER" demo | sed 's/^  "path": \[/  "points": [ { "name": "double", "changes": ["source.pulse_energy=400 mJ"] } ],\n  "path": [/' >"$T_DIR/ex_pts.json"
@@ -356,6 +361,15 @@ fi
 run pl_words point list "$T_DIR/ex_pts.json"
 w1cell=$(awk '$1 == "W1" { for (i = 2; i <= NF; i++) if ($i == "%") print $(i-1) " %" }' "$T_DIR/demo.out")
 check "point list: the base's worst as the table writes it ($w1cell OVER)" out_has pl_words "W1 at $w1cell (OVER)"
+# ... and a sweep at the demo's own HWP1 angle (11.25°) writes every
+# rated element's ratio as the table's cells do
+run sw_words sweep --demo HWP1.angle 11.25 22.5 --steps 2
+check "sweep: the first step's ratios are the table's cells" sh -c '
+	row=$(sed -n "3p" "$1")
+	for id in HWP1 ND1 PD1 W1; do
+		cell=$(awk -v id="$id" "\$1 == id { for (i = 2; i <= NF; i++) if (\$i == \"%\") print \$(i-1) \" %\" }" "$2")
+		printf "%s\n" "$row" | grep -qF " $cell " || { echo "# $id: $cell not in: $row"; exit 1; }
+	done' sh "$T_DIR/sw_words.out" "$T_DIR/demo.out"
 run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
 check "--explain with an unknown point: exit 2" status_is ex_filter 2
 

@@ -280,6 +280,7 @@ tr -s ' \n' '  ' <point.md >point.mdw
 check "--point MD: the title names the point" has point.mdw "# Review of bench $B, setup #3, point full"
 check "--point MD: the worst element at the point" has point.mdw "Worst element: ${pw% *} (window), ${pw#* } %"
 check "--point MD: the point's change" has point.mdw "changes source.pulse_energy=250mJ"
+check "--point MD: the changes are between the setups as recorded" has point.mdw "Bench $B: setup #2 → setup #3"
 run pdef report "$B@3" --point full
 check "--point without -o: BENCH-setup-3-point-full.pdf" sh -c '[ "$1" -eq 0 ] && pdfinfo "$2" >/dev/null 2>&1' sh "$(rc_of pdef)" "$B-setup-3-point-full.pdf"
 
