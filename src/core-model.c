@@ -369,7 +369,7 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 	if (!model_key_applies(k, el->type))
 		return fail_with(cause, "element '%s': a %s has no key '%s'",
 		    el->id, model_type_name(el->type), model_key_path(k));
-	if (d->kind == KIND_BOOL || d->kind == KIND_AXIS)
+	if (d->kind == KIND_BOOL || d->kind == KIND_AXIS || d->kind == KIND_CHOICE)
 		return fail_with(cause, "element '%s': %s: '%s': a tolerance needs a "
 		    "numeric key", el->id, model_key_path(k), text);
 	if (tol_parse(rest, d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, &t, cause) != 0)
@@ -387,6 +387,10 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 		rc = fail_with(cause, "element '%s': %s: '%s': no value to put the "
 		    "tolerance on (write the value before the sign)", el->id,
 		    model_key_path(k), text);
+	} else if (!(el->set & KEY_BIT(k))) {
+		/* a tolerance on a default: the default becomes the element's
+		 * own value, so the file and every view show what it is around */
+		rc = model_set(el, k, model_get(el, k), cause);
 	}
 	if (rc == 0)
 		rc = tol_check_range(el, k, model_get(el, k), &t, cause);

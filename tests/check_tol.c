@@ -145,6 +145,21 @@ START_TEST(test_set_text)
 	ck_assert_int_eq(model_set_text(&el, K_THICKNESS, "\xc2\xb1 1 mm", &cause), -1);
 	ck_assert_ptr_nonnull(strstr(cause, "no value"));
 	free(cause);
+	cause = NULL;
+	/* a tolerance alone on a defaulted key (transmission, default 1; a
+	 * fuzz finding): the default becomes the element's own value, never a
+	 * NaN beside a tolerance */
+	ck_assert(!(el.set & KEY_BIT(K_TRANSMISSION)));
+	ck_assert_int_eq(model_set_text(&el, K_TRANSMISSION, "+-\t0.002    ", &cause), 0);
+	ck_assert(el.set & KEY_BIT(K_TRANSMISSION));
+	CHECK_REL(el.val[K_TRANSMISSION], 1.0, 0);
+	ck_assert_ptr_nonnull(tol_of(&el, K_TRANSMISSION));
+	/* and not on a choice key */
+	model_element_release(&el);
+	model_element_init(&el, EL_WINDOW, "W1");
+	ck_assert_int_eq(model_set_text(&el, K_MATERIAL, "n-bk7 \xc2\xb1 1", &cause), -1);
+	ck_assert_ptr_nonnull(strstr(cause, "numeric"));
+	free(cause);
 	model_element_release(&el);
 }
 END_TEST
