@@ -14,6 +14,7 @@
 #include "core-units.h"
 #include "core-edit.h"
 #include "core-model.h"
+#include "util-err.h"
 
 #include "check-util.h"
 
@@ -766,6 +767,38 @@ START_TEST(test_edit_shows_typed)
 }
 END_TEST
 
+/* Issue 14 item 8: messages show invisible characters by name; visible
+ * text, newlines and tabs stay as they are, and so do bytes that are not
+ * UTF-8 (they are the caller's). */
+static const struct { const char *in, *out; } escape_cases[] = {
+	{ "\xef\xbb\xbf{", "U+FEFF{" },			/* byte-order mark */
+	{ "1\xc2\xa0mm", "1U+00A0mm" },			/* no-break space */
+	{ "1\xe2\x80\xafmm", "1U+202Fmm" },			/* narrow no-break space */
+	{ "a\xe2\x80\x8b" "b", "aU+200Bb" },			/* zero-width space */
+	{ "x\xe2\x80\xaey", "xU+202Ey" },			/* right-to-left override */
+	{ "bell\a", "bellU+0007" },
+	{ "esc\x1b[2J", "escU+001B[2J" },
+	{ "line\nnext\ttab", "line\nnext\ttab" },
+	{ "250 \xc2\xb5m caf\xc3\xa9 \xc2\xb2", "250 \xc2\xb5m caf\xc3\xa9 \xc2\xb2" },
+	{ "bad \xff byte", "bad \xff byte" },
+};
+
+START_TEST(test_escape_invisible)
+{
+	char *got = util_escape_invisible(escape_cases[_i].in), *cause = NULL;
+
+	ck_assert_str_eq(got, escape_cases[_i].out);
+	free(got);
+	/* fail_with and cause_prefix escape what they are given */
+	fail_with(&cause, "'%s'", escape_cases[_i].in);
+	cause_prefix(&cause, "%s", escape_cases[_i].in);
+	got = xasprintf("%s: '%s'", escape_cases[_i].out, escape_cases[_i].out);
+	ck_assert_str_eq(cause, got);
+	free(got);
+	free(cause);
+}
+END_TEST
+
 /* Any double comes back exactly from its shortest form. */
 START_TEST(test_shortest_round_trip)
 {
@@ -810,6 +843,7 @@ main(void)
 	tcase_add_loop_test(tc, test_format_shortest, 0, NELEMS(typed_cases));
 	tcase_add_test(tc, test_shortest_round_trip);
 	tcase_add_loop_test(tc, test_edit_shows_typed, 0, NELEMS(edit_typed));
+	tcase_add_loop_test(tc, test_escape_invisible, 0, NELEMS(escape_cases));
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }

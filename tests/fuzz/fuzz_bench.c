@@ -2,7 +2,8 @@
  * parsed; what parses is dumped, the dump must parse again and dump to the
  * very same text, and the bench is traced and written in every report
  * format (table with and without colour and UTF-8, JSON, CSV, a diff
- * against itself).  Any crash, sanitizer report or broken round trip is a
+ * against itself) and laid out as the workbench would (chain rows, bars,
+ * status line, values, the beam profile: the pure core-layout part).  Any crash, sanitizer report or broken round trip is a
  * finding.  Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
 #include <config.h>
 
@@ -13,6 +14,7 @@
 
 #include "bench-file.h"
 #include "core-diff.h"
+#include "core-layout.h"
 #include "core-trace.h"
 #include "report-diff.h"
 #include "report.h"
@@ -25,6 +27,40 @@ finding(const char *what, const char *detail, const char *text)
 	fprintf(stderr, "fuzz_bench: %s\n%s\n--- text ---\n%s\n", what,
 	    detail != NULL ? detail : "", text != NULL ? text : "");
 	abort();
+}
+
+/* What the workbench computes before it draws anything. */
+static void
+layout(const struct bench *b, const struct trace *t)
+{
+	struct layout_row *rows = NULL;
+	struct layout_plot plot;
+	size_t n = layout_chain(b, t, &rows), *path = NULL, np;
+	char buf[128];
+
+	for (size_t i = 0; i < n; i++) {
+		struct layout_field f[64];
+		size_t nf = layout_fields(rows[i].el, f, 64);
+
+		for (size_t j = 0; j < nf; j++)
+			free(layout_field_value(rows[i].el, &f[j]));
+	}
+	free(rows);
+	for (size_t i = 0; i < t->nrows; i++) {
+		const struct trace_row *r = &t->rows[i];
+
+		layout_bar(buf, sizeof buf, r->ratio, 1 / b->safety_factor, 20, (int)(i & 1));
+		layout_percent(buf, sizeof buf, r->ratio);
+		layout_radius_text(buf, sizeof buf, r->wx, r->wy, (int)(i & 1));
+	}
+	free(layout_status_line(t, 0, 80));
+	free(layout_status_line(t, 1, 40));
+	if (t->nrows == 0)
+		return;
+	np = layout_profile_path(t, t->nrows - 1, &path);
+	if (layout_profile(t, path, np, t->nrows - 1, 78, 10, 4, &plot) == 0)
+		layout_plot_release(&plot);
+	free(path);
 }
 
 static void
@@ -51,6 +87,7 @@ reports(const struct bench *b)
 		}
 	free(report_json(t));
 	free(report_csv(t));
+	layout(b, t);
 	trace_free(t);
 	d = diff_run(b, b);
 	text = report_diff_text(d, b->name, "r1", "draft");
