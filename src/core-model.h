@@ -20,6 +20,7 @@
 enum elem_type {
 	EL_SPACE, EL_MIRROR, EL_LENS, EL_SPLITTER, EL_WINDOW, EL_FILTER,
 	EL_WAVEPLATE, EL_POLARIZER, EL_IRIS, EL_DUMP, EL_DETECTOR, EL_TARGET,
+	EL_ISOLATOR,
 	EL_NTYPES
 };
 #define EL_BIT(t)  (1u << (t))
@@ -32,7 +33,8 @@ enum key_kind {
 	KIND_ANGLE,             /* plain number, degrees */
 	KIND_NUMBER,            /* plain number (od, waves, ratio, index) */
 	KIND_BOOL,              /* true/false */
-	KIND_AXIS               /* "both" | "x" | "y" */
+	KIND_AXIS,              /* "both" | "x" | "y" */
+	KIND_SURFACE            /* fraction in [0, 1) or "uncoated" (MODEL_UNCOATED) */
 };
 
 enum model_key {
@@ -40,12 +42,16 @@ enum model_key {
 	K_FOCAL, K_AXIS, K_TRANSMISSION, K_THICKNESS, K_N2, K_INDEX,
 	K_POLARIZING, K_OD, K_MAX_ABSORBED, K_RETARDANCE, K_ANGLE,
 	K_EXTINCTION, K_DIAMETER, K_MAX_POWER, K_APERTURE,
+	K_SURF_R, K_SURF_R_BACK, K_LEAK, K_REFLECTIVE, K_ISOLATION,
 	K_DMG_CW_LINEAR, K_DMG_CW_IRRADIANCE, K_DMG_FLUENCE,
 	K_DMG_WAVELENGTH, K_DMG_PULSE_WIDTH,
 	K_COUNT
 };
 #define K_DMG_FIRST K_DMG_CW_LINEAR
 #define KEY_BIT(k)  ((uint64_t)1 << (k))
+
+/* surface_reflectance "uncoated": Fresnel from the index (ghost-conventions.md) */
+#define MODEL_UNCOATED (-1.0)
 
 enum axis_sel { AXIS_BOTH = 0, AXIS_X = 1, AXIS_Y = 2 };
 
@@ -100,6 +106,7 @@ struct source {
 	int              m2_pair;
 	enum pol_kind    pol;
 	double           pol_angle_deg;
+	double           max_return;         /* W tolerable back at the source; NAN: not judged */
 };
 
 /* Operating points (core-point.h): named lists of changes to the bench. */
@@ -115,6 +122,9 @@ struct bench {
 	double         safety_factor;   /* > 1 */
 	double         air_breakdown;   /* W/m² */
 	int            safety_given, air_given;
+	double         ghost_tilt;      /* degrees: at or above, reflections are strays */
+	double         stray_warn;      /* W: a stray at or above warns */
+	int            tilt_given, stray_given;
 	struct source  src;
 	struct branch  path;        /* owned */
 	struct point_list points;   /* owned; empty for most benches */

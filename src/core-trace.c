@@ -160,6 +160,7 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 	}
 	case EL_LENS:
 	case EL_WINDOW:
+	case EL_ISOLATOR:
 		polar_scalar(main_m, model_get(el, K_TRANSMISSION));
 		break;
 	case EL_FILTER:

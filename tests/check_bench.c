@@ -924,6 +924,12 @@ gen_element(struct gen *g, struct element *el, unsigned depth)
 	}
 	if (type == EL_FILTER && model_has(el, K_OD))
 		model_unset(el, K_TRANSMISSION);
+	if (type == EL_MIRROR && model_has(el, K_LEAK) &&
+	    el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1)
+		model_unset(el, K_LEAK);
+	/* "uncoated" reads and writes back as the word, where an index is given */
+	if (model_has(el, K_SURF_R) && model_has(el, K_INDEX) && gen_chance(g, 0.3))
+		ck_assert_int_eq(model_set(el, K_SURF_R, MODEL_UNCOATED, NULL), 0);
 	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
 		model_unset(el, K_DMG_FLUENCE);
 	switch (type) {

@@ -425,7 +425,7 @@ START_TEST(test_required_keys)
 {
 	static const char *const sample[K_COUNT] = {
 		[K_LENGTH] = "100 mm", [K_FOCAL] = "100 mm", [K_REFLECTANCE] = "0.5",
-		[K_RETARDANCE] = "0.5", [K_DIAMETER] = "5 mm",
+		[K_RETARDANCE] = "0.5", [K_DIAMETER] = "5 mm", [K_ISOLATION] = "30",
 	};
 	enum elem_type ty = (enum elem_type)_i;
 	struct bench *b = bare();
@@ -578,7 +578,7 @@ row_of(const struct trace *t, const char *id)
 START_TEST(test_profile_path)
 {
 	static const char *const want[] = {
-		"S0", "HWP1", "S1", "PBS1", "S2", "M1", "S3", "ND1", "S4", "POL1", "S5",
+		"S0", "ISO1", "HWP1", "S1", "PBS1", "S2", "M1", "S3", "ND1", "S4", "POL1", "S5",
 		"CM1", "S6", "IR1", "S7", "BS1", "S7r", "CL1", "S8r", "PD1",
 	};
 	struct bench *b = demo();

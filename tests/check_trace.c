@@ -1097,6 +1097,11 @@ gen_element(struct gen *g, struct element *el, enum elem_type type, unsigned dep
 	case EL_IRIS:
 		gen_set(el, K_DIAMETER, gen_uniform(g, 0.3e-3, 15e-3));
 		break;
+	case EL_ISOLATOR:
+		gen_set(el, K_ISOLATION, gen_uniform(g, 0, 60));
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0.8, 1));
+		break;
 	case EL_DUMP:
 	case EL_DETECTOR:
 	case EL_TARGET:
@@ -1117,7 +1122,7 @@ gen_branch(struct gen *g, struct branch *br, unsigned depth)
 {
 	static const enum elem_type optics[] = {
 		EL_SPACE, EL_SPACE, EL_SPACE, EL_MIRROR, EL_LENS, EL_SPLITTER,
-		EL_WINDOW, EL_FILTER, EL_WAVEPLATE, EL_POLARIZER, EL_IRIS,
+		EL_WINDOW, EL_FILTER, EL_WAVEPLATE, EL_POLARIZER, EL_IRIS, EL_ISOLATOR,
 	};
 	unsigned n = 1 + (unsigned)(gen_next(g) % (depth == 0 ? 14 : 6));
 

@@ -67,7 +67,7 @@ check "unrated window says so" wait_line ui '^ W1 .* unrated'
 
 # its damage rating, typed into the field in place
 step "fields open" ui "transmission" Enter
-t_keys ui j j j j j j
+t_keys ui j j j j j j j j j
 check "damage.cw_irradiance field" wait_for ui "damage.cw_irradiance: CW LIDT"
 t_keys ui Enter
 wait_for ui "Enter apply" >/dev/null
