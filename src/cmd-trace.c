@@ -30,7 +30,7 @@ int
 cmd_trace_print(const struct bench *b, enum report_format fmt,
     const struct report_opts *o)
 {
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, o->trace_opts);
 	char *text, *cause = NULL;
 	int rc, over = 0;
 
@@ -236,11 +236,12 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		{ "demo", no_argument, NULL, 'd' },
 		{ "point", required_argument, NULL, 'p' },
 		{ "every-point", no_argument, NULL, 'e' },
+		{ "no-ghosts", no_argument, NULL, 'g' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
 	enum report_format fmt = REPORT_TABLE;
-	struct report_opts ro = { 0, 0, NULL };
+	struct report_opts ro = { 0, 0, NULL, 0 };
 	const char *color = "auto";
 	struct bench *b;
 	char *cause = NULL, *origin = NULL;
@@ -274,14 +275,18 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		case 'e':
 			every = 1;
 			break;
+		case 'g':
+			ro.trace_opts |= TRACE_NO_GHOSTS;
+			break;
 		case 'h':
 			printf("Usage: " PROG " trace FILE | BENCH[@SETUP] | --demo"
 			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
-			    "       [--point NAME | --every-point]\n"
+			    "       [--point NAME | --every-point] [--no-ghosts]\n"
 			    "An operand that is not a file names a bench in the database: its\n"
 			    "draft, or with @SETUP a recorded setup (a number, 2 or #2, or a name).\n"
 			    "--point NAME traces that operating point; --every-point traces the base\n"
 			    "and every point and gives each element's worst ratio and where.\n"
+			    "--no-ghosts traces the main beam alone: no surface reflections.\n"
 			    "Exit status: 0 nothing over its threshold (at any point traced),\n"
 			    "1 something over, 2 trouble.\n");
 			return 0;
@@ -299,6 +304,8 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		    "; for a setup write BENCH@SETUP" : "");
 	if (point != NULL && every)
 		return cmd_usage("trace: give --point NAME or --every-point, not both");
+	if ((point != NULL || every) && (ro.trace_opts & TRACE_NO_GHOSTS))
+		return cmd_usage("trace: --no-ghosts traces the bench itself, not its points");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "core-trace.h"
+#include "core-ghost.h"
 #include "core-polar.h"
 #include "util-err.h"
 
@@ -19,7 +20,7 @@
 static const char *const flag_names[TF_COUNT] = {
 	"clipping", "hard_clipping", "wavelength_scaled", "pulse_scaled",
 	"pulse_scaling_out_of_range", "pulsed_rating_on_cw", "self_focusing",
-	"focus", "air_breakdown", "above_critical_power",
+	"focus", "air_breakdown", "above_critical_power", "ghosts",
 };
 
 const char *
@@ -36,7 +37,7 @@ trace_warn_name(enum trace_warn_kind k)
 {
 	static const char *const names[] = {
 		"unterminated", "b_integral", "air_breakdown", "self_focusing",
-		"unrated_dump", "unrated_absorber",
+		"unrated_dump", "unrated_absorber", "ghost_over", "stray", "return_power",
 	};
 
 	return names[k];
@@ -68,6 +69,25 @@ struct cursor {
 	enum port             port;
 	struct state          st;
 };
+
+void
+trace_add_warning(struct trace *t, enum trace_warn_kind kind, const struct element *parent,
+    enum port port, const struct element *after, double value)
+{
+	struct trace_warning *w;
+
+	if (t->nwarn == t->capwarn) {
+		t->capwarn = t->capwarn ? 2 * t->capwarn : 8;
+		t->warn = xreallocarray(t->warn, t->capwarn, sizeof *t->warn);
+	}
+	w = &t->warn[t->nwarn++];
+	w->kind = kind;
+	w->parent = parent;
+	w->port = port;
+	w->after = after;
+	w->value = value;
+	w->distance = NAN;
+}
 
 static void
 warn(struct trace *t, enum trace_warn_kind kind, const struct cursor *c,
@@ -193,8 +213,8 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 	}
 }
 
-static void
-element_optics(const struct element *el, struct state *st)
+void
+trace_element_optics(const struct element *el, struct beam_axis *x, struct beam_axis *y)
 {
 	double fx, fy, f;
 
@@ -203,18 +223,45 @@ element_optics(const struct element *el, struct state *st)
 		if (!model_has(el, K_ROC))
 			return;
 		beam_mirror_focal(el->val[K_ROC], model_get(el, K_AOI), &fx, &fy);
-		beam_lens(&st->x, fx);
-		beam_lens(&st->y, fy);
+		beam_lens(x, fx);
+		beam_lens(y, fy);
 		break;
 	case EL_LENS:
 		f = el->val[K_FOCAL];
 		if (model_get(el, K_AXIS) != AXIS_Y)
-			beam_lens(&st->x, f);
+			beam_lens(x, f);
 		if (model_get(el, K_AXIS) != AXIS_X)
-			beam_lens(&st->y, f);
+			beam_lens(y, f);
 		break;
 	default:
 		break;
+	}
+}
+
+static void
+element_optics(const struct element *el, struct state *st)
+{
+	trace_element_optics(el, &st->x, &st->y);
+}
+
+void
+trace_element_ports(const struct element *el, const double s_in[4], double *main_out,
+    double *side_out)
+{
+	struct mueller mm, ms;
+	double s[4];
+
+	*main_out = *side_out = 0;
+	if (el->type == EL_SPACE) {
+		*main_out = s_in[0];
+		return;
+	}
+	element_mueller(el, &mm, &ms);
+	polar_apply(&mm, s_in, s);
+	*main_out = s[0] > 0 ? s[0] : 0;
+	if (el->side_port != PORT_NONE) {
+		polar_apply(&ms, s_in, s);
+		*side_out = s[0] > 0 ? s[0] : 0;
 	}
 }
 
@@ -495,6 +542,12 @@ trace_run(const struct bench *b)
 struct trace *
 trace_rerun(struct trace *t, const struct bench *b)
 {
+	return trace_rerun_opts(t, b, 0);
+}
+
+struct trace *
+trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
+{
 	struct cursor *stack;
 	size_t top = 0, cap = 16, nrow = 0;
 
@@ -515,6 +568,8 @@ trace_rerun(struct trace *t, const struct bench *b)
 	t->safe_source_power = NAN;
 	t->nonfinite = NULL;
 	t->nonfinite_what = NULL;
+	ghost_set_free(t->ghosts);
+	t->ghosts = NULL;
 	stack = xcalloc(cap, sizeof *stack);
 	stack[0].br = &b->path;
 	start_state(b, &stack[0].st);
@@ -572,6 +627,8 @@ trace_rerun(struct trace *t, const struct bench *b)
 	if (t->worst >= 0)
 		t->safe_source_power = t->worst_ratio > 0 ?
 		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
+	if (!(opts & TRACE_NO_GHOSTS))
+		ghost_run(t);       /* adds the reflections and rates them */
 	return t;
 }
 
@@ -582,6 +639,7 @@ trace_free(struct trace *t)
 		return;
 	free(t->rows);
 	free(t->warn);
+	ghost_set_free(t->ghosts);
 	free(t);
 }
 

@@ -508,7 +508,7 @@ END_TEST
 START_TEST(test_status_line)
 {
 	struct bench *b = demo();
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 	char *s = layout_status_line(t, 0, 200), *a = layout_status_line(t, 1, 200);
 	char *n80 = layout_status_line(t, 0, 79), *tiny = layout_status_line(t, 1, 10);
 	char *cause = NULL;

@@ -653,7 +653,7 @@ START_TEST(test_terminators)
 	    "{'id':'BS1','type':'splitter','reflectance':0.25,'reflected':[{'id':'E1','type':'%s'}]},"
 	    "{'id':'BS2','type':'splitter','reflectance':0.5,'transmitted':[{'id':'E2','type':'%s'}]},"
 	    "{'id':'E3','type':'%s'}]}", types[_i], types[(_i + 1) % 3], types[(_i + 2) % 3]);
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 
 	/* hand: 0.25; 0.75 × 0.5 transmitted; 0.75 × 0.5 reflected */
 	CHECK_REL(row_of(t, "E1")->power_lost, 0.25, 1e-12);
@@ -894,7 +894,7 @@ START_TEST(test_scaling_flags)
 	    " 'wavelength':'532 nm','pulse_width':'5 ns'}},"
 	    "{'id':'W2','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'10 ps'}},"
 	    "{'id':'W3','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'8 ns'}}]}");
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 	const struct trace_row *w1 = row_of(t, "W1"), *w2 = row_of(t, "W2");
 	const struct trace_row *w3 = row_of(t, "W3");
 	double lim = 1.2e4 * 2 * sqrt(8.0 / 5);
