@@ -62,6 +62,21 @@ main(void)
 		if (dt < best_traces)
 			best_traces = dt;
 	}
+	{
+		struct sweep *sw = sweep_run(b, &k, 0, 45, 201, 0, &cause);
+		struct sweep_plot pl;
+		double t0 = now(), dt;
+
+		for (int r = 0; r < 1000; r++) {
+			sweep_plot_layout(sw, b->safety_factor, 90, 22, 4, &pl);
+			sweep_plot_release(&pl);
+		}
+		dt = (now() - t0) / 1000;
+		printf("workbench sweep cursor: the plot laid out again in %.1f us "
+		    "(90 x 22 cells, 201 steps; the screen's target for a redraw is < 10 ms)\n",
+		    dt * 1e6);
+		sweep_free(sw);
+	}
 	printf("sweep of the demo (%zu elements, %zu rated), HWP1.angle 0..45 in 1000 steps:\n"
 	    "  %.2f ms engine time with crossings and safe intervals (target < 30 ms)\n"
 	    "  %.2f ms for 1000 bare traces of the same bench (best of 5)\n",

@@ -11,6 +11,7 @@
 
 #include "bench-file.h"
 #include "bench-point.h"
+#include "core-beam.h"
 #include "util-buf.h"
 #include "util-err.h"
 #include "util-json.h"
@@ -131,6 +132,10 @@ set_key_json(struct element *el, enum model_key k, json_t *v, char **cause)
 		if (x == MODEL_UNCOATED)
 			x = 2;          /* a typed -1 is out of range, not "uncoated" */
 		break;
+	case KIND_CHOICE:
+		if (!json_is_string(v))
+			return fail_with(cause, "%s: expected a name, got %s", what, json_kind(v));
+		return model_set_text(el, k, json_string_value(v), cause);
 	default:
 		if (get_number(v, &x, what, cause) != 0)
 			return -1;
@@ -392,6 +397,15 @@ read_source(json_t *obj, struct source *s, char **cause)
 		} else if (strcmp(key, "max_return") == 0) {
 			if (get_positive(v, DIM_POWER, &s->max_return, "source: max_return", cause))
 				return -1;
+		} else if (strcmp(key, "divergence") == 0) {
+			if (read_pair(v, DIM_NONE, s->divergence, &s->m2_pair, "divergence",
+			    cause))
+				return -1;
+			if (!(s->divergence[0] > 0 && s->divergence[1] > 0) ||
+			    !isfinite(s->divergence[0] * s->divergence[1]))
+				return fail_with(cause, "source: divergence: must be > 0 "
+				    "(far-field half-angle, rad)");
+			s->divergence_given = 1;
 		} else if (strcmp(key, "polarization") == 0) {
 			if (json_is_number(v)) {
 				s->pol = POL_LINEAR;
@@ -406,11 +420,26 @@ read_source(json_t *obj, struct source *s, char **cause)
 			}
 		} else {
 			return fail_with(cause, "source: unknown key '%s' (wavelength, power, "
-			    "pulsed, waist, waist_position, m2, polarization, max_return)", key);
+			    "pulsed, waist, waist_position, m2, divergence, polarization, "
+			    "max_return)", key);
 		}
 	}
 	if (have_power && s->energy_given)
 		return fail_with(cause, "source: give power or pulsed.pulse_energy, not both");
+	if (s->divergence_given && json_object_get(obj, "m2") != NULL)
+		return fail_with(cause, "source: give m2 or divergence, not both");
+	if (s->divergence_given && !isnan(s->waist[0]) && !isnan(s->wavelength)) {
+		for (int i = 0; i < 2; i++) {
+			s->m2[i] = beam_m2_from_divergence(s->waist[i], s->divergence[i],
+			    s->wavelength);
+			if (!(s->m2[i] >= 1))
+				return fail_with(cause, "source: divergence: %.6g rad with "
+				    "waist %.6g mm at %.6g nm gives M² = π·w0·θ/λ = %.4g, "
+				    "below 1: no beam diverges less than a Gaussian",
+				    s->divergence[i], s->waist[i] * 1e3,
+				    s->wavelength * 1e9, s->m2[i]);
+		}
+	}
 	if (s->energy_given)
 		s->power = s->pulse_energy * s->rep_rate;
 	else if (s->pulsed && have_power)
@@ -764,6 +793,13 @@ key_json(const struct element *el, enum model_key k, int units)
 		if (el->val[k] == MODEL_UNCOATED)
 			return json_string("uncoated");
 		return quantity_json(el->val[k], DIM_NONE, 0, units);
+	case KIND_CHOICE: {
+		char *t = model_value_text(el, k);
+		json_t *j = json_string(t);
+
+		free(t);
+		return j;
+	}
 	default:
 		return quantity_json(el->val[k], model_keys[k].dim, k == K_DMG_WAVELENGTH, units);
 	}
@@ -872,7 +908,11 @@ head_json(const struct bench *b, int units)
 	json_object_set_new(src, "waist", pair_json(s->waist, s->waist_pair, DIM_LENGTH, units));
 	json_object_set_new(src, "waist_position", quantity_json(s->waist_position, DIM_LENGTH,
 	    0, units));
-	json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair, DIM_NONE, 0));
+	if (s->divergence_given)
+		json_object_set_new(src, "divergence", pair_json(s->divergence, s->m2_pair,
+		    DIM_NONE, 0));
+	else
+		json_object_set_new(src, "m2", pair_json(s->m2, s->m2_pair, DIM_NONE, 0));
 	if (s->pol == POL_CIRCULAR)
 		json_object_set_new(src, "polarization", json_string("circular"));
 	else if (s->pol == POL_UNPOLARIZED)

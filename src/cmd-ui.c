@@ -77,7 +77,7 @@ cmd_open(struct cmd_ctx *ctx, int argc, char **argv)
 		if (strcmp(argv[i], "--help") == 0 || strcmp(argv[i], "-h") == 0) {
 			printf("Usage: " PROG " [--db PATH] open [BENCH | --demo] [--ascii]\n"
 			    "The terminal workbench: lay out a bench, watch every optic's damage\n"
-			    "margin as you edit, record setups and compare them.  With BENCH it opens\n"
+			    "margin as you edit, record and compare setups.  With BENCH it opens\n"
 			    "that bench at once; --demo puts the demo bench into the database\n"
 			    "(unless it is there) and opens it.  Press ? inside for every key.\n");
 			return 0;

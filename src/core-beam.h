@@ -18,6 +18,9 @@ struct beam_axis {
 /* q at distance dz from a waist of radius w0 (dz > 0: past the waist). */
 struct beam_axis beam_axis_from_waist(double w0, double m2, double lambda, double dz);
 double beam_rayleigh(double w0, double m2, double lambda);        /* zR */
+/* M² of a beam from its waist w0 and far-field half-angle divergence θ
+ * (both 1/e² / second-moment): π·w0·θ/λ (ISO 11146-1). */
+double beam_m2_from_divergence(double w0, double theta, double lambda);
 double beam_radius(const struct beam_axis *, double lambda);      /* 1/e² radius w */
 double beam_curvature(const struct beam_axis *);                  /* R, INFINITY at a waist */
 double beam_waist_distance(const struct beam_axis *);             /* -Re q: + when the waist is ahead */

@@ -87,6 +87,8 @@ show_raw(double v, const struct model_key_def *d, int ascii)
 		if (v == MODEL_UNCOATED)
 			return xstrdup("uncoated");
 		return diff_value_show(v, DIM_NONE, ascii);
+	case KIND_CHOICE:
+		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "?");
 	case KIND_ANGLE:
 		t = diff_value_show(v, DIM_NONE, ascii);
 		u = xasprintf("%s%s", t, ascii ? " deg" : "°");

@@ -464,6 +464,7 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 	} else if (strcmp(key, "source.waist_position") == 0) {
 		return quantity(key, text, DIM_LENGTH, &s->waist_position, cause);
 	} else if (strcmp(key, "source.m2") == 0) {
+		s->divergence_given = 0;    /* a typed M² replaces a measured divergence */
 		return pair(key, text, DIM_NONE, s->m2, &s->m2_pair, cause);
 	} else if (strcmp(key, "source.polarization") == 0) {
 		if (strcmp(text, "circular") == 0) {

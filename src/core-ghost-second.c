@@ -8,6 +8,7 @@
 #include <math.h>
 
 #include "core-ghost-impl.h"
+#include "core-thick.h"
 
 /* The ghost leaves row i downstream with axes x, y and power p. */
 static void
@@ -49,14 +50,14 @@ walk_forward(struct ghost_ctx *c, struct ghost *g, size_t i, struct beam_axis x,
 			/* the fraction of the port the branch continues by */
 			for (int k = 0; k < 4; k++)
 				s[k] = tr->stokes[k] * (1 - tr->clip_loss);
-			trace_element_ports(el, s, &mo, &so);
+			trace_element_ports(el, c->lam, s, &mo, &so);
 			f = mo / pc;
 		} else {
 			f = 0;
 		}
 		c->gs->rows[gri].power_lost = pin - p * f;
 		c->acc[u].power_lost += pin - p * f;
-		trace_element_optics(el, &x, &y);
+		trace_element_optics(el, c->lam, &x, &y);
 		p *= f;
 		u = c->next[u];
 	}
@@ -67,11 +68,11 @@ ghost_second_at(struct ghost_ctx *c, const struct ghost *first, size_t i,
     const struct beam_axis *x, const struct beam_axis *y, double p)
 {
 	const struct element *el = c->t->rows[i].el;
-	double n = model_get(el, K_INDEX), r1, r2, rf, rb, tb;
+	double n = thick_index(el, c->lam), r1, r2, rf, rb, tb;
 	unsigned flags = first->flags & (GF_REFLECTANCE_ASSUMED | GF_SHAPE_ASSUMED);
 	int assumed;
 
-	ghost_radii(el, &r1, &r2, &assumed);
+	ghost_radii(el, c->lam, &r1, &r2, &assumed);
 	if (assumed)
 		flags |= GF_SHAPE_ASSUMED;
 	rf = ghost_surface_r(c, i, GS_FRONT, &flags);
@@ -106,13 +107,13 @@ ghost_second_double(struct ghost_ctx *c, size_t i)
 {
 	const struct trace_row *tr = &c->t->rows[i];
 	const struct element *el = tr->el;
-	double n = model_get(el, K_INDEX), r1, r2, rf, rb, tb, p;
+	double n = thick_index(el, c->lam), r1, r2, rf, rb, tb, p;
 	unsigned flags = 0;
 	struct beam_axis x = tr->qx, y = tr->qy;
 	struct ghost *g;
 	int assumed;
 
-	ghost_radii(el, &r1, &r2, &assumed);
+	ghost_radii(el, c->lam, &r1, &r2, &assumed);
 	if (assumed)
 		flags |= GF_SHAPE_ASSUMED;
 	rf = ghost_surface_r(c, i, GS_FRONT, &flags);

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "core-ghost-impl.h"
+#include "core-thick.h"
 #include "util-err.h"
 
 static const char *const gflag_names[GF_COUNT] = {
@@ -53,14 +54,22 @@ ghost_surface_name(const struct ghost *g, int k, char *buf, size_t n)
 /* ---- surface optics ---- */
 
 void
-ghost_radii(const struct element *el, double *r1, double *r2, int *assumed)
+ghost_radii(const struct element *el, double lambda, double *r1, double *r2, int *assumed)
 {
-	double n = model_get(el, K_INDEX), f;
+	double n = thick_index(el, lambda), f;
 
 	*r1 = *r2 = INFINITY;
 	*assumed = 0;
 	if (el->type != EL_LENS)
 		return;
+	if (model_has(el, K_R1) || model_has(el, K_R2)) {
+		/* the file's shape; an absent radius is a flat face */
+		if (model_has(el, K_R1))
+			*r1 = el->val[K_R1];
+		if (model_has(el, K_R2))
+			*r2 = el->val[K_R2];
+		return;
+	}
 	/* focal alone: equi-convex (or equi-concave) in its index, from the
 	 * thin lensmaker's equation 1/f = (n - 1)(1/r1 - 1/r2) with r2 = -r1 */
 	f = el->val[K_FOCAL];
@@ -146,7 +155,7 @@ ghost_surface_r(const struct ghost_ctx *c, size_t row, enum ghost_surface s,
 		return v;
 	/* Fresnel at the angle of incidence, s and p weighted by the Stokes
 	 * vector (x is p, S1 > 0 horizontal); the same value inside a plate */
-	ghost_fresnel(model_get(el, K_INDEX), model_get(el, K_AOI), &rs, &rp);
+	ghost_fresnel(thick_index(el, c->lam), model_get(el, K_AOI), &rs, &rp);
 	wp = r->stokes[0] > 0 ? (r->stokes[0] + r->stokes[1]) / (2 * r->stokes[0]) : 0.5;
 	return wp * rp + (1 - wp) * rs;
 }
@@ -405,7 +414,7 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, struct beam_axis x,
 			scale = 1 - tr->clip_loss;
 			for (int i = 0; i < 4; i++)
 				s[i] = tr->stokes[i] * scale;
-			trace_element_ports(el, s, &mo, &so);
+			trace_element_ports(el, c->lam, s, &mo, &so);
 			toward = (t->rows[from].parent == el ? so : mo) / pc;
 			other = (t->rows[from].parent == el ? mo : so) / pc;
 		} else {
@@ -417,7 +426,7 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, struct beam_axis x,
 		c->gs->rows[gri].power_lost = pin - out -
 		    (el->side_port != PORT_NONE ? p * other : 0);
 		c->acc[u].power_lost += c->gs->rows[gri].power_lost;
-		trace_element_optics(el, &x, &y);
+		trace_element_optics(el, c->lam, &x, &y);
 		p = out;
 		from = u;
 		u = c->prev[u];
@@ -441,7 +450,7 @@ first_order(struct ghost_ctx *c, size_t r)
 {
 	const struct trace_row *tr = &c->t->rows[r];
 	const struct element *el = tr->el;
-	double pc = ghost_p_clip(tr), n = model_get(el, K_INDEX);
+	double pc = ghost_p_clip(tr), n = thick_index(el, c->lam);
 	double r1, r2, rf, rb, tb, tsp = 1, pf, pb, pwf, pwb;
 	unsigned flags = 0, fl_f = 0, fl_b = 0;
 	int assumed, tilted = !ghost_untilted(c, el);
@@ -449,7 +458,7 @@ first_order(struct ghost_ctx *c, size_t r)
 
 	if (!(pc > c->floor))
 		return;
-	ghost_radii(el, &r1, &r2, &assumed);
+	ghost_radii(el, c->lam, &r1, &r2, &assumed);
 	if (assumed)
 		flags |= GF_SHAPE_ASSUMED;
 	rf = ghost_surface_r(c, r, GS_FRONT, &fl_f);
@@ -461,7 +470,7 @@ first_order(struct ghost_ctx *c, size_t r)
 
 		for (int i = 0; i < 4; i++)
 			s[i] = tr->stokes[i] * (1 - tr->clip_loss);
-		trace_element_ports(el, s, &mo, &so);
+		trace_element_ports(el, c->lam, s, &mo, &so);
 		tsp = (el->side_port == PORT_REFLECTED ? mo : so) / pc;
 		pf = 0;
 		pb = pc * tsp * tsp * rb;

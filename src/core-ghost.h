@@ -89,10 +89,11 @@ void ghost_set_free(struct ghost_set *);         /* NULL ok */
 void ghost_surface_name(const struct ghost *, int k, char *buf, size_t n);
 
 /* The optics of one element's surfaces, for the ghost engine and its tests.
- * Radii from the lens's focal length when the file gives no shape
+ * Radii r1, r2 as the file gives them, or from the focal length when it gives no shape
  * (equi-convex, r1 = -r2 = 2(n - 1)f; *assumed set); a flat surface
  * INFINITY.  Powers are 1/f of the equivalent thin mirror. */
-void   ghost_radii(const struct element *, double *r1, double *r2, int *assumed);
+void   ghost_radii(const struct element *, double lambda, double *r1, double *r2,
+           int *assumed);
 double ghost_power_front_outside(double r1);                     /* -2/r1 */
 double ghost_power_back_inside(double n, double r1, double r2);  /* 2(n-1)/r1 - 2n/r2 */
 double ghost_power_back_outside(double r2);                      /* 2/r2, from downstream */

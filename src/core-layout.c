@@ -106,6 +106,16 @@ layout_status_word(enum damage_status s)
 	return (unsigned)s < 4 ? words[s] : "?";
 }
 
+const char *
+layout_row_status_word(const struct trace_row *r)
+{
+	if (r->flags & TF_AIR_BREAKDOWN)
+		return "spark";
+	if (r->status == STATUS_UNRATED && r->el->type == EL_SPACE)
+		return "n/a";
+	return layout_status_word(r->status);
+}
+
 /* Splits a formatted quantity "2.41 mm" into number and unit. */
 static void
 split_unit(const char *s, char *num, size_t nn, const char **unit)
@@ -150,7 +160,10 @@ static const struct { const char *u, *a; } ascii_map[] = {
 	{ "\u00b7", "." }, { "\u2588", "#" }, { "\u25b6", ">" }, { "\u25c6", "F" },
 	{ "\u25cf", "*" }, { "\u2580", "=" }, { "\u2264", "<=" }, { "\u2265", ">=" },
 	{ "\u00b1", "+/-" }, { "\u2014", "-" }, { "\u2013", "-" }, { "\u25b2", "^" },
-	{ "\u25bc", "v" }, { "\u00b9", "1" },
+	{ "\u25bc", "v" }, { "\u00b9", "1" }, { "\u203a", ">" }, { "\u2506", ":" },
+	{ "\u00f7", "/" }, { "\u03bb", "lambda" }, { "\u03c4", "tau" }, { "\u221e", "inf" },
+	{ "\u21c4", "<>" }, { "\u2592", ":" }, { "\u25b8", ">" }, { "\u2039", "<" },
+	{ "\u21b3", "`->" }, { "\u2591", "." },
 };
 
 char *
@@ -343,19 +356,33 @@ hint_cols(const struct layout_hint *h)
 	return (int)(utf8_cols(h->key) + 1 + utf8_cols(h->word));
 }
 
+/* Width of the shown hints: two blanks inside a group, the group sign
+ * with a blank each side between groups. */
+static int
+hints_width(const struct layout_hint *h, size_t n, const unsigned char *shown)
+{
+	int total = 0, prev = -1;
+
+	for (size_t i = 0; i < n; i++) {
+		if (!shown[i])
+			continue;
+		if (prev >= 0)
+			total += h[i].group != h[prev].group ? LAYOUT_GROUP_GAP : 2;
+		total += hint_cols(&h[i]);
+		prev = (int)i;
+	}
+	return total;
+}
+
 size_t
 layout_hints_pick(const struct layout_hint *h, size_t n, int width, unsigned char *shown)
 {
-	int total = 0;
-	size_t count = 0;
+	size_t count = n;
 
-	for (size_t i = 0; i < n; i++) {
+	for (size_t i = 0; i < n; i++)
 		shown[i] = 1;
-		total += (count ? 2 : 0) + hint_cols(&h[i]);
-		count++;
-	}
 	/* drop one at a time: the least important, the rightmost of equals */
-	while (total > width && count > 0) {
+	while (hints_width(h, n, shown) > width && count > 0) {
 		size_t drop = n;
 
 		for (size_t i = 0; i < n; i++)
@@ -364,22 +391,16 @@ layout_hints_pick(const struct layout_hint *h, size_t n, int width, unsigned cha
 		if (drop == n)
 			break;
 		shown[drop] = 0;
-		total -= hint_cols(&h[drop]) + (count > 1 ? 2 : 0);
 		count--;
 	}
-	/* not even the essentials: as many from the left as fit */
-	if (total > width) {
-		total = 0;
-		count = 0;
-		for (size_t i = 0; i < n; i++) {
-			int need = (count ? 2 : 0) + hint_cols(&h[i]);
-
-			shown[i] = shown[i] && total + need <= width;
+	/* not even the essentials: drop from the right */
+	while (count > 0 && hints_width(h, n, shown) > width) {
+		for (size_t i = n; i-- > 0;)
 			if (shown[i]) {
-				total += need;
-				count++;
+				shown[i] = 0;
+				break;
 			}
-		}
+		count--;
 	}
 	return count;
 }
@@ -389,12 +410,17 @@ layout_hints_text(const struct layout_hint *h, size_t n, int width)
 {
 	unsigned char *shown = xcalloc(n ? n : 1, 1);
 	struct buf b;
+	int prev = -1;
 
 	buf_init(&b);
 	layout_hints_pick(h, n, width, shown);
 	for (size_t i = 0; i < n; i++)
-		if (shown[i])
-			buf_printf(&b, "%s%s %s", b.len ? "  " : "", h[i].key, h[i].word);
+		if (shown[i]) {
+			if (prev >= 0)
+				buf_add(&b, h[i].group != h[prev].group ? " " LAYOUT_GROUP_SIGN " " : "  ");
+			buf_printf(&b, "%s" LAYOUT_KEY_SIGN "%s", h[i].key, h[i].word);
+			prev = (int)i;
+		}
 	free(shown);
 	return buf_take(&b);
 }
@@ -525,8 +551,8 @@ layout_scroll(int sel, int top, int visible, int n)
 /* ---- values ---- */
 
 /* The shortest units_format form of v that parses back to v. */
-static char *
-quantity_text(double v, enum unit_dim dim)
+char *
+layout_quantity_text(double v, enum unit_dim dim)
 {
 	char tmp[64];
 
@@ -572,9 +598,10 @@ layout_value_text(const struct element *el, enum model_key k)
 		return xstrdup("");
 	switch (d->kind) {
 	case KIND_QUANTITY:
-		return quantity_text(v, d->dim);
+		return layout_quantity_text(v, d->dim);
 	case KIND_BOOL:
 	case KIND_AXIS:
+	case KIND_CHOICE:
 		return model_value_text(el, k);
 	case KIND_SURFACE:
 		if (v == MODEL_UNCOATED)
@@ -621,6 +648,30 @@ layout_bench_key_help(const char *key)
 }
 
 char *
+layout_bench_key_hint(const char *key)
+{
+	for (size_t i = 0; i < NBENCH_KEYS; i++)
+		if (strcmp(bench_keys[i].key, key) == 0 && bench_keys[i].dim != DIM_COUNT) {
+			static const struct { enum unit_dim d; const char *ex; } ex[] = {
+				{ DIM_LENGTH, "532 nm, 3 mm" }, { DIM_POWER, "5 W" },
+				{ DIM_ENERGY, "200 mJ" }, { DIM_FREQUENCY, "10 Hz" },
+				{ DIM_TIME, "8 ns" }, { DIM_IRRADIANCE, "10 GW/cm^2" },
+			};
+
+			for (size_t k = 0; k < sizeof ex / sizeof *ex; k++)
+				if (ex[k].d == bench_keys[i].dim)
+					return xasprintf("with its unit, e.g. \"%s\"", ex[k].ex);
+		}
+	if (strcmp(key, "safety_factor") == 0)
+		return xstrdup("a plain number above 1");
+	if (strcmp(key, "source.pulsed") == 0)
+		return xstrdup("true or false");
+	if (strcmp(key, "source.m2") == 0)
+		return xstrdup("a plain number, 1 or more");
+	return xstrdup("");
+}
+
+char *
 layout_bench_value_text(const struct bench *b, const char *key)
 {
 	const struct source *s = &b->src;
@@ -635,30 +686,30 @@ layout_bench_value_text(const struct bench *b, const char *key)
 	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0))
 		return xstrdup("");
 	if (strcmp(key, "air_breakdown") == 0)
-		return quantity_text(b->air_breakdown, DIM_IRRADIANCE);
+		return layout_quantity_text(b->air_breakdown, DIM_IRRADIANCE);
 	if (strcmp(key, "stray_warn") == 0)
-		return quantity_text(b->stray_warn, DIM_POWER);
+		return layout_quantity_text(b->stray_warn, DIM_POWER);
 	if (strcmp(key, "source.max_return") == 0)
-		return isnan(s->max_return) ? xstrdup("") : quantity_text(s->max_return, DIM_POWER);
+		return isnan(s->max_return) ? xstrdup("") : layout_quantity_text(s->max_return, DIM_POWER);
 	if (strcmp(key, "source.wavelength") == 0)
-		return quantity_text(s->wavelength, DIM_LENGTH);
+		return layout_quantity_text(s->wavelength, DIM_LENGTH);
 	if (strcmp(key, "source.power") == 0)
-		return quantity_text(s->power, DIM_POWER);
+		return layout_quantity_text(s->power, DIM_POWER);
 	if (strcmp(key, "source.pulse_energy") == 0)
-		return quantity_text(s->pulse_energy, DIM_ENERGY);
+		return layout_quantity_text(s->pulse_energy, DIM_ENERGY);
 	if (strcmp(key, "source.rep_rate") == 0)
-		return quantity_text(s->rep_rate, DIM_FREQUENCY);
+		return layout_quantity_text(s->rep_rate, DIM_FREQUENCY);
 	if (strcmp(key, "source.pulse_width") == 0)
-		return quantity_text(s->pulse_width, DIM_TIME);
+		return layout_quantity_text(s->pulse_width, DIM_TIME);
 	if (strcmp(key, "source.waist_position") == 0)
-		return quantity_text(s->waist_position, DIM_LENGTH);
+		return layout_quantity_text(s->waist_position, DIM_LENGTH);
 	/* source.waist */
 	{
-		char *x = quantity_text(s->waist[0], DIM_LENGTH), *y, *r;
+		char *x = layout_quantity_text(s->waist[0], DIM_LENGTH), *y, *r;
 
 		if (!s->waist_pair)
 			return x;
-		y = quantity_text(s->waist[1], DIM_LENGTH);
+		y = layout_quantity_text(s->waist[1], DIM_LENGTH);
 		r = xasprintf("%s, %s", x, y);
 		free(x);
 		free(y);
@@ -772,326 +823,3 @@ layout_field_value(const struct element *el, const struct layout_field *f)
 	}
 }
 
-/* ---- the status line ---- */
-
-/* One form of the status line; `level` makes it shorter. */
-static char *
-status_text(const struct trace *t, int ascii, int level)
-{
-	const char *sep = level >= 1 ? (ascii ? " | " : " \u2502 ") :
-	    (ascii ? "  |  " : "  \u2502  ");
-	struct buf b;
-	char pct[32], v[48], br[160];
-	size_t nun = 0;
-
-	buf_init(&b);
-	if (t->worst >= 0) {
-		const struct trace_row *w = &t->rows[t->worst];
-
-		layout_percent(pct, sizeof pct, t->worst_ratio);
-		buf_printf(&b, "worst: %s %s %s", w->el->id, pct, layout_status_word(w->status));
-	} else {
-		buf_add(&b, "worst: nothing rated");
-	}
-	buf_add(&b, sep);
-	if (isfinite(t->safe_source_power)) {
-		units_format(v, sizeof v, t->safe_source_power, DIM_POWER, 3, ascii);
-		buf_printf(&b, level >= 3 ? "safe power %s" : "safe source power %s", v);
-	} else {
-		buf_add(&b, level >= 3 ? "safe power: no ratings" : "safe source power: no ratings");
-	}
-	buf_add(&b, sep);
-	for (size_t i = 0; i < t->nwarn; i++)
-		if (t->warn[i].kind == TW_UNTERMINATED)
-			nun++;
-	if (nun == 0) {
-		buf_add(&b, "all beams terminated");
-	} else {
-		size_t k = 0;
-
-		buf_printf(&b, "unterminated%s: ", nun > 1 ? " beams" : "");
-		for (size_t i = 0; i < t->nwarn; i++) {
-			const struct trace_warning *w = &t->warn[i];
-
-			if (w->kind != TW_UNTERMINATED)
-				continue;
-			units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
-			buf_printf(&b, "%s%s after %s", k++ ? ", " : "", v,
-			    w->after != NULL ? w->after->id : "the source");
-			if (level < 2) {
-				trace_branch_name(w->parent, w->port, br, sizeof br);
-				buf_printf(&b, " (%s)", br);
-			}
-		}
-	}
-	return buf_take(&b);
-}
-
-char *
-layout_status_line(const struct trace *t, int ascii, int width)
-{
-	for (int level = 0;; level++) {
-		char *s = status_text(t, ascii, level);
-
-		if (level == 3 || (int)utf8_cols(s) <= width)
-			return s;
-		free(s);
-	}
-}
-
-/* ---- the beam profile ---- */
-
-static int
-same_branch(const struct trace_row *r, const struct element *parent)
-{
-	return r->parent == parent;
-}
-
-size_t
-layout_profile_path(const struct trace *t, size_t sel, size_t **idx)
-{
-	const struct element **anc = NULL;
-	size_t nanc = 0, n = 0, level = 0;
-	size_t *out;
-
-	*idx = NULL;
-	if (sel >= t->nrows)
-		return 0;
-	/* ancestors of sel's branch, innermost first: owners of side branches */
-	for (const struct element *p = t->rows[sel].parent; p != NULL;) {
-		const struct element *up = NULL;
-
-		anc = xreallocarray(anc, nanc + 1, sizeof *anc);
-		anc[nanc++] = p;
-		for (size_t i = 0; i < t->nrows; i++)
-			if (t->rows[i].el == p) {
-				up = t->rows[i].parent;
-				break;
-			}
-		p = up;
-	}
-	out = xreallocarray(NULL, t->nrows ? t->nrows : 1, sizeof *out);
-	/* walk from main (parent NULL) down: the branch at `level` is owned by
-	 * anc[nanc - level] (NULL at level 0) and is followed up to the owner of
-	 * the next level's branch, or to its end at the last level */
-	for (level = 0; level <= nanc; level++) {
-		const struct element *owner = level == 0 ? NULL : anc[nanc - level];
-		const struct element *stop = level < nanc ? anc[nanc - level - 1] : NULL;
-
-		for (size_t i = 0; i < t->nrows; i++) {
-			if (!same_branch(&t->rows[i], owner))
-				continue;
-			out[n++] = i;
-			if (stop != NULL && t->rows[i].el == stop)
-				break;
-		}
-	}
-	free(anc);
-	*idx = out;
-	return n;
-}
-
-double
-layout_nice_ceil(double x)
-{
-	static const double steps[] = { 1, 2, 2.5, 5, 10 };
-	double e, m;
-
-	if (!(x > 0) || !isfinite(x))
-		return x > 0 ? x : 0;
-	e = pow(10, floor(log10(x)));
-	m = x / e;
-	for (size_t i = 0; i < sizeof steps / sizeof *steps; i++)
-		if (m <= steps[i] * (1 + 1e-12))
-			return steps[i] * e;
-	return 10 * e;
-}
-
-size_t
-layout_ticks(double lo, double hi, size_t maxn, double *out)
-{
-	static const double mult[] = { 1, 2, 5, 10 };
-	double span = hi - lo, base, step = 0;
-	size_t n = 0;
-
-	if (maxn == 0 || !(span > 0) || !isfinite(span))
-		return 0;
-	base = pow(10, floor(log10(span / (double)maxn)));
-	for (int k = 0; k < 2 && step == 0; k++, base *= 10)
-		for (size_t i = 0; i < sizeof mult / sizeof *mult; i++) {
-			double s = base * mult[i];
-
-			if (floor(hi / s) - ceil(lo / s) + 1 <= (double)maxn) {
-				step = s;
-				break;
-			}
-		}
-	if (step == 0)
-		return 0;
-	for (double v = ceil(lo / step - 1e-9) * step; v <= hi + step * 1e-9 && n < maxn;
-	    v += step)
-		out[n++] = fabs(v) < step * 1e-9 ? 0 : v;
-	return n;
-}
-
-int
-layout_map_col(double z, double z0, double z1, int w)
-{
-	int c;
-
-	if (w <= 0)
-		return 0;
-	if (!(z1 > z0))
-		return 0;
-	c = (int)floor((z - z0) / (z1 - z0) * w);
-	return c < 0 ? 0 : c >= w ? w - 1 : c;
-}
-
-static int
-value_row(double v, double top, int h)
-{
-	int r;
-
-	if (!(top > 0) || !isfinite(v))
-		return h - 1;
-	r = (h - 1) - (int)floor(v / top * (h - 1) + 0.5);
-	return r < 0 ? 0 : r > h - 1 ? h - 1 : r;
-}
-
-static void
-setc(struct layout_plot *p, int row, int col, unsigned char g)
-{
-	unsigned char *c = &p->cell[(size_t)row * (size_t)p->w + (size_t)col];
-
-	if ((*c == LG_WX && g == LG_WY) || (*c == LG_WY && g == LG_WX))
-		*c = LG_WXY;
-	else if (*c == LG_EMPTY || g == LG_FOCUS || (*c == LG_SEL && g != LG_SEL))
-		*c = g;
-}
-
-/* Puts glyph g in `col` from row a to row b of the plot band starting at base. */
-static void
-vline(struct layout_plot *p, int base, int col, int a, int b, unsigned char g)
-{
-	if (a > b) {
-		int t = a;
-
-		a = b;
-		b = t;
-	}
-	for (int r = a; r <= b; r++)
-		setc(p, base + r, col, g);
-}
-
-static double
-row_length(const struct trace_row *r)
-{
-	return r->el->type == EL_SPACE ? model_get(r->el, K_LENGTH) : 0;
-}
-
-int
-layout_profile(const struct trace *t, const size_t *path, size_t npath, size_t sel,
-    int w, int hr, int hp, struct layout_plot *p)
-{
-	double *wx, *wy, *pw, rmax = 0, pmax = 0;
-	int prev_x = -1, prev_y = -1, prev_p = -1;
-
-	memset(p, 0, sizeof *p);
-	p->sel_col = -1;
-	if (w < 2 || hr < 2 || hp < 2 || npath == 0)
-		return -1;
-	p->w = w;
-	p->hr = hr;
-	p->hp = hp;
-	p->cell = xcalloc((size_t)w * (size_t)(hr + hp), 1);
-	p->z0 = t->rows[path[0]].z;
-	p->z1 = t->rows[path[npath - 1]].z + row_length(&t->rows[path[npath - 1]]);
-	if (!(p->z1 > p->z0))
-		p->z1 = p->z0 + 1e-3;
-	wx = xcalloc((size_t)w, sizeof *wx);
-	wy = xcalloc((size_t)w, sizeof *wy);
-	pw = xcalloc((size_t)w, sizeof *pw);
-	/* sample the middle of each column inside the gap that holds it */
-	for (int c = 0, k = 0; c < w; c++) {
-		double z = p->z0 + (c + 0.5) * (p->z1 - p->z0) / w;
-		const struct trace_row *r;
-
-		while ((size_t)k + 1 < npath && t->rows[path[k + 1]].z <= z)
-			k++;
-		r = &t->rows[path[k]];
-		if (r->el->type == EL_SPACE)
-			trace_radius_at(t, r, z - r->z, &wx[c], &wy[c]);
-		else {
-			wx[c] = r->wx;
-			wy[c] = r->wy;
-		}
-		pw[c] = r->el->type == EL_SPACE ? r->power_in : r->power_out;
-		if (wx[c] > rmax)
-			rmax = wx[c];
-		if (wy[c] > rmax)
-			rmax = wy[c];
-		if (pw[c] > pmax)
-			pmax = pw[c];
-	}
-	for (size_t i = 0; i < npath; i++) {
-		const struct trace_row *r = &t->rows[path[i]];
-
-		if (r->wx > rmax)
-			rmax = r->wx;
-		if (r->wy > rmax)
-			rmax = r->wy;
-		if (r->power_in > pmax)
-			pmax = r->power_in;
-	}
-	p->rmax = layout_nice_ceil(rmax * 1.05);
-	p->pmax = layout_nice_ceil(pmax * 1.05);
-	if (sel != (size_t)-1)
-		for (size_t i = 0; i < npath; i++)
-			if (path[i] == sel) {
-				p->sel_col = layout_map_col(t->rows[sel].z, p->z0, p->z1, w);
-				vline(p, 0, p->sel_col, 0, hr - 1, LG_SEL);
-				vline(p, hr, p->sel_col, 0, hp - 1, LG_SEL);
-			}
-	for (int c = 0; c < w; c++) {
-		int ry = value_row(wy[c], p->rmax, hr), rx = value_row(wx[c], p->rmax, hr);
-		int rp = value_row(pw[c], p->pmax, hp);
-
-		/* join to the previous column so steep curves stay connected */
-		vline(p, 0, c, ry, prev_y < 0 ? ry : prev_y + (prev_y < ry ? 1 : prev_y > ry ? -1 : 0), LG_WY);
-		vline(p, 0, c, rx, prev_x < 0 ? rx : prev_x + (prev_x < rx ? 1 : prev_x > rx ? -1 : 0), LG_WX);
-		vline(p, hr, c, rp, prev_p < 0 ? rp : prev_p, LG_POWER);
-		prev_x = rx;
-		prev_y = ry;
-		prev_p = rp;
-	}
-	for (size_t i = 0; i < npath; i++) {
-		const struct trace_row *r = &t->rows[path[i]];
-
-		if (r->el->type != EL_SPACE) {
-			p->mark = xreallocarray(p->mark, p->nmark + 1, sizeof *p->mark);
-			p->mark[p->nmark++] = (struct layout_mark){
-				layout_map_col(r->z, p->z0, p->z1, w), path[i], 0 };
-		}
-		if (r->has_focus) {
-			int c = layout_map_col(r->focus.z, p->z0, p->z1, w);
-			double fw = r->focus.wx < r->focus.wy ? r->focus.wx : r->focus.wy;
-
-			p->mark = xreallocarray(p->mark, p->nmark + 1, sizeof *p->mark);
-			p->mark[p->nmark++] = (struct layout_mark){ c, path[i], 1 };
-			setc(p, value_row(fw, p->rmax, hr), c, LG_FOCUS);
-		}
-	}
-	free(wx);
-	free(wy);
-	free(pw);
-	return 0;
-}
-
-void
-layout_plot_release(struct layout_plot *p)
-{
-	free(p->cell);
-	free(p->mark);
-	memset(p, 0, sizeof *p);
-	p->sel_col = -1;
-}

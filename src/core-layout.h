@@ -26,11 +26,16 @@
  * number of columns written. */
 int   layout_bar(char *buf, size_t n, double ratio, double caution, int width,
           int ascii);
-/* "15.8 %", "109 %", "0.65 %", "<0.01 %"; "-" for NAN. */
+/* "15.8 %", "109 %", "0.65 %", "<0.01 %"; "-" for NAN.  The one percent
+ * form of every view (workbench, list, table). */
 void  layout_percent(char *buf, size_t n, double ratio);
 /* The status in words as the screen shows it: "ok", "caution", "OVER",
  * "unrated". */
 const char *layout_status_word(enum damage_status);
+/* A chain row's status word: "spark" where a pulsed focus in it breaks
+ * down the air, "n/a" for a space without a rating (a gap has nothing to
+ * damage), else layout_status_word. */
+const char *layout_row_status_word(const struct trace_row *);
 /* Radii as "3.00 mm" (equal at 3 digits) or "2.41/2.43 mm" (one unit) or
  * "265 µm/1.82 mm". */
 void  layout_radius_text(char *buf, size_t n, double wx, double wy, int ascii);
@@ -72,15 +77,22 @@ size_t layout_wrap(const char *s, int width, size_t *starts, size_t *lens, size_
 /* ---- key hints ---- */
 
 struct layout_hint {
-	const char *key;            /* "a", "^R", "Enter" */
-	const char *word;           /* "add" */
+	const char *key;            /* "p", "Ins", "Enter" */
+	const char *word;           /* "place" */
 	int         prio;           /* 0 always; higher dropped first */
+	int         group;          /* task; a change of group is marked on the line */
 };
-/* Picks which hints fit in `width` columns written as "key word" two
- * blanks apart, in their given order: the least important are dropped one
- * at a time (of equal prio, the rightmost first); prio 0 is dropped only
- * when nothing else is left, from the right.  shown[i] is set to 1 or 0.
- * Returns how many are shown. */
+/* The key line's own signs: a key and its word are joined by the key sign
+ * ("Ins›place"); two blanks part hints of one task, the group sign with a
+ * blank each side parts tasks.  ASCII terminals get ">" and ":". */
+#define LAYOUT_KEY_SIGN    "\u203a"
+#define LAYOUT_GROUP_SIGN  "\u2506"
+#define LAYOUT_GROUP_GAP   3
+/* Picks which hints fit in `width` columns written as above, in their
+ * given order: the least important are dropped one at a time (of equal
+ * prio, the rightmost first); prio 0 is dropped only when nothing else is
+ * left, from the right.  shown[i] is set to 1 or 0.  Returns how many are
+ * shown. */
 size_t layout_hints_pick(const struct layout_hint *, size_t n, int width,
            unsigned char *shown);
 /* The chosen hints as one plain line (for tests and monochrome). */
@@ -118,6 +130,10 @@ int    layout_scroll(int sel, int top, int visible, int n);
 /* A key's value as short text that reads back to the same double ("250 mm"
  * rather than "0.25 m"); the given value or its default.  Caller frees. */
 char  *layout_value_text(const struct element *, enum model_key);
+/* v as the shortest units_format text that reads back to v ("532 nm"). */
+char  *layout_quantity_text(double v, enum unit_dim);                  /* caller frees */
+/* What a bench-level key's value looks like ("with its unit, e.g. ..."). */
+char  *layout_bench_key_hint(const char *key);                         /* caller frees */
 /* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm". */
 char  *layout_bench_value_text(const struct bench *, const char *key);
 /* A new, empty bench with a starting source the user then edits:
@@ -147,15 +163,94 @@ char  *layout_field_value(const struct element *, const struct layout_field *);
 /* One line of help for a bench-level key. */
 const char *layout_bench_key_help(const char *key);
 
-/* ---- the status line ---- */
+/* ---- labels and hints (core-layout-keys.c) ---- */
 
-/* "worst: W1 109 % OVER  |  safe source power 914 mW  |  unterminated:
- * 728 µW after S4r (POL1.rejected)"; every part always present ("nothing
- * rated", "all beams terminated").  When that is wider than `width` it
- * gets shorter in steps (narrow separators, no branch names, "safe
- * power"); the last step is returned even if still too wide.  Caller
+enum layout_key_group { LKG_ELEMENT, LKG_OPTIC, LKG_MATERIAL, LKG_DAMAGE, LKG_BENCH,
+	LKG_SOURCE, LKG_COUNT };
+/* "Damage rating", "Source", ... */
+const char *layout_group_name(enum layout_key_group);
+/* A model key's human label ("CW irradiance") and its group. */
+const char *layout_key_label(int key, enum layout_key_group *group);
+/* The same for a bench-level key (edit_bench_keys): "waist position". */
+const char *layout_bench_key_label(const char *key, enum layout_key_group *group);
+/* What a value of this key looks like: its unit with an example and its
+ * sign, or for a plain number its range ("a fraction, 0 to 1").  Caller
  * frees. */
-char  *layout_status_line(const struct trace *, int ascii, int width);
+char  *layout_key_hint(int key);
+/* The keys that rate an element of this type on a pulsed or CW bench
+ * (a dump: max_power; a mirror: damage.fluence and damage.pulse_width or
+ * damage.cw_irradiance); 0 for a space. */
+size_t layout_rating_keys(enum elem_type, int pulsed, int *out, size_t max);
+/* What placing an element of this type asks, in order: the required key,
+ * then what matters for the type (a mirror's angle, a filter's OD), then
+ * its rating. */
+size_t layout_place_keys(enum elem_type, int pulsed, int *out, size_t max);
+/* "unrated: give max_power (Enter)"; for a space "n/a: ...".  Caller frees. */
+char  *layout_rating_hint(enum elem_type, int pulsed);
+
+/* ---- hazards and the margin line (core-layout-margin.c) ---- */
+
+/* Everything on a bench that needs a person's attention: rows over and at
+ * caution, every warning of the trace (whatever its kind, so that kinds
+ * added to the trace later are listed too), and optics without a rating
+ * that take power (a space is never one; an optic the trace already warns
+ * about as unrated is listed once). */
+enum layout_hazard_kind { LH_OVER, LH_WARNING, LH_CAUTION, LH_UNRATED };
+struct layout_hazard {
+	enum layout_hazard_kind      kind;
+	long                         row;   /* trace row to jump to; -1: none */
+	const struct trace_warning  *warn;  /* borrowed; LH_WARNING only */
+	const struct element        *el;    /* borrowed; NULL: the source */
+};
+/* Over, warnings, caution, unrated, each in trace order.  Caller frees *out. */
+size_t layout_hazards(const struct trace *, struct layout_hazard **out);
+/* One word for a hazard: "over", "caution", "unrated", "spark",
+ * "unterminated", "self-focusing", "B-integral", or a new kind's name. */
+const char *layout_hazard_word(const struct layout_hazard *);
+/* 1 when a chain row has a hazard of its own (status, flag or warning). */
+int    layout_row_hazard(const struct trace *, size_t row);
+/* How many times the power could rise before the ratio reaches 100 %:
+ * "×1.21", "×0.917" (already over), "×∞"; "-" for NAN. */
+void   layout_headroom(char *buf, size_t n, double ratio, int ascii);
+/* "worst: W1 109 % OVER, headroom ×0.914  │  safe source power 914 mW  │
+ * 8 hazards: 1 over, 1 spark, ...  │  TAIL" (tail: e.g. the saved time;
+ * may be NULL).  Shorter in steps when wider than `width` (narrow
+ * separators; the hazard count alone; "W1 109 % OVER ×0.914"; no tail; no
+ * headroom); the last step is returned even if still too wide.  The
+ * words "safe source power" and the hazard count stay in every step.
+ * Caller frees. */
+char  *layout_margin_line(const struct trace *, int ascii, int width, const char *tail);
+
+/* "invisible (IR)", "invisible (UV)" or "visible" (400-700 nm). */
+const char *layout_visibility(double wavelength);
+/* "1.064 µm 2.00 W pulsed (200 mJ × 10.0 Hz, 8.00 ns)", "532.0 nm CW 5.00 W". */
+char  *layout_beam_summary(const struct bench *, int ascii);            /* caller frees */
+/* The standing caution: design estimate, not a safety assessment; the
+ * wavelength and whether it is invisible.  Fitted to width. */
+char  *layout_caution_line(const struct bench *, int ascii, int width); /* caller frees */
+/* parts[] joined by sep, dropping the highest prio first until it fits
+ * (prio 0 parts are always kept); NULL or "" parts are skipped. */
+char  *layout_join_fit(const char *const *parts, const int *prio, size_t n,
+           const char *sep, int width);                                 /* caller frees */
+
+/* How an element's governing limit came from its rating: rating × λ factor
+ * × τ factor = limit, ÷ safety factor = caution level.  The factors come
+ * from damage_limits itself (once with the pulse as rated, once as run). */
+enum layout_metric { LD_CW_LINEAR, LD_CW_IRRADIANCE, LD_FLUENCE, LD_MAX_POWER,
+	LD_MAX_ABSORBED, LD_NMETRICS };
+struct layout_derivation {
+	enum layout_metric metric;  /* the one that gives the row's ratio */
+	int                key;     /* enum model_key of the rating */
+	const char        *what;    /* "pulse fluence" */
+	enum unit_dim      dim;
+	double             rating, lambda_factor, tau_factor, limit;
+	double             safety_factor, caution_level, ratio;
+};
+/* -1 when the row is unrated. */
+int    layout_derive(const struct trace_row *, const struct bench *, struct layout_derivation *);
+/* "fluence 1.20 J/cm² × 2 λ × 1.26 τ = 3.04 J/cm² limit; ÷ 2 = 1.52 J/cm²
+ * caution"; NULL when unrated.  Caller frees. */
+char  *layout_derivation_text(const struct trace_row *, const struct bench *, int ascii);
 
 /* ---- the beam profile ---- */
 
@@ -189,11 +284,24 @@ struct layout_plot {
  * mark (or (size_t)-1).  Returns 0, or -1 when w, hr or hp is below 2. */
 int    layout_profile(const struct trace *, const size_t *path, size_t npath,
            size_t sel, int w, int hr, int hp, struct layout_plot *out);
+/* The same plot with the radius rows drawn as the beam lies on the table:
+ * the axis in row (hr-1)/2, LG_WX filling ±x radius about it, LG_WY at
+ * the ±y radius where it differs, foci on the axis; rmax is then the
+ * distance from the axis to the top row. */
+int    layout_profile_band(const struct trace *, const size_t *path, size_t npath,
+           size_t sel, int w, int hr, int hp, struct layout_plot *out);
 void   layout_plot_release(struct layout_plot *);
 /* A "nice" number >= x (1, 2, 2.5, 5 × 10^k); 0 stays 0. */
 double layout_nice_ceil(double x);
 /* Nice tick values inside [lo, hi], at most maxn; returns the count. */
 size_t layout_ticks(double lo, double hi, size_t maxn, double *out);
+/* Where the ids under the profile's axis go: label i (len[i] columns) as
+ * near col[i] as it can without overlapping another (marks at the same z
+ * are put side by side), the selected one (sel, or -1) first and exactly
+ * under its mark; at[i] is its start column, -1 when it does not fit in
+ * width.  cols must be in ascending order.  Returns how many are placed. */
+int    layout_place_labels(const int *col, const int *len, size_t n, long sel, int width,
+           int *at);
 /* Column of z in [z0, z1] mapped onto w columns (clamped). */
 int    layout_map_col(double z, double z0, double z1, int w);
 

@@ -12,4 +12,11 @@ double material_brewster_deg(double n1, double n2);
  * (NAN outside). */
 double material_silica_index(double lambda);
 
+/* The glasses of the `material` key (enum material_id of core-model.h):
+ * n from the published Sellmeier fit n² = 1 + Σ Bᵢλ²/(λ² − Cᵢ) at the
+ * vacuum wavelength lambda (m); NAN outside the fit's published range,
+ * which *lo and *hi (m, each may be NULL) return. */
+double material_index(int material, double lambda, double *lo, double *hi);
+const char *material_source(int material);     /* the published fit, for messages */
+
 #endif

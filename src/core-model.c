@@ -25,6 +25,10 @@
 #define SURFACED (TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | \
 	EL_BIT(EL_POLARIZER) | EL_BIT(EL_SPLITTER))
 
+static const char *const material_choices[MAT_COUNT + 1] = {
+	"fused_silica", "n-bk7", "caf2", "sapphire_o", NULL,
+};
+
 /* Ranges: angles of incidence stay below grazing; polarizer and waveplate
  * angles are any orientation (within ±360°).  Everything else is held to
  * what a bench can hold (beamledger-bench(5), RANGES): lengths, radii and
@@ -47,11 +51,11 @@ const struct model_key_def model_keys[K_COUNT] = {
 	[K_TS] = { "ts", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_SPLITTER), NAN, "s-polarized power transmittance" },
 	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat", 1e-9 },
+	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat" },
 	[K_AOI] = { "aoi", KIND_ANGLE, DIM_NONE, 0, 90, 0, 1, 0,
 	    EL_BIT(EL_MIRROR) | SURFACED, NAN, "angle of incidence, degrees" },
 	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
-	    EL_BIT(EL_LENS), NAN, "focal length, - diverging", 1e-9 },
+	    EL_BIT(EL_LENS), NAN, "focal length, - diverging" },
 	[K_AXIS] = { "axis", KIND_AXIS, DIM_NONE, 0, 2, 0, 0, 0,
 	    EL_BIT(EL_LENS), AXIS_BOTH, "both, x or y (cylindrical)" },
 	[K_TRANSMISSION] = { "transmission", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
@@ -92,6 +96,17 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    EL_BIT(EL_FILTER), 0, "true: what the filter does not pass it reflects" },
 	[K_ISOLATION] = { "isolation", KIND_NUMBER, DIM_NONE, 0, 100, 0, 0, 0,
 	    EL_BIT(EL_ISOLATOR), NAN, "reverse isolation in dB, for light going back" },
+	[K_R1] = { "r1", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_LENS), NAN, "front surface radius, + centre downstream; absent = flat" },
+	[K_R2] = { "r2", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
+	    EL_BIT(EL_LENS), NAN, "back surface radius, + centre downstream; absent = flat" },
+	[K_MATERIAL] = { "material", KIND_CHOICE, DIM_NONE, 0, MAT_COUNT - 1, 0, 0, 0,
+	    TRANSMISSIVE, NAN, "glass: fused_silica, n-bk7, caf2, sapphire_o (index from Sellmeier)",
+	    material_choices },
+	[K_BREWSTER] = { "brewster", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_WINDOW), 0, "true: a plate at Brewster's angle (no p loss)" },
+	[K_PHASE] = { "phase", KIND_ANGLE, DIM_NONE, -360, 360, 0, 0, 0,
+	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), 0, "s-p phase on reflection, degrees" },
 	[K_DMG_CW_LINEAR] = { "cw_linear", KIND_QUANTITY, DIM_LINEAR, 1e-1, 1e12, 0, 0, 0,
 	    ALL_TYPES, NAN, "CW LIDT, linear power density (kW/cm)" },
 	[K_DMG_CW_IRRADIANCE] = { "cw_irradiance", KIND_QUANTITY, DIM_IRRADIANCE, 10, 1e19, 0, 0, 0,
@@ -102,6 +117,12 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    ALL_TYPES, NAN, "wavelength the LIDT was measured at" },
 	[K_DMG_PULSE_WIDTH] = { "pulse_width", KIND_QUANTITY, DIM_TIME, 1e-18, 1, 0, 0, 0,
 	    ALL_TYPES, NAN, "pulse width the fluence LIDT was measured at" },
+};
+
+/* Signed keys that may be neither zero nor tighter than this: |v| at least
+ * (a 1e-320 m focal length would make 1/f infinite). */
+static const double min_abs[K_COUNT] = {
+	[K_ROC] = 1e-9, [K_FOCAL] = 1e-9, [K_R1] = 1e-9, [K_R2] = 1e-9,
 };
 
 static const char *const type_names[EL_NTYPES] = {
@@ -240,10 +261,10 @@ range_text(struct buf *b, const struct model_key_def *d)
 	} else if (isinf(d->hi)) {
 		buf_add(b, d->lo_open ? "> " : ">= ");
 		bound_text(b, d, d->lo);
-	} else if (d->min_abs > 0 && d->lo == -d->hi) {
+	} else if (min_abs[d - model_keys] > 0 && d->lo == -d->hi) {
 		/* "roc": either sign, neither too flat nor too tight */
 		buf_add(b, "± ");
-		bound_text(b, d, d->min_abs);
+		bound_text(b, d, min_abs[d - model_keys]);
 		buf_add(b, " to ± ");
 		bound_text(b, d, d->hi);
 	} else {
@@ -281,8 +302,8 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 	bad = (d->lo_open ? v <= d->lo : v < d->lo) ||
 	    (d->hi_open ? v >= d->hi : v > d->hi) || (d->nonzero && v == 0) ||
-	    fabs(v) < d->min_abs;
-	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL)
+	    fabs(v) < min_abs[k];
+	if (d->kind == KIND_AXIS || d->kind == KIND_BOOL || d->kind == KIND_CHOICE)
 		bad = bad || v != floor(v);
 	if (bad) {
 		buf_init(&b);
@@ -389,6 +410,20 @@ model_set_text(struct element *el, enum model_key k, const char *text, char **ca
 			return fail_with(cause, "element '%s': %s: '%s' is not both, x or y",
 			    el->id, model_key_path(k), text);
 		break;
+	case KIND_CHOICE: {
+		struct buf names;
+
+		for (int i = 0; d->choices[i] != NULL; i++)
+			if (strcmp(text, d->choices[i]) == 0)
+				return model_set(el, k, i, cause);
+		buf_init(&names);
+		for (int i = 0; d->choices[i] != NULL; i++)
+			buf_printf(&names, "%s%s", i ? ", " : "", d->choices[i]);
+		fail_with(cause, "element '%s': %s: '%s' is not one of %s",
+		    el->id, model_key_path(k), text, names.s);
+		buf_release(&names);
+		return -1;
+	}
 	default:
 		if (parse_plain(text, &v) != 0)
 			return fail_with(cause, "element '%s': %s: '%s' is not a plain number%s",
@@ -414,6 +449,8 @@ model_value_text(const struct element *el, enum model_key k)
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
+	case KIND_CHOICE:
+		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "");
 	case KIND_SURFACE:
 		if (v == MODEL_UNCOATED)
 			return xstrdup("uncoated");

@@ -34,7 +34,8 @@ enum key_kind {
 	KIND_NUMBER,            /* plain number (od, waves, ratio, index) */
 	KIND_BOOL,              /* true/false */
 	KIND_AXIS,              /* "both" | "x" | "y" */
-	KIND_SURFACE            /* fraction in [0, 1) or "uncoated" (MODEL_UNCOATED) */
+	KIND_SURFACE,           /* fraction in [0, 1) or "uncoated" (MODEL_UNCOATED) */
+	KIND_CHOICE             /* one of the row's `choices`, stored as its index */
 };
 
 enum model_key {
@@ -42,6 +43,7 @@ enum model_key {
 	K_FOCAL, K_AXIS, K_TRANSMISSION, K_THICKNESS, K_N2, K_INDEX,
 	K_POLARIZING, K_OD, K_MAX_ABSORBED, K_RETARDANCE, K_ANGLE,
 	K_EXTINCTION, K_DIAMETER, K_MAX_POWER, K_APERTURE,
+	K_R1, K_R2, K_MATERIAL, K_BREWSTER, K_PHASE,
 	K_SURF_R, K_SURF_R_BACK, K_LEAK, K_REFLECTIVE, K_ISOLATION,
 	K_DMG_CW_LINEAR, K_DMG_CW_IRRADIANCE, K_DMG_FLUENCE,
 	K_DMG_WAVELENGTH, K_DMG_PULSE_WIDTH,
@@ -54,6 +56,9 @@ enum model_key {
 #define MODEL_UNCOATED (-1.0)
 
 enum axis_sel { AXIS_BOTH = 0, AXIS_X = 1, AXIS_Y = 2 };
+/* Glasses of the `material` key, in the order of material_names[]
+ * (core-material.h has their Sellmeier fits). */
+enum material_id { MAT_FUSED_SILICA, MAT_N_BK7, MAT_CAF2, MAT_SAPPHIRE_O, MAT_COUNT };
 
 struct model_key_def {
 	const char     *name;       /* as in the file; damage keys without "damage." */
@@ -64,7 +69,7 @@ struct model_key_def {
 	unsigned        types;      /* EL_BIT mask of types taking it */
 	double          dflt;       /* default when absent (NAN: none) */
 	const char     *help;       /* one line for the workbench */
-	double          min_abs;    /* nonzero keys: |v| at least this (0: no floor) */
+	const char *const *choices; /* KIND_CHOICE: the names, NULL-terminated */
 };
 extern const struct model_key_def model_keys[K_COUNT];
 
@@ -104,6 +109,9 @@ struct source {
 	double           waist_position;     /* m, + downstream */
 	double           m2[2];
 	int              m2_pair;
+	double           divergence[2];      /* rad, far-field half-angle; when
+	                                      * given, m2 = π·w0·θ/λ (ISO 11146-1) */
+	int              divergence_given;   /* written instead of m2 */
 	enum pol_kind    pol;
 	double           pol_angle_deg;
 	double           max_return;         /* W tolerable back at the source; NAN: not judged */

@@ -10,7 +10,9 @@
 
 #include "core-trace.h"
 #include "core-ghost.h"
+#include "core-material.h"
 #include "core-polar.h"
+#include "core-thick.h"
 #include "util-err.h"
 
 #define B_WARN_RAD 3.0          /* common practice: 3-5 rad, onset of break-up */
@@ -134,8 +136,39 @@ start_state(const struct bench *b, struct state *st)
 
 /* What the element does to the polarization and power: the Mueller matrix
  * of the port that continues, and of the side port when it has one. */
+/* The s-p phase difference of a reflection (`phase`, degrees): a retarder
+ * with its axes along p (x) and s (y), applied before the reflection's
+ * change of handedness (REFERENCE §15). */
 static void
-element_mueller(const struct element *el, struct mueller *main_m, struct mueller *side_m)
+reflect_with_phase(struct mueller *m, const struct element *el)
+{
+	double phase = model_get(el, K_PHASE);
+
+	if (phase != 0) {
+		struct mueller r, out;
+
+		polar_retarder(&r, phase / 360, 0);
+		polar_mul(&out, &r, m);
+		*m = out;
+	}
+	polar_reflect(m);
+}
+
+/* A window at Brewster's angle: p passes both faces without loss, s loses
+ * Rs at each (Fresnel at θB, REFERENCE §6; the exit face, glass to air at
+ * the internal Brewster angle, reflects the same Rs). */
+static void
+brewster_window(struct mueller *m, const struct element *el, double lambda, double t)
+{
+	double n = thick_index(el, lambda), rs, rp;
+
+	material_fresnel(1, n, material_brewster_deg(1, n), &rs, &rp);
+	polar_diattenuator(m, t, t * (1 - rs) * (1 - rs), 0);
+}
+
+static void
+element_mueller(const struct element *el, double lambda, struct mueller *main_m,
+    struct mueller *side_m)
 {
 	double r, rs, rp, tp, ts, t, t2;
 
@@ -151,7 +184,7 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 		} else {
 			polar_scalar(main_m, model_get(el, K_REFLECTANCE));
 		}
-		polar_reflect(main_m);
+		reflect_with_phase(main_m, el);
 		break;
 	case EL_SPLITTER: {
 		struct mueller refl, trans;
@@ -168,7 +201,7 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 			polar_scalar(&trans, 1 - r);
 			polar_scalar(&refl, r);
 		}
-		polar_reflect(&refl);
+		reflect_with_phase(&refl, el);
 		if (el->side_port == PORT_REFLECTED) {
 			*main_m = trans;
 			*side_m = refl;
@@ -178,8 +211,13 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 		}
 		break;
 	}
-	case EL_LENS:
 	case EL_WINDOW:
+		if (model_get(el, K_BREWSTER) != 0) {
+			brewster_window(main_m, el, lambda, model_get(el, K_TRANSMISSION));
+			break;
+		}
+		/* fall through */
+	case EL_LENS:
 	case EL_ISOLATOR:
 		polar_scalar(main_m, model_get(el, K_TRANSMISSION));
 		break;
@@ -213,40 +251,46 @@ element_mueller(const struct element *el, struct mueller *main_m, struct mueller
 	}
 }
 
-void
-trace_element_optics(const struct element *el, struct beam_axis *x, struct beam_axis *y)
+/* What the element does to the beam's size; returns how far z advances
+ * through it (its glass; 0 for thin elements). */
+static double
+optics_axes(const struct element *el, double lambda, struct beam_axis *x,
+    struct beam_axis *y)
 {
-	double fx, fy, f;
+	double fx, fy;
 
 	switch (el->type) {
 	case EL_MIRROR:
 		if (!model_has(el, K_ROC))
-			return;
+			return 0;
 		beam_mirror_focal(el->val[K_ROC], model_get(el, K_AOI), &fx, &fy);
 		beam_lens(x, fx);
 		beam_lens(y, fy);
-		break;
+		return 0;
 	case EL_LENS:
-		f = el->val[K_FOCAL];
-		if (model_get(el, K_AXIS) != AXIS_Y)
-			beam_lens(x, f);
-		if (model_get(el, K_AXIS) != AXIS_X)
-			beam_lens(y, f);
-		break;
+	case EL_WINDOW:
+		return thick_apply(el, lambda, x, y);
 	default:
-		break;
+		return 0;
 	}
 }
 
-static void
-element_optics(const struct element *el, struct state *st)
+static double
+element_optics(const struct element *el, double lambda, struct state *st)
 {
-	trace_element_optics(el, &st->x, &st->y);
+	return optics_axes(el, lambda, &st->x, &st->y);
 }
 
 void
-trace_element_ports(const struct element *el, const double s_in[4], double *main_out,
-    double *side_out)
+trace_element_optics(const struct element *el, double lambda, struct beam_axis *x,
+    struct beam_axis *y)
+{
+	(void)optics_axes(el, lambda, x, y);
+}
+
+void
+trace_element_ports(const struct element *el, double lambda, const double s_in[4],
+    double *main_out, double *side_out)
 {
 	struct mueller mm, ms;
 	double s[4];
@@ -256,7 +300,7 @@ trace_element_ports(const struct element *el, const double s_in[4], double *main
 		*main_out = s_in[0];
 		return;
 	}
-	element_mueller(el, &mm, &ms);
+	element_mueller(el, lambda, &mm, &ms);
 	polar_apply(&mm, s_in, s);
 	*main_out = s[0] > 0 ? s[0] : 0;
 	if (el->side_port != PORT_NONE) {
@@ -340,7 +384,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	const struct element *el = &c->br->el[c->i];
 	struct mueller mm, ms;
 	struct damage_exposure ex;
-	double p, a, lam = src->wavelength;
+	double p, a, lam = src->wavelength, glass = 0;
 
 	memset(row, 0, sizeof *row);
 	row->el = el;
@@ -388,7 +432,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 			row->flags |= TF_HARD_CLIP;
 	}
 	if (el->type != EL_SPACE) {         /* a gap of air leaves power alone */
-		element_mueller(el, &mm, &ms);
+		element_mueller(el, lam, &mm, &ms);
 		if (el->side_port != PORT_NONE) {
 			*side = *st;
 			polar_apply(&ms, st->s, side->s);
@@ -396,7 +440,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		}
 		polar_apply(&mm, st->s, st->s);
 		settle(st->s, src->power);
-		element_optics(el, st);
+		glass = element_optics(el, lam, st);
 		side->x = st->x;
 		side->y = st->y;
 	}
@@ -408,8 +452,9 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	    model_has(el, K_THICKNESS)) {
 		double ppk = src->pulsed ? row->peak_power : p;
 
-		row->critical_power = damage_critical_power(lam, model_get(el, K_INDEX),
-		    el->val[K_N2]);
+		double n0 = thick_index(el, lam);
+
+		row->critical_power = damage_critical_power(lam, n0, el->val[K_N2]);
 		row->critical_ratio = ppk / row->critical_power;
 		/* At or above P_cr the beam would collapse after the collapse
 		 * distance (infinite at P_cr itself); it does so inside the
@@ -417,15 +462,14 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 		 * longer one is a note: the B-integral carries the risk. */
 		if (row->critical_power > 0 && ppk >= row->critical_power) {
 			row->collapse_distance = damage_self_focus_distance(lam,
-			    model_get(el, K_INDEX), sqrt(row->wx * row->wy),
-			    row->critical_ratio);
-			if (row->collapse_distance < el->val[K_THICKNESS])
+			    n0, sqrt(row->wx * row->wy), row->critical_ratio);
+			if (row->collapse_distance < glass)
 				row->flags |= TF_SELF_FOCUSING;
 			else
 				row->flags |= TF_ABOVE_CRITICAL;
 		}
 		row->b_integral = damage_b_integral(lam, el->val[K_N2],
-		    row->peak_irradiance, el->val[K_THICKNESS]);
+		    row->peak_irradiance, glass);
 		st->b_total += row->b_integral;
 		row->b_total = st->b_total;
 		if (st->b_total > B_WARN_RAD && !st->b_warned) {
@@ -439,6 +483,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	}
 	side->b_total = st->b_total;
 	side->b_warned = st->b_warned;
+	st->z += glass;         /* a thick element occupies its glass along z */
 
 	damage_limits(el, src, &row->limits);
 	if (row->limits.flags & DAMAGE_WL_SCALED)

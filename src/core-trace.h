@@ -141,10 +141,10 @@ const char   *trace_warn_name(enum trace_warn_kind);
 /* For the ghost engine: what an element does to q (lenses, curved
  * mirrors), and the power it sends to its continuing and side ports from
  * the Stokes vector s_in that reaches it after clipping. */
-void          trace_element_optics(const struct element *, struct beam_axis *x,
-                  struct beam_axis *y);
-void          trace_element_ports(const struct element *, const double s_in[4],
-                  double *main_out, double *side_out);
+void          trace_element_optics(const struct element *, double lambda,
+                  struct beam_axis *x, struct beam_axis *y);
+void          trace_element_ports(const struct element *, double lambda,
+                  const double s_in[4], double *main_out, double *side_out);
 void          trace_add_warning(struct trace *, enum trace_warn_kind,
                   const struct element *parent, enum port,
                   const struct element *after, double value);

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-material.h"
 #include "core-model.h"
 #include "core-point.h"
 #include "util-buf.h"
@@ -48,6 +49,7 @@ idset_add(struct idset *set, const char *id)
 
 struct vctx {
 	struct idset ids;
+	double       wavelength;    /* the source's, m: for the material fits */
 	char       **cause;
 };
 
@@ -118,10 +120,10 @@ check_surfaces(const struct element *el, char **cause)
 
 	for (size_t i = 0; i < 2; i++)
 		if (model_has(el, surf[i]) && el->val[surf[i]] == MODEL_UNCOATED &&
-		    !model_has(el, K_INDEX))
+		    !model_has(el, K_INDEX) && !model_has(el, K_MATERIAL))
 			return fail_with(cause, "element '%s': %s \"uncoated\" needs the "
-			    "glass's index (an uncoated surface of a guessed glass is "
-			    "refused)", el->id, model_key_path(surf[i]));
+			    "glass's index or material (an uncoated surface of a guessed "
+			    "glass is refused)", el->id, model_key_path(surf[i]));
 	if (el->type == EL_MIRROR && model_has(el, K_LEAK) && !model_has(el, K_RS) &&
 	    !model_has(el, K_RP) && el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
 		return fail_with(cause, "element '%s': leak %g + reflectance %g exceeds 1 "
@@ -167,8 +169,15 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 			return -1;
 		break;
 	case EL_LENS:
-		if (require(el, K_FOCAL, cause) != 0)
+		/* a thin lens by its focal length, or a lens by its radii
+		 * (one may be absent: flat) */
+		if (exclusive(el, K_FOCAL, K_R1, cause) != 0 ||
+		    exclusive(el, K_FOCAL, K_R2, cause) != 0)
 			return -1;
+		if (!model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2))
+			return fail_with(cause, "element '%s': a lens needs focal (%s), or "
+			    "r1 and/or r2 (the radii of its faces)", el->id,
+			    model_keys[K_FOCAL].help);
 		break;
 	case EL_SPLITTER:
 		if (el->side_port == PORT_NONE)
@@ -198,6 +207,19 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 	}
 	if (check_surfaces(el, cause) != 0)
 		return -1;
+	if (exclusive(el, K_MATERIAL, K_INDEX, cause) != 0)
+		return -1;
+	if (model_has(el, K_MATERIAL) && !isnan(v->wavelength)) {
+		double lo, hi;
+
+		if (isnan(material_index((int)el->val[K_MATERIAL], v->wavelength, &lo, &hi)))
+			return fail_with(cause, "element '%s': material %s: its Sellmeier fit "
+			    "(%s) holds for %.3g-%.3g um, not at the source's %.6g um; "
+			    "give index instead", el->id,
+			    model_keys[K_MATERIAL].choices[(int)el->val[K_MATERIAL]],
+			    material_source((int)el->val[K_MATERIAL]), lo * 1e6, hi * 1e6,
+			    v->wavelength * 1e6);
+	}
 	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
 		return fail_with(cause, "element '%s': damage.fluence needs "
 		    "damage.pulse_width (the pulse width it was measured at)", el->id);
@@ -330,6 +352,7 @@ model_validate(const struct bench *bench, char **cause)
 	v.ids.cap = cap;
 	v.ids.slot = xcalloc(cap, sizeof *v.ids.slot);
 	v.cause = cause;
+	v.wavelength = b->src.wavelength;
 	rc = model_walk(&b->path, check_element, &v);
 	free(v.ids.slot);
 	if (rc != 0)

@@ -59,41 +59,53 @@ report_source_line(const struct bench *b, int ascii)
 	char t1[48], t2[48], t3[48], t4[48];
 	struct buf out;
 
+	/* What was typed shows as typed (shortest form that reads back);
+	 * what was derived from it (energy from power, or power from energy)
+	 * with three figures. */
 	buf_init(&out);
-	units_format(t1, sizeof t1, s->wavelength, DIM_LENGTH, 4, ascii);
+	units_format_shortest(t1, sizeof t1, s->wavelength, DIM_LENGTH, ascii);
 	buf_add(&out, t1);
 	if (s->pulsed) {
-		units_format(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY, 3, ascii);
-		units_format(t2, sizeof t2, s->pulse_width, DIM_TIME, 3, ascii);
-		units_format(t3, sizeof t3, s->pulse_energy, DIM_ENERGY, 3, ascii);
-		units_format(t4, sizeof t4, s->power, DIM_POWER, 3, ascii);
+		units_format_shortest(t1, sizeof t1, s->rep_rate, DIM_FREQUENCY, ascii);
+		units_format_shortest(t2, sizeof t2, s->pulse_width, DIM_TIME, ascii);
+		if (s->energy_given) {
+			units_format_shortest(t3, sizeof t3, s->pulse_energy, DIM_ENERGY, ascii);
+			units_format(t4, sizeof t4, s->power, DIM_POWER, 3, ascii);
+		} else {
+			units_format(t3, sizeof t3, s->pulse_energy, DIM_ENERGY, 3, ascii);
+			units_format_shortest(t4, sizeof t4, s->power, DIM_POWER, ascii);
+		}
 		buf_printf(&out, ", pulsed %s, %s %s, %s a pulse (%s average)",
 		    t1, t2, model_shape_name(s->shape), t3, t4);
 	} else {
-		units_format(t1, sizeof t1, s->power, DIM_POWER, 3, ascii);
+		units_format_shortest(t1, sizeof t1, s->power, DIM_POWER, ascii);
 		buf_printf(&out, ", CW %s", t1);
 	}
-	units_format(t1, sizeof t1, s->waist[0], DIM_LENGTH, 3, ascii);
+	units_format_shortest(t1, sizeof t1, s->waist[0], DIM_LENGTH, ascii);
 	if (s->waist[0] != s->waist[1]) {
-		units_format(t2, sizeof t2, s->waist[1], DIM_LENGTH, 3, ascii);
+		units_format_shortest(t2, sizeof t2, s->waist[1], DIM_LENGTH, ascii);
 		buf_printf(&out, ", waist %s x %s", t1, t2);
 	} else {
 		buf_printf(&out, ", waist %s", t1);
 	}
 	if (s->waist_position != 0) {
-		units_format(t1, sizeof t1, s->waist_position, DIM_LENGTH, 3, ascii);
+		units_format_shortest(t1, sizeof t1, s->waist_position, DIM_LENGTH, ascii);
 		buf_printf(&out, " at %s", t1);
 	}
+	units_format_shortest(t1, sizeof t1, s->m2[0], DIM_NONE, ascii);
+	units_format_shortest(t2, sizeof t2, s->m2[1], DIM_NONE, ascii);
 	if (s->m2[0] != s->m2[1])
-		buf_printf(&out, ", M%s %.3g x %.3g", ascii ? "2" : "²", s->m2[0], s->m2[1]);
+		buf_printf(&out, ", M%s %s x %s", ascii ? "2" : "²", t1, t2);
 	else
-		buf_printf(&out, ", M%s %.3g", ascii ? "2" : "²", s->m2[0]);
+		buf_printf(&out, ", M%s %s", ascii ? "2" : "²", t1);
 	if (s->pol == POL_CIRCULAR)
 		buf_add(&out, ", circular");
 	else if (s->pol == POL_UNPOLARIZED)
 		buf_add(&out, ", unpolarized");
-	else
-		buf_printf(&out, ", linear %g%s", s->pol_angle_deg, ascii ? " deg" : "°");
+	else {
+		units_format_shortest(t1, sizeof t1, s->pol_angle_deg, DIM_NONE, ascii);
+		buf_printf(&out, ", linear %s%s", t1, ascii ? " deg" : "°");
+	}
 	return buf_take(&out);
 }
 

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 
 #include "core-ghost.h"
+#include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
 #include "util-json.h"
@@ -110,6 +111,31 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 		}
 	}
 	buf_addc(b, '}');
+	{
+		/* how the governing limit came from its rating (layout_derive) */
+		struct layout_derivation d;
+
+		key(b, "limit_derivation");
+		if (layout_derive(r, t->bench, &d) != 0) {
+			buf_add(b, "null");
+		} else {
+			buf_add(b, "{\"rating_key\": ");
+			json_put_string(b, model_key_path((enum model_key)d.key));
+			buf_add(b, ", \"rating\": ");
+			json_put_number(b, d.rating);
+			buf_add(b, ", \"wavelength_factor\": ");
+			json_put_number(b, d.lambda_factor);
+			buf_add(b, ", \"pulse_factor\": ");
+			json_put_number(b, d.tau_factor);
+			buf_add(b, ", \"limit\": ");
+			json_put_number(b, d.limit);
+			buf_add(b, ", \"safety_factor\": ");
+			json_put_number(b, d.safety_factor);
+			buf_add(b, ", \"caution_level\": ");
+			json_put_number(b, d.caution_level);
+			buf_addc(b, '}');
+		}
+	}
 	if (r->el->type == EL_SPACE) {
 		/* "waist": every waist in the gap; "focus": the same when it
 		 * concentrates the beam at least TRACE_FOCUS_CONCENTRATION times */

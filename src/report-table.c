@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -99,19 +100,13 @@ row_line(struct buf *b, const struct trace *t, const struct trace_row *r,
 	else
 		units_format(v1, sizeof v1, r->linear_density, DIM_LINEAR, 3, a);
 	col(b, s, x += W_F, v1, 1);
-	if (isnan(r->ratio))
-		snprintf(v1, sizeof v1, "-");
-	else if (r->ratio >= 1)
-		snprintf(v1, sizeof v1, "%.0f %%", r->ratio * 100);
-	else
-		snprintf(v1, sizeof v1, "%.1f %%", r->ratio * 100);
+	layout_percent(v1, sizeof v1, r->ratio);    /* the workbench's form too */
 	col(b, s, x += W_RATIO, v1, 1);
 	buf_add(b, "  ");
 	if (o->color && r->status != STATUS_UNRATED)
 		buf_add(b, status_color(r->status));
-	snprintf(v1, sizeof v1, "%s", damage_status_name(r->status));
-	if (r->status == STATUS_OVER)
-		snprintf(v1, sizeof v1, "OVER");
+	/* the workbench's words: OVER, n/a for a space, spark for a breakdown */
+	snprintf(v1, sizeof v1, "%s", layout_row_status_word(r));
 	buf_add(b, v1);
 	if (o->color && r->status != STATUS_UNRATED)
 		buf_add(b, "\033[0m");
@@ -121,6 +116,17 @@ row_line(struct buf *b, const struct trace *t, const struct trace_row *r,
 	while (b->len > 0 && b->s[b->len - 1] == ' ')
 		b->s[--b->len] = '\0';
 	buf_addc(b, '\n');
+	if (r->status >= STATUS_CAUTION) {
+		/* why it is at caution or over: the limit derived from the rating */
+		char *why = layout_derivation_text(r, t->bench, a);
+
+		if (why != NULL) {
+			for (unsigned d = 0; d < r->depth; d++)
+				buf_add(b, "  ");
+			buf_printf(b, "  %s why: %s\n", a ? "`-" : "\u2514", why);
+			free(why);
+		}
+	}
 }
 
 static void
@@ -228,9 +234,11 @@ report_table(const struct trace *t, const struct report_opts *o)
 	if (t->worst >= 0) {
 		const struct trace_row *w = &t->rows[t->worst];
 
-		buf_printf(&b, "Worst: %s at %.0f %% of its threshold (%s).\n", w->el->id,
-		    t->worst_ratio * 100, w->status == STATUS_OVER ? "OVER" :
-		    damage_status_name(w->status));
+		char pct[32];
+
+		layout_percent(pct, sizeof pct, t->worst_ratio);
+		buf_printf(&b, "Worst: %s at %s of its limit (%s).\n", w->el->id, pct,
+		    layout_status_word(w->status));
 		if (isinf(t->safe_source_power)) {
 			buf_add(&b, "Safe source power: no limit (no power reaches a rated element).\n");
 		} else {

@@ -7,7 +7,9 @@
 #include <stdarg.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 
+#include "bench-demo.h"
 #include "bench-file.h"
 #include "ui-app.h"
 #include "util-err.h"
@@ -57,11 +59,24 @@ app_refuse_readonly(struct app *a)
 
 /* ---- panes ---- */
 
+/* A message told by an earlier key belongs to the screen it was told on. */
+static void
+drop_stale_msg(struct app *a)
+{
+	if (a->msg != NULL && a->msg_seq != a->key_seq) {
+		free(a->msg);
+		a->msg = NULL;
+		a->msg_error = 0;
+	}
+	a->pane_seq++;
+}
+
 void
 app_push(struct app *a, const struct ui_pane_ops *ops, void *data)
 {
 	struct ui_pane *p = xcalloc(1, sizeof *p);
 
+	drop_stale_msg(a);
 	p->ops = ops;
 	p->data = data;
 	p->below = a->top;
@@ -75,6 +90,7 @@ app_pop(struct app *a)
 
 	if (p == NULL)
 		return;
+	drop_stale_msg(a);
 	a->top = p->below;
 	if (p->ops->release != NULL)
 		p->ops->release(p);
@@ -169,6 +185,80 @@ app_retrace(struct app *a)
 }
 
 void
+app_setup_name(int no, char *buf, size_t n)
+{
+	snprintf(buf, n, "#%d", no);
+}
+
+/* The one place that spells a setup the way the store takes it. */
+void
+app_setup_ref(int no, char *buf, size_t n)
+{
+	snprintf(buf, n, "r%d", no);
+}
+
+void
+app_set_base(struct app *a, int no)
+{
+	free(a->base_text);
+	a->base_text = a->stored != NULL ? xstrdup(a->stored) : NULL;
+	a->base_rev = no;
+}
+
+/* Which setup the draft is, or came from: the newest it equals (only the
+ * ten newest are looked at, so that opening a long history stays quick),
+ * else the latest. */
+static void
+find_base(struct app *a)
+{
+	struct store_rev *revs = NULL;
+	size_t n = 0;
+
+	free(a->base_text);
+	a->base_text = NULL;
+	a->base_rev = 0;
+	if (a->bench == NULL || store_log(a->store, a->name, &revs, &n, NULL) != 0)
+		return;
+	for (size_t i = 0; i < n && i < 10; i++) {
+		char ref[24], *text;
+		struct bench *b;
+
+		app_setup_ref(revs[i].no, ref, sizeof ref);
+		b = store_bench_load(a->store, a->name, ref, NULL, NULL);
+		text = b != NULL ? bench_file_dump(b) : NULL;
+		model_bench_free(b);
+		if (i == 0) {                   /* changed since the latest, unless ... */
+			a->base_rev = revs[i].no;
+			a->base_text = text != NULL ? xstrdup(text) : NULL;
+		}
+		if (text != NULL && a->stored != NULL && strcmp(text, a->stored) == 0) {
+			free(a->base_text);
+			a->base_text = text;    /* ... it is this one */
+			a->base_rev = revs[i].no;
+			break;
+		}
+		free(text);
+	}
+	store_revs_free(revs, n);
+}
+
+void
+app_draft_words(const struct app *a, char *buf, size_t n)
+{
+	char no[24];
+
+	if (a->latest_rev == 0 || a->base_rev == 0) {
+		snprintf(buf, n, "draft, nothing recorded yet");
+		return;
+	}
+	app_setup_name(a->base_rev, no, sizeof no);
+	if (a->base_text != NULL && a->stored != NULL && strcmp(a->base_text, a->stored) == 0)
+		snprintf(buf, n, "draft = %s", no);
+	else
+		snprintf(buf, n, "draft: changed since %s, not recorded", no);
+}
+
+void
 app_refresh_rev(struct app *a)
 {
 	struct store_rev *revs = NULL;
@@ -249,12 +339,17 @@ app_save(struct app *a)
 	free(a->unsaved);
 	a->unsaved = NULL;
 	remember_stored(a);
+	a->saved_at = (long long)time(NULL);
 	{
 		int ch = 1;
 
 		if (store_draft_changed(a->store, a->name, &ch, &cause) == 0)
 			a->draft_changed = ch;
 		free(cause);
+		/* back to the latest setup, by edits or undo: the draft is it */
+		if (!a->draft_changed && a->latest_rev > 0 && (a->base_rev != a->latest_rev ||
+		    a->base_text == NULL || strcmp(a->base_text, a->stored) != 0))
+			app_set_base(a, a->latest_rev);
 	}
 	return 0;
 }
@@ -274,6 +369,12 @@ app_open_bench(struct app *a, const char *name, char **cause)
 	remember_stored(a);
 	app_retrace(a);
 	app_refresh_rev(a);
+	find_base(a);
+	a->saved_at = 0;
+	if (!a->demo_told && a->demo_name != NULL && strcmp(name, a->demo_name) == 0) {
+		a->demo_told = 1;
+		app_msg(a, 0, "the demo bench is invented data: an imagined lab and its parts");
+	}
 	return 0;
 }
 
@@ -288,9 +389,15 @@ app_close_bench(struct app *a)
 	free(a->rows);
 	free_stack(a->undo, &a->nundo);
 	free_stack(a->redo, &a->nredo);
+	free(a->undo);              /* the arrays too, not only what they hold */
+	free(a->redo);
+	a->undo = a->redo = NULL;
 	free(a->unsaved);
 	free(a->stored);
 	a->stored = NULL;
+	free(a->base_text);
+	a->base_text = NULL;
+	a->base_rev = 0;
 	a->name = NULL;
 	a->bench = NULL;
 	a->trace = NULL;
@@ -347,6 +454,9 @@ swap_from(struct app *a, struct bench ***from, size_t *nfrom, struct bench ***to
 	a->bench = (*from)[--*nfrom];
 	app_retrace(a);
 	app_save(a);
+	/* undoing a reinstate or a record: which setup is the draft now */
+	if (a->base_text == NULL || a->stored == NULL || strcmp(a->base_text, a->stored) != 0)
+		find_base(a);
 	return 0;
 }
 
@@ -481,12 +591,12 @@ global_quit(struct app *a, struct ui_pane *p)
 }
 
 const struct ui_key ui_global_keys[] = {
-	{ { '?', UI_FKEY(KEY_F(1)) }, "?", "help", 0, "this help: every key, and the laser-safety cautions (also F1)",
-	    global_help, 0 },
+	{ { '?', UI_FKEY(KEY_F(1)) }, "?", "help", 0, "this help: every key by task, and the laser-safety cautions (also F1)",
+	    global_help, 0, UG_LOOK },
 	{ { 'Q' }, "Q", NULL, 0, "quit at once from any screen (the draft is always saved)",
-	    global_quit, 0 },
-	{ { UI_CTRL('l') }, "^L", NULL, 0, "repaint the screen", global_redraw, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	    global_quit, 0, UG_LEAVE },
+	{ { UI_CTRL('l') }, "^L", NULL, 0, "paint the screen afresh", global_redraw, 0, UG_LOOK },
+	UI_KEYS_END,
 };
 
 static enum ui_reaction
@@ -544,6 +654,7 @@ ui_app_key(struct app *a, int key)
 
 	struct ui_pane *by = a->top;
 
+	a->key_seq++;
 	if (key == UI_FKEY(KEY_RESIZE)) {
 		/* the terminal may have kept or reflowed old cells: repaint all */
 		clearok(curscr, TRUE);
@@ -581,6 +692,13 @@ ui_app_new(const struct ui_opts *o, char **cause)
 	char *path = o->db_path != NULL ? xstrdup(o->db_path) : store_default_path();
 
 	a->author = xstrdup(o->author != NULL && o->author[0] != '\0' ? o->author : "unknown");
+	{
+		struct bench *demo = bench_file_parse(bench_demo_text, strlen(bench_demo_text),
+		    "demo", NULL);
+
+		a->demo_name = demo != NULL ? xstrdup(demo->name) : NULL;
+		model_bench_free(demo);
+	}
 	a->store = store_open(path, cause);
 	free(path);
 	if (a->store == NULL) {
@@ -621,6 +739,7 @@ ui_app_free(struct app *a)
 	app_close_bench(a);
 	store_close(a->store);
 	free(a->author);
+	free(a->demo_name);
 	free(a->msg);
 	free(a);
 }
@@ -648,7 +767,6 @@ ui_run(const struct ui_opts *o)
 			break;
 		if (key < 0)
 			continue;
-		a->key_seq++;
 		ui_app_key(a, key);
 		dirty = 1;
 	}

@@ -39,14 +39,14 @@ enum ui_reaction {
 enum ui_color {
 	UC_NORMAL, UC_TITLE, UC_HEADER, UC_SELECT, UC_OK, UC_CAUTION, UC_OVER,
 	UC_UNRATED, UC_DIM, UC_KEY, UC_ERROR, UC_INFO, UC_STATUS, UC_WX, UC_WY,
-	UC_POWER, UC_FOCUS, UC_FRAME, UC_INPUT, UC_COUNT
+	UC_POWER, UC_FOCUS, UC_FRAME, UC_INPUT, UC_HAZARD, UC_COUNT
 };
 
 /* Glyphs with an ASCII twin. */
 enum ui_glyph {
 	GL_BRANCH, GL_VBAR, GL_HBAR, GL_UPDOWN, GL_LEFTRIGHT, GL_ARROW, GL_DOT,
 	GL_WX, GL_WY, GL_WXY, GL_POWER, GL_FOCUS, GL_MARK, GL_ELLIPSIS, GL_TIMES,
-	GL_COUNT
+	GL_HAZARD, GL_PIN, GL_BAND, GL_AXIS, GL_KEY, GL_GROUP, GL_HEAD, GL_COUNT
 };
 
 struct app;
@@ -56,15 +56,22 @@ typedef enum ui_reaction (*ui_action)(struct app *, struct ui_pane *);
 
 enum { UI_K_EDITS = 1 << 0 };   /* changes the database: refused when view-only */
 
+/* The tasks keys are grouped by, on the key line and in the help. */
+enum ui_group { UG_MOVE, UG_BENCHES, UG_LAYOUT, UG_VALUES, UG_RECORD, UG_LOOK, UG_LEAVE,
+	UG_COUNT };
+extern const char *const ui_group_names[UG_COUNT];
+
 struct ui_key {
 	int         codes[4];       /* 0 ends the list */
-	const char *label;          /* as shown: "a", "Enter", "^R" */
-	const char *hint;           /* word on the hint line; NULL: help screen only */
+	const char *label;          /* as shown: "p", "Enter", "Del" */
+	const char *hint;           /* word on the key line; NULL: help screen only */
 	int         prio;           /* hint priority: 0 always shown */
 	const char *help;           /* line on the help screen */
 	ui_action   fn;
 	unsigned    flags;
+	enum ui_group group;
 };
+#define UI_KEYS_END { { 0 }, NULL, NULL, 0, NULL, NULL, 0, UG_MOVE }
 
 struct ui_pane_ops {
 	const char          *name;          /* help-screen section */
@@ -125,6 +132,14 @@ struct app {
 	                                 * loaded or saved here, to notice another
 	                                 * writer's change before overwriting it */
 	int                cursor_y, cursor_x;  /* where the terminal cursor goes, -1: hidden */
+	/* what the draft is: setup base_rev as recorded (base_text its
+	 * bench-file text), or changed since it; 0: nothing recorded */
+	int                base_rev;
+	char              *base_text;   /* owned */
+	long long          saved_at;    /* time of the last save here; 0: none yet */
+	char              *demo_name;   /* owned: the demo bench's name */
+	int                demo_told;   /* "invented data" said once */
+	int                pane_seq;    /* bumped when the top pane changes */
 };
 
 /* ---- ui-app.c: life cycle, frame, edits ---- */
@@ -148,6 +163,20 @@ void  app_replace_bench(struct app *, struct bench *b);
 void  app_retrace(struct app *);
 int   app_save(struct app *);
 void  app_refresh_rev(struct app *);
+/* The draft in words: "draft = #3", "draft: changed since #3, not
+ * recorded", "draft, nothing recorded yet". */
+void  app_draft_words(const struct app *, char *buf, size_t n);
+/* After a record or a reinstate: the draft is setup no now. */
+void  app_set_base(struct app *, int no);
+/* "#3": a setup as the screens write it; and as the store takes it. */
+void  app_setup_name(int no, char *buf, size_t n);
+void  app_setup_ref(int no, char *buf, size_t n);
+/* The frame every main screen shares: the header (beam first) on row 0
+ * with `where` after the bench and `more` (may be NULL; left out first
+ * when the line is full), the standing caution on row 1, the message at
+ * h-3, the margin line at h-2 and the key line at h-1. */
+void  ui_frame(struct app *, const char *where, const char *more, int h, int w);
+void  ui_frame_bottom(struct app *, const struct layout_hint *, size_t nh, int h, int w);
 /* The selected row, NULL when the chain is empty. */
 const struct layout_row *app_sel_row(const struct app *);
 const struct trace_row  *app_sel_trace(const struct app *);
@@ -212,12 +241,17 @@ void  ui_list_push(struct app *);               /* ui-list.c */
 void  ui_bench_push(struct app *);              /* ui-bench.c */
 void  ui_profile_push(struct app *);            /* ui-profile.c */
 void  ui_history_push(struct app *);            /* ui-history.c */
+void  ui_hazards_push(struct app *);            /* ui-hazards.c */
+/* Compares the draft with the setup it came from, as a text screen. */
+void  ui_compare_draft(struct app *);           /* ui-history.c */
 void  ui_parts_push(struct app *);              /* ui-parts.c */
 void  ui_help_push(struct app *);               /* ui-help.c */
-void  ui_commit_prompt(struct app *);           /* ui-history.c */
+void  ui_record_prompt(struct app *);           /* ui-history.c */
+void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
+void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
-    ui_history_ops, ui_parts_ops, ui_text_ops;
+    ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops;
 /* Keys every pane takes (help, quit, redraw). */
 extern const struct ui_key ui_global_keys[];
 

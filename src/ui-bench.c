@@ -1,14 +1,15 @@
 /* ui-bench.c - the workbench screen: the chain with every element's
  * results (power, radius, peak irradiance or fluence, ratio bar, status),
- * the selected element's values and results below it, the status line,
- * and the chain's keys: select, add, insert, delete, move, undo, commit
- * and the ways to the other screens.  The value editor lives in
+ * the selected element's values and results below it, the margin line,
+ * and the chain's keys: select, place, lift, shift, duplicate, undo,
+ * record and the ways to the other screens.  The value editor lives in
  * ui-fields.c.  Owned by the workbench. */
 #include <config.h>
 
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
 
 #include "core-edit.h"
 #include "report.h"
@@ -42,18 +43,26 @@ wb_geometry(int h, size_t nrows, struct wb_geom *g)
 enum wb_col { C_ELEM, C_TYPE, C_Z, C_POWER, C_RADIUS, C_PEAK, C_FLUENCE, C_BAR,
 	C_RATIO, C_STATUS, C_FLAGS, C_NCOLS };
 
+/* Which exposure columns the bench's ratings compare: a pulsed bench its
+ * fluence, a CW bench its irradiance and, where a rating is per length,
+ * the linear power density. */
 static void
 chain_cols(const struct app *a, struct layout_col *c)
 {
-	int pulsed = a->bench->src.pulsed;
+	int pulsed = a->bench->src.pulsed, linear = 0;
 
+	for (size_t i = 0; i < a->trace->nrows; i++)
+		if (!isnan(a->trace->rows[i].limits.cw_linear))
+			linear = 1;
 	c[C_ELEM] = (struct layout_col){ "element", 8, 12, 0 };
 	c[C_TYPE] = (struct layout_col){ "type", 9, 9, 4 };
 	c[C_Z] = (struct layout_col){ "z", 8, 8, 3 };
 	c[C_POWER] = (struct layout_col){ "power", 8, 9, 1 };
 	c[C_RADIUS] = (struct layout_col){ "radius x/y", 14, 15, 2 };
-	c[C_PEAK] = (struct layout_col){ "peak irr.", 11, 11, pulsed ? 3 : 2 };
-	c[C_FLUENCE] = (struct layout_col){ "fluence", 11, 11, pulsed ? 2 : 99 };
+	c[C_PEAK] = (struct layout_col){ pulsed ? "peak irr." : "irradiance", 11, 11,
+	    pulsed ? 3 : linear ? 3 : 2 };
+	c[C_FLUENCE] = (struct layout_col){ pulsed ? "fluence" : "lin. dens.", 11, 11,
+	    pulsed ? 2 : linear ? 2 : 3 };
 	c[C_BAR] = (struct layout_col){ "to LIDT", 8, 14, 1 };
 	c[C_RATIO] = (struct layout_col){ "ratio", 7, 7, 0 };
 	c[C_STATUS] = (struct layout_col){ "status", 7, 7, 0 };
@@ -83,13 +92,16 @@ cell_text(struct app *a, const struct trace_row *r, enum wb_col c, char *buf, si
 		units_format(buf, n, r->peak_irradiance, DIM_IRRADIANCE, 3, asc);
 		break;
 	case C_FLUENCE:
-		units_format(buf, n, r->fluence, DIM_FLUENCE, 3, asc);
+		if (a->bench->src.pulsed)
+			units_format(buf, n, r->fluence, DIM_FLUENCE, 3, asc);
+		else
+			units_format(buf, n, r->linear_density, DIM_LINEAR, 3, asc);
 		break;
 	case C_RATIO:
 		layout_percent(buf, n, r->ratio);
 		break;
 	case C_STATUS:
-		snprintf(buf, n, "%s", layout_status_word(r->status));
+		snprintf(buf, n, "%s", layout_row_status_word(r));
 		break;
 	case C_FLAGS:
 		report_flags(r->flags, buf, n, ",");
@@ -107,7 +119,9 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	double caution = 1 / a->bench->safety_factor;
 
 	chain_cols(a, cols);
-	layout_fit_columns(cols, C_NCOLS, w - 1, 1, cw);
+	/* column w-1 is kept for the scroll arrows (a blank before them), column
+	 * 0 for the hazard sign */
+	layout_fit_columns(cols, C_NCOLS, w - 3, 1, cw);
 	x = 1;
 	for (int c = 0; c < C_NCOLS; c++)
 		if (cw[c] > 0) {
@@ -119,9 +133,10 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		}
 	a->scroll = layout_scroll(a->sel, a->scroll, g->chain_h, (int)a->nrows);
 	if (a->nrows == 0) {
-		ui_put(a, g->chain_y + 1, 2, w - 4, "The bench has no elements yet: press a to add "
-		    "the first one (a space, then optics, and a dump, detector or target at the end).",
-		    UC_NORMAL);
+		ui_put(a, g->chain_y + 1, 2, w - 4, "The bench has no elements yet: p places the "
+		    "first one.", UC_NORMAL);
+		ui_put(a, g->chain_y + 2, 2, w - 4, "A space, then optics, and a dump, detector or "
+		    "target at the end; b sets the beam.", UC_NORMAL);
 		return;
 	}
 	for (int i = 0; i < g->chain_h && a->scroll + i < (int)a->nrows; i++) {
@@ -133,22 +148,29 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		int moving = d->moving != NULL && row->kind == LROW_ELEMENT &&
 		    strcmp(row->el->id, d->moving) == 0;
 
+		int hazard = row->trace_row >= 0 && layout_row_hazard(a->trace, (size_t)row->trace_row);
+
 		if (ri == a->sel && !selected)
 			base = A_BOLD;
-		ui_fill(a, y, 0, w, base);
+		ui_fill(a, y, 0, w - 1, base);
 		if (row->kind == LROW_PORT) {
 			snprintf(name, sizeof name, "%*s%s%s.%s%s", (int)row->depth * 2, "",
 			    ui_glyph(a, GL_BRANCH), row->el->id, model_port_name(row->port),
-			    row->el->side.n == 0 ? "   (empty: a adds an element here)" : "");
+			    row->el->side.n == 0 ? "   (empty: p places an element here)" : "");
 			ui_put_attr(a, y, 1, w - 2, name, base | (selected ? 0 : ui_attr(a, UC_DIM)));
 			continue;
+		}
+		/* a hazard is marked by a sign and bold type, colour only repeats it */
+		if (hazard) {
+			base |= A_BOLD;
+			ui_put_attr(a, y, 0, 1, ui_glyph(a, GL_HAZARD), base | ui_attr(a, UC_HAZARD));
 		}
 		snprintf(name, sizeof name, "%s%*s%s", moving ? ">" : "", (int)row->depth * 2, "",
 		    row->el->id);
 		x = 1;
 		for (int c = 0; c < C_NCOLS; c++) {
 			const struct trace_row *tr;
-			attr_t at = base;
+			attr_t at = base, st;
 
 			if (cw[c] == 0)
 				continue;
@@ -162,13 +184,17 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				continue;
 			}
 			tr = &a->trace->rows[row->trace_row];
+			/* a hazard is never dimmed as "unrated" */
+			st = hazard && tr->status == STATUS_UNRATED ?
+			    ui_attr(a, (tr->flags & TF_AIR_BREAKDOWN) ? UC_OVER : UC_HAZARD) :
+			    ui_status_attr(a, tr->status);
 			if (c == C_BAR) {
 				layout_bar(buf, sizeof buf, tr->ratio, caution, cw[c], a->ascii);
-				ui_put_attr(a, y, x, cw[c], buf, at | ui_status_attr(a, tr->status));
+				ui_put_attr(a, y, x, cw[c], buf, at | st);
 			} else {
 				cell_text(a, tr, (enum wb_col)c, buf, sizeof buf);
 				if (c == C_STATUS || c == C_RATIO)
-					at |= ui_status_attr(a, tr->status);
+					at |= st;
 				if (c == C_STATUS || c == C_TYPE || c == C_FLAGS)
 					ui_put_attr(a, y, x, cw[c], buf, at);
 				else
@@ -178,55 +204,66 @@ draw_chain(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		}
 	}
 	if (a->scroll > 0)
-		ui_put(a, g->chain_y, w - 1, 1, a->ascii ? "^" : "\u25b2", UC_DIM);
+		ui_put(a, g->chain_y, w - 1, 1, a->ascii ? "^" : "\u25b4", UC_DIM);
 	if (a->scroll + g->chain_h < (int)a->nrows)
-		ui_put(a, g->chain_y + g->chain_h - 1, w - 1, 1, a->ascii ? "v" : "\u25bc", UC_DIM);
+		ui_put(a, g->chain_y + g->chain_h - 1, w - 1, 1, a->ascii ? "v" : "\u25be", UC_DIM);
 }
 
 /* ---- the frame around it ---- */
 
-static void
-draw_title(struct app *a, int w)
-{
-	char *t, rev[64];
-
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	if (a->latest_rev == 0)
-		snprintf(rev, sizeof rev, "draft, no revision yet");
-	else if (a->draft_changed)
-		snprintf(rev, sizeof rev, "draft: changed since r%d", a->latest_rev);
-	else
-		snprintf(rev, sizeof rev, "draft = r%d", a->latest_rev);
-	{
-		size_t n = model_count(&a->bench->path);
-
-		t = xasprintf(" beamledger %s %s %s %s %s %zu element%s", ui_glyph(a, GL_VBAR),
-		    a->name, ui_glyph(a, GL_VBAR), rev, ui_glyph(a, GL_VBAR), n, n == 1 ? "" : "s");
-	}
-	ui_put(a, 0, 0, w - 17, t, UC_TITLE);
-	free(t);
-	if (a->readonly)
-		ui_put_right(a, 0, w - 17, 16, "VIEW ONLY ", ui_attr(a, UC_TITLE));
-	else if (a->unsaved != NULL)
-		ui_put_right(a, 0, w - 17, 16, "DRAFT NOT SAVED ", ui_attr(a, UC_ERROR));
-	else
-		ui_put_right(a, 0, w - 17, 16, "draft saved ", ui_attr(a, UC_TITLE));
-}
-
 void
 wb_draw_status(struct app *a, int y, int w)
 {
-	char *s = layout_status_line(a->trace, a->ascii, w - 1);
-	const char *cut = strstr(s, a->ascii ? " |" : " \u2502");
+	char tail[64], *s;
+	const char *cut;
 	enum damage_status worst = a->trace->worst >= 0 ?
 	    a->trace->rows[a->trace->worst].status : STATUS_UNRATED;
+	const char *bar = a->ascii ? " |" : " \u2502";
 
-	ui_fill(a, y, 0, w, ui_attr(a, UC_STATUS));
-	ui_put_attr(a, y, 0, w, s, ui_attr(a, UC_STATUS));
-	if (cut != NULL && worst >= STATUS_CAUTION) {
-		s[cut - s] = '\0';
-		ui_put_attr(a, y, 0, (int)utf8_cols(s) < w ? (int)utf8_cols(s) : w, s,
-		    ui_status_attr(a, worst) | A_REVERSE);
+	if (a->readonly) {
+		snprintf(tail, sizeof tail, "VIEW ONLY");
+	} else if (a->unsaved != NULL) {
+		snprintf(tail, sizeof tail, "DRAFT NOT SAVED");
+	} else if (a->saved_at != 0) {
+		time_t t = (time_t)a->saved_at;
+		struct tm tm;
+
+		localtime_r(&t, &tm);
+		strftime(tail, sizeof tail, "saved %H:%M", &tm);
+	} else {
+		tail[0] = '\0';        /* nothing saved here yet */
+	}
+	s = layout_margin_line(a->trace, a->ascii, w, tail);
+	move(y, 0);
+	clrtoeol();
+	ui_put(a, y, 0, w, s, UC_NORMAL);
+	/* the worst part in its status, the hazards part marked */
+	cut = strstr(s, bar);
+	if (cut != NULL) {
+		char *head = xasprintf("%.*s", (int)(cut - s), s);
+		int hw = (int)utf8_cols(head);
+		const char *st, *end;
+
+		ui_put_attr(a, y, 0, hw < w ? hw : w, head, ui_status_attr(a, worst) | A_BOLD);
+		free(head);
+		st = strstr(cut + strlen(bar), bar);
+		if (st != NULL) {
+			st += strlen(bar);
+			end = strstr(st, bar);
+			if (end == NULL)
+				end = st + strlen(st);
+			if (strstr(st, "no hazards") != st + strspn(st, " ")) {
+				char *pre = xasprintf("%.*s", (int)(st - s), s);
+				char *part = xasprintf("%.*s", (int)(end - st), st);
+				int px = (int)utf8_cols(pre), pw = (int)utf8_cols(part);
+
+				if (px < w)
+					ui_put_attr(a, y, px, px + pw < w ? pw : w - px, part,
+					    ui_attr(a, UC_HAZARD) | A_BOLD);
+				free(pre);
+				free(part);
+			}
+		}
 	}
 	free(s);
 }
@@ -236,229 +273,22 @@ draw_wb(struct app *a, struct ui_pane *p, int h, int w)
 {
 	struct wb *d = p->data;
 	struct wb_geom g;
-	char *src, *t;
+	char state[96], *where;
 	struct layout_hint hints[40];
-	size_t nh;
+	size_t nh, n = model_count(&a->bench->path);
 
 	wb_geometry(h, a->nrows, &g);
-	draw_title(a, w);
-	src = report_source_line(a->bench, a->ascii);
-	t = xasprintf("source: %s; safety factor %g", src, a->bench->safety_factor);
-	ui_put(a, 1, 1, w - 2, t, UC_NORMAL);
-	free(t);
-	free(src);
+	app_draft_words(a, state, sizeof state);
+	where = xasprintf("%zu element%s", n, n == 1 ? "" : "s");
+	ui_frame(a, state, where, h, w);
+	free(where);
 	draw_chain(a, d, &g, w);
 	wb_draw_detail(a, d, &g, w);
-	if (a->msg != NULL)
-		ui_put(a, h - 3, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
-	wb_draw_status(a, h - 2, w);
 	nh = wb_hints(a, d, hints, 40);
-	ui_hints(a, h - 1, w, hints, nh);
+	ui_frame_bottom(a, hints, nh, h, w);
 }
 
 /* ---- edits on the chain ---- */
-
-struct add_arg {
-	struct element el;          /* owned until added */
-	struct edit_place pl;
-	char *after, *before, *into;    /* owned: the place's strings */
-};
-
-static int
-do_add(struct bench *b, void *arg, char **cause)
-{
-	struct add_arg *x = arg;
-	struct element copy;
-
-	model_element_copy(&copy, &x->el);
-	return edit_add(b, &copy, &x->pl, cause);
-}
-
-/* Where a new element goes: after (or before) the selected element, at the
- * start of a side branch when a port row is selected, at the end of the
- * main path when the bench is empty. */
-static void
-place_for(struct app *a, int before, struct add_arg *x)
-{
-	const struct layout_row *r = app_sel_row(a);
-
-	memset(&x->pl, 0, sizeof x->pl);
-	if (r == NULL)
-		return;
-	if (r->kind == LROW_PORT) {
-		x->into = xasprintf("%s.%s", r->el->id, model_port_name(r->port));
-		x->pl.into = x->into;
-		x->pl.at_start = 1;
-	} else if (before) {
-		x->before = xstrdup(r->el->id);
-		x->pl.before = x->before;
-	} else {
-		x->after = xstrdup(r->el->id);
-		x->pl.after = x->after;
-	}
-}
-
-static void
-add_arg_free(struct add_arg *x)
-{
-	model_element_release(&x->el);
-	free(x->after);
-	free(x->before);
-	free(x->into);
-	free(x);
-}
-
-static const char *
-place_words(const struct add_arg *x, char *buf, size_t n)
-{
-	if (x->pl.into != NULL)
-		snprintf(buf, n, "at the start of %s", x->pl.into);
-	else if (x->pl.before != NULL)
-		snprintf(buf, n, "before %s", x->pl.before);
-	else if (x->pl.after != NULL)
-		snprintf(buf, n, "after %s", x->pl.after);
-	else
-		snprintf(buf, n, "at the end of the main path");
-	return buf;
-}
-
-/* Adds x->el; on success selects it and says so. */
-static int
-wb_add_element(struct app *a, struct add_arg *x, char **cause)
-{
-	char where[160];
-
-	if (app_edit(a, do_add, x, cause) != 0)
-		return -1;
-	app_select_id(a, x->el.id, 0);
-	app_msg(a, 0, "added %s %s %s (u undoes; Enter edits its values)",
-	    model_type_name(x->el.type), x->el.id, place_words(x, where, sizeof where));
-	return 0;
-}
-
-static int
-required_given(struct app *a, void *arg, const char *text, char **cause)
-{
-	struct add_arg *x = arg;
-	int k = layout_required_key(x->el.type);
-	struct element probe;
-
-	model_element_copy(&probe, &x->el);
-	if (model_set_text(&probe, (enum model_key)k, text, cause) != 0) {
-		model_element_release(&probe);
-		return -1;
-	}
-	model_element_release(&x->el);
-	x->el = probe;
-	return wb_add_element(a, x, cause);
-}
-
-static void prompt_add(struct app *, const char *, const char *, struct add_arg *);
-
-static void
-type_chosen(struct app *a, void *arg, int choice)
-{
-	const int *before = arg;
-	struct add_arg *x = xcalloc(1, sizeof *x);
-	enum elem_type t = (enum elem_type)choice;
-	char *id = layout_new_id(a->bench, t), *cause = NULL;
-	int k = layout_required_key(t);
-
-	if (edit_element_new(&x->el, model_type_name(t), id, NULL, 0, &cause) != 0) {
-		app_msg_take(a, 1, cause);
-		free(id);
-		free(x);
-		return;
-	}
-	free(id);
-	place_for(a, *before, x);
-	if (k < 0) {
-		if (wb_add_element(a, x, &cause) != 0)
-			app_msg_take(a, 1, cause);
-		add_arg_free(x);
-		return;
-	}
-	{
-		char where[160], *title, *help;
-
-		title = xasprintf("new %s %s", model_type_name(t), x->el.id);
-		help = xasprintf("%s (%s), needed before it can go %s. With units where they "
-		    "apply, e.g. \"250 mm\".", model_key_path((enum model_key)k),
-		    model_keys[k].help, place_words(x, where, sizeof where));
-		prompt_add(a, title, help, x);
-		free(title);
-		free(help);
-	}
-}
-
-static void
-add_arg_release(void *x)
-{
-	add_arg_free(x);
-}
-
-/* The prompt owns x and frees it when it closes. */
-static void
-prompt_add(struct app *a, const char *title, const char *help, struct add_arg *x)
-{
-	ui_prompt(a, title, help, "", required_given, x, add_arg_release);
-}
-
-static const char *const type_items[EL_NTYPES] = {
-	[EL_SPACE] = "s\tspace\t", [EL_MIRROR] = "m\tmirror\t", [EL_LENS] = "l\tlens\t",
-	[EL_SPLITTER] = "b\tsplitter\t", [EL_WINDOW] = "w\twindow\t",
-	[EL_FILTER] = "f\tfilter\t", [EL_WAVEPLATE] = "v\twaveplate\t",
-	[EL_POLARIZER] = "p\tpolarizer\t", [EL_IRIS] = "i\tiris\t", [EL_DUMP] = "d\tdump\t",
-	[EL_DETECTOR] = "e\tdetector\t", [EL_TARGET] = "t\ttarget\t",
-	[EL_ISOLATOR] = "o\tisolator\t",
-};
-
-static enum ui_reaction
-open_type_menu(struct app *a, struct wb *d, int before)
-{
-	char *items[EL_NTYPES];
-	const struct layout_row *r = app_sel_row(a);
-	char title[160];
-
-	for (int t = 0; t < EL_NTYPES; t++)
-		items[t] = xasprintf("%s%s", type_items[t], layout_type_help((enum elem_type)t));
-	d->add.before = before;
-	if (r == NULL)
-		snprintf(title, sizeof title, "add the first element");
-	else if (r->kind == LROW_PORT)
-		snprintf(title, sizeof title, "add into %s.%s", r->el->id, model_port_name(r->port));
-	else
-		snprintf(title, sizeof title, "add %s %s", before ? "before" : "after", r->el->id);
-	ui_menu(a, title, (const char *const *)items, EL_NTYPES, type_chosen, &d->add.before);
-	for (int t = 0; t < EL_NTYPES; t++)
-		free(items[t]);
-	return UI_REDRAW;
-}
-
-int
-wb_place(struct app *a, struct element *el, char **cause)
-{
-	struct add_arg *x = xcalloc(1, sizeof *x);
-	int rc;
-
-	x->el = *el;
-	place_for(a, 0, x);
-	rc = wb_add_element(a, x, cause);
-	add_arg_free(x);
-	return rc;
-}
-
-static enum ui_reaction
-k_add(struct app *a, struct ui_pane *p)
-{
-	return open_type_menu(a, p->data, 0);
-}
-
-static enum ui_reaction
-k_insert(struct app *a, struct ui_pane *p)
-{
-	return open_type_menu(a, p->data, 1);
-}
 
 static int
 do_remove(struct bench *b, void *arg, char **cause)
@@ -477,8 +307,8 @@ k_delete(struct app *a, struct ui_pane *p)
 	if (r == NULL)
 		return UI_NONE;
 	if (r->kind == LROW_PORT) {
-		app_msg(a, 1, "this row is %s's side branch: select an element to delete it, or "
-		    "delete %s itself", r->el->id, r->el->id);
+		app_msg(a, 1, "this row is %s's side branch: select an element to lift it, or "
+		    "lift %s itself", r->el->id, r->el->id);
 		return UI_REDRAW;
 	}
 	id = xstrdup(r->el->id);
@@ -486,10 +316,10 @@ k_delete(struct app *a, struct ui_pane *p)
 	if (app_edit(a, do_remove, id, &cause) != 0)
 		app_msg_take(a, 1, cause);
 	else if (side > 0)
-		app_msg(a, 0, "deleted %s and the %zu element(s) of its side branch (u undoes)",
-		    id, side);
+		app_msg(a, 0, "lifted %s and the %zu element%s of its side branch (- undoes)",
+		    id, side, side == 1 ? "" : "s");
 	else
-		app_msg(a, 0, "deleted %s (u undoes)", id);
+		app_msg(a, 0, "lifted %s (- undoes)", id);
 	free(id);
 	return UI_REDRAW;
 }
@@ -524,9 +354,9 @@ nudge(struct app *a, int by)
 	memset(&m, 0, sizeof m);
 	m.id = id;
 	if (by < 0 && i == 0) {
-		app_msg(a, 1, "%s is first in its branch: m moves it anywhere", id);
+		app_msg(a, 1, "%s is first in its branch: s shifts it anywhere", id);
 	} else if (by > 0 && i + 1 >= br->n) {
-		app_msg(a, 1, "%s is last in its branch: m moves it anywhere", id);
+		app_msg(a, 1, "%s is last in its branch: s shifts it anywhere", id);
 	} else {
 		char *ref = xstrdup(br->el[by < 0 ? i - 1 : i + 1].id);
 
@@ -537,7 +367,7 @@ nudge(struct app *a, int by)
 		if (app_edit(a, do_move, &m, &cause) != 0)
 			app_msg_take(a, 1, cause);
 		else
-			app_msg(a, 0, "moved %s %s %s (u undoes)", id, by < 0 ? "before" : "after", ref);
+			app_msg(a, 0, "shifted %s %s %s (- undoes)", id, by < 0 ? "before" : "after", ref);
 		free(ref);
 	}
 	free(id);
@@ -568,8 +398,8 @@ k_move(struct app *a, struct ui_pane *p)
 		return UI_NONE;
 	free(d->moving);
 	d->moving = xstrdup(r->el->id);
-	app_msg(a, 0, "moving %s: choose the row to put it after (a port row: into that "
-	    "branch), then Enter; Esc cancels", d->moving);
+	app_msg(a, 0, "shifting %s: choose the row to put it after (a port row: into that "
+	    "branch), then Enter; Esc leaves it", d->moving);
 	return UI_REDRAW;
 }
 
@@ -601,7 +431,7 @@ k_drop(struct app *a, struct ui_pane *p)
 		app_msg_take(a, 1, cause);     /* stay in move mode: choose another place */
 	} else {
 		app_select_id(a, d->moving, 0);
-		app_msg(a, 0, "moved %s (u undoes)", d->moving);
+		app_msg(a, 0, "shifted %s (- undoes)", d->moving);
 		free(d->moving);
 		d->moving = NULL;
 	}
@@ -614,7 +444,7 @@ k_move_cancel(struct app *a, struct ui_pane *p)
 {
 	struct wb *d = p->data;
 
-	app_msg(a, 0, "move cancelled");
+	app_msg(a, 0, "%s stays where it was", d->moving);
 	free(d->moving);
 	d->moving = NULL;
 	return UI_REDRAW;
@@ -628,7 +458,7 @@ k_undo(struct app *a, struct ui_pane *p)
 		if (!a->readonly)
 			app_msg(a, 1, "nothing to undo");
 	} else {
-		app_msg(a, 0, "undone (%zu more; U redoes)", a->nundo);
+		app_msg(a, 0, "undone (%zu more; + redoes)", a->nundo);
 	}
 	return UI_REDRAW;
 }
@@ -721,7 +551,7 @@ k_worst(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
-/* The next row after the selection at caution or over, wrapping. */
+/* The next row after the selection with a hazard, wrapping. */
 static enum ui_reaction
 k_next_problem(struct app *a, struct ui_pane *p)
 {
@@ -730,12 +560,12 @@ k_next_problem(struct app *a, struct ui_pane *p)
 		size_t i = ((size_t)a->sel + k) % a->nrows;
 		const struct layout_row *r = &a->rows[i];
 
-		if (r->trace_row >= 0 && a->trace->rows[r->trace_row].status >= STATUS_CAUTION) {
+		if (r->trace_row >= 0 && layout_row_hazard(a->trace, (size_t)r->trace_row)) {
 			a->sel = (int)i;
 			return UI_REDRAW;
 		}
 	}
-	app_msg(a, 0, "no element at caution or over");
+	app_msg(a, 0, "no element with a hazard");
 	return UI_REDRAW;
 }
 
@@ -786,10 +616,26 @@ k_history(struct app *a, struct ui_pane *p)
 }
 
 static enum ui_reaction
-k_commit(struct app *a, struct ui_pane *p)
+k_record(struct app *a, struct ui_pane *p)
 {
 	(void)p;
-	ui_commit_prompt(a);
+	ui_record_prompt(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+k_compare(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_compare_draft(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+k_hazards(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_hazards_push(a);
 	return UI_REDRAW;
 }
 
@@ -801,41 +647,62 @@ k_parts(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
+static enum ui_reaction
+k_points(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_points_push(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
+k_sweep(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_sweep_prompt(a);
+	return UI_REDRAW;
+}
+
 const struct ui_key ui_bench_chain_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "select", 5, "select an element (also k, j; mouse click)", k_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, k_down, 0 },
-	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "a page up", k_pgup, 0 },
-	{ { UI_FKEY(KEY_NPAGE) }, "PgDn", NULL, 0, "a page down", k_pgdn, 0 },
-	{ { UI_FKEY(KEY_HOME), 'g' }, "Home", NULL, 0, "first element (also g)", k_home, 0 },
-	{ { UI_FKEY(KEY_END), 'G' }, "End", NULL, 0, "last element (also G)", k_end, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'e' }, "Enter", "edit", 0,
-	    "edit the selected element's values in place (also e, Tab)", wb_k_fields, 0 },
-	{ { 'a' }, "a", "add", 1, "add an element after the selection (on a port row: into that branch)", k_add, UI_K_EDITS },
-	{ { 'i' }, "i", "insert", 3, "insert an element before the selection", k_insert, UI_K_EDITS },
-	{ { 'x', UI_FKEY(KEY_DC) }, "x", "del", 2, "delete the selected element and its side branch (also Del)", k_delete, UI_K_EDITS },
-	{ { 'm' }, "m", "move", 3, "move the selection: pick a row, then Enter", k_move, UI_K_EDITS },
-	{ { '[', '-' }, "[", NULL, 0, "move the selection one place up its branch", k_nudge_up, UI_K_EDITS },
-	{ { ']', '+' }, "]", NULL, 0, "move the selection one place down its branch", k_nudge_down, UI_K_EDITS },
-	{ { 'u' }, "u", "undo", 1, "undo the last change to the draft", k_undo, UI_K_EDITS },
-	{ { 'U', UI_CTRL('r') }, "U", "redo", 4, "redo (also ^R)", k_redo, UI_K_EDITS },
-	{ { 's' }, "s", "source", 3, "edit the source and bench settings (wavelength, power, pulse, waist, M\u00b2, ...)", wb_k_settings, 0 },
-	{ { 'w' }, "w", "worst", 3, "jump to the worst element", k_worst, 0 },
-	{ { 'n' }, "n", NULL, 0, "jump to the next element at caution or over", k_next_problem, 0 },
-	{ { 'p' }, "p", "profile", 1, "beam profile along the selected element's branch", k_profile, 0 },
-	{ { 'P' }, "P", "parts", 3, "the parts shelf: place a part, keep an element as a part", k_parts, 0 },
-	{ { 'h' }, "h", "history", 1, "revisions: diff, restore, label", k_history, 0 },
-	{ { 'c' }, "c", "commit", 1, "commit the draft as a new revision, with a note", k_commit, UI_K_EDITS },
-	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved)", k_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", NULL, 0, "select an element (the mouse too)", k_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, k_down, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "a page up", k_pgup, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_NPAGE) }, "PgDn", NULL, 0, "a page down", k_pgdn, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_HOME) }, "Home", NULL, 0, "the first element", k_home, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_END) }, "End", NULL, 0, "the last element", k_end, 0, UG_MOVE },
+	{ { 'w' }, "w", NULL, 0, "the worst element", k_worst, 0, UG_MOVE },
+	{ { 'n' }, "n", NULL, 0, "the next element with a hazard", k_next_problem, 0, UG_MOVE },
+	{ { 'p', UI_FKEY(KEY_IC) }, "p", "place", 1, "place an element after the selection (on a port row: into that branch; also Insert)", wb_k_place, UI_K_EDITS, UG_LAYOUT },
+	{ { 'P' }, "P", NULL, 0, "place an element before the selection", wb_k_place_before, UI_K_EDITS, UG_LAYOUT },
+	{ { 'l', UI_FKEY(KEY_DC) }, "l", "lift", 2, "lift the selected element off the bench, with its side branch (also Delete)", k_delete, UI_K_EDITS, UG_LAYOUT },
+	{ { 's' }, "s", "shift", 4, "shift the selection: choose a row, then Enter", k_move, UI_K_EDITS, UG_LAYOUT },
+	{ { '<', UI_FKEY(KEY_SR) }, "<", NULL, 0, "shift the selection one place up its branch (also Shift-Up)", k_nudge_up, UI_K_EDITS, UG_LAYOUT },
+	{ { '>', UI_FKEY(KEY_SF) }, ">", NULL, 0, "shift the selection one place down its branch (also Shift-Down)", k_nudge_down, UI_K_EDITS, UG_LAYOUT },
+	{ { 'd' }, "d", "duplicate", 5, "duplicate the selected element with a new id, right after it", wb_k_duplicate, UI_K_EDITS, UG_LAYOUT },
+	{ { '-' }, "-", "undo", 2, "undo the last change to the draft", k_undo, UI_K_EDITS, UG_LAYOUT },
+	{ { '+', '=' }, "+", NULL, 0, "redo a change undone (also =)", k_redo, UI_K_EDITS, UG_LAYOUT },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "edit", 0,
+	    "edit the selected element's values, starting at the marked one", wb_k_fields, 0, UG_VALUES },
+	{ { 'b' }, "b", "beam", 3, "the beam and bench settings (wavelength, power, pulse, waist, M\u00b2, ...)", wb_k_settings, 0, UG_VALUES },
+	{ { 'r' }, "r", "record", 1, "record the draft as a new numbered setup, with a note", k_record, UI_K_EDITS, UG_RECORD },
+	{ { 'h' }, "h", "history", 3, "the bench's logbook: its setups, compare, reinstate, mark", k_history, 0, UG_RECORD },
+	{ { 'c' }, "c", NULL, 0, "compare the draft with the setup it came from", k_compare, 0, UG_RECORD },
+	{ { '!' }, "!", "hazards", 1, "every hazard on the bench; Enter goes to its element", k_hazards, 0, UG_LOOK },
+	{ { 'z' }, "z", "profile", 4, "the beam along z to the end of the selected element's branch", k_profile, 0, UG_LOOK },
+	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
+	{ { 'o' }, "o", NULL, 0, "every operating point side by side: each element's ratio at each", k_points, 0, UG_LOOK },
+	{ { 'v' }, "v", NULL, 0, "sweep a value of the selected element (or the source) over a range", k_sweep, 0, UG_LOOK },
+	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_key ui_bench_move_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose place", 0, "choose where the element goes", k_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, k_down, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'm' }, "Enter", "put it after this row", 0,
-	    "drop the moving element after this row (a port row: first in that branch)", k_drop, UI_K_EDITS },
-	{ { UI_ESC, 'q' }, "Esc", "cancel move", 0, "leave it where it was", k_move_cancel, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "choose place", 0, "choose where the element goes", k_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, k_down, 0, UG_MOVE },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 's' }, "Enter", "put it after this row", 0,
+	    "put the element after this row (a port row: first in that branch)", k_drop, UI_K_EDITS, UG_LAYOUT },
+	{ { UI_ESC, 'q' }, "Esc", "leave it", 0, "leave it where it was", k_move_cancel, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 /* ---- the pane ---- */
@@ -891,6 +758,7 @@ wb_release(struct ui_pane *p)
 	struct wb *d = p->data;
 
 	free(d->moving);
+	free(d->field_of);
 	ui_line_release(&d->line);
 	free(d->error);
 	free(d);
@@ -911,8 +779,8 @@ wb_hints(struct app *a, struct wb *d, struct layout_hint *h, size_t max)
 
 	if (d->editing) {
 		static const struct layout_hint edit_hints[] = {
-			{ "Enter", "apply", 0 }, { "Esc", "cancel", 0 }, { "^U", "clear", 1 },
-			{ "\u2190\u2192", "cursor", 2 },
+			{ "Enter", "apply", 0, UG_VALUES }, { "Esc", "cancel", 0, UG_VALUES },
+			{ "^U", "clear", 1, UG_VALUES }, { "\u2190\u2192", "cursor", 2, UG_MOVE },
 		};
 
 		(void)a;
@@ -921,7 +789,7 @@ wb_hints(struct app *a, struct wb *d, struct layout_hint *h, size_t max)
 		return n;
 	}
 	n = ui_table_hints(table, h, max - 1);
-	h[n++] = (struct layout_hint){ "?", "help", 0 };
+	h[n++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };
 	return n;
 }
 

@@ -22,7 +22,8 @@ struct wb {
 	int            editing;             /* the line editor is open on `field` */
 	struct ui_line line;
 	char          *error;               /* owned: why the last value was refused */
-	char          *moving;              /* owned: id being moved, NULL */
+	char          *moving;              /* owned: id being shifted, NULL */
+	char          *field_of;            /* owned: element whose field `field` is, NULL */
 	struct { int before; } add;         /* the add menu's argument */
 };
 
@@ -33,6 +34,11 @@ void   wb_draw_status(struct app *, int y, int w);
 size_t wb_hints(struct app *, struct wb *, struct layout_hint *, size_t max);
 /* Adds el (taken) after the selection, as `a` does. */
 int    wb_place(struct app *, struct element *el, char **cause);
+
+/* ui-place.c */
+enum ui_reaction wb_k_place(struct app *, struct ui_pane *);
+enum ui_reaction wb_k_place_before(struct app *, struct ui_pane *);
+enum ui_reaction wb_k_duplicate(struct app *, struct ui_pane *);
 
 /* ui-fields.c */
 enum ui_reaction wb_k_fields(struct app *, struct ui_pane *);

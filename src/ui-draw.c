@@ -13,6 +13,7 @@
 #include <wchar.h>
 
 #include "ui-app.h"
+#include "ui-bench.h"
 #include "util-err.h"
 
 /* The one piece of process state: whether curses owns the terminal, so
@@ -61,6 +62,7 @@ static const struct {
 	[UC_FOCUS]   = { COLOR_RED, -1, A_BOLD, A_BOLD },
 	[UC_FRAME]   = { COLOR_CYAN, -1, 0, 0 },
 	[UC_INPUT]   = { COLOR_BLACK, COLOR_YELLOW, 0, A_UNDERLINE | A_BOLD },
+	[UC_HAZARD]  = { COLOR_RED, -1, A_BOLD, A_BOLD },
 };
 
 void
@@ -116,6 +118,20 @@ static const char *const glyphs[GL_COUNT][2] = {
 	[GL_MARK]      = { "\u2502", "|" },
 	[GL_ELLIPSIS]  = { "\u2026", "~" },
 	[GL_TIMES]     = { "\u00d7", "x" },
+	[GL_HAZARD]    = { "\u25b2", "!" },
+	[GL_PIN]       = { "\u21c4", "<>" },
+	[GL_BAND]      = { "\u2592", ":" },
+	[GL_AXIS]      = { "\u2500", "-" },
+	[GL_KEY]       = { LAYOUT_KEY_SIGN, ">" },
+	[GL_GROUP]     = { LAYOUT_GROUP_SIGN, ":" },
+	[GL_HEAD]      = { "\u25b8", ">" },
+};
+
+const char *const ui_group_names[UG_COUNT] = {
+	[UG_MOVE] = "Moving around", [UG_BENCHES] = "Benches",
+	[UG_LAYOUT] = "Laying out the chain",
+	[UG_VALUES] = "Values", [UG_RECORD] = "Record, history, compare",
+	[UG_LOOK] = "Looking closer", [UG_LEAVE] = "Leaving",
 };
 
 const char *
@@ -199,7 +215,7 @@ ui_table_hints(const struct ui_key *k, struct layout_hint *h, size_t max)
 
 	for (; k->fn != NULL; k++)
 		if (k->hint != NULL && n < max)
-			h[n++] = (struct layout_hint){ k->label, k->hint, k->prio };
+			h[n++] = (struct layout_hint){ k->label, k->hint, k->prio, (int)k->group };
 	return n;
 }
 
@@ -209,24 +225,29 @@ ui_key_line(struct app *a, const struct ui_key *keys, int y, int w)
 	struct layout_hint hints[40];
 	size_t nh = ui_table_hints(keys, hints, 39);
 
-	hints[nh++] = (struct layout_hint){ "?", "help", 0 };
+	hints[nh++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };
 	ui_hints(a, y, w, hints, nh);
 }
 
 void
 ui_footer(struct app *a, const struct ui_key *keys, int h, int w)
 {
-	if (a->msg != NULL)
-		ui_put(a, h - 2, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
-	ui_key_line(a, keys, h - 1, w);
+	struct layout_hint hints[40];
+	size_t nh = ui_table_hints(keys, hints, 39);
+
+	hints[nh++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };
+	ui_frame_bottom(a, hints, nh, h, w);
 }
 
+/* The key line: each key bold with its word after the key sign, tasks
+ * parted by the group sign, so that neither colour nor reverse video is
+ * needed to read it. */
 void
 ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
 {
 	unsigned char shown[64];
 	struct layout_hint hh[64];
-	int x = 0;
+	int x = 0, prev = -1;
 
 	if (n > sizeof shown)
 		n = sizeof shown;
@@ -244,13 +265,19 @@ ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
 
 		if (!shown[i])
 			continue;
-		if (x > 0)
+		if (prev >= 0 && h[i].group != h[prev].group) {
+			ui_put(a, y, x + 1, 1, ui_glyph(a, GL_GROUP), UC_DIM);
+			x += LAYOUT_GROUP_GAP;
+		} else if (prev >= 0) {
 			x += 2;
+		}
 		kl = (int)utf8_cols(h[i].key);
 		wl = (int)utf8_cols(h[i].word);
-		ui_put(a, y, x, kl, h[i].key, UC_KEY);
+		ui_put_attr(a, y, x, kl, h[i].key, ui_attr(a, UC_KEY) | A_BOLD);
+		ui_put(a, y, x + kl, 1, ui_glyph(a, GL_KEY), UC_DIM);
 		ui_put(a, y, x + kl + 1, wl, h[i].word, UC_NORMAL);
 		x += kl + 1 + wl;
+		prev = (int)i;
 	}
 }
 
@@ -413,4 +440,93 @@ void
 ui_term_close(void)
 {
 	ui_term_restore();
+}
+
+/* ---- the frame of the main screens ---- */
+
+void
+ui_frame(struct app *a, const char *where, const char *more, int h, int w)
+{
+	char *beam = NULL, *caution, *line;
+	const char *sep = a->ascii ? " > " : " \u25b8 ";
+	int bw = 0;
+
+	(void)h;
+	move(0, 0);
+	clrtoeol();
+	if (a->bench != NULL) {
+		char wl[48], pw[48];
+		const char *parts[4];
+		int prio[4] = { 0, 0, 0, 1 };
+		char *full = layout_beam_summary(a->bench, a->ascii);
+
+		/* the beam first: its full form where there is room */
+		{
+			char *t = layout_quantity_text(a->bench->src.wavelength, DIM_LENGTH);
+			char *u = a->ascii ? layout_ascii(t) : xstrdup(t);
+
+			snprintf(wl, sizeof wl, "%s", u);
+			free(t);
+			free(u);
+		}
+		units_format(pw, sizeof pw, a->bench->src.power, DIM_POWER, 3, a->ascii);
+		beam = xasprintf("%s %s%s", wl, pw, a->bench->src.pulsed ? " pulsed" : " CW");
+		parts[0] = full;
+		parts[1] = a->name;
+		parts[2] = where;
+		parts[3] = more;
+		line = layout_join_fit(parts, prio, 4, sep, w - 1);
+		if ((int)utf8_cols(line) > w - 1 || (more != NULL && strstr(line, more) == NULL)) {
+			free(line);
+			parts[0] = beam;
+			line = layout_join_fit(parts, prio, 4, sep, w - 1);
+			bw = (int)utf8_cols(beam);
+		} else {
+			bw = (int)utf8_cols(full);
+		}
+		free(full);
+	} else {
+		const char *parts[3] = { "beamledger", where, more };
+		static const int prio[3] = { 0, 0, 1 };
+
+		line = layout_join_fit(parts, prio, 3, sep, w - 1);
+		bw = 10;
+	}
+	ui_put(a, 0, 0, w, line, UC_NORMAL);
+	{
+		/* the beam, in bold, is the start of the line as drawn */
+		char *head = xasprintf("%.*s", (int)strlen(line), line);
+		size_t cut = 0;
+
+		for (int c = 0; head[cut] != '\0' && c < bw; cut++)
+			if (((unsigned char)head[cut + 1] & 0xc0) != 0x80)
+				c++;
+		head[cut] = '\0';
+		ui_put_attr(a, 0, 0, bw < w ? bw : w, head, ui_attr(a, UC_KEY) | A_BOLD);
+		free(head);
+	}
+	free(line);
+	free(beam);
+	if (a->bench != NULL) {
+		caution = layout_caution_line(a->bench, a->ascii, w - 3);
+	} else {
+		caution = xstrdup("design estimates, not a safety assessment: the laser "
+		    "safety officer decides");
+	}
+	line = xasprintf("%s %s", ui_glyph(a, GL_HAZARD), caution);
+	ui_put(a, 1, 0, w, line, UC_CAUTION);
+	free(line);
+	free(caution);
+}
+
+void
+ui_frame_bottom(struct app *a, const struct layout_hint *hints, size_t nh, int h, int w)
+{
+	move(h - 3, 0);
+	clrtoeol();
+	if (a->msg != NULL)
+		ui_put(a, h - 3, 0, w, a->msg, a->msg_error ? UC_ERROR : UC_INFO);
+	if (a->bench != NULL && a->trace != NULL)
+		wb_draw_status(a, h - 2, w);
+	ui_hints(a, h - 1, w, hints, nh);
 }

@@ -20,6 +20,9 @@
 struct fld {
 	const char *name;           /* borrowed: key as edit_set / edit_set_bench take it */
 	const char *help;           /* borrowed */
+	const char *label;          /* borrowed: the human label */
+	enum layout_key_group group;
+	int         key;            /* enum model_key, -1 for the others */
 	char       *value;          /* owned: as shown and as the editor starts */
 	int         given;
 	int         fixed;          /* shown, not editable */
@@ -41,6 +44,8 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 		for (const char *const *k = edit_bench_keys; *k != NULL && n < max; k++, n++) {
 			out[n].name = *k;
 			out[n].help = layout_bench_key_help(*k);
+			out[n].label = layout_bench_key_label(*k, &out[n].group);
+			out[n].key = -1;
 			out[n].value = layout_bench_value_text(a->bench, *k);
 			out[n].given = out[n].value[0] != '\0';
 			out[n].fixed = strcmp(*k, "name") == 0;
@@ -56,9 +61,33 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 		nf = layout_fields(r->el, f, MAX_FIELDS);
 		if (nf > MAX_FIELDS)
 			nf = MAX_FIELDS;
-		for (size_t i = 0; i < nf && n < max; i++, n++) {
+		/* the physical values first, each group together; the element's
+		 * names after them */
+		size_t order[MAX_FIELDS], no = 0;
+		static const enum layout_key_group shown[] = { LKG_OPTIC, LKG_MATERIAL,
+			LKG_DAMAGE, LKG_ELEMENT };
+
+		for (size_t g = 0; g < sizeof shown / sizeof *shown; g++)
+			for (size_t i = 0; i < nf; i++) {
+				enum layout_key_group kg = LKG_ELEMENT;
+
+				if (f[i].kind == LF_KEY)
+					layout_key_label(f[i].key, &kg);
+				if (kg == shown[g])
+					order[no++] = i;
+			}
+		for (size_t oi = 0; oi < no && n < max; oi++, n++) {
+			size_t i = order[oi];
+
 			out[n].name = f[i].name;
 			out[n].help = f[i].help;
+			out[n].key = f[i].kind == LF_KEY ? f[i].key : -1;
+			if (f[i].kind == LF_KEY) {
+				out[n].label = layout_key_label(f[i].key, &out[n].group);
+			} else {
+				out[n].group = LKG_ELEMENT;
+				out[n].label = f[i].kind == LF_SIDE ? "side port" : f[i].name;
+			}
 			out[n].value = layout_field_value(r->el, &f[i]);
 			out[n].given = f[i].given;
 			out[n].fixed = 0;
@@ -72,6 +101,33 @@ fields_free(struct fld *f, size_t n)
 {
 	for (size_t i = 0; i < n; i++)
 		free(f[i].value);
+}
+
+/* Display lines of the value pane: -1-group for a group's heading, else
+ * the field's index.  Returns the count; *sel_line is the line of field sel. */
+static int
+field_lines(const struct fld *f, size_t n, int sel, int *lines, int *sel_line)
+{
+	int nl = 0;
+
+	*sel_line = 0;
+	for (size_t i = 0; i < n; i++) {
+		if (i == 0 || f[i].group != f[i - 1].group)
+			lines[nl++] = -1 - (int)f[i].group;
+		if ((int)i == sel)
+			*sel_line = nl;
+		lines[nl++] = (int)i;
+	}
+	return nl;
+}
+
+static int
+first_key_field(const struct fld *f, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		if (f[i].key >= 0)
+			return (int)i;
+	return 0;
 }
 
 static void
@@ -89,9 +145,10 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	struct fld f[MAX_FIELDS];
 	size_t n = fields_get(a, d, f, MAX_FIELDS);
 	const struct layout_row *r = field_row(a);
-	int lw = w * 2 / 5 < 38 ? 38 : w * 2 / 5 > 56 ? 56 : w * 2 / 5, y = g->detail_y, rows = g->detail_h, err_lines = 0;
+	int lw = w * 2 / 5 < 34 ? 34 : w * 2 / 5 > 56 ? 56 : w * 2 / 5, y = g->detail_y, rows = g->detail_h, err_lines = 0;
 	char *title;
 	size_t est[4], eln[4];
+	int title_end;
 
 	/* the separator names what is shown and says what the focused field is */
 	if (d->mode == WB_SETTINGS)
@@ -110,27 +167,39 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		mvaddstr(g->sep_y, i, ui_glyph(a, GL_HBAR));
 	{
 		char *t = xasprintf(" %s ", title);
+		int tw = (int)utf8_cols(t);
+		/* with a field chosen its hint takes the right part of the line */
+		int room = d->focus == WB_FIELDS ? lw - 2 : w - 14;
 
-		ui_put(a, g->sep_y, 2, (int)utf8_cols(t) < lw - 2 ? (int)utf8_cols(t) : lw - 2, t,
-		    UC_HEADER);
+		title_end = 2 + (tw < room ? tw : room);
+		ui_put(a, g->sep_y, 2, title_end - 2, t, UC_HEADER);
 		free(t);
 	}
 	free(title);
 	clamp_field(d, n);
-	if (d->focus == WB_CHAIN) {
-		/* an overview: the values from the top */
+	if (d->focus == WB_CHAIN && d->mode == WB_ELEMENT && r != NULL && r->kind == LROW_ELEMENT &&
+	    (d->field_of == NULL || strcmp(d->field_of, r->el->id) != 0)) {
+		/* another element: Enter will start at its first physical value */
+		d->field = first_key_field(f, n);
 		d->field_top = 0;
 	}
 	if (d->focus == WB_FIELDS && n > 0) {
-		char *t = xasprintf(" %s: %s ", f[d->field].name, f[d->field].help);
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
+		char *t = xasprintf(" %s: %s%s%s ", f[d->field].name, f[d->field].help,
+		    hint[0] ? "; " : "", hint);
 		int tw = (int)utf8_cols(t);
 
 		if (tw > w - lw - 1)
 			tw = w - lw - 1;
 		ui_put(a, g->sep_y, w - tw - 1, tw, t, UC_KEY);
 		free(t);
+		free(hint);
 	} else if (d->mode == WB_ELEMENT) {
-		ui_put(a, g->sep_y, lw + 2, 9, " results ", UC_HEADER);
+		int rx = title_end + 1 > lw + 2 ? title_end + 1 : lw + 2;
+
+		if (rx + 9 < w)
+			ui_put(a, g->sep_y, rx, 9, " results ", UC_HEADER);
 	}
 	/* the error of a refused value sits right under its field */
 	if (d->editing && d->error != NULL) {
@@ -138,42 +207,67 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		if (err_lines > 3)
 			err_lines = 3;
 	}
-	if (d->field < d->field_top)
-		d->field_top = d->field;
-	if (d->field + err_lines >= d->field_top + rows)
-		d->field_top = d->field + err_lines - rows + 1;
-	if (d->field_top < 0)
-		d->field_top = 0;
-	for (int i = 0, line = 0; line < rows && d->field_top + i < (int)n; i++) {
-		int fi = d->field_top + i, yy = y + line;
-		int here = d->focus == WB_FIELDS && fi == d->field;
-		attr_t at = here ? ui_attr(a, UC_SELECT) : A_NORMAL;
-		const struct fld *x = &f[fi];
+	/* display lines: a heading where the group changes, then its fields */
+	{
+		int lines[2 * MAX_FIELDS], sel_line, top;
+		int nl = field_lines(f, n, d->field, lines, &sel_line);
 
-		ui_fill(a, yy, 0, lw, at);
-		ui_put_attr(a, yy, 1, 20, x->name, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
-		if (here && d->editing) {
-			ui_line_draw(a, &d->line, yy, 22, lw - 23);
-		} else {
-			char *v = x->fixed ? xasprintf("%s (fixed; clone to rename)", x->value) :
-			    x->value[0] == '\0' ? xstrdup("-") :
-			    !x->given ? xasprintf("%s (default)", x->value) : xstrdup(x->value);
+		top = d->field_top;
+		if (sel_line - 1 < top)
+			top = sel_line - 1;
+		if (sel_line + err_lines >= top + rows)
+			top = sel_line + err_lines - rows + 1;
+		if (top > nl - rows)
+			top = nl - rows;
+		if (top < 0)
+			top = 0;
+		d->field_top = top;
+		for (int li = top, line = 0; line < rows && li < nl; li++) {
+			int yy = y + line, fi;
+			int here, marked;
+			attr_t at;
+			const struct fld *x;
 
-			ui_put_attr(a, yy, 22, lw - 23, v, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
-			free(v);
-		}
-		line++;
-		if (here && d->editing && d->error != NULL)
-			for (int e = 0; e < err_lines && line < rows; e++, line++) {
-				char *t = xstrdup(d->error + est[e]);
-
-				t[eln[e]] = '\0';
-				ui_put(a, y + line, 3, lw - 4, t, UC_ERROR);
-				free(t);
+			if (lines[li] < 0) {
+				ui_put(a, yy, 1, lw - 2, layout_group_name((enum layout_key_group)(-1 - lines[li])),
+				    UC_HEADER);
+				line++;
+				continue;
 			}
+			fi = lines[li];
+			x = &f[fi];
+			here = d->focus == WB_FIELDS && fi == d->field;
+			marked = d->focus == WB_CHAIN && fi == d->field && d->mode == WB_ELEMENT;
+			at = here ? ui_attr(a, UC_SELECT) : A_NORMAL;
+			ui_fill(a, yy, 0, lw, at);
+			if (marked)
+				ui_put(a, yy, 1, 1, ui_glyph(a, GL_KEY), UC_KEY);
+			ui_put_attr(a, yy, 3, 18, x->label, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+			if (here && d->editing) {
+				ui_line_draw(a, &d->line, yy, 21, lw - 22);
+			} else {
+				char *v = x->fixed ? xasprintf("%s (fixed)", x->value) :
+				    x->value[0] == '\0' ? xstrdup("-") :
+				    !x->given ? xasprintf("%s (default)", x->value) : xstrdup(x->value);
+
+				ui_put_attr(a, yy, 22, lw - 23, v, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+				free(v);
+			}
+			line++;
+			if (here && d->editing && d->error != NULL)
+				for (int e = 0; e < err_lines && line < rows; e++, line++) {
+					char *t = xstrdup(d->error + est[e]);
+
+					t[eln[e]] = '\0';
+					ui_put(a, y + line, 3, lw - 4, t, UC_ERROR);
+					free(t);
+				}
+		}
+		if (top + rows < nl)
+			ui_put(a, y + rows - 1, lw - 1, 1, a->ascii ? "v" : "\u25be", UC_DIM);
+		if (top > 0)
+			ui_put(a, y, lw - 1, 1, a->ascii ? "^" : "\u25b4", UC_DIM);
 	}
-	if (n > (size_t)rows && d->field_top + rows < (int)n)
-		ui_put(a, y + rows - 1, lw - 1, 1, a->ascii ? "v" : "\u25bc", UC_DIM);
 	for (int i = 0; i < rows; i++)
 		ui_put(a, y + i, lw, 1, ui_glyph(a, GL_VBAR), UC_DIM);
 	if (d->mode == WB_ELEMENT) {
@@ -215,6 +309,24 @@ result_line(struct app *a, int y, int x, int w, const char *label, const char *t
 	return 1;
 }
 
+/* A result that may need more than one line: wrapped under its label,
+ * at most `max` lines and never past the pane (h - n left). */
+static int
+result_wrapped(struct app *a, int y, int x, int w, int left, int max, const char *label,
+    const char *text, attr_t at)
+{
+	size_t st[4], ln[4], nl = layout_wrap(text, w - 11, st, ln, 4);
+	int used = 0;
+
+	for (size_t i = 0; i < nl && i < 4 && used < max && used < left; i++) {
+		char *part = xasprintf("%.*s", (int)ln[i], text + st[i]);
+
+		used += result_line(a, y + used, x, w, i == 0 ? label : "", part, at);
+		free(part);
+	}
+	return used;
+}
+
 void
 wb_draw_results(struct app *a, int y, int x, int h, int w)
 {
@@ -226,11 +338,11 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 	if (row == NULL)
 		return;
 	if (row->kind == LROW_PORT) {
-		snprintf(line, sizeof line, "side branch %s.%s: %zu element(s)", row->el->id,
-		    model_port_name(row->port), row->el->side.n);
+		snprintf(line, sizeof line, "side branch %s.%s: %zu element%s", row->el->id,
+		    model_port_name(row->port), row->el->side.n, row->el->side.n == 1 ? "" : "s");
 		ui_put(a, y, x, w, line, UC_NORMAL);
-		ui_put(a, y + 1, x, w, "a or i put a new element at its start; m then Enter here "
-		    "moves one into it", UC_DIM);
+		ui_put(a, y + 1, x, w, "p places a new element at its start; s then Enter here "
+		    "shifts one into it", UC_DIM);
 		return;
 	}
 	if (r == NULL)
@@ -253,18 +365,38 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		snprintf(line, sizeof line, "peak %s, linear %s", t1, t2);
 	}
 	n += result_line(a, y + n, x, w, "irradiance", line, A_NORMAL);
+	if (n < h && r->has_focus && r->focus.air_breakdown) {
+		/* the worst a gap can do comes before the details */
+		qty(a, r->focus.peak_irradiance, DIM_IRRADIANCE, t1, sizeof t1);
+		snprintf(line, sizeof line, "AIR BREAKDOWN: the focus here reaches %s, a spark", t1);
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_OVER));
+	}
 	if (n < h) {
 		char bar[128], pct[32];
 
 		layout_bar(bar, sizeof bar, r->ratio, 1 / a->bench->safety_factor, 12, a->ascii);
 		layout_percent(pct, sizeof pct, r->ratio);
-		if (isnan(r->ratio))
-			snprintf(line, sizeof line, "unrated: no damage threshold given "
-			    "(Enter, then damage.* keys)");
-		else
-			snprintf(line, sizeof line, "%s %s of threshold: %s", bar, pct,
+		if (isnan(r->ratio)) {
+			char *hint = layout_rating_hint(r->el->type, a->bench->src.pulsed);
+
+			snprintf(line, sizeof line, "%s", hint);
+			free(hint);
+		} else {
+			snprintf(line, sizeof line, "%s %s: %s", bar, pct,
 			    layout_status_word(r->status));
-		n += result_line(a, y + n, x, w, "damage", line, ui_status_attr(a, r->status));
+		}
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "damage", line,
+		    isnan(r->ratio) && layout_row_hazard(a->trace, (size_t)row->trace_row) ?
+		    ui_attr(a, UC_HAZARD) : ui_status_attr(a, r->status));
+	}
+	if (n < h) {
+		/* why the limit is what it is, wrapped over as many lines as it needs */
+		char *why = layout_derivation_text(r, a->bench, a->ascii);
+
+		if (why != NULL) {
+			n += result_wrapped(a, y + n, x, w, h - n, 4, "why", why, A_NORMAL);
+			free(why);
+		}
 	}
 	if (n < h && damage_rated(&r->limits)) {
 		struct buf b;
@@ -306,6 +438,11 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		n += result_line(a, y + n, x, w, "focus", line,
 		    r->focus.air_breakdown ? ui_attr(a, UC_OVER) : A_NORMAL);
 	}
+	if (n < h && r->critical_power > 0 && (r->flags & TF_SELF_FOCUSING)) {
+		qty(a, r->critical_power, DIM_POWER, t1, sizeof t1);
+		snprintf(line, sizeof line, "peak power above the critical %s: self-focusing", t1);
+		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_HAZARD));
+	}
 }
 
 /* ---- keys ---- */
@@ -325,8 +462,8 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 		return UI_NONE;
 	}
 	if (f[d->field].fixed) {
-		app_msg(a, 1, "the bench's name is its key in the database: C on the bench "
-		    "list clones it under a new name");
+		app_msg(a, 1, "the bench's name is its key in the database: c on the bench "
+		    "list copies it under a new name");
 		fields_free(f, n);
 		return UI_REDRAW;
 	}
@@ -334,7 +471,14 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 	free(d->error);
 	d->error = NULL;
 	ui_line_set(&d->line, initial != NULL ? initial : f[d->field].given ? f[d->field].value : "");
-	app_msg(a, 0, "%s: %s", f[d->field].name, f[d->field].help);
+	{
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
+
+		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
+		    hint);
+		free(hint);
+	}
 	fields_free(f, n);
 	return UI_REDRAW;
 }
@@ -387,15 +531,33 @@ apply_edit(struct app *a, struct wb *d)
 		free(d->error);
 		d->error = NULL;
 		if (s.bench)
-			app_msg(a, 0, "%s = %s (u undoes)", s.key, text[0] ? text : "(unset)");
+			app_msg(a, 0, "%s = %s (- undoes)", s.key, text[0] ? text : "(unset)");
 		else
-			app_msg(a, 0, "%s %s = %s (u undoes)", strcmp(s.key, "id") == 0 ? text : id,
+			app_msg(a, 0, "%s %s = %s (- undoes)", strcmp(s.key, "id") == 0 ? text : id,
 			    s.key, text[0] ? text : "(unset)");
 	}
 	fields_free(f, n);
 	free(id);
 	free(text);
 	return UI_REDRAW;
+}
+
+static enum ui_reaction f_move_to(struct app *, struct wb *, int by);
+
+/* The edited text differs from what the field held. */
+static int
+line_changed(struct app *a, struct wb *d)
+{
+	struct fld f[MAX_FIELDS];
+	size_t n = fields_get(a, d, f, MAX_FIELDS);
+	int changed = 1;
+
+	clamp_field(d, n);
+	if (n > 0)
+		changed = strcmp(d->line.s != NULL ? d->line.s : "",
+		    f[d->field].given ? f[d->field].value : "") != 0;
+	fields_free(f, n);
+	return changed;
 }
 
 enum ui_reaction
@@ -405,6 +567,7 @@ wb_edit_key(struct app *a, struct wb *d, int key)
 	case '\r':
 	case '\n':
 	case UI_FKEY(KEY_ENTER):
+	case '\t':
 		return apply_edit(a, d);
 	case UI_ESC:
 		d->editing = 0;
@@ -412,39 +575,53 @@ wb_edit_key(struct app *a, struct wb *d, int key)
 		d->error = NULL;
 		app_msg(a, 0, "not changed");
 		return UI_REDRAW;
-	case '\t':
-		return apply_edit(a, d);
+	case UI_FKEY(KEY_UP):
+	case UI_FKEY(KEY_DOWN): {
+		/* as in a form: an untouched value is left, a typed one applied */
+		int by = key == UI_FKEY(KEY_UP) ? -1 : 1;
+
+		if (line_changed(a, d)) {
+			apply_edit(a, d);
+			if (d->editing)
+				return UI_REDRAW;       /* refused: stay on it */
+		}
+		d->editing = 0;
+		f_move_to(a, d, by);
+		return begin_edit(a, d, NULL);
+	}
 	default:
 		ui_line_key(&d->line, key);
 		return UI_REDRAW;        /* every key is the editor's while it is open */
 	}
 }
 
+/* Enter on the chain: the values, editing the marked one at once. */
 enum ui_reaction
 wb_k_fields(struct app *a, struct ui_pane *p)
 {
 	struct wb *d = p->data;
 	const struct layout_row *r = app_sel_row(a);
-	struct layout_field f[MAX_FIELDS];
+	struct fld f[MAX_FIELDS];
 	size_t n;
 
 	if (r == NULL) {
-		app_msg(a, 1, "no element to edit: a adds one");
+		app_msg(a, 1, "no element to edit: p places one");
 		return UI_REDRAW;
 	}
+	if (r->kind == LROW_PORT) {
+		app_msg(a, 1, "a side branch has no values: select an element");
+		return UI_REDRAW;
+	}
+	n = fields_get(a, d, f, MAX_FIELDS);
+	if (d->mode != WB_ELEMENT || d->field_of == NULL || strcmp(d->field_of, r->el->id) != 0) {
+		d->mode = WB_ELEMENT;
+		d->field = first_key_field(f, n);
+		free(d->field_of);
+		d->field_of = xstrdup(r->el->id);
+	}
+	fields_free(f, n);
 	d->focus = WB_FIELDS;
-	d->mode = WB_ELEMENT;
-	d->field = 0;
-	d->field_top = 0;
-	n = layout_fields(r->el, f, MAX_FIELDS);
-	for (size_t i = 0; i < n && i < MAX_FIELDS; i++)
-		if (f[i].kind == LF_KEY) {
-			d->field = (int)i;
-			break;
-		}
-	app_msg(a, 0, "%s: %s Enter edits it; Tab or Esc goes back to the chain",
-	    f[d->field].name, f[d->field].help);
-	return UI_REDRAW;
+	return begin_edit(a, d, NULL);
 }
 
 enum ui_reaction
@@ -456,21 +633,36 @@ wb_k_settings(struct app *a, struct ui_pane *p)
 	d->mode = WB_SETTINGS;
 	d->field = 4;               /* source.wavelength */
 	d->field_top = 0;
-	app_msg(a, 0, "source and bench settings: Enter edits a value; Esc goes back to the chain");
+	app_msg(a, 0, "the beam and bench settings: Enter edits a value; Esc goes back to the chain");
 	return UI_REDRAW;
 }
 
 static enum ui_reaction
 f_move(struct app *a, struct ui_pane *p, int by)
 {
-	struct wb *d = p->data;
+	return f_move_to(a, p->data, by);
+}
+
+static enum ui_reaction
+f_move_to(struct app *a, struct wb *d, int by)
+{
 	struct fld f[MAX_FIELDS];
 	size_t n = fields_get(a, d, f, MAX_FIELDS);
 
 	d->field += by;
 	clamp_field(d, n);
-	if (n > 0)
-		app_msg(a, 0, "%s: %s", f[d->field].name, f[d->field].help);
+	if (n > 0) {
+		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
+		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
+
+		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
+		    hint);
+		free(hint);
+	}
+	if (d->mode == WB_ELEMENT && field_row(a) != NULL) {
+		free(d->field_of);
+		d->field_of = xstrdup(field_row(a)->el->id);
+	}
 	fields_free(f, n);
 	return UI_REDRAW;
 }
@@ -525,29 +717,17 @@ f_back(struct app *a, struct ui_pane *p)
 	return UI_REDRAW;
 }
 
-static enum ui_reaction
-f_undo(struct app *a, struct ui_pane *p)
-{
-	(void)p;
-	if (app_undo(a) != 0)
-		app_msg(a, 1, "nothing to undo");
-	else
-		app_msg(a, 0, "undone");
-	return UI_REDRAW;
-}
-
 const struct ui_key ui_bench_field_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "field", 1, "choose a value (also k, j)", f_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, f_down, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'e' }, "Enter", "edit value", 0,
-	    "edit the value: type it with units (\"250 mm\", \"5 kW/cm\"); an empty value unsets it",
-	    f_edit, UI_K_EDITS },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "field", 1, "choose a value", f_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, f_down, 0, UG_MOVE },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "edit value", 0,
+	    "edit the chosen value in its box: type it with its unit (\"250 mm\", \"5 kW/cm\"); "
+	    "an empty value unsets it", f_edit, UI_K_EDITS, UG_VALUES },
 	{ { UI_FKEY(KEY_DC), UI_FKEY(KEY_BACKSPACE), 127 }, "Del", "clear", 3,
-	    "edit the value starting from an empty field", f_clear, UI_K_EDITS },
-	{ { 'u' }, "u", "undo", 2, "undo the last change", f_undo, UI_K_EDITS },
+	    "edit the value starting from an empty box", f_clear, UI_K_EDITS, UG_VALUES },
 	{ { '\t', UI_ESC, 'q', UI_FKEY(KEY_LEFT) }, "Esc", "back to chain", 0,
-	    "back to the chain (also Tab, q)", f_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	    "back to the chain (also Tab, q)", f_back, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 enum ui_reaction
@@ -558,11 +738,14 @@ wb_click_fields(struct app *a, struct wb *d, int row, int dbl, struct ui_pane *p
 
 	if (app_sel_row(a) == NULL && d->mode == WB_ELEMENT)
 		return UI_NONE;
+	int lines[2 * MAX_FIELDS], sl, nl;
+
 	n = fields_get(a, d, f, MAX_FIELDS);
+	nl = field_lines(f, n, d->field, lines, &sl);
 	fields_free(f, n);
-	if (d->field_top + row >= (int)n)
+	if (d->field_top + row >= nl || lines[d->field_top + row] < 0)
 		return UI_NONE;
 	d->focus = WB_FIELDS;
-	d->field = d->field_top + row;
+	d->field = lines[d->field_top + row];
 	return dbl ? f_edit(a, p) : UI_REDRAW;
 }

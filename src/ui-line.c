@@ -168,6 +168,13 @@ ui_line_draw(struct app *a, struct ui_line *l, int y, int x, int w)
 
 	if (l->s == NULL)
 		ui_line_set(l, "");
+	/* the box: its edges drawn, so it reads as a box without colour */
+	if (w >= 4) {
+		ui_put(a, y, x, 1, "[", UC_KEY);
+		ui_put(a, y, x + w - 1, 1, "]", UC_KEY);
+		x++;
+		w -= 2;
+	}
 	/* scroll so the cursor is inside */
 	for (;;) {
 		char save = l->s[l->cur];
@@ -233,14 +240,23 @@ static void
 prompt_draw(struct app *a, struct ui_pane *p, int h, int w)
 {
 	struct prompt *d = p->data;
-	int bw = w - 8 > 76 ? 76 : w - 8, bh = 9, y = (h - bh) / 2, x = (w - bw) / 2;
+	int bw = w - 8 > 76 ? 76 : w - 8, bh = 10, y = (h - bh) / 2, x = (w - bw) / 2;
 
 	ui_box(a, y, x, bh, bw, d->title);
-	wrapped(a, d->help, y + 1, x + 2, bw - 4, 2, UC_NORMAL);
-	ui_line_draw(a, &d->line, y + 3, x + 2, bw - 4);
+	wrapped(a, d->help, y + 1, x + 2, bw - 4, 3, UC_NORMAL);
+	ui_line_draw(a, &d->line, y + 4, x + 2, bw - 4);
 	if (d->error != NULL)
-		wrapped(a, d->error, y + 4, x + 2, bw - 4, 3, UC_ERROR);
-	ui_put(a, y + bh - 2, x + 2, bw - 4, "Enter accept   Esc cancel", UC_DIM);
+		wrapped(a, d->error, y + 5, x + 2, bw - 4, 2, UC_ERROR);
+	{
+		struct layout_hint hh[2] = { { "Enter", "accept", 0, UG_VALUES },
+			{ "Esc", "cancel", 0, UG_LEAVE } };
+		char *t = layout_hints_text(hh, 2, bw - 4);
+		char *u = a->ascii ? layout_ascii(t) : xstrdup(t);
+
+		ui_put(a, y + bh - 2, x + 2, bw - 4, u, UC_DIM);
+		free(t);
+		free(u);
+	}
 }
 
 static enum ui_reaction
@@ -280,9 +296,9 @@ prompt_key(struct app *a, struct ui_pane *p, int key)
 }
 
 static const struct ui_key prompt_keys[] = {
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "accept", 0, "accept the text", prompt_accept, 0 },
-	{ { UI_ESC }, "Esc", "cancel", 0, "close without changing anything", prompt_cancel, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "accept", 0, "accept the text", prompt_accept, 0, UG_VALUES },
+	{ { UI_ESC }, "Esc", "cancel", 0, "close without changing anything", prompt_cancel, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 static const struct ui_pane_ops prompt_ops = {
@@ -329,7 +345,14 @@ confirm_draw(struct app *a, struct ui_pane *p, int h, int w)
 
 	ui_box(a, y, x, bh, bw, "question");
 	wrapped(a, d->question, y + 1, x + 2, bw - 4, 3, UC_NORMAL);
-	ui_put(a, y + bh - 2, x + 2, bw - 4, "y yes   n no   Esc no", UC_KEY);
+	{
+		struct layout_hint hh[2] = { { "y", "yes", 0, UG_VALUES }, { "n", "no (also Esc)", 0, UG_LEAVE } };
+		char *t = layout_hints_text(hh, 2, bw - 4), *u = a->ascii ? layout_ascii(t) : xstrdup(t);
+
+		ui_put(a, y + bh - 2, x + 2, bw - 4, u, UC_KEY);
+		free(t);
+		free(u);
+	}
 }
 
 static enum ui_reaction
@@ -358,9 +381,9 @@ confirm_no(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key confirm_keys[] = {
-	{ { 'y', 'Y' }, "y", "yes", 0, "answer yes", confirm_yes, 0 },
-	{ { 'n', 'N', UI_ESC }, "n", "no", 0, "answer no (also Esc)", confirm_no, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { 'y', 'Y' }, "y", "yes", 0, "answer yes", confirm_yes, 0, UG_VALUES },
+	{ { 'n', 'N', UI_ESC }, "n", "no", 0, "answer no (also Esc)", confirm_no, 0, UG_VALUES },
+	UI_KEYS_END,
 };
 
 static enum ui_reaction
@@ -456,11 +479,13 @@ menu_draw(struct app *a, struct ui_pane *p, int h, int w)
 		ui_put_attr(a, y + 1 + i, x + 17, bw - 19, help, at | (i == d->sel ? 0 : ui_attr(a, UC_DIM)));
 	}
 	{
-		char *t = xasprintf("%s choose   Enter or key: pick   Esc cancel",
-		    ui_glyph(a, GL_UPDOWN));
+		struct layout_hint hh[3] = { { "\u2191\u2193", "choose", 0, UG_MOVE },
+			{ "Enter", "pick (or its letter)", 0, UG_VALUES }, { "Esc", "cancel", 0, UG_LEAVE } };
+		char *t = layout_hints_text(hh, 3, bw - 4), *u = a->ascii ? layout_ascii(t) : xstrdup(t);
 
-		ui_put(a, y + bh - 2, x + 2, bw - 4, t, UC_DIM);
+		ui_put(a, y + bh - 2, x + 2, bw - 4, u, UC_DIM);
 		free(t);
+		free(u);
 	}
 }
 
@@ -534,11 +559,11 @@ menu_click(struct app *a, struct ui_pane *p, int y, int x, int dbl)
 }
 
 static const struct ui_key menu_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191", NULL, 0, "previous item", menu_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, "next item", menu_down, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "pick", 0, "pick the highlighted item", menu_enter, 0 },
-	{ { UI_ESC }, "Esc", "cancel", 0, "close the menu", prompt_cancel, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191", NULL, 0, "previous item", menu_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, "next item", menu_down, 0, UG_MOVE },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "pick", 0, "pick the highlighted item", menu_enter, 0, UG_VALUES },
+	{ { UI_ESC }, "Esc", "cancel", 0, "close the menu", prompt_cancel, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 static const struct ui_pane_ops menu_ops = {
@@ -589,18 +614,14 @@ text_draw(struct app *a, struct ui_pane *p, int h, int w)
 	struct textv *d = p->data;
 	char *t;
 
-	d->rows = h - 2;
+	d->rows = h - 3;
 	if (d->top > (int)d->n - d->rows)
 		d->top = (int)d->n - d->rows;
 	if (d->top < 0)
 		d->top = 0;
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s %s", ui_glyph(a, GL_VBAR), d->title);
-	ui_put(a, 0, 0, w - 16, t, UC_TITLE);
-	free(t);
-	t = xasprintf("%d-%d of %zu ", d->n ? d->top + 1 : 0,
+	t = xasprintf("lines %d-%d of %zu", d->n ? d->top + 1 : 0,
 	    d->top + d->rows < (int)d->n ? d->top + d->rows : (int)d->n, d->n);
-	ui_put_right(a, 0, w - 16, 16, t, ui_attr(a, UC_TITLE));
+	ui_frame(a, d->title, t, h, w);
 	free(t);
 	for (int r = 0; r < d->rows && d->top + r < (int)d->n; r++) {
 		size_t i = (size_t)(d->top + r);
@@ -620,7 +641,7 @@ text_draw(struct app *a, struct ui_pane *p, int h, int w)
 			c = UC_CAUTION;
 		else if (line[0] != ' ' && line[0] != '\0' && line[strlen(line) - 1] == ':')
 			c = UC_HEADER;
-		ui_put(a, 1 + r, 0, w, vis, c);
+		ui_put(a, 2 + r, 0, w, vis, c);
 		free(line);
 	}
 	ui_key_line(a, p->ops->keys, h - 1, w);
@@ -701,20 +722,20 @@ text_right(struct app *a, struct ui_pane *p)
 }
 
 const struct ui_key ui_text_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "scroll", 1, "scroll a line (also k, j)", text_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, text_down, 0 },
-	{ { UI_FKEY(KEY_PPAGE), 'b' }, "PgUp", NULL, 0, "scroll up a page (also b)", text_pgup, 0 },
-	{ { UI_FKEY(KEY_NPAGE), ' ' }, "PgDn", "page", 2, "scroll down a page (also Space)", text_pgdn, 0 },
-	{ { UI_FKEY(KEY_HOME), 'g' }, "Home", NULL, 0, "go to the top (also g)", text_home, 0 },
-	{ { UI_FKEY(KEY_END), 'G' }, "End", NULL, 0, "go to the end (also G)", text_end, 0 },
-	{ { UI_FKEY(KEY_LEFT) }, "\u2190\u2192", "sideways", 3, "scroll sideways (long lines)", text_left, 0 },
-	{ { UI_FKEY(KEY_RIGHT) }, "\u2192", NULL, 0, NULL, text_right, 0 },
-	{ { UI_ESC, 'q', UI_FKEY(KEY_BACKSPACE), 127 }, "Esc", "back", 0, "back (also q)", prompt_cancel, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "scroll", 1, "scroll a line", text_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, text_down, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "up a page", text_pgup, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_NPAGE), ' ' }, "PgDn", "page", 2, "down a page (also Space)", text_pgdn, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_HOME) }, "Home", "top", 3, "the top", text_home, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_END) }, "End", "end", 3, "the end", text_end, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_LEFT) }, "\u2190\u2192", "sideways", 4, "sideways (long lines)", text_left, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_RIGHT) }, "\u2192", NULL, 0, NULL, text_right, 0, UG_MOVE },
+	{ { UI_ESC, 'q', UI_FKEY(KEY_BACKSPACE), 127 }, "Esc", "back", 0, "back (also q)", prompt_cancel, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_pane_ops ui_text_ops = {
-	"text screens (help, diff)", 0, ui_text_keys, text_draw, NULL, NULL, NULL, NULL,
+	"text screens (help, compare)", 0, ui_text_keys, text_draw, NULL, NULL, NULL, NULL,
 	text_release,
 };
 

@@ -1,6 +1,6 @@
 /* ui-list.c - the first screen: every bench in the database with its
- * latest revision, whether the draft has changed, and its worst element;
- * open, create, clone, delete, or load the demo bench.  On an empty
+ * latest setup, whether the draft has changed, and its worst element;
+ * open, create, copy, delete, or load the demo bench.  On an empty
  * database it offers the demo at once.  Owned by the workbench. */
 #include <config.h>
 
@@ -67,7 +67,7 @@ list_load(struct app *a, struct list *d)
 			d->worst[i] = xasprintf("%s %s %s", layout_status_word(d->status[i]),
 			    t->rows[t->worst].el->id, pct);
 		} else {
-			d->worst[i] = xstrdup("unrated (no ratings)");
+			d->worst[i] = xstrdup("nothing rated");
 		}
 		trace_free(t);
 		model_bench_free(b);
@@ -91,7 +91,7 @@ list_release(struct ui_pane *p)
 }
 
 static const struct layout_col list_cols[] = {
-	{ "bench", 12, 28, 0 }, { "latest", 6, 7, 0 }, { "draft", 9, 9, 0 },
+	{ "bench", 12, 28, 0 }, { "setup", 6, 7, 0 }, { "draft", 9, 9, 0 },
 	{ "worst element", 18, 26, 0 }, { "updated (UTC)", 19, -1, 1 },
 };
 #define NLIST_COLS (sizeof list_cols / sizeof *list_cols)
@@ -103,12 +103,10 @@ list_draw(struct app *a, struct ui_pane *p, int h, int w)
 	int cw[NLIST_COLS], x, y;
 	char *t;
 
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s benches in %s", ui_glyph(a, GL_VBAR), store_path(a->store));
-	ui_put(a, 0, 0, w - 24, t, UC_TITLE);
+	t = xasprintf("%zu bench%s%s", d->n, d->n == 1 ? "" : "es",
+	    a->readonly ? " (VIEW ONLY: read-only)" : "");
+	ui_frame(a, t, store_path(a->store), h, w);
 	free(t);
-	ui_put_right(a, 0, w - 24, 23, a->readonly ? "VIEW ONLY (read-only)" : "",
-	    ui_attr(a, UC_TITLE));
 	layout_fit_columns(list_cols, NLIST_COLS, w - 2, 2, cw);
 	x = 1;
 	for (size_t c = 0; c < NLIST_COLS; c++)
@@ -121,8 +119,8 @@ list_draw(struct app *a, struct ui_pane *p, int h, int w)
 	if (d->n == 0) {
 		ui_put(a, 4, 2, w - 4, "No benches in this database yet.", UC_NORMAL);
 		ui_put(a, 5, 2, w - 4, a->readonly ? "It is read-only: nothing can be added." :
-		    "Press d to load the demo bench (an invented ablation line), or n to start "
-		    "a new bench.", UC_NORMAL);
+		    "d loads the demo bench (an invented ablation line), n starts a new bench.",
+		    UC_NORMAL);
 	}
 	for (int r = 0; r < d->visible && d->top + r < (int)d->n; r++) {
 		int i = d->top + r;
@@ -132,11 +130,14 @@ list_draw(struct app *a, struct ui_pane *p, int h, int w)
 
 		y = 3 + r;
 		ui_fill(a, y, 0, w, sel);
-		snprintf(rev, sizeof rev, br->latest_rev > 0 ? "r%d" : "-", br->latest_rev);
+		if (br->latest_rev > 0)
+			app_setup_name(br->latest_rev, rev, sizeof rev);
+		else
+			snprintf(rev, sizeof rev, "-");
 		x = 1;
 		for (size_t c = 0; c < NLIST_COLS; c++) {
 			const char *s = c == 0 ? br->name : c == 1 ? rev :
-			    c == 2 ? (br->draft_changed ? "changed" : "as latest") :
+			    c == 2 ? (br->draft_changed ? "changed" : "= setup") :
 			    c == 3 ? d->worst[i] : br->updated;
 			attr_t at = sel;
 
@@ -207,7 +208,9 @@ create_and_open(struct app *a, struct bench *b, const char *note, char **cause)
 		return -1;
 	if (app_open_bench(a, b->name, cause) != 0)
 		return -1;
-	app_msg(a, 0, "bench '%s' created as r1; every change is saved to its draft", b->name);
+	if (a->demo_name == NULL || strcmp(b->name, a->demo_name) != 0)
+		app_msg(a, 0, "bench '%s' created, recorded #1; every change is saved to its draft",
+		    b->name);
 	ui_bench_push(a);
 	return 0;
 }
@@ -273,8 +276,8 @@ new_bench(struct app *a, void *arg, const char *text, char **cause)
 	rc = create_and_open(a, b, "new bench: the source alone, no elements yet", cause);
 	model_bench_free(b);
 	if (rc == 0)
-		app_msg(a, 0, "new bench '%s': s sets the source (it starts at 1064 nm, CW 1 W), "
-		    "a adds elements", text);
+		app_msg(a, 0, "new bench '%s': b sets the beam (it starts at 1064 nm, CW 1 W), "
+		    "p places elements", text);
 	return rc;
 }
 
@@ -288,7 +291,7 @@ list_new(struct app *a, struct ui_pane *p)
 }
 
 static int
-clone_bench(struct app *a, void *arg, const char *text, char **cause)
+copy_bench(struct app *a, void *arg, const char *text, char **cause)
 {
 	const char *from = arg;
 
@@ -296,14 +299,14 @@ clone_bench(struct app *a, void *arg, const char *text, char **cause)
 		return fail_with(cause, "the copy needs a name");
 	if (store_clone(a->store, from, "draft", text, a->author, cause) != 0)
 		return -1;
-	app_msg(a, 0, "'%s' cloned from the draft of '%s'", text, from);
+	app_msg(a, 0, "'%s' copied from the draft of '%s'", text, from);
 	if (a->top != NULL && a->top->below != NULL && a->top->below->ops == &ui_list_ops)
 		list_load(a, a->top->below->data);
 	return 0;
 }
 
 static enum ui_reaction
-list_clone(struct app *a, struct ui_pane *p)
+list_copy(struct app *a, struct ui_pane *p)
 {
 	struct list *d = p->data;
 	char *init;
@@ -311,8 +314,8 @@ list_clone(struct app *a, struct ui_pane *p)
 	if (d->n == 0)
 		return UI_NONE;
 	init = xasprintf("%s-copy", d->rows[d->sel].name);
-	ui_prompt(a, "clone bench", "Name of the new bench, a copy of this bench's draft:",
-	    init, clone_bench, xstrdup(d->rows[d->sel].name), free);
+	ui_prompt(a, "copy bench", "Name of the new bench, a copy of this bench's draft:",
+	    init, copy_bench, xstrdup(d->rows[d->sel].name), free);
 	free(init);
 	return UI_REDRAW;
 }
@@ -341,8 +344,9 @@ list_delete(struct app *a, struct ui_pane *p)
 
 	if (d->n == 0)
 		return UI_NONE;
-	q = xasprintf("Delete bench '%s' with its draft and all %d revisions? This cannot be "
-	    "undone.", d->rows[d->sel].name, d->rows[d->sel].latest_rev);
+	q = xasprintf("Delete bench '%s' with its draft and all %d recorded setup%s? This cannot "
+	    "be taken back.", d->rows[d->sel].name, d->rows[d->sel].latest_rev,
+	    d->rows[d->sel].latest_rev == 1 ? "" : "s");
 	ui_confirm(a, q, delete_answer, xstrdup(d->rows[d->sel].name));
 	free(q);
 	return UI_REDRAW;
@@ -375,16 +379,48 @@ list_enter(struct app *a, struct ui_pane *p)
 	list_load(a, p->data);
 }
 
+static enum ui_reaction
+list_home(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	return list_move(p, -(int)((struct list *)p->data)->n);
+}
+
+static enum ui_reaction
+list_end(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	return list_move(p, (int)((struct list *)p->data)->n);
+}
+
+static enum ui_reaction
+list_pgup(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	return list_move(p, -(((struct list *)p->data)->visible - 1));
+}
+
+static enum ui_reaction
+list_pgdn(struct app *a, struct ui_pane *p)
+{
+	(void)a;
+	return list_move(p, ((struct list *)p->data)->visible - 1);
+}
+
 static const struct ui_key list_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 2, "choose a bench (also k, j; the mouse)", list_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, list_down, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER), 'o' }, "Enter", "open", 0, "open the bench on the workbench (also o)", list_open, 0 },
-	{ { 'n' }, "n", "new", 1, "a new bench (name it; it starts with a 1 W CW source)", list_new, UI_K_EDITS },
-	{ { 'd' }, "d", "demo", 1, "load the demo bench (invented ablation line)", list_demo, UI_K_EDITS },
-	{ { 'C' }, "C", "clone", 3, "copy the bench's draft to a new bench", list_clone, UI_K_EDITS },
-	{ { 'D' }, "D", "delete", 4, "delete the bench and all its revisions (asks first)", list_delete, UI_K_EDITS },
-	{ { 'q', UI_ESC }, "q", "quit", 0, "quit (everything is already saved)", list_quit, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "choose", 2, "choose a bench (the mouse too)", list_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, list_down, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_PPAGE) }, "PgUp", NULL, 0, "a page up", list_pgup, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_NPAGE) }, "PgDn", NULL, 0, "a page down", list_pgdn, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_HOME) }, "Home", NULL, 0, "the first bench", list_home, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_END) }, "End", NULL, 0, "the last bench", list_end, 0, UG_MOVE },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "open", 0, "open the bench on the workbench", list_open, 0, UG_BENCHES },
+	{ { 'n', UI_FKEY(KEY_IC) }, "n", "new", 1, "a new bench (name it; it starts with a 1 W CW source; also Insert)", list_new, UI_K_EDITS, UG_BENCHES },
+	{ { 'd' }, "d", "demo", 1, "load the demo bench (invented data: an ablation line)", list_demo, UI_K_EDITS, UG_BENCHES },
+	{ { 'c' }, "c", "copy", 3, "copy the bench's draft to a new bench", list_copy, UI_K_EDITS, UG_BENCHES },
+	{ { UI_FKEY(KEY_DC), 'D' }, "Del", "delete", 4, "delete the bench and all its setups (asks first; also D)", list_delete, UI_K_EDITS, UG_BENCHES },
+	{ { 'q', UI_ESC }, "q", "quit", 0, "quit (everything is already saved)", list_quit, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 const struct ui_pane_ops ui_list_ops = {

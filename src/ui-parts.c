@@ -75,22 +75,26 @@ static void
 shelf_draw(struct app *a, struct ui_pane *p, int h, int w)
 {
 	struct shelf *d = p->data;
-	int lw = w / 3, rows = h - 5;
+	int lw = w / 3, rows = h - 6;
 	char *t;
 	const struct layout_row *sel = app_sel_row(a);
 
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s parts shelf %s %zu part(s)%s%s", ui_glyph(a, GL_VBAR),
-	    ui_glyph(a, GL_VBAR), d->n, sel != NULL ? "; places after " : "",
+	t = xasprintf("parts shelf %s %zu part%s%s%s", ui_glyph(a, GL_DOT), d->n,
+	    d->n == 1 ? "" : "s", sel != NULL ? ", placed after " : "",
 	    sel != NULL ? sel->el->id : "");
-	ui_put(a, 0, 0, w, t, UC_TITLE);
+	ui_frame(a, t, NULL, h, w);
 	free(t);
 	ui_put(a, 2, 1, lw - 2, "part", UC_HEADER);
 	ui_put(a, 2, lw + 1, w - lw - 2, d->have_part ? "values (Tab: edit them)" : "values",
 	    UC_HEADER);
-	if (d->n == 0)
-		ui_put(a, 3, 1, w - 2, "The shelf is empty. On the workbench select an element and "
-		    "come here: s keeps it as a part.", UC_NORMAL);
+	if (d->n == 0) {
+		/* drawn across the whole width, with no divider through it */
+		ui_put(a, 3, 1, w - 2, "The shelf is empty.", UC_NORMAL);
+		ui_put(a, 4, 1, w - 2, "Select an element on the workbench and come here: s keeps "
+		    "it as a part.", UC_NORMAL);
+		ui_footer(a, p->ops->keys, h, w);
+		return;
+	}
 	d->top = layout_scroll(d->sel, d->top, rows, (int)d->n);
 	for (int r = 0; r < rows && d->top + r < (int)d->n; r++) {
 		int i = d->top + r;
@@ -317,7 +321,14 @@ s_edit(struct app *a, struct ui_pane *p)
 	pe->key = xstrdup(f[d->field].name);
 	v = f[d->field].given ? layout_field_value(&d->part, &f[d->field]) : xstrdup("");
 	title = xasprintf("part %s: %s", d->names[d->sel], f[d->field].name);
-	ui_prompt(a, title, f[d->field].help, v, part_set, pe, part_edit_free);
+	{
+		char *hint = f[d->field].kind == LF_KEY ? layout_key_hint(f[d->field].key) : xstrdup("");
+		char *help = xasprintf("%s%s%s", f[d->field].help, hint[0] ? "; " : "", hint);
+
+		ui_prompt(a, title, help, v, part_set, pe, part_edit_free);
+		free(help);
+		free(hint);
+	}
 	free(title);
 	free(v);
 	return UI_REDRAW;
@@ -359,14 +370,14 @@ s_back(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key shelf_keys[] = {
-	{ { UI_FKEY(KEY_UP), 'k' }, "\u2191\u2193", "choose", 3, "choose a part, or a value (also k, j)", s_up, 0 },
-	{ { UI_FKEY(KEY_DOWN), 'j' }, "\u2193", NULL, 0, NULL, s_down, 0 },
-	{ { '\r', '\n', UI_FKEY(KEY_ENTER) }, "Enter", "place", 0,
-	    "place the part after the workbench's selection (on the values: edit one)", s_enter, UI_K_EDITS },
-	{ { 's' }, "s", "keep selected as part", 1, "keep the workbench's selected element on the shelf", s_keep, UI_K_EDITS },
-	{ { '\t', 'e' }, "Tab", "edit values", 1, "move to the part's values to edit them (also e)", s_tab, 0 },
-	{ { UI_ESC, 'q', 'P' }, "Esc", "back", 0, "back (also q)", s_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_UP) }, "\u2191\u2193", "choose", 3, "choose a part, or a value", s_up, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_DOWN) }, "\u2193", NULL, 0, NULL, s_down, 0, UG_MOVE },
+	{ { '\r', '\n', UI_FKEY(KEY_ENTER), UI_FKEY(KEY_IC) }, "Enter", "place", 0,
+	    "place the part after the workbench's selection (on the values: edit one; also Insert)", s_enter, UI_K_EDITS, UG_LAYOUT },
+	{ { 's' }, "s", "keep selected as part", 1, "keep the workbench's selected element on the shelf", s_keep, UI_K_EDITS, UG_LAYOUT },
+	{ { '\t' }, "Tab", "edit values", 1, "move to the part's values to edit them", s_tab, 0, UG_VALUES },
+	{ { UI_ESC, 'q', 'S' }, "Esc", "back", 0, "back (also q)", s_back, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
 static void

@@ -44,39 +44,49 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 {
 	size_t sel = sel_trace_row(a), *path, np;
 	const struct trace_row *sr = &a->trace->rows[sel];
-	int hp = (h - 8) / 4, hr = h - 8 - hp, pw = w - LABEL_W - 1, y0 = 2;
+	int hp = (h - 9) / 4, hr = h - 9 - hp, pw = w - LABEL_W - 1, y0 = 3;
 	struct layout_plot pl;
 	char t1[64], t2[64], t3[64], pct[32], br[160], *t;
 	double ticks[32];
 	size_t nt;
+	int curves = *(const int *)p->data;
 
-	(void)p;
 	np = layout_profile_path(a->trace, sel, &path);
 	branch_of(a, sel, br, sizeof br);
-	ui_fill(a, 0, 0, w, ui_attr(a, UC_TITLE));
-	t = xasprintf(" beamledger %s %s %s beam profile to the end of branch %s", ui_glyph(a, GL_VBAR),
-	    a->name, ui_glyph(a, GL_VBAR), br);
-	ui_put(a, 0, 0, w, t, UC_TITLE);
+	t = xasprintf("profile along %s", br);
+	ui_frame(a, t, NULL, h, w);
 	free(t);
 	layout_radius_text(t1, sizeof t1, sr->wx, sr->wy, a->ascii);
 	units_format(t2, sizeof t2, sr->power_in, DIM_POWER, 3, a->ascii);
 	units_format(t3, sizeof t3, sr->z, DIM_LENGTH, 3, a->ascii);
 	layout_percent(pct, sizeof pct, sr->ratio);
 	t = xasprintf("%s %s at z = %s: radius %s, power %s, %s %s", model_type_name(sr->el->type),
-	    sr->el->id, t3, t1, t2, pct, layout_status_word(sr->status));
-	ui_put_attr(a, 1, 1, w - 2, t, ui_status_attr(a, sr->status) | A_BOLD);
+	    sr->el->id, t3, t1, t2, pct, layout_row_status_word(sr));
+	ui_put_attr(a, 2, 1, w - 2, t, ui_status_attr(a, sr->status) | A_BOLD);
 	free(t);
-	if (layout_profile(a->trace, path, np, sel, pw, hr, hp, &pl) != 0) {
+	if ((curves ? layout_profile : layout_profile_band)(a->trace, path, np, sel, pw, hr, hp,
+	    &pl) != 0) {
 		ui_put(a, 3, 1, w - 2, "nothing to plot", UC_DIM);
 		free(path);
 		return;
 	}
 	/* y labels: radius top and zero; power top and zero */
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
-	ui_put_right(a, y0, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
-	units_format(t1, sizeof t1, pl.rmax / 2, DIM_LENGTH, 3, a->ascii);
-	ui_put_right(a, y0 + (hr - 1) / 2, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
-	ui_put_right(a, y0 + hr - 1, 0, LABEL_W - 1, "0", ui_attr(a, UC_DIM));
+	if (curves) {
+		ui_put_right(a, y0, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+		units_format(t1, sizeof t1, pl.rmax / 2, DIM_LENGTH, 3, a->ascii);
+		ui_put_right(a, y0 + (hr - 1) / 2, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
+		ui_put_right(a, y0 + hr - 1, 0, LABEL_W - 1, "0", ui_attr(a, UC_DIM));
+	} else {
+		/* the band: distances from the axis, up and down */
+		char *u = xasprintf("+%s", t1), *v = xasprintf("-%s", t1);
+
+		ui_put_right(a, y0, 0, LABEL_W - 1, u, ui_attr(a, UC_DIM));
+		ui_put_right(a, y0 + (hr - 1) / 2, 0, LABEL_W - 1, "axis", ui_attr(a, UC_DIM));
+		ui_put_right(a, y0 + hr - 1, 0, LABEL_W - 1, v, ui_attr(a, UC_DIM));
+		free(u);
+		free(v);
+	}
 	units_format(t1, sizeof t1, pl.pmax, DIM_POWER, 3, a->ascii);
 	ui_put_right(a, y0 + hr + 4, 0, LABEL_W - 1, t1, ui_attr(a, UC_DIM));
 	ui_put_right(a, y0 + hr + 4 + hp - 1, 0, LABEL_W - 1, "0 W", ui_attr(a, UC_DIM));
@@ -100,7 +110,8 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 
 				if (g == LG_EMPTY)
 					continue;
-				ui_put(a, sy + r, LABEL_W + 1 + c, 1, ui_glyph(a, map[g].gl), map[g].co);
+				ui_put(a, sy + r, LABEL_W + 1 + c, 1, ui_glyph(a, !curves && band == 0 &&
+				    g == LG_WX ? GL_BAND : map[g].gl), map[g].co);
 			}
 	}
 	/* the axis: element marks, foci, z ticks, ids */
@@ -173,10 +184,15 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 		}
 	}
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
-	t = xasprintf("%s radius x  %s radius y  %s both  %s focus  %s power  %s selected "
-	    "(1/e%s radii, scale 0..%s)", ui_glyph(a, GL_WX), ui_glyph(a, GL_WY),
-	    ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
-	    ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
+	if (curves)
+		t = xasprintf("%s=x %s=y radius  %s=both  %s=focus  %s=power  %s=selected  (1/e%s, top %s)",
+		    ui_glyph(a, GL_WX), ui_glyph(a, GL_WY), ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS),
+		    ui_glyph(a, GL_POWER), ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
+	else
+		t = xasprintf("%s=beam %sx radius  %s=%sy radius  %s=focus  %s=power  (1/e%s; v: curves)",
+		    ui_glyph(a, GL_BAND), a->ascii ? "+/-" : "\u00b1", ui_glyph(a, GL_WY),
+		    a->ascii ? "+/-" : "\u00b1", ui_glyph(a, GL_FOCUS), ui_glyph(a, GL_POWER),
+		    a->ascii ? "^2" : "\u00b2");
 	ui_put(a, h - 2, 1, w - 2, t, UC_DIM);
 	free(t);
 	ui_key_line(a, ui_profile_ops.keys, h - 1, w);
@@ -218,6 +234,17 @@ p_next(struct app *a, struct ui_pane *p)
 	return step(a, 1);
 }
 
+/* The band as on the table, or both radii as curves from zero. */
+static enum ui_reaction
+p_view(struct app *a, struct ui_pane *p)
+{
+	int *curves = p->data;
+
+	(void)a;
+	*curves = !*curves;
+	return UI_REDRAW;
+}
+
 static enum ui_reaction
 p_back(struct app *a, struct ui_pane *p)
 {
@@ -227,21 +254,29 @@ p_back(struct app *a, struct ui_pane *p)
 }
 
 static const struct ui_key profile_keys[] = {
-	{ { UI_FKEY(KEY_LEFT), 'h', UI_FKEY(KEY_UP), 'k' }, "\u2190\u2192", "element", 0,
-	    "previous or next element along the path (also h, l)", p_prev, 0 },
-	{ { UI_FKEY(KEY_RIGHT), 'l', UI_FKEY(KEY_DOWN), 'j' }, "\u2192", NULL, 0,
-	    NULL, p_next, 0 },
-	{ { UI_ESC, 'q', 'p', '\r' }, "Esc", "back to the chain", 0,
-	    "back to the workbench, the element you reached selected (also q, p, Enter)", p_back, 0 },
-	{ { 0 }, NULL, NULL, 0, NULL, NULL, 0 },
+	{ { UI_FKEY(KEY_LEFT), UI_FKEY(KEY_UP) }, "\u2190\u2192", "element", 0,
+	    "previous or next element along the path (also the up and down arrows)", p_prev, 0, UG_MOVE },
+	{ { UI_FKEY(KEY_RIGHT), UI_FKEY(KEY_DOWN) }, "\u2192", NULL, 0,
+	    NULL, p_next, 0, UG_MOVE },
+	{ { 'v' }, "v", "view", 1, "the beam as a band about the axis, or both radii as curves",
+	    p_view, 0, UG_LOOK },
+	{ { UI_ESC, 'q', 'z', '\r' }, "Esc", "back to the chain", 0,
+	    "back to the workbench, the element you reached selected (also q, z, Enter)", p_back, 0, UG_LEAVE },
+	UI_KEYS_END,
 };
 
+static void
+p_release(struct ui_pane *p)
+{
+	free(p->data);
+}
+
 const struct ui_pane_ops ui_profile_ops = {
-	"beam profile", 0, profile_keys, profile_draw, NULL, NULL, NULL, NULL, NULL,
+	"beam profile", 0, profile_keys, profile_draw, NULL, NULL, NULL, NULL, p_release,
 };
 
 void
 ui_profile_push(struct app *a)
 {
-	app_push(a, &ui_profile_ops, NULL);
+	app_push(a, &ui_profile_ops, xcalloc(1, sizeof(int)));  /* 0: the band */
 }

@@ -14,6 +14,7 @@
 #include "core-edit.h"
 #include "core-layout.h"
 #include "core-trace.h"
+#include "report.h"
 
 #include "check-util.h"
 
@@ -196,30 +197,34 @@ END_TEST
 
 /* ---- hints ---- */
 
+/* Key, key sign, word; two blanks inside a task, " ┆ " between tasks. */
 static const struct layout_hint hints[] = {
-	{ "a", "add", 1 }, { "x", "delete", 2 }, { "Enter", "edit", 0 },
-	{ "p", "profile", 3 }, { "?", "help", 0 },
+	{ "p", "place", 1, 1 }, { "l", "lift", 2, 1 }, { "Enter", "edit", 0, 2 },
+	{ "z", "profile", 3, 3 }, { "?", "help", 0, 4 },
 };
 
+/* Widths by hand: p›place 7, l›lift 6, Enter›edit 10, z›profile 9,
+ * ?›help 6; 2 inside a group, 3 across. */
 static const struct { int width; const char *want; } hint_cases[] = {
-	{ 80, "a add  x delete  Enter edit  p profile  ? help" },
-	{ 40, "a add  x delete  Enter edit  ? help" },
-	{ 30, "a add  Enter edit  ? help" },
-	{ 18, "Enter edit  ? help" },
-	{ 12, "Enter edit" },       /* not even prio 0 fits: from the left */
-	{ 38, "a add  x delete  Enter edit  ? help" },
+	{ 80, "p\u203aplace  l\u203alift \u2506 Enter\u203aedit \u2506 z\u203aprofile \u2506 ?\u203ahelp" },
+	{ 40, "p\u203aplace  l\u203alift \u2506 Enter\u203aedit \u2506 ?\u203ahelp" },   /* 37 */
+	{ 36, "p\u203aplace \u2506 Enter\u203aedit \u2506 ?\u203ahelp" },               /* 29 */
+	{ 30, "p\u203aplace \u2506 Enter\u203aedit \u2506 ?\u203ahelp" },
+	{ 20, "Enter\u203aedit \u2506 ?\u203ahelp" },                                     /* 19 */
+	{ 12, "Enter\u203aedit" },       /* not even prio 0 fits: from the right */
 };
 
 /* Of equal priority the rightmost goes first, one at a time. */
 static const struct layout_hint tie_hints[] = {
-	{ "a", "add", 1 }, { "u", "undo", 1 }, { "c", "commit", 1 }, { "?", "help", 0 },
+	{ "p", "place", 1, 0 }, { "-", "undo", 1, 0 }, { "r", "record", 1, 1 },
+	{ "?", "help", 0, 2 },
 };
 
 START_TEST(test_hints_ties)
 {
-	char *s = layout_hints_text(tie_hints, 4, 21);
+	char *s = layout_hints_text(tie_hints, 4, 24);
 
-	ck_assert_str_eq(s, "a add  u undo  ? help");
+	ck_assert_str_eq(s, "p\u203aplace  -\u203aundo \u2506 ?\u203ahelp");
 	free(s);
 }
 END_TEST
@@ -229,7 +234,7 @@ START_TEST(test_hints)
 	char *s = layout_hints_text(hints, sizeof hints / sizeof *hints, hint_cases[_i].width);
 
 	ck_assert_str_eq(s, hint_cases[_i].want);
-	ck_assert_int_le((int)strlen(s), hint_cases[_i].width);
+	ck_assert_int_le((int)utf8_cols(s), hint_cases[_i].width);
 	free(s);
 }
 END_TEST
@@ -503,63 +508,425 @@ START_TEST(test_fields)
 }
 END_TEST
 
-/* ---- status line ---- */
+/* ---- hazards and the margin line ---- */
 
-START_TEST(test_status_line)
+/* The demo's hazards, read off bench-demo.c by hand: W1 over its rating;
+ * ND1 and PD1 at caution; the beam out of POL1's rejected port after S4r
+ * unterminated; the focus in S9 sparks; POL1, IR1, BS1, CL1 and T1 have
+ * no rating and take power.  (Self-focusing in L1 and W1 is the trace's
+ * own warning, counted whatever its number.) */
+START_TEST(test_hazards_demo)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	struct layout_hazard *h;
+	size_t n = layout_hazards(t, &h), over = 0, caution = 0, unrated = 0, warn = 0;
+	static const char *const unrated_ids[] = { "POL1", "IR1", "BS1", "CL1", "T1", "ISO1" };
+
+	for (size_t i = 0; i < n; i++) {
+		ck_assert_ptr_nonnull(h[i].el);
+		if (h[i].kind == LH_OVER) {
+			over++;
+			ck_assert_str_eq(h[i].el->id, "W1");
+		} else if (h[i].kind == LH_CAUTION) {
+			caution++;
+			ck_assert_msg(strcmp(h[i].el->id, "ND1") == 0 || strcmp(h[i].el->id, "PD1") == 0,
+			    "caution %s", h[i].el->id);
+		} else if (h[i].kind == LH_UNRATED) {
+			int known = 0;
+
+			unrated++;
+			for (size_t k = 0; k < 6; k++)
+				known |= strcmp(h[i].el->id, unrated_ids[k]) == 0;
+			ck_assert_msg(known, "unrated %s", h[i].el->id);
+			ck_assert_int_ne(h[i].el->type, EL_SPACE);
+		} else {
+			warn++;
+			ck_assert_int_ge(h[i].row, 0);
+			ck_assert_ptr_eq(t->rows[h[i].row].el, h[i].el);
+		}
+	}
+	ck_assert_uint_eq(over, 1);
+	ck_assert_uint_eq(caution, 2);
+	/* T1 takes 693 mW unrated: the trace warns (unrated_absorber, over its
+	 * 0.5 W level), so it is listed once, as that warning, not again here */
+	ck_assert_uint_eq(unrated, 5);     /* ISO1, the demo's isolator, too */
+	{
+		int t1 = 0;
+
+		for (size_t i = 0; i < n; i++)
+			t1 |= h[i].kind == LH_WARNING && strcmp(h[i].el->id, "T1") == 0 &&
+			    strcmp(trace_warn_name(h[i].warn->kind), "unrated_absorber") == 0;
+		ck_assert_msg(t1, "T1's unrated_absorber warning is listed");
+	}
+	/* every warning of the trace is there, once, whatever its kind */
+	ck_assert_uint_eq(warn, t->nwarn);
+	for (size_t k = 0; k < t->nwarn; k++) {
+		size_t seen = 0;
+
+		for (size_t i = 0; i < n; i++)
+			seen += h[i].warn == &t->warn[k];
+		ck_assert_uint_eq(seen, 1);
+	}
+	free(h);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+static const struct { double r; const char *want; } headroom_cases[] = {
+	{ 0.5, "\u00d72" }, { 0.8, "\u00d71.25" }, { 1.25, "\u00d70.8" },
+	{ 0.001, "\u00d71000" }, { 0, "\u00d7\u221e" }, { NAN, "-" },
+};
+
+START_TEST(test_headroom)
+{
+	char buf[32];
+
+	/* headroom = 1 / ratio: the factor the power may still grow by */
+	layout_headroom(buf, sizeof buf, headroom_cases[_i].r, 0);
+	ck_assert_str_eq(buf, headroom_cases[_i].want);
+}
+END_TEST
+
+START_TEST(test_margin_line)
 {
 	struct bench *b = demo();
 	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
-	char *s = layout_status_line(t, 0, 200), *a = layout_status_line(t, 1, 200);
-	char *n80 = layout_status_line(t, 0, 79), *tiny = layout_status_line(t, 1, 10);
+	char *s = layout_margin_line(t, 0, 400, "saved 12:00");
+	char *a = layout_margin_line(t, 1, 400, NULL);
+	char *n80 = layout_margin_line(t, 0, 80, "saved 12:00");
 	char *cause = NULL;
 
-	ck_assert_ptr_nonnull(strstr(s, "worst: W1 109 % OVER"));
+	ck_assert_ptr_nonnull(strstr(s, "worst: W1 109 % OVER, headroom \u00d70.9"));
 	ck_assert_ptr_nonnull(strstr(s, "safe source power 914 mW"));
-	ck_assert_ptr_nonnull(strstr(s, "unterminated: 728 \u00b5W after S4r (POL1.rejected)"));
-	ck_assert_ptr_nonnull(strstr(a, "728 uW after S4r"));
+	ck_assert_ptr_nonnull(strstr(s, " hazards: 1 over,"));
+	ck_assert_ptr_nonnull(strstr(s, "1 unterminated"));
+	ck_assert_ptr_nonnull(strstr(s, "1 spark"));
+	ck_assert_ptr_nonnull(strstr(s, "2 caution"));
+	ck_assert_ptr_nonnull(strstr(s, "6 unrated"));
+	ck_assert_ptr_nonnull(strstr(s, "saved 12:00"));
 	for (const char *p = a; *p; p++)
 		ck_assert_int_lt((unsigned char)*p, 128);
-	/* at 80 columns all three parts still fit, shorter */
-	ck_assert_int_le((int)utf8_cols(n80), 79);
-	ck_assert_ptr_nonnull(strstr(n80, "worst: W1 109 % OVER"));
-	ck_assert_ptr_nonnull(strstr(n80, "914 mW"));
-	ck_assert_ptr_nonnull(strstr(n80, "unterminated: 728 \u00b5W after S4r"));
-	/* the shortest form comes back even when it is too wide */
-	ck_assert_str_eq(tiny, "worst: W1 109 % OVER | safe power 914 mW | unterminated: 728 uW after S4r");
+	/* at 80 columns: worst, headroom, safe source power, the count, the time */
+	ck_assert_int_le((int)utf8_cols(n80), 80);
+	ck_assert_ptr_nonnull(strstr(n80, "W1 109 % OVER \u00d70.9"));
+	ck_assert_ptr_nonnull(strstr(n80, "safe source power 914 mW"));
+	ck_assert_ptr_nonnull(strstr(n80, "hazards"));
+	ck_assert_ptr_nonnull(strstr(n80, "saved 12:00"));
 	free(s);
 	free(a);
 	free(n80);
-	free(tiny);
 	trace_free(t);
-	/* terminate the rejected beam: the line says so */
+	/* terminate the rejected beam: it is no longer a hazard */
 	{
 		struct element el;
 		struct edit_place pl = { NULL, NULL, "POL1.rejected", 0 };
 
 		ck_assert_int_eq(edit_element_new(&el, "dump", "BD9", NULL, 0, &cause), 0);
+		ck_assert_int_eq(model_set_text(&el, K_MAX_POWER, "1 W", &cause), 0);
 		ck_assert_int_eq(edit_add(b, &el, &pl, &cause), 0);
 	}
 	t = trace_run(b);
-	s = layout_status_line(t, 0, 200);
-	ck_assert_ptr_nonnull(strstr(s, "all beams terminated"));
+	s = layout_margin_line(t, 0, 400, NULL);
+	ck_assert_ptr_null(strstr(s, "unterminated"));
 	free(s);
 	trace_free(t);
 	model_bench_free(b);
 }
 END_TEST
 
-START_TEST(test_status_unrated)
+START_TEST(test_margin_unrated)
 {
 	struct bench *b = bare();
 	struct trace *t = trace_run(b);
-	char *s = layout_status_line(t, 1, 200);
+	char *s = layout_margin_line(t, 1, 400, NULL);
 
 	ck_assert_ptr_nonnull(strstr(s, "worst: nothing rated"));
 	ck_assert_ptr_nonnull(strstr(s, "safe source power: no ratings"));
-	ck_assert_ptr_nonnull(strstr(s, "unterminated: 1.00 W after the source (main)"));
+	ck_assert_ptr_nonnull(strstr(s, "1 hazard: 1 unterminated"));
 	free(s);
 	trace_free(t);
 	model_bench_free(b);
+}
+END_TEST
+
+/* Issue 9.2: a dump without max_power taking power is a hazard, and its
+ * hint names max_power, not the damage.* keys. */
+START_TEST(test_unrated_dump)
+{
+	struct bench *b = bare();
+	struct element el;
+	struct edit_place pl = { NULL, NULL, NULL, 0 };
+	char *cause = NULL, *s, *hint;
+	struct trace *t;
+	struct layout_hazard *h;
+	size_t n, unrated = 0;
+
+	ck_assert_int_eq(edit_element_new(&el, "space", "S1", NULL, 0, &cause), 0);
+	ck_assert_int_eq(model_set_text(&el, K_LENGTH, "100 mm", &cause), 0);
+	ck_assert_int_eq(edit_add(b, &el, &pl, &cause), 0);
+	ck_assert_int_eq(edit_element_new(&el, "dump", "BD1", NULL, 0, &cause), 0);
+	ck_assert_int_eq(edit_add(b, &el, &pl, &cause), 0);
+	t = trace_run(b);
+	n = layout_hazards(t, &h);
+	for (size_t i = 0; i < n; i++)
+		if (strcmp(layout_hazard_word(&h[i]), "unrated") == 0) {
+			unrated++;
+			ck_assert_str_eq(h[i].el->id, "BD1");
+		}
+	ck_assert_uint_eq(unrated, 1);      /* once, though the trace warns too */
+	s = layout_margin_line(t, 0, 400, NULL);
+	ck_assert_ptr_nonnull(strstr(s, "1 hazard: 1 unrated"));
+	ck_assert_ptr_null(strstr(s, "no hazards"));
+	hint = layout_rating_hint(EL_DUMP, 0);
+	ck_assert_ptr_nonnull(strstr(hint, "max_power"));
+	ck_assert_ptr_null(strstr(hint, "damage."));
+	ck_assert_int_eq(layout_row_hazard(t, 1), 1);
+	ck_assert_int_eq(layout_row_hazard(t, 0), 0);
+	ck_assert_str_eq(layout_row_status_word(&t->rows[0]), "n/a");
+	ck_assert_str_eq(layout_row_status_word(&t->rows[1]), "unrated");
+	free(hint);
+	free(s);
+	free(h);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Issue 9.4, the demo's W1: rated 1.2 J/cm² at 532 nm and 5 ns, run at
+ * 1064 nm and 8 ns.  By hand, with the scaling rules of DEVELOPERS.md
+ * (threshold × λ/λ_spec, fluence × √(τ/τ_spec); rules of thumb, common
+ * practice, no source): λ factor 1064/532 = 2, τ factor √(8/5) = 1.26491,
+ * limit 1.2 × 2 × 1.26491 = 3.03579 J/cm² = 30357.9 J/m², caution at
+ * half of it (safety factor 2). */
+START_TEST(test_derivation)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	struct layout_derivation d;
+	char *s;
+	const struct trace_row *w1 = NULL, *nd1 = NULL;
+
+	for (size_t i = 0; i < t->nrows; i++) {
+		if (strcmp(t->rows[i].el->id, "W1") == 0)
+			w1 = &t->rows[i];
+		if (strcmp(t->rows[i].el->id, "ND1") == 0)
+			nd1 = &t->rows[i];
+	}
+	ck_assert_int_eq(layout_derive(w1, b, &d), 0);
+	ck_assert_int_eq(d.metric, LD_FLUENCE);
+	ck_assert_int_eq(d.key, K_DMG_FLUENCE);
+	ck_assert_double_eq_tol(d.rating, 1.2e4, 1e-6);
+	ck_assert_double_eq_tol(d.lambda_factor, 2.0, 1e-12);
+	ck_assert_double_eq_tol(d.tau_factor, 1.2649111, 1e-6);
+	ck_assert_double_eq_tol(d.limit, 30357.9, 0.1);
+	ck_assert_double_eq_tol(d.caution_level, 15178.9, 0.1);
+	s = layout_derivation_text(w1, b, 0);
+	ck_assert_ptr_nonnull(strstr(s, "fluence 1.20 J/cm\u00b2 \u00d7 2 \u03bb \u00d7 1.26 \u03c4 = "
+	    "3.04 J/cm\u00b2 limit"));
+	ck_assert_ptr_nonnull(strstr(s, "\u00f7 2 = 1.52 J/cm\u00b2 caution"));
+	free(s);
+	/* ND1: max_absorbed 1 W, a power rating, never scaled */
+	ck_assert_int_eq(layout_derive(nd1, b, &d), 0);
+	ck_assert_int_eq(d.metric, LD_MAX_ABSORBED);
+	ck_assert_double_eq_tol(d.lambda_factor, 1, 1e-12);
+	ck_assert_double_eq_tol(d.limit, 1, 1e-12);
+	s = layout_derivation_text(nd1, b, 1);
+	ck_assert_ptr_null(strstr(s, "lambda"));
+	free(s);
+	/* a space: nothing to derive */
+	ck_assert_int_eq(layout_derive(&t->rows[0], b, &d), -1);
+	ck_assert_ptr_null(layout_derivation_text(&t->rows[0], b, 0));
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Issue 9.4 in the CLI's forms: the table writes the derivation under a
+ * row at caution or over, the JSON gives the factors (values by hand as
+ * in test_derivation: λ 1064/532 = 2, τ √(8/5) = 1.264911064). */
+START_TEST(test_derivation_reports)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	struct report_opts o = { 0, 0, NULL, 0 };
+	char *table = report_table(t, &o), *json = report_json(t);
+	const char *w1 = strstr(table, "\nW1 "), *why;
+
+	ck_assert_ptr_nonnull(w1);
+	why = strchr(w1 + 1, '\n');
+	ck_assert_ptr_nonnull(why);
+	ck_assert_msg(strncmp(why + 1, "  \u2514 why: fluence 1.20 J/cm\u00b2 \u00d7 2 \u03bb \u00d7 1.26 \u03c4 "
+	    "= 3.04 J/cm\u00b2 limit", 40) == 0, "under W1: %.80s", why + 1);
+	/* a row at ok gets no note */
+	ck_assert_int_eq(strncmp(strchr(strstr(table, "\nHWP1 ") + 1, '\n') + 1, "S1 ", 3), 0);
+	/* one percent form: the workbench's */
+	ck_assert_ptr_nonnull(strstr(table, "Worst: W1 at 109 % of its limit (OVER)"));
+	ck_assert_ptr_nonnull(strstr(json, "\"rating_key\": \"damage.fluence\", \"rating\": 12000, "
+	    "\"wavelength_factor\": 2, \"pulse_factor\": 1.264911064"));
+	ck_assert_ptr_nonnull(strstr(json, "\"limit_derivation\": null"));
+	free(table);
+	free(json);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Issue 9.6: what placing asks for, type by type. */
+START_TEST(test_place_keys)
+{
+	int k[8];
+
+	ck_assert_uint_eq(layout_place_keys(EL_MIRROR, 1, k, 8), 3);
+	ck_assert_int_eq(k[0], K_AOI);
+	ck_assert_int_eq(k[1], K_DMG_FLUENCE);
+	ck_assert_int_eq(k[2], K_DMG_PULSE_WIDTH);
+	ck_assert_uint_eq(layout_place_keys(EL_FILTER, 0, k, 8), 3);
+	ck_assert_int_eq(k[0], K_OD);
+	ck_assert_int_eq(k[1], K_MAX_ABSORBED);
+	ck_assert_int_eq(k[2], K_DMG_CW_IRRADIANCE);
+	ck_assert_uint_eq(layout_place_keys(EL_DUMP, 0, k, 8), 1);
+	ck_assert_int_eq(k[0], K_MAX_POWER);
+	ck_assert_uint_eq(layout_place_keys(EL_DETECTOR, 1, k, 8), 1);
+	ck_assert_int_eq(k[0], K_MAX_POWER);
+	ck_assert_uint_eq(layout_place_keys(EL_SPACE, 1, k, 8), 1);
+	ck_assert_int_eq(k[0], K_LENGTH);
+	ck_assert_uint_eq(layout_place_keys(EL_LENS, 0, k, 8), 2);
+	ck_assert_int_eq(k[0], K_FOCAL);
+	/* every key asked is one the type takes */
+	for (int t = 0; t < EL_NTYPES; t++) {
+		size_t n = layout_place_keys((enum elem_type)t, t % 2, k, 8);
+
+		for (size_t i = 0; i < n; i++)
+			ck_assert_msg(model_key_applies((enum model_key)k[i], (enum elem_type)t),
+			    "%s does not take %s", model_type_name((enum elem_type)t),
+			    model_key_path((enum model_key)k[i]));
+	}
+}
+END_TEST
+
+/* Issue 9.17: a hint says what the value is: a unit for a quantity, a
+ * range for a plain number, no unit talk for a fraction. */
+START_TEST(test_key_hints)
+{
+	char *r = layout_key_hint(K_REFLECTANCE), *l = layout_key_hint(K_LENGTH);
+	char *a = layout_key_hint(K_AOI), *od = layout_key_hint(K_OD);
+	enum layout_key_group g;
+
+	ck_assert_ptr_nonnull(strstr(r, "fraction, 0 to 1"));
+	ck_assert_ptr_null(strstr(r, "unit"));
+	ck_assert_ptr_nonnull(strstr(l, "unit"));
+	ck_assert_ptr_nonnull(strstr(a, "degrees, 0 to 90"));
+	ck_assert_ptr_null(strstr(od, "unit"));
+	ck_assert_str_eq(layout_key_label(K_DMG_CW_IRRADIANCE, &g), "CW irradiance");
+	ck_assert_str_eq(layout_group_name(g), "Damage rating");
+	ck_assert_str_eq(layout_bench_key_label("source.waist_position", &g), "waist position");
+	ck_assert_str_eq(layout_group_name(g), "Source");
+	free(r);
+	free(l);
+	free(a);
+	free(od);
+}
+END_TEST
+
+/* Issue 9.5: IEC 60825-1's visible band, 400-700 nm (from memory). */
+START_TEST(test_visibility)
+{
+	struct bench *b = demo();
+	char *s = layout_caution_line(b, 0, 200), *n = layout_caution_line(b, 0, 80);
+
+	ck_assert_str_eq(layout_visibility(532e-9), "visible");
+	ck_assert_str_eq(layout_visibility(1064e-9), "invisible (IR)");
+	ck_assert_str_eq(layout_visibility(355e-9), "invisible (UV)");
+	ck_assert_ptr_nonnull(strstr(s, "design estimate, not a safety assessment"));
+	ck_assert_ptr_nonnull(strstr(s, "1.064 \u00b5m beam: invisible (IR)"));
+	ck_assert_int_le((int)utf8_cols(n), 80);
+	ck_assert_ptr_nonnull(strstr(n, "invisible (IR)"));
+	free(s);
+	free(n);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The header's parts: the droppable ones go first, the rest stay. */
+START_TEST(test_join_fit)
+{
+	static const char *const parts[] = { "1.064 \u00b5m 2.00 W", "demo", "draft = #1", "29 elements" };
+	static const int prio[] = { 0, 0, 0, 1 };
+	char *all = layout_join_fit(parts, prio, 4, " > ", 80);
+	char *cut = layout_join_fit(parts, prio, 4, " > ", 40);
+	char *tiny = layout_join_fit(parts, prio, 4, " > ", 5);
+
+	ck_assert_str_eq(all, "1.064 \u00b5m 2.00 W > demo > draft = #1 > 29 elements");
+	ck_assert_str_eq(cut, "1.064 \u00b5m 2.00 W > demo > draft = #1");   /* 36 columns */
+	ck_assert_str_eq(tiny, cut);        /* prio 0 is never dropped */
+	free(all);
+	free(cut);
+	free(tiny);
+}
+END_TEST
+
+/* At every width from 80 up the margin line fits and keeps its words. */
+START_TEST(test_margin_widths)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
+
+	for (int w = 80; w <= 200; w++) {
+		char *s = layout_margin_line(t, 0, w, "saved 12:34");
+
+		ck_assert_msg((int)utf8_cols(s) <= w, "%d columns: %s", w, s);
+		ck_assert_ptr_nonnull(strstr(s, "W1 109 % OVER"));
+		ck_assert_ptr_nonnull(strstr(s, "safe source power 914 mW"));
+		ck_assert_ptr_nonnull(strstr(s, "hazards"));
+		free(s);
+	}
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Issue 9.13: ids under the profile's axis never overlap. */
+START_TEST(test_place_labels)
+{
+	int col[3], len[3], at[3];
+
+	/* two marks at the same z: side by side */
+	col[0] = col[1] = 10;
+	len[0] = len[1] = 2;
+	ck_assert_int_eq(layout_place_labels(col, len, 2, -1, 40, at), 2);
+	ck_assert_int_eq(at[0], 10);
+	ck_assert_int_eq(at[1], 13);
+	/* the selected one keeps its place, the other steps over it */
+	col[0] = col[1] = 5;
+	col[2] = 30;
+	len[0] = len[1] = len[2] = 3;
+	ck_assert_int_eq(layout_place_labels(col, len, 3, 1, 40, at), 3);
+	ck_assert_int_eq(at[1], 5);
+	ck_assert_int_eq(at[0], 9);
+	ck_assert_int_eq(at[2], 30);
+	/* at the right edge: pulled in; no room at all: left out */
+	col[0] = 38;
+	len[0] = 4;
+	ck_assert_int_eq(layout_place_labels(col, len, 1, -1, 40, at), 1);
+	ck_assert_int_eq(at[0], 36);
+	col[0] = 36;
+	col[1] = 37;
+	len[0] = len[1] = 4;
+	ck_assert_int_eq(layout_place_labels(col, len, 2, -1, 40, at), 1);
+	ck_assert_int_eq(at[1], -1);
+	/* no two placed labels share a column */
+	{
+		int c[6] = { 0, 0, 0, 2, 2, 9 }, l[6] = { 3, 3, 3, 2, 2, 4 }, x[6];
+
+		layout_place_labels(c, l, 6, 2, 20, x);
+		for (int i = 0; i < 6; i++)
+			for (int j = 0; j < 6; j++)
+				if (i != j && x[i] >= 0 && x[j] >= 0)
+					ck_assert_msg(x[i] + l[i] <= x[j] || x[j] + l[j] <= x[i],
+					    "labels %d and %d overlap", i, j);
+	}
 }
 END_TEST
 
@@ -663,6 +1030,37 @@ START_TEST(test_profile_plot)
 }
 END_TEST
 
+/* The band: symmetric about the middle row, as wide as the x radius. */
+START_TEST(test_profile_band)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b);
+	size_t *idx, n = layout_profile_path(t, row_of(t, "W1"), &idx);
+	struct layout_plot p;
+	int mid = (11 - 1) / 2, half = 0;
+
+	ck_assert_int_eq(layout_profile_band(t, idx, n, (size_t)-1, 60, 11, 4, &p), 0);
+	for (int c = 0; c < 60; c++) {
+		ck_assert_msg(p.cell[mid * 60 + c] == LG_WX || p.cell[mid * 60 + c] == LG_FOCUS,
+		    "column %d: no beam on the axis", c);
+		for (int d = 1; d <= mid; d++)
+			ck_assert_int_eq(p.cell[(mid - d) * 60 + c] == LG_WX,
+			    p.cell[(mid + d) * 60 + c] == LG_WX);
+	}
+	/* at the source the radius is 3.00 mm (demo: waist 3 mm, z_R of
+	 * π·(3 mm)²/(1.3·1064 nm) ≈ 20 m, so it has not grown): half-height
+	 * 3 mm / rmax × 5 rows, rounded */
+	for (int d = 0; d <= mid; d++)
+		if (p.cell[(mid - d) * 60 + 0] == LG_WX)
+			half = d;
+	ck_assert_int_eq(half, (int)floor(3e-3 / p.rmax * mid + 0.5));
+	layout_plot_release(&p);
+	free(idx);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 static const struct { double x, want; } nice_cases[] = {
 	{ 3.01e-3, 5e-3 }, { 2.1, 2.5 }, { 1, 1 }, { 0, 0 }, { 7.2, 10 },
 	{ 0.0011, 0.002 }, { 250, 250 },
@@ -739,12 +1137,24 @@ main(void)
 	tcase_add_loop_test(tc, test_required_keys, 0, EL_NTYPES);
 	LOOP(tc, test_new_id, id_cases);
 	tcase_add_test(tc, test_fields);
-	tcase_add_test(tc, test_status_line);
-	tcase_add_test(tc, test_status_unrated);
+	tcase_add_test(tc, test_hazards_demo);
+	LOOP(tc, test_headroom, headroom_cases);
+	tcase_add_test(tc, test_margin_line);
+	tcase_add_test(tc, test_margin_unrated);
+	tcase_add_test(tc, test_unrated_dump);
+	tcase_add_test(tc, test_derivation);
+	tcase_add_test(tc, test_derivation_reports);
+	tcase_add_test(tc, test_place_keys);
+	tcase_add_test(tc, test_key_hints);
+	tcase_add_test(tc, test_visibility);
+	tcase_add_test(tc, test_place_labels);
+	tcase_add_test(tc, test_join_fit);
+	tcase_add_test(tc, test_margin_widths);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("profile");
 	tcase_add_test(tc, test_profile_path);
 	tcase_add_test(tc, test_profile_plot);
+	tcase_add_test(tc, test_profile_band);
 	LOOP(tc, test_nice_ceil, nice_cases);
 	LOOP(tc, test_ticks, tick_cases);
 	LOOP(tc, test_map_col, map_cases);

@@ -329,6 +329,55 @@ START_TEST(test_survey)
 }
 END_TEST
 
+/* The survey applies value-only points in place on one copy and puts each
+ * back: no point may see another's change.  Each column must equal the
+ * trace of that point applied on its own copy (point_apply, checked by hand
+ * above); T1's ratio at 'half-power' is half the base's by hand. */
+START_TEST(test_survey_in_place)
+{
+	struct bench *b = bench_text("align.json", ALIGN_BENCH,
+	    ", 'points': [ { 'name': 'dim-m1', 'changes': [ 'M1.reflectance=0.5' ] },"
+	    " { 'name': 'half-power', 'changes': [ 'source.power=0.5 W' ] },"
+	    " { 'name': 'flip-down', 'changes': [ '-FM1' ] },"
+	    " { 'name': 'nd-off', 'changes': [ 'ND1.od=', 'ND1.transmission=1' ] },"
+	    " { 'name': 'both', 'changes': [ 'source.power=2 W', 'M1.reflectance=0.9' ] } ]");
+	struct point_survey sv;
+	char *cause = NULL, *before = bench_file_dump(b), *after;
+
+	ck_assert_int_eq(point_survey_run(b, NULL, &sv, &cause), 0);
+	ck_assert_uint_eq(sv.n, 6);
+	for (size_t i = 1; i < sv.n; i++) {
+		struct bench *a = point_apply(b, &b->points.p[i - 1], &cause);
+		struct trace *t;
+
+		ck_assert_msg(a != NULL, "%s", cause);
+		t = trace_run(a);
+		for (size_t j = 0; j < sv.nel; j++) {
+			const struct trace_row *r = find_row(t, sv.el[j].id);
+			double got = sv.ratio[i * sv.nel + j];
+
+			if (r == NULL || isnan(r->ratio))
+				ck_assert_msg(isnan(got), "%s at %s", sv.el[j].id, sv.pt[i].name);
+			else
+				ck_assert_msg(fabs(got - r->ratio) <= 1e-15 * r->ratio,
+				    "%s at %s: %g, alone %g", sv.el[j].id, sv.pt[i].name,
+				    got, r->ratio);
+		}
+		trace_free(t);
+		model_bench_free(a);
+	}
+	for (size_t j = 0; j < sv.nel; j++)
+		if (strcmp(sv.el[j].id, "T1") == 0)
+			ck_assert_double_eq_tol(sv.ratio[2 * sv.nel + j], 0.5 * sv.ratio[j], 1e-15);
+	point_survey_release(&sv);
+	after = bench_file_dump(b);
+	ck_assert_str_eq(before, after);
+	free(before);
+	free(after);
+	model_bench_free(b);
+}
+END_TEST
+
 /* compare: a point added is a settings change "point.NAME" whose new
  * text gives its changes and its worst element there; a point that is the
  * same on both sides is no change. */
@@ -371,6 +420,7 @@ main(void)
 	tcase_add_test(tc, test_point_guards_base);
 	tcase_add_test(tc, test_diff_point);
 	tcase_add_test(tc, test_survey);
+	tcase_add_test(tc, test_survey_in_place);
 	tcase_add_test(tc, test_edits_keep_points);
 	suite_add_tcase(s, tc);
 	return run_suite(s);

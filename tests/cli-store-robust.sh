@@ -1,8 +1,8 @@
 #!/bin/sh
-# cli-store-robust.sh - the database when the machine is against it: a
-# file-size limit (SIGXFSZ), a read-only folder, a full disk.  Each must
-# give a message that says what is really wrong, exit 2, and leave the
-# database intact.  The full disk needs a private tmpfs (user and mount
+# cli-store-robust.sh - hostile input and a machine against the database:
+# endless input, values that crashed the reader, a file-size limit
+# (SIGXFSZ), a read-only folder, a full disk.  Each must give a message
+# that says what is really wrong, exit 2, and leave the database intact.  The full disk needs a private tmpfs (user and mount
 # namespaces); the read-only folder needs a user that is not root.
 . "${srcdir:-.}/tests/store-lib.sh"
 
@@ -14,6 +14,30 @@ cp "$T_DIR/out" demo.json
 run --db lab.db import demo.json
 check "setup: a database with the demo" rc_is 0
 cp lab.db lab.orig
+
+# ---- input: capped, and never a crash ----
+# (each of these read 14 GB or crashed before; the cap is 64 MiB)
+run trace /dev/zero
+check "trace /dev/zero: refused, naming the file" trouble "/dev/zero: larger than 64 MiB"
+yes | "$BEAMLEDGER" trace - >"$T_DIR/out" 2>"$T_DIR/err"
+RC=$?
+check "endless standard input: refused" trouble "<stdin>: larger than 64 MiB"
+check "endless standard input: nothing on stdout" [ ! -s "$T_DIR/out" ]
+run --db lab.db import /dev/zero
+check "import /dev/zero: refused" trouble "/dev/zero: larger than 64 MiB"
+sed 's/"n2": *"[^"]*"/"n2": "1e309 cm^2\/W"/' demo.json >n2.json
+if grep -q '1e309' n2.json; then
+	run trace n2.json
+	check "an n2 beyond range: refused, not a crash" trouble "out of range"
+else
+	skip "the demo has no n2 to change"
+fi
+sed 's/"polarization": *[-0-9.e]*/"polarization": 1e308/' demo.json >pol.json
+run trace pol.json
+check "polarization 1e308: refused (was 'ok')" trouble "polarization"
+printf '\357\273\277' | cat - demo.json >bom.json
+run trace bom.json
+check "a leading byte-order mark is accepted" sh -c "[ $RC -le 1 ] && [ -s '$T_DIR/out' ]"
 
 # ---- a file-size limit: the write fails, the process is not killed ----
 # (ulimit -f counts 512- or 1024-byte blocks by shell; 16 of either is less

@@ -22,7 +22,7 @@ t_start rv 100 30 env -C "$T_DIR/here" USER=lab-tester NO_COLOR= "$BL" --db "$DB
 check "the workbench opens the bench" wait_for rv "worst:"
 t_keys rv h
 check "history lists the setups" wait_for rv "longer lens"
-t_keys rv j
+t_keys rv Down
 t_keys rv v
 check "v says where the review went" wait_for rv "written to $T_DIR/here/$B-setup-2.pdf"
 check "the PDF is there and opens" sh -c 'pdfinfo "$1" | grep -q "^Pages: *[1-9]"' sh "$T_DIR/here/$B-setup-2.pdf"
@@ -31,8 +31,8 @@ check "nothing else is left in the folder" [ "$(ls "$T_DIR/here" | wc -l)" -eq 1
 # width; both ids are shown, on two rows, rather than one hiding the other
 t_keys rv Escape
 check "back on the chain" wait_for rv "worst:"
-t_keys rv G
-t_keys rv p
+t_keys rv End
+t_keys rv z
 check "the profile of T1's branch" wait_for rv "target T1 at z"
 check "T1's id under its mark" wait_line rv '^ .* L1 +T1 *$'
 check "W1's id on the second row, not hidden" wait_line rv ' W1 *$'

@@ -1,11 +1,13 @@
 #!/bin/sh
 # tests/ui.sh - the terminal workbench end to end, driven in tmux: a fresh
-# database, the demo offered and loaded, a bench laid out from nothing, a
-# refused value, a lens moved so that a window sits near the focus (ok ->
-# OVER), commit, diff, restore, label, undo, the profile and help screens,
-# a resize to 60x20 and back, quitting, a read-only database; then the
-# database is checked with the CLI.  Waits for text, never sleeps blindly.
-# Owned by the workbench.
+# database, the demo offered and loaded with every hazard in sight (margin
+# line, marked rows, the hazards screen, the derivation of a limit), a
+# bench laid out from nothing with the questions placing asks, values
+# typed into their boxes, a lens shifted so that a window sits near the
+# focus (ok -> OVER), record, compare, reinstate, mark, undo, the
+# profile, help and shelf screens, cuts and overlaps at 80x24, a resize,
+# quitting, a read-only database; then the database is checked with the
+# CLI.  Waits for text, never sleeps blindly.  Owned by the workbench.
 
 command -v "${TMUX_BIN:-tmux}" >/dev/null 2>&1 || { echo "1..0 # SKIP no tmux"; exit 0; }
 [ -n "$TMUX_BIN" ] || TMUX_BIN=tmux
@@ -14,145 +16,297 @@ BL=${BEAMLEDGER:-./src/beamledger}
 DB="$T_DIR/ui.db"
 export XDG_DATA_HOME="$T_DIR/xdg"
 
-start() {       # NAME [ARGS...]: the workbench at 80x24 on $DB
+start() {       # NAME [ARGS...]: the workbench at 80x24 on $DB, no colour
 	_s=$1; shift
-	t_start "$_s" 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" USER=lab-tester NO_COLOR= \
+	t_start "$_s" 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" USER=lab-tester NO_COLOR=1 \
 		"$BL" --db "$DB" "$@"
 }
-# key NAME KEY... then wait for TEXT: one step of a dialogue.
-step() {        # DESC NAME TEXT KEY...
+step() {        # DESC NAME TEXT KEY...: keys, then wait for TEXT
 	_d=$1 _s=$2 _w=$3; shift 3
 	t_keys "$_s" "$@"
 	check "$_d" wait_for "$_s" "$_w"
 }
-add() {         # TYPE-KEY REQUIRED-VALUE|"" WAITTEXT: the add menu, then its prompt
-	t_keys ui a
-	wait_for ui "add " >/dev/null || return 1
-	t_keys ui "$1"
-	if [ -n "$2" ]; then
-		wait_for ui "needed before it can go" >/dev/null || return 1
-		t_keys ui -l "$2"
+# place TYPE-KEY WAITTEXT VALUE...: the place menu, then one answer per
+# question placing asks ("" skips one)
+place() {
+	_k=$1 _w=$2; shift 2
+	t_keys ui p
+	wait_for ui "place " >/dev/null || return 1
+	t_keys ui "$_k"
+	for _v in "$@"; do
+		wait_for ui "Enter›accept" >/dev/null || return 1
+		[ -n "$_v" ] && t_keys ui -l "$_v"
 		t_keys ui Enter
-	fi
-	wait_for ui "$3"
+	done
+	wait_for ui "$_w"
 }
+# no_line NAME REGEX: no screen line matches
+no_line() { ! t_screen "$1" | grep -qE -- "$2"; }
 
 # ---- a fresh database: the demo is offered ----
 start ui
 check "fresh database offers the demo" wait_for ui "Load the demo bench"
 step "demo loaded and traced" ui "worst: W1 109 % OVER" y
-check "unterminated beam on the status line" wait_for ui "unterminated: 728 µW after S4r"
+check "said once: the demo is invented data" wait_for ui "the demo bench is invented data"
+check "the standing caution line (9.5)" wait_line ui '^▲ design estimate, not a safety assessment'
+check "with the wavelength and that it is invisible" wait_for ui "1.064 µm beam: invisible (IR)"
+check "the header starts with the beam (7d)" wait_line ui '^1\.064 µm 2\.00 W pulsed ▸ table3-ablation ▸ draft = #1'
+check "the margin line: headroom and safe source power" \
+	wait_line ui '^worst: W1 109 % OVER, headroom ×0\.9[0-9]* │ safe source power 91[34] mW │ [0-9]+ hazards'
+check "keys grouped by task with the key sign (7d)" wait_line ui '^p›place  l›lift  -›undo ┆ Enter›edit ┆ r›record'
 # HWP1's share: its main beam (15.8 %) and the ghosts that meet it
 check "ratio bar and status in words" wait_line ui '^ HWP1 .*15\.[89] % ok'
-step "help lists every key" ui "Bench list:" '?'
-t_keys ui G
-check "help ends with the laser-safety cautions" wait_for ui "Align at reduced power"
-step "help closes" ui "worst: W1" q
-step "profile view draws radii and foci" ui "beam profile to the end of branch main" p
-check "profile legend" wait_for ui "focus"
+check "a space is n/a, not unrated (9.6)" wait_line ui '^ S0 .* - n/a'
+# 9.13: the scroll arrow sits beside the status word, never over it
+# (the demo's isolator ISO1 moves the chain one row down: S3 is the last shown)
+check "scroll arrow leaves the status word whole" wait_line ui '^ S3 .* n/a +▾$'
+t_keys ui End
+check "the spark is a marked row, not a dim space (9.1)" wait_line ui '^▲S9 .* spark'
+check "the over window is marked" wait_line ui '^▲W1 .*109 % OVER'
+check "an unrated target taking power is marked (9.6)" wait_line ui '^▲T1 .* unrated'
+t_keys ui Up Up
+check "W1 selected" wait_for ui 'window W1 "cell entrance window"'
+check "the derivation of its limit (9.4)" wait_for ui "fluence 1.20 J/cm² × 2 λ × 1.26"
+check "down to the limit and the caution level" wait_for ui "τ = 3.04 J/cm² limit; ÷ 2 = 1.52"
+t_keys ui Up
+check "S9 selected" wait_for ui "space S9"
+check "the breakdown is said in the results" wait_for ui "AIR BREAKDOWN"
+
+# ---- the hazards screen: every warning kind, Enter goes there (9.1) ----
+step "! opens the hazards" ui "▸ hazards ·" '!'
+check "the spark is listed" wait_line ui '^▲ spark +S9 +air_breakdown'
+check "the unterminated beam is listed" wait_line ui '^▲ unterminated +S4r'
+check "an unrated absorber's warning is listed" wait_line ui '^▲ unrated +T1 +unrated_absorber'
+check "unrated optics taking power are listed" wait_line ui '^▲ unrated +POL1'
+check "the over window is first" wait_line ui '^▲ over +W1 +window W1 at 109 %'
+t_keys ui Down
+step "Enter goes to the hazard's element" ui "S4r selected" Enter
+check "the workbench again, on S4r" wait_for ui "space S4r"
+check "the hazard screen's message is not stale on the chain" wait_gone ui "▸ hazards ·"
+
+# ---- placing on a pulsed bench asks for a fluence rating and its pulse (9.6) ----
+t_keys ui p
+wait_for ui "place after S4r" >/dev/null
+t_keys ui m
+check "a mirror: its angle first" wait_for ui "angle of incidence (aoi): degrees, 0 to 90"
+t_keys ui -l "45"
+t_keys ui Enter
+check "then its fluence rating" wait_for ui "pulse fluence (damage.fluence)"
+t_keys ui -l "10 J/cm^2"
+t_keys ui Enter
+check "then the pulse it was rated at, the bench's filled in" wait_line ui '\[8 ns +\]'
+step "placed, rated" ui "placed mirror M2 after S4r (" Enter
+check "and traced at once" wait_line ui '^ +M2 .* ok'
+step "undo takes it off again" ui "undone" -
+
+# ---- colour: a hazard row is bold, never dim (9.1) ----
+t_start colour 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open table3-ablation
+check "coloured workbench open" wait_for colour "table3-ablation"
+t_keys colour End
+wait_line colour '^▲S9 ' >/dev/null
+s9=$(t capture-pane -e -p -t colour | grep -a 'S9 ' | head -1)
+check "with colour the spark row is bold" sh -c 'printf "%s" "$1" | grep -q "\[1m\|;1m\|\[1;"' _ "$s9"
+check "and not dim" sh -c '! printf "%s" "$1" | grep -q "\[2m\|;2m\|\[2;"' _ "$s9"
+t_keys colour Q
+wait_exit colour 5
+
+# ---- help: keys by task, no retired verbs ----
+step "help opens" ui "Bench list:" '?'
+: >"$T_DIR/help.txt"
+for _p in 1 2 3 4 5 6 7 8 9 10 11 12 13 14; do
+	_was=$(t_screen ui)
+	printf '%s\n' "$_was" >>"$T_DIR/help.txt"
+	t_keys ui PgDn
+	# wait for the next page to be drawn (a loaded machine is slow), or
+	# for the last page to stay as it is
+	_n=0
+	while [ "$_n" -lt 40 ] && [ "$(t_screen ui)" = "$_was" ]; do
+		sleep 0.05; _n=$((_n+1))
+	done
+done
+check "help ends with the laser-safety cautions" grep -q "Align at reduced power" "$T_DIR/help.txt"
+check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.txt"
+check "help names the record's keys" grep -q "record the draft as a new numbered setup" "$T_DIR/help.txt"
+check "help has no retired verb (7)" sh -c '! grep -wiE "commit|diff|clone|restore|revision|show|log" "$1"' _ "$T_DIR/help.txt"
+check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/help.txt"
+check "help has no label command (7)" sh -c '! grep -wE "label" "$1"' _ "$T_DIR/help.txt"
+check "help keys are not the retired modal set" sh -c '! grep -E "^    (a|i|x|u|j|k|g|G|\^R) " "$1"' _ "$T_DIR/help.txt"
+check "no help line is cut at 80 columns (9.13)" sh -c '! grep -q "…$" "$1"' _ "$T_DIR/help.txt"
+step "help closes" ui "safe source power 91" q
+step "profile view draws radii and foci" ui "▸ profile along " z
+check "the beam drawn as a band about the axis (7f)" wait_line ui '^ +axis │.*▒'
+check "its legend, whole" wait_line ui '^ ▒=beam ±x radius  y=±y radius  ◆=focus  ▀=power  \(1/e²; v: curves\)$'
+t_keys ui v
+check "v: the radii as curves, legend whole (9.13)" wait_line ui '^ x=x y=y radius  ●=both  ◆=focus  ▀=power  ·=selected  \(1/e², top [0-9.]+ mm\)$'
+check "power scaled to the bench (2 W, not 5 W)" wait_line ui '^ +2\.00 W │'
 t_keys ui Escape
-check "profile closes" wait_for ui "worst: W1"
+check "profile closes" wait_for ui "safe source power 91"
+step "the shelf is empty" ui "The shelf is empty." S
+check "and drawn cleanly, no divider through it (9.13)" wait_line ui '^ The shelf is empty\.$'
+t_keys ui Escape
 
 # ---- a new bench laid out from nothing ----
 step "back to the bench list" ui "updated (UTC)" q
 step "new bench prompt" ui "Name of the new bench" n
 t_keys ui -l "focus-test"
 step "new bench created" ui "new bench 'focus-test'" Enter
-check "empty bench says how to start" wait_for ui "press a to add"
-check "add a space" add s "500 mm" "added space S1"
-check "add a lens" add l "100 mm" "added lens L1"
-check "add a space after it" add s "200 mm" "added space S2"
-check "add another space" add s "100 mm" "added space S3"
-check "add a window" add w "" "added window W1"
-check "unrated window says so" wait_line ui '^ W1 .* unrated'
-
-# its damage rating, typed into the field in place
-step "fields open" ui "transmission" Enter
-t_keys ui j j j j j j j j j
-check "damage.cw_irradiance field" wait_for ui "damage.cw_irradiance: CW LIDT"
+check "a CW bench shows its irradiance, the quantity CW ratings use (9.12)" \
+	wait_line ui '^ element .* irradiance +to LIDT'
+check "no fluence column on a CW bench" no_line ui '^ element .*fluence'
+check "empty bench says how to start" wait_for ui "p places the"
+check "place a space: asks its length, with its unit" place s "placed space S1" "500 mm"
+t_keys ui p
+wait_for ui "place " >/dev/null
+t_keys ui l
+check "placing a lens asks its focal length first (9.6)" wait_for ui "focal length (focal): with its unit"
+check "question 1 of 2" wait_for ui "1 of 2"
+t_keys ui -l "100 mm"
 t_keys ui Enter
-wait_for ui "Enter apply" >/dev/null
+check "then its rating, skippable (9.6)" wait_for ui "CW irradiance (damage.cw_irradiance)"
+check "the hint says Enter skips it" wait_for ui "Enter with nothing skips it"
+step "skipped: placed, still unrated" ui "placed lens L1 after S1; still unrated" Enter
+check "place another space" place s "placed space S2" "200 mm"
+check "place a third space" place s "placed space S3" "100 mm"
+check "place a window, its rating skipped" place w "placed window W1" ""
+check "unrated window taking power is marked" wait_line ui '^▲W1 .* unrated'
+# 9.17: a prompt for a fraction says so, without unit talk
+t_keys ui p
+wait_for ui "place " >/dev/null
+t_keys ui b
+check "a splitter asks its reflectance as a fraction (9.17)" wait_for ui "a fraction, 0 to 1"
+check "without 'with units'" no_line ui 'ith units'
+t_keys ui Escape
+wait_gone ui "Enter›accept" >/dev/null
+
+# ---- values are edited in a box, at the marked field (9.7) ----
+# glass takes an angle of incidence (for its reflections): it comes first
+check "the marked field shows where Enter goes" wait_line ui '^ › angle of incidence'
+t_keys ui Enter Down
+check "Enter edits the marked field at once, in a box" wait_line ui '^   transmission +\[ *\]'
+check "its dotted key is in the hint" wait_for ui "transmission: power transmission"
+t_keys ui Down Down Down Down Down Down
+check "Down walks the values, still editing" wait_for ui "damage.cw_irradiance: CW LIDT"
+check "values under human labels in groups (7e)" wait_line ui '^ Damage rating'
 t_keys ui -l "5 kW/cm"
 step "wrong unit refused at the field" ui "refused, nothing stored" Enter
-check "with the bench-file message" wait_for ui "a linear power density"
-check "nothing stored: still unrated" wait_line ui '^ W1 .* unrated'
+check "with the bench-file message, under the field" wait_for ui "is a linear power"
+check "nothing stored: still unrated" wait_line ui '^▲W1 .* unrated'
 t_keys ui C-u
 t_keys ui -l "1 kW/cm^2"
-step "rating stored" ui "W1 damage.cw_irradiance = 1 kW/cm^2" Enter
+step "rating stored in that field" ui "W1 damage.cw_irradiance = 1 kW/cm^2" Enter
+check "shown in its row" wait_line ui '^   CW irradiance +1 kW/cm²'
 check "window ok far from the focus" wait_line ui '^ W1 .* ok *$'
-# a value shown in the editor is replaced by typing, not appended to
 t_keys ui Enter
-wait_for ui "Enter apply" >/dev/null
+check "Enter on a field edits it again" wait_line ui '^   CW irradiance +\[1 kW/cm'
 t_keys ui -l "2 kW/cm^2"
 step "typing replaces the shown value" ui "W1 damage.cw_irradiance = 2 kW/cm^2" Enter
-# and typing a number at a chosen field starts editing it
 t_keys ui -l "1 kW/cm^2"
 step "typing at a field edits it" ui "W1 damage.cw_irradiance = 1 kW/cm^2" Enter
 t_keys ui Escape
-check "back on the chain" wait_for ui "a add"
-check "add a space before the end" add s "50 mm" "added space S4"
-check "add a dump" add d "" "added dump BD1"
-check "all beams terminated" wait_for ui "all beams terminated"
-check "adding after a dump is refused" add s "10 mm" "a dump ends its branch"
+check "back on the chain" wait_for ui "p›place"
+check "place a space before the end" place s "placed space S4" "50 mm"
+check "place a dump, its power rating skipped" place d "placed dump BD1" ""
+check "an unrated dump is a hazard, not 'all beams terminated' (9.2)" wait_line ui '^▲ *BD1 .* unrated'
+check "its hint names the key a dump takes (9.2)" wait_for ui "unrated: give max_power"
+check "no 'all beams terminated'" no_line ui 'all beams terminated'
+t_keys ui Enter Down
+check "max_power in a box" wait_for ui "max_power: power rating"
+t_keys ui -l "5 W"
+step "the dump rated" ui "BD1 max_power = 5 W" Enter
 t_keys ui Escape
-wait_gone ui "Enter accept" >/dev/null
+check "the dump is ok now" wait_line ui '^ BD1 .* ok *$'
+t_keys ui p
+wait_for ui "place " >/dev/null
+t_keys ui s
+wait_for ui "Enter›accept" >/dev/null
+t_keys ui -l "10 mm"
+step "placing after a dump is refused" ui "a dump ends its branch" Enter
+t_keys ui Escape
+wait_gone ui "Enter›accept" >/dev/null
 
-step "commit prompt" ui "A note for it" c
+step "record prompt" ui "The draft becomes setup #2" r
 t_keys ui -l "window far from the focus"
-step "committed r2" ui "committed r2" Enter
+step "recorded #2" ui 'recorded #2: "window far from the focus"' Enter
+check "the header says the draft is #2" wait_for ui "▸ draft = #2 ▸"
 
-# ---- move the lens: the window now sits near the focus ----
-t_keys ui g
+# ---- shift the lens: the window now sits near the focus ----
+t_keys ui Home
 check "selected the first element" wait_for ui "space S1"
-step "selected the lens" ui "lens L1" j
-step "lens moved one place down" ui "moved L1 after S2" ']'
-check "window now OVER" wait_line ui '^ W1 .* OVER'
-check "status line names it" wait_for ui "worst: W1"
-step "undo brings ok back" ui "undone" u
+step "selected the lens" ui "lens L1" Down
+step "lens shifted one place down" ui "shifted L1 after S2" '>'
+check "window now OVER" wait_line ui '^▲W1 .* OVER'
+check "the header says changed since #2" wait_for ui "draft: changed since #2, not recorded"
+step "undo brings ok back" ui "undone" -
 check "window ok after undo" wait_line ui '^ W1 .* ok *$'
-step "redo makes it OVER again" ui "redone" U
-check "window OVER after redo" wait_line ui '^ W1 .* OVER'
+check "and the draft is #2 again" wait_for ui "▸ draft = #2 ▸"
+step "redo makes it OVER again" ui "redone" +
+check "window OVER after redo" wait_line ui '^▲W1 .* OVER'
 
-# ---- commit, diff, restore, label ----
-step "commit prompt again" ui "A note for it" c
+# ---- record, the logbook, compare, mark, reinstate ----
+step "record prompt again" ui "The draft becomes setup #3" r
 t_keys ui -l "lens closer to the window"
-step "committed r3" ui "committed r3" Enter
-step "history lists the revisions" ui "lens closer to the window" h
-check "with the author" wait_for ui "lab-tester"
-t_keys ui j
-check "r3 selected" wait_for ui "d compares r2 → r3"
-step "diff shows the chain change" ui "moved" d
-check "diff shows the margin effect" wait_line ui 'W1 .*ok → .*over'
+step "recorded #3" ui "recorded #3" Enter
+step "h opens the logbook" ui "logbook · 3 setups recorded" h
+check "the stale message of the workbench is gone (9.13)" no_line ui 'recorded #3:'
+check "a setup's number, time and author" wait_line ui '^  #3 +20[0-9-]+ [0-9:]+  lab-tester'
+check "each setup traced: #3 is over" wait_line ui 'OVER W1 [0-9.]+ %, safe source power'
+check "and #2 is ok" wait_line ui ' ok [A-Z0-9]+ [0-9.]+ %, safe source power'
+check "with its note" wait_for ui '"window far from the focus"'
+t_keys ui Down
+check "#3 selected" wait_for ui "Enter compares #2 → #3"
+step "compare shows the chain change" ui "moved" Enter
+check "compare shows the margin effect" wait_line ui 'W1 .*ok → .*over'
 t_keys ui Escape
-check "diff closes" wait_for ui "Space mark"
-t_keys ui l
-check "label prompt" wait_for ui "A name for r3"
+check "compare closes" wait_for ui "Space›pin"
+t_keys ui m
+check "mark prompt" wait_for ui "A name for #3"
 t_keys ui -l "near-focus"
-step "labelled" ui "r3 labelled 'near-focus'" Enter
-check "label shown" wait_for ui "[near-focus]"
-t_keys ui j
-check "r2 selected" wait_for ui "d compares r1 → r2"
-step "restore asks" ui "Make r2 the draft?" r
-step "restored" ui "r2 restored as the draft" y
+step "marked" ui "#3 marked 'near-focus'" Enter
+check "the name shown as a badge" wait_for ui "‹near-focus›"
+t_keys ui Space
+check "the compare pin is not a star" wait_line ui '^⇄ +#3'
+t_keys ui Space
+t_keys ui Down
+check "#2 selected" wait_for ui "Enter compares #1 → #2"
+step "reinstate asks" ui "Make #2 the draft again?" R
+step "reinstated" ui "#2 reinstated: draft = #2" y
+check "the logbook's draft says = #2 (9.16)" wait_line ui '^  draft += #2'
 t_keys ui Escape
-check "restored draft: window ok again" wait_line ui '^ W1 .* ok *$'
-step "undo on the workbench brings the old draft back" ui "undone" u
-check "window OVER after undoing the restore" wait_line ui '^ W1 .* OVER'
-step "and redo restores again" ui "redone" U
+check "the workbench says draft = #2 (9.16)" wait_for ui "▸ draft = #2 ▸"
+check "reinstated draft: window ok again" wait_line ui '^ W1 .* ok *$'
+step "undo on the workbench brings the old draft back" ui "undone" -
+check "window OVER after undoing the reinstate" wait_line ui '^▲W1 .* OVER'
+check "and the draft is #3 again (9.16)" wait_for ui "▸ draft = #3 ▸"
+step "and redo reinstates again" ui "redone" +
 check "window ok again" wait_line ui '^ W1 .* ok *$'
-step "history again" ui "d compares" h
-t_keys ui j j
-step "restoring the revision the draft already is asks nothing" ui "the draft already is r2" r
+check "draft = #2 once more" wait_for ui "▸ draft = #2 ▸"
+step "logbook again" ui "logbook" h
+t_keys ui Down Down
+step "reinstating the setup the draft already is asks nothing" ui "the draft already is #2" R
 t_keys ui Escape
-check "back on the workbench" wait_for ui "a add"
+check "back on the workbench" wait_for ui "p›place"
+
+# ---- 9.20: one key duplicates an element with a new id ----
+t_keys ui Home Down
+wait_for ui "lens L1" >/dev/null
+step "d duplicates the lens" ui "duplicated L1 as L2, placed after it" d
+check "L2 on the chain" wait_line ui '^.L2 '
+step "and undo takes it away" ui "undone" -
+
+# ---- cuts at 80x24 (9.13) ----
+check "the header is not cut at 80" no_line ui '^1\.064 µm.*…$'
+check "the key line is not cut" no_line ui '^p›place.*…$'
+check "the caution line is not cut" no_line ui '^▲ design.*…$'
 
 # ---- resize ----
 t resize-window -t ui -x 60 -y 20
 check "60x20 says too small" wait_for ui "terminal too small: 60×20"
 t resize-window -t ui -x 80 -y 24
-check "80x24 draws again" wait_for ui "worst: W1"
-t resize-window -t ui -x 120 -y 40
-check "120x40 shows more columns" wait_line ui '^ element .* status +flags'
+check "80x24 draws again" wait_for ui "safe source power"
+t resize-window -t ui -x 132 -y 43
+check "132x43 shows more columns" wait_line ui '^ element .* status +flags'
+check "and the hazard count in full" wait_line ui 'hazards?: '
+check "and the saved time" wait_line ui "│ +saved [0-9][0-9]:[0-9][0-9]"
 t resize-window -t ui -x 80 -y 24
 check "back to 80x24" wait_gone ui "status  flags"
 
@@ -163,8 +317,10 @@ check "exit status 0" [ "$(t_status ui)" = 0 ]
 
 # ---- open BENCH goes straight to it; ASCII under a C locale ----
 t_start direct 80 24 env LC_ALL=C XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open focus-test
-check "open BENCH goes to the bench" wait_for direct "focus-test | draft"
-check "ASCII fallback under LC_ALL=C" wait_line direct '^worst: W1 .*\|.*safe source power .*\|'
+check "open BENCH goes to the bench" wait_for direct "focus-test > draft"
+check "ASCII fallback under LC_ALL=C" wait_line direct '^worst: [A-Z0-9]+ .*\|.*safe source power .*\|'
+check "ASCII key line" wait_line direct '^p>place  l>lift'
+check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
 t_keys direct q
@@ -172,16 +328,19 @@ check "and quits" wait_exit direct 5
 
 # ---- another writer changes the draft while the workbench is open ----
 "$BL" --db "$DB" copy focus-test two-writers >/dev/null 2>&1
+"$BL" --db "$DB" set two-writers W1 'damage.cw_linear=1 kW/cm' >/dev/null 2>&1
 t_start two 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open two-writers
 check "second bench open" wait_for two "two-writers"
+check "a CW rating per length brings the linear density column (9.12)" \
+	wait_line two '^ element .* lin\. dens\. +to LIDT'
 "$BL" --db "$DB" set two-writers S1 'length=321 mm' >/dev/null 2>&1
-t_keys two x
+t_keys two l
 check "an edit over another writer's change is not saved, and says so" \
 	wait_for two "another beamledger changed"
 check "the other writer's value is still stored" \
 	sh -c '"$1" --db "$2" export two-writers | grep -q "\"length\": \"321 mm\""' _ "$BL" "$DB"
-t_keys two u
-check "the next change replaces it, as the message said" wait_for two "draft saved"
+t_keys two -
+check "the next change replaces it, as the message said" wait_line two "│ +saved [0-9][0-9]:"
 check "now the workbench's draft is stored" \
 	sh -c '! "$1" --db "$2" export two-writers | grep -q "\"length\": \"321 mm\""' _ "$BL" "$DB"
 t_keys two Q
@@ -198,15 +357,16 @@ cp "$DB" "$T_DIR/ro.db"
 chmod 0444 "$T_DIR/ro.db"
 t_start ro 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$T_DIR/ro.db" open focus-test
 check "read-only database says view only" wait_for ro "VIEW ONLY"
-t_keys ro x
+t_keys ro l
 check "edits refused in view-only mode" wait_for ro "view only: the database is read-only"
 t_keys ro Q
 check "view-only quits" wait_exit ro 5
 
 # ---- open --demo: the README's first command, on an empty database ----
 t_start demo 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$T_DIR/demo.db" open --demo
-check "open --demo shows the demo bench" wait_for demo "draft = r1"
+check "open --demo shows the demo bench" wait_for demo "draft = #1"
 check "with its over-threshold window" wait_for demo "worst: W1"
+check "and says the demo is invented" wait_for demo "invented data"
 t_keys demo Q
 check "open --demo quits" wait_exit demo 5
 check "the demo is now #1 in that database" sh -c '"$1" --db "$2" history table3-ablation | grep -q "^#1 "' _ "$BL" "$T_DIR/demo.db"

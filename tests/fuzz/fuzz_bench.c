@@ -1,0 +1,88 @@
+/* fuzz_bench.c - libFuzzer harness for the bench reader: any bytes are
+ * parsed; what parses is dumped, the dump must parse again and dump to the
+ * very same text, and the bench is traced and written in every report
+ * format (table with and without colour and UTF-8, JSON, CSV, a diff
+ * against itself).  Any crash, sanitizer report or broken round trip is a
+ * finding.  Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
+#include <config.h>
+
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-file.h"
+#include "core-diff.h"
+#include "core-trace.h"
+#include "report-diff.h"
+#include "report.h"
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+
+static void
+finding(const char *what, const char *detail, const char *text)
+{
+	fprintf(stderr, "fuzz_bench: %s\n%s\n--- text ---\n%s\n", what,
+	    detail != NULL ? detail : "", text != NULL ? text : "");
+	abort();
+}
+
+static void
+reports(const struct bench *b)
+{
+	struct trace *t = trace_run(b);
+	struct report_opts o = { 0, 0, NULL };
+	struct diff *d;
+	char *text, *cause = NULL;
+
+	if (trace_check(t, &cause) != 0) {
+		if (cause == NULL || strstr(cause, "element '") == NULL)
+			finding("trace_check failed without naming the element", cause, NULL);
+		free(cause);
+	}
+	for (size_t i = 0; i < t->nrows; i++)
+		if (damage_rated(&t->rows[i].limits) && !(t->rows[i].ratio >= 0))
+			finding("a rated element has no ratio", t->rows[i].el->id, NULL);
+	for (int color = 0; color < 2; color++)
+		for (int ascii = 0; ascii < 2; ascii++) {
+			o.color = color;
+			o.ascii = ascii;
+			free(report_table(t, &o));
+		}
+	free(report_json(t));
+	free(report_csv(t));
+	trace_free(t);
+	d = diff_run(b, b);
+	text = report_diff_text(d, b->name, "r1", "draft");
+	free(text);
+	free(report_diff_json(d, b->name, "r1", "draft"));
+	diff_free(d);
+}
+
+int
+LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
+{
+	char *cause = NULL, *one, *two;
+	struct bench *b, *back;
+
+	b = bench_file_parse((const char *)data, size, "fuzz.json", &cause);
+	if (b == NULL) {
+		if (cause == NULL || strncmp(cause, "fuzz.json", 9) != 0)
+			finding("refused without naming the file", cause, NULL);
+		free(cause);
+		return 0;
+	}
+	one = bench_file_dump(b);
+	back = bench_file_parse(one, strlen(one), "dump", &cause);
+	if (back == NULL)
+		finding("the dump of a bench does not read back", cause, one);
+	two = bench_file_dump(back);
+	if (strcmp(one, two) != 0)
+		finding("dump -> parse -> dump is not the same text", two, one);
+	reports(back);
+	free(one);
+	free(two);
+	model_bench_free(back);
+	model_bench_free(b);
+	return 0;
+}
