@@ -78,10 +78,13 @@ run csv trace --demo --format csv
 check "--format csv exits 1 too" status_is csv 1
 check "CSV header names id, type, branch and status" \
 	sh -c 'head -n 1 "$1" | grep -q "^id,type,branch,.*status"' sh "$T_DIR/csv.out"
-# One line per element: the demo's elements, counted in the bench itself.
+# One line per element: the demo's elements, counted in the bench itself;
+# the reflections follow as rows of type ghost and stray.
 n_el=$(run demo_text demo; grep -c '"id":' "$T_DIR/demo_text.out")
-n_csv=$(($(wc -l <"$T_DIR/csv.out") - 1))
+n_csv=$(($(grep -vc '^[^,]*,\(ghost\|stray\),' "$T_DIR/csv.out") - 1))
 check "CSV has one line per element ($n_el)" [ "$n_csv" -eq "$n_el" ]
+check "CSV: the reflections as ghost and stray rows" \
+	sh -c 'grep -q "^S8,ghost,L1.back," "$1" && grep -q "^PBS1,stray,PBS1.back," "$1"' sh "$T_DIR/csv.out"
 check "every CSV line has as many fields as the header" sh -c '
 	tr -d "\r" <"$1" | awk -F, "NR == 1 { n = NF } NF != n { bad = 1 } END { exit bad }"' \
 	sh "$T_DIR/csv.out"
