@@ -259,6 +259,46 @@ START_TEST(test_ghost_focus_over)
 }
 END_TEST
 
+/* Second order between two flat windows, by hand (ghost-conventions.md):
+ * 1 W reaches W2 (transmission 1); its front sends 0.02 W back; W1 passes
+ * it back whole and reflects it forward off its back from outside,
+ * 0.02 · 0.01 = 2e-4 W, or, in through its back and off its front inside,
+ * 0.02 · (1 - 0.01)² · 0.01 = 1.9602e-4 W.  Both then travel to the dump. */
+START_TEST(test_second_order_pair)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},'path':["
+	    "{'id':'W1','type':'window','surface_reflectance':0.01},"
+	    "{'id':'S1','type':'space','length':'50 mm'},"
+	    "{'id':'W2','type':'window','surface_reflectance':[0.02, 0]},"
+	    "{'id':'S2','type':'space','length':'50 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct ghost_set *gs = t->ghosts;
+	int outside = 0, inside = 0;
+
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		if (g->order != 2 || strcmp(g->surf_el[0]->id, "W2") != 0)
+			continue;
+		ck_assert_str_eq(g->surf_el[1]->id, "W1");
+		ck_assert_str_eq(gs->rows[g->row0 + g->nrows - 1].el->id, "BD");
+		if (g->surf[1] == GS_BACK) {
+			CHECK_REL(g->power_start, 2e-4, 1e-12);
+			outside++;
+		} else {
+			CHECK_REL(g->power_start, 1.9602e-4, 1e-12);
+			inside++;
+		}
+	}
+	ck_assert_int_eq(outside, 1);
+	ck_assert_int_eq(inside, 1);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 /* --no-ghosts is the main beam alone: no ghost set, and every row the
  * same as the ghost trace's before ghosts are added (ratios aside). */
 START_TEST(test_no_ghosts_same_rows)
@@ -294,6 +334,7 @@ main(void)
 	tcase_add_loop_test(tc, test_fresnel, 0, NELEMS(fresnel_cases));
 	tcase_add_test(tc, test_bookkeeping);
 	tcase_add_test(tc, test_ghost_focus_over);
+	tcase_add_test(tc, test_second_order_pair);
 	tcase_add_test(tc, test_no_ghosts_same_rows);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
