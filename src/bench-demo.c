@@ -23,6 +23,8 @@ const char bench_demo_text[] =
 "  },\n"
 "  \"path\": [\n"
 "    { \"id\": \"S0\", \"type\": \"space\", \"length\": \"300 mm\" },\n"
+"    { \"id\": \"ISO1\", \"type\": \"isolator\", \"label\": \"Faraday isolator\",\n"
+"      \"isolation\": 30 },\n"
 "    { \"id\": \"HWP1\", \"type\": \"waveplate\", \"label\": \"attenuator half-wave\",\n"
 "      \"retardance\": 0.5, \"angle\": 11.25, \"transmission\": 0.995,\n"
 "      \"damage\": { \"fluence\": \"10 J/cm^2\", \"pulse_width\": \"10 ns\" } },\n"

@@ -122,6 +122,24 @@ set_key_json(struct element *el, enum model_key k, json_t *v, char **cause)
 			return fail_with(cause, "%s: expected \"both\", \"x\" or \"y\", got %s",
 			    what, json_kind(v));
 		return model_set_text(el, k, json_string_value(v), cause);
+	case KIND_SURFACE:
+		/* one value for both surfaces or [front, back] (ghost-conventions.md) */
+		if (k == K_SURF_R && json_is_array(v)) {
+			if (json_array_size(v) != 2)
+				return fail_with(cause, "%s: expected one value or [front, back], "
+				    "got %zu values", what, json_array_size(v));
+			if (set_key_json(el, K_SURF_R, json_array_get(v, 0), cause) != 0 ||
+			    set_key_json(el, K_SURF_R_BACK, json_array_get(v, 1), cause) != 0)
+				return -1;
+			return 0;
+		}
+		if (json_is_string(v))
+			return model_set_text(el, k, json_string_value(v), cause);
+		if (get_number(v, &x, what, cause) != 0)
+			return -1;
+		if (x == MODEL_UNCOATED)
+			x = 2;          /* a typed -1 is out of range, not "uncoated" */
+		break;
 	case KIND_CHOICE:
 		if (!json_is_string(v))
 			return fail_with(cause, "%s: expected a name, got %s", what, json_kind(v));
@@ -195,7 +213,7 @@ bench_element_from_json(json_t *obj, struct element *el, int need_id,
 	if (!json_is_string(jtype) || model_type_parse(json_string_value(jtype), &type) != 0)
 		return fail_with(cause, "element '%s': type: unknown type %s%s%s (space, mirror, "
 		    "lens, splitter, window, filter, waveplate, polarizer, iris, dump, "
-		    "detector, target)", id, json_is_string(jtype) ? "'" : "",
+		    "detector, target, isolator)", id, json_is_string(jtype) ? "'" : "",
 		    json_is_string(jtype) ? json_string_value(jtype) : json_kind(jtype),
 		    json_is_string(jtype) ? "'" : "");
 	model_element_init(el, type, jid != NULL ? id : "");
@@ -445,6 +463,9 @@ read_source(json_t *obj, struct source *s, struct bench *b, json_t **own, char *
 				return -1;
 			if (!(s->m2[0] >= 1 && s->m2[1] >= 1))
 				return fail_with(cause, "source: m2: must be >= 1 (M² of a real beam)");
+		} else if (strcmp(key, "max_return") == 0) {
+			if (get_positive(v, DIM_POWER, &s->max_return, "source: max_return", cause))
+				return -1;
 		} else if (strcmp(key, "divergence") == 0) {
 			/* M² follows from it; a tolerance belongs on a value the
 			 * file writes back, so the divergence takes none */
@@ -473,7 +494,8 @@ read_source(json_t *obj, struct source *s, struct bench *b, json_t **own, char *
 			}
 		} else {
 			return fail_with(cause, "source: unknown key '%s' (wavelength, power, "
-			    "pulsed, waist, waist_position, m2, divergence, polarization)", key);
+			    "pulsed, waist, waist_position, m2, divergence, polarization, "
+			    "max_return)", key);
 		}
 	}
 	if (have_power && s->energy_given)
@@ -544,6 +566,17 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 			if (get_positive(v, DIM_IRRADIANCE, &b->air_breakdown, "air_breakdown", cause))
 				return -1;
 			b->air_given = 1;
+		} else if (strcmp(key, "ghost_tilt") == 0) {
+			if (get_number(v, &b->ghost_tilt, "ghost_tilt", cause))
+				return -1;
+			if (!(b->ghost_tilt > 0 && b->ghost_tilt < 90))
+				return fail_with(cause, "ghost_tilt: %g is out of range "
+				    "(allowed: (0, 90) degrees)", b->ghost_tilt);
+			b->tilt_given = 1;
+		} else if (strcmp(key, "stray_warn") == 0) {
+			if (get_positive(v, DIM_POWER, &b->stray_warn, "stray_warn", cause))
+				return -1;
+			b->stray_given = 1;
 		} else if (strcmp(key, "source") == 0) {
 			json_t *own = NULL;
 			int rc = read_source(v, &b->src, b, &own, cause);
@@ -559,7 +592,8 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 				return -1;
 		} else {
 			return fail_with(cause, "unknown top-level key '%s' (format, name, "
-			    "notes, safety_factor, air_breakdown, source, points, tolerances, path)", key);
+			    "notes, safety_factor, air_breakdown, ghost_tilt, stray_warn, source, points, "
+			    "tolerances, path)", key);
 		}
 	}
 	if (b->name == NULL || b->name[0] == '\0')
@@ -836,6 +870,10 @@ key_json(const struct element *el, enum model_key k, int units)
 		return json_boolean(el->val[k] != 0);
 	case KIND_AXIS:
 		return json_string(el->val[k] == AXIS_X ? "x" : el->val[k] == AXIS_Y ? "y" : "both");
+	case KIND_SURFACE:
+		if (el->val[k] == MODEL_UNCOATED)
+			return json_string("uncoated");
+		return quantity_json(el->val[k], DIM_NONE, 0, units);
 	case KIND_CHOICE: {
 		char *t = model_value_text(el, k);
 		json_t *j = json_string(t);
@@ -938,6 +976,11 @@ head_json(const struct bench *b, int units)
 	if (b->air_given)
 		json_object_set_new(o, "air_breakdown",
 		    quantity_json(b->air_breakdown, DIM_IRRADIANCE, 0, units));
+	if (b->tilt_given)
+		json_object_set_new(o, "ghost_tilt", json_real(b->ghost_tilt));
+	if (b->stray_given)
+		json_object_set_new(o, "stray_warn",
+		    quantity_json(b->stray_warn, DIM_POWER, 0, units));
 	json_object_set_new(src, "wavelength", src_json(b, TS_WAVELENGTH,
 	    quantity_json(s->wavelength, DIM_LENGTH, 1, units)));
 	if (!s->energy_given)
@@ -978,6 +1021,9 @@ head_json(const struct bench *b, int units)
 	else
 		json_object_set_new(src, "polarization", src_json(b, TS_POLARIZATION,
 		    json_real(s->pol_angle_deg)));
+	if (!isnan(s->max_return))
+		json_object_set_new(src, "max_return", quantity_json(s->max_return, DIM_POWER,
+		    0, units));
 	json_object_set_new(o, "source", src);
 	if ((dflt = bench_tol_defaults_to_json(b)) != NULL)
 		json_object_set_new(o, "tolerances", dflt);

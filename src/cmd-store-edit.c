@@ -118,7 +118,7 @@ add_fn(struct bench *b, void *arg, char **cause)
 	}
 	if (model_type_parse(a->type, &t) != 0)
 		return fail_with(cause, "unknown type '%s' (space, mirror, lens, splitter, "
-		    "window, filter, waveplate, polarizer, iris, dump, detector, target)", a->type);
+		    "window, filter, waveplate, polarizer, iris, dump, detector, target, isolator)", a->type);
 	if (a->id[0] == '\0')
 		return fail_with(cause, "a new %s needs an id", a->type);
 	if (store_part_get(a->s, a->part, &el, cause) != 0)

@@ -31,7 +31,7 @@ int
 cmd_trace_print(const struct bench *b, enum report_format fmt,
     const struct report_opts *o)
 {
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, o->trace_opts);
 	char *text, *cause = NULL;
 	int rc, over = 0;
 
@@ -275,11 +275,12 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		{ "point", required_argument, NULL, 'p' },
 		{ "every-point", no_argument, NULL, 'e' },
 		{ "explain", required_argument, NULL, 'x' },
+		{ "no-ghosts", no_argument, NULL, 'g' },
 		{ "help", no_argument, NULL, 'h' },
 		{ NULL, 0, NULL, 0 },
 	};
 	enum report_format fmt = REPORT_TABLE;
-	struct report_opts ro = { 0, 0, NULL };
+	struct report_opts ro = { 0, 0, NULL, 0 };
 	const char *color = "auto";
 	struct bench *b;
 	char *cause = NULL, *origin = NULL;
@@ -316,10 +317,13 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 		case 'x':
 			explain = optarg;
 			break;
+		case 'g':
+			ro.trace_opts |= TRACE_NO_GHOSTS;
+			break;
 		case 'h':
 			printf("Usage: " PROG " trace FILE | BENCH[@SETUP] | --demo"
 			    " [--format table|json|csv] [--color WHEN] [--ascii]\n"
-			    "       [--point NAME | --every-point] [--explain ID]\n"
+			    "       [--point NAME | --every-point] [--explain ID] [--no-ghosts]\n"
 			    "An operand that is not a file names a bench in the database: its\n"
 			    "draft, or with @SETUP a recorded setup (a number, 2 or #2, or a name).\n"
 			    "--point NAME traces that operating point; --every-point traces the base\n"
@@ -328,6 +332,7 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 			    "rating as given, the wavelength and pulse-width factors and their rules,\n"
 			    "the limit, the caution level, the beam's value there and the ratio\n"
 			    "(with --point NAME, at that point).\n"
+			    "--no-ghosts traces the main beam alone: no surface reflections.\n"
 			    "Exit status: 0 nothing over its threshold (at any point traced),\n"
 			    "1 something over, 2 trouble.\n");
 			return 0;
@@ -348,6 +353,8 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	if (explain != NULL && (every || fmt != REPORT_TABLE))
 		return cmd_usage("trace: --explain ID writes text for one bench or one point "
 		    "(not with --every-point or --format)");
+	if ((point != NULL || every) && (ro.trace_opts & TRACE_NO_GHOSTS))
+		return cmd_usage("trace: --no-ghosts traces the bench itself, not its points");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);

@@ -85,6 +85,10 @@ show_raw(double v, const struct model_key_def *d, int ascii)
 		return xstrdup(v != 0 ? "true" : "false");
 	case KIND_AXIS:
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
+	case KIND_SURFACE:
+		if (v == MODEL_UNCOATED)
+			return xstrdup("uncoated");
+		return diff_value_show(v, DIM_NONE, ascii);
 	case KIND_CHOICE:
 		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "?");
 	case KIND_ANGLE:
@@ -429,6 +433,7 @@ bench_key_show(const char *key, const char *exact)
 		enum unit_dim dim;
 	} dims[] = {
 		{ "air_breakdown", DIM_IRRADIANCE }, { "source.wavelength", DIM_LENGTH },
+		{ "stray_warn", DIM_POWER }, { "source.max_return", DIM_POWER },
 		{ "source.power", DIM_POWER }, { "source.pulse_energy", DIM_ENERGY },
 		{ "source.rep_rate", DIM_FREQUENCY }, { "source.pulse_width", DIM_TIME },
 		{ "source.waist", DIM_LENGTH }, { "source.waist_position", DIM_LENGTH },

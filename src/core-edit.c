@@ -114,7 +114,7 @@ edit_element_new(struct element *out, const char *type, const char *id,
 
 	if (model_type_parse(type, &t) != 0)
 		return fail_with(cause, "unknown type '%s' (space, mirror, lens, splitter, "
-		    "window, filter, waveplate, polarizer, iris, dump, detector, target)", type);
+		    "window, filter, waveplate, polarizer, iris, dump, detector, target, isolator)", type);
 	if (id == NULL || id[0] == '\0')
 		return fail_with(cause, "a new %s needs an id", type);
 	model_element_init(out, t, id);
@@ -322,10 +322,11 @@ edit_move(struct bench *b, const char *id, const struct edit_place *pl, char **c
 /* ---- bench settings ---- */
 
 const char *const edit_bench_keys[] = {
-	"name", "notes", "safety_factor", "air_breakdown",
+	"name", "notes", "safety_factor", "air_breakdown", "ghost_tilt", "stray_warn",
 	"source.wavelength", "source.power", "source.pulsed", "source.pulse_energy",
 	"source.rep_rate", "source.pulse_width", "source.shape", "source.waist",
-	"source.waist_position", "source.m2", "source.polarization", NULL,
+	"source.waist_position", "source.m2", "source.polarization", "source.max_return",
+	NULL,
 };
 
 static int
@@ -398,6 +399,20 @@ set_bench_key(struct bench *b, const char *key, const char *text, char **cause)
 		if (quantity(key, text, DIM_IRRADIANCE, &b->air_breakdown, cause) != 0)
 			return -1;
 		b->air_given = 1;
+	} else if (strcmp(key, "ghost_tilt") == 0) {
+		if (plain(key, text, &b->ghost_tilt, cause) != 0)
+			return -1;
+		b->tilt_given = 1;
+	} else if (strcmp(key, "stray_warn") == 0) {
+		if (quantity(key, text, DIM_POWER, &b->stray_warn, cause) != 0)
+			return -1;
+		b->stray_given = 1;
+	} else if (strcmp(key, "source.max_return") == 0) {
+		if (text[0] == '\0') {
+			s->max_return = NAN;       /* empty: not judged */
+			return 0;
+		}
+		return quantity(key, text, DIM_POWER, &s->max_return, cause);
 	} else if (strcmp(key, "source.wavelength") == 0) {
 		return quantity(key, text, DIM_LENGTH, &s->wavelength, cause);
 	} else if (strcmp(key, "source.power") == 0) {
@@ -624,6 +639,8 @@ bench_value_plain(const struct bench *b, const char *key)
 	const struct source *s = &b->src;
 	const struct { const char *key; double v; enum unit_dim dim; } qty[] = {
 		{ "air_breakdown", b->air_breakdown, DIM_IRRADIANCE },
+		{ "stray_warn", b->stray_warn, DIM_POWER },
+		{ "source.max_return", s->max_return, DIM_POWER },
 		{ "source.wavelength", s->wavelength, DIM_LENGTH },
 		{ "source.power", s->power, DIM_POWER },
 		{ "source.pulse_energy", s->pulse_energy, DIM_ENERGY },
@@ -646,6 +663,12 @@ bench_value_plain(const struct bench *b, const char *key)
 	if (!s->pulsed && (strcmp(key, "source.pulse_energy") == 0 ||
 	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0 ||
 	    strcmp(key, "source.shape") == 0))
+		return xstrdup("");
+	if (strcmp(key, "ghost_tilt") == 0) {
+		units_format_shortest(t1, sizeof t1, b->ghost_tilt, DIM_NONE, 1);
+		return xstrdup(t1);
+	}
+	if (strcmp(key, "source.max_return") == 0 && isnan(s->max_return))
 		return xstrdup("");
 	for (size_t i = 0; i < sizeof qty / sizeof *qty; i++)
 		if (strcmp(key, qty[i].key) == 0) {

@@ -77,6 +77,8 @@ static const struct {
 	{ "name", LKG_BENCH, "name" }, { "notes", LKG_BENCH, "notes" },
 	{ "safety_factor", LKG_BENCH, "safety factor" },
 	{ "air_breakdown", LKG_BENCH, "breakdown level" },
+	{ "ghost_tilt", LKG_BENCH, "tilt that makes strays" },
+	{ "stray_warn", LKG_BENCH, "stray warning level" },
 	{ "source.wavelength", LKG_SOURCE, "wavelength" },
 	{ "source.power", LKG_SOURCE, "average power" },
 	{ "source.pulsed", LKG_SOURCE, "pulsed" },
@@ -88,6 +90,7 @@ static const struct {
 	{ "source.waist_position", LKG_SOURCE, "waist position" },
 	{ "source.m2", LKG_SOURCE, "beam quality M\u00b2" },
 	{ "source.polarization", LKG_SOURCE, "polarization" },
+	{ "source.max_return", LKG_SOURCE, "tolerable return power" },
 };
 
 const char *
@@ -159,6 +162,9 @@ layout_key_hint(int key)
 		break;
 	case KIND_FRACTION:
 		buf_add(&b, "a fraction, 0 to 1 (0.99, not 99 %)");
+		break;
+	case KIND_SURFACE:
+		buf_add(&b, "a fraction below 1 (0.005 for 0.5 %), or uncoated");
 		break;
 	case KIND_ANGLE:
 		buf_add(&b, "degrees, ");

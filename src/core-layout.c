@@ -603,6 +603,10 @@ layout_value_text(const struct element *el, enum model_key k)
 	case KIND_AXIS:
 	case KIND_CHOICE:
 		return model_value_text(el, k);
+	case KIND_SURFACE:
+		if (v == MODEL_UNCOATED)
+			return model_value_text(el, k);
+		return plain_text(v);
 	default:
 		return plain_text(v);
 	}
@@ -617,6 +621,8 @@ static const struct {
 	{ "notes", DIM_COUNT, "free text about the bench" },
 	{ "safety_factor", DIM_COUNT, "margin: caution from 1/factor of a threshold, > 1" },
 	{ "air_breakdown", DIM_IRRADIANCE, "peak irradiance where a pulsed focus sparks in air" },
+	{ "ghost_tilt", DIM_COUNT, "degrees of tilt from which reflections leave the axis as strays" },
+	{ "stray_warn", DIM_POWER, "power from which a stray must be blocked (a warning)" },
 	{ "source.wavelength", DIM_LENGTH, "vacuum wavelength" },
 	{ "source.power", DIM_POWER, "average power" },
 	{ "source.pulsed", DIM_COUNT, "true: pulsed source, false: CW" },
@@ -628,6 +634,7 @@ static const struct {
 	{ "source.waist_position", DIM_LENGTH, "waist position, + downstream of the source" },
 	{ "source.m2", DIM_COUNT, "beam quality M\u00b2: \"1.3\" or \"1.3, 1.5\" (x, y)" },
 	{ "source.polarization", DIM_COUNT, "degrees from horizontal, circular or unpolarized" },
+	{ "source.max_return", DIM_POWER, "power the laser tolerates back (empty: not judged)" },
 };
 #define NBENCH_KEYS (sizeof bench_keys / sizeof *bench_keys)
 
@@ -682,6 +689,10 @@ layout_bench_value_text(const struct bench *b, const char *key)
 		return xstrdup("");
 	if (strcmp(key, "air_breakdown") == 0)
 		return layout_quantity_text(b->air_breakdown, DIM_IRRADIANCE);
+	if (strcmp(key, "stray_warn") == 0)
+		return layout_quantity_text(b->stray_warn, DIM_POWER);
+	if (strcmp(key, "source.max_return") == 0)
+		return isnan(s->max_return) ? xstrdup("") : layout_quantity_text(s->max_return, DIM_POWER);
 	if (strcmp(key, "source.wavelength") == 0)
 		return layout_quantity_text(s->wavelength, DIM_LENGTH);
 	if (strcmp(key, "source.power") == 0)
@@ -729,6 +740,7 @@ layout_required_key(enum elem_type t)
 	case EL_SPLITTER:	return K_REFLECTANCE;
 	case EL_WAVEPLATE:	return K_RETARDANCE;
 	case EL_IRIS:		return K_DIAMETER;
+	case EL_ISOLATOR:	return K_ISOLATION;
 	default:		return -1;
 	}
 }
@@ -749,6 +761,7 @@ static const struct {
 	[EL_DUMP] = { "BD", "beam dump: ends a branch" },
 	[EL_DETECTOR] = { "PD", "detector or power meter: ends a branch" },
 	[EL_TARGET] = { "T", "sample or target: ends a branch" },
+	[EL_ISOLATOR] = { "ISO", "optical isolator: passes forward, blocks light going back" },
 };
 
 const char *

@@ -17,11 +17,14 @@
 #define ALL_OPTICS (EL_BIT(EL_MIRROR) | EL_BIT(EL_LENS) | EL_BIT(EL_SPLITTER) | \
 	EL_BIT(EL_WINDOW) | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | \
 	EL_BIT(EL_POLARIZER) | EL_BIT(EL_IRIS) | EL_BIT(EL_DUMP) | \
-	EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
+	EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET) | EL_BIT(EL_ISOLATOR))
 /* bench-format.md: every element may have an aperture and a damage rating */
 #define ALL_TYPES (ALL_OPTICS | EL_BIT(EL_SPACE))
 #define TRANSMISSIVE (EL_BIT(EL_LENS) | EL_BIT(EL_WINDOW))
 #define TERMINATORS (EL_BIT(EL_DUMP) | EL_BIT(EL_DETECTOR) | EL_BIT(EL_TARGET))
+/* ghost-conventions.md: the elements whose glass surfaces reflect */
+#define SURFACED (TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | \
+	EL_BIT(EL_POLARIZER) | EL_BIT(EL_SPLITTER))
 
 static const char *const material_choices[MAT_COUNT + 1] = {
 	"fused_silica", "n-bk7", "caf2", "sapphire_o", NULL,
@@ -51,20 +54,20 @@ const struct model_key_def model_keys[K_COUNT] = {
 	[K_ROC] = { "roc", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
 	    EL_BIT(EL_MIRROR), NAN, "radius of curvature, + concave; absent = flat" },
 	[K_AOI] = { "aoi", KIND_ANGLE, DIM_NONE, 0, 90, 0, 1, 0,
-	    EL_BIT(EL_MIRROR) | EL_BIT(EL_SPLITTER), NAN, "angle of incidence, degrees" },
+	    EL_BIT(EL_MIRROR) | SURFACED, NAN, "angle of incidence, degrees" },
 	[K_FOCAL] = { "focal", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
 	    EL_BIT(EL_LENS), NAN, "focal length, - diverging" },
 	[K_AXIS] = { "axis", KIND_AXIS, DIM_NONE, 0, 2, 0, 0, 0,
 	    EL_BIT(EL_LENS), AXIS_BOTH, "both, x or y (cylindrical)" },
 	[K_TRANSMISSION] = { "transmission", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
-	    TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER),
-	    1, "power transmission, 0..1" },
+	    TRANSMISSIVE | EL_BIT(EL_FILTER) | EL_BIT(EL_WAVEPLATE) | EL_BIT(EL_POLARIZER) |
+	    EL_BIT(EL_ISOLATOR), 1, "power transmission, 0..1" },
 	[K_THICKNESS] = { "thickness", KIND_QUANTITY, DIM_LENGTH, 0, 1e3, 0, 0, 0,
 	    TRANSMISSIVE, NAN, "material thickness, for the B-integral" },
 	[K_N2] = { "n2", KIND_QUANTITY, DIM_N2, 0, 1e-9, 0, 0, 0,
 	    TRANSMISSIVE, NAN, "nonlinear index, e.g. 2.7e-16 cm^2/W" },
 	[K_INDEX] = { "index", KIND_NUMBER, DIM_NONE, 1, 10, 0, 0, 0,
-	    TRANSMISSIVE, 1.45, "linear refractive index" },
+	    SURFACED, 1.45, "linear refractive index" },
 	[K_POLARIZING] = { "polarizing", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
 	    EL_BIT(EL_SPLITTER), 0, "true: polarizing splitter" },
 	[K_OD] = { "od", KIND_NUMBER, DIM_NONE, 0, 20, 0, 0, 0,
@@ -83,6 +86,17 @@ const struct model_key_def model_keys[K_COUNT] = {
 	    TERMINATORS, NAN, "power rating" },
 	[K_APERTURE] = { "aperture", KIND_QUANTITY, DIM_LENGTH, 1e-9, 1e3, 0, 0, 0,
 	    ALL_TYPES, NAN, "clear-aperture diameter" },
+	/* ghost-conventions.md: absent = AR coated, 0.5 % per surface, assumed */
+	[K_SURF_R] = { "surface_reflectance", KIND_SURFACE, DIM_NONE, 0, 1, 0, 1, 0,
+	    SURFACED, NAN, "residual reflectance per surface, or uncoated (Fresnel)" },
+	[K_SURF_R_BACK] = { "surface_reflectance_back", KIND_SURFACE, DIM_NONE, 0, 1, 0, 1, 0,
+	    SURFACED, NAN, "back surface's reflectance when it differs from the front" },
+	[K_LEAK] = { "leak", KIND_FRACTION, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_MIRROR), NAN, "fraction that passes behind the mirror (a stray)" },
+	[K_REFLECTIVE] = { "reflective", KIND_BOOL, DIM_NONE, 0, 1, 0, 0, 0,
+	    EL_BIT(EL_FILTER), 0, "true: what the filter does not pass it reflects" },
+	[K_ISOLATION] = { "isolation", KIND_NUMBER, DIM_NONE, 0, 100, 0, 0, 0,
+	    EL_BIT(EL_ISOLATOR), NAN, "reverse isolation in dB, for light going back" },
 	[K_R1] = { "r1", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
 	    EL_BIT(EL_LENS), NAN, "front surface radius, + centre downstream; absent = flat" },
 	[K_R2] = { "r2", KIND_QUANTITY, DIM_LENGTH, -1e3, 1e3, 0, 0, 1,
@@ -115,6 +129,7 @@ static const double min_abs[K_COUNT] = {
 static const char *const type_names[EL_NTYPES] = {
 	"space", "mirror", "lens", "splitter", "window", "filter",
 	"waveplate", "polarizer", "iris", "dump", "detector", "target",
+	"isolator",
 };
 
 static const char *const key_paths[K_COUNT - K_DMG_FIRST] = {
@@ -293,6 +308,11 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 		    el->id, model_key_path(k), shown);
 	}
 	v = v == 0 ? 0.0 : v;           /* -0 is 0: one value, one text */
+	if (d->kind == KIND_SURFACE && v == MODEL_UNCOATED) {
+		el->val[k] = v;
+		el->set |= KEY_BIT(k);
+		return 0;
+	}
 	units_format_shortest(shown, sizeof shown, v,
 	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 	bad = !model_key_in_range(k, v);
@@ -435,6 +455,15 @@ set_value_text(struct element *el, enum model_key k, const char *text, char **ca
 			return fail_with(cause, "element '%s': %s: '%s' is not true or false",
 			    el->id, model_key_path(k), text);
 		break;
+	case KIND_SURFACE:
+		if (strcmp(text, "uncoated") == 0)
+			v = MODEL_UNCOATED;
+		else if (parse_plain(text, &v) != 0)
+			return fail_with(cause, "element '%s': %s: '%s' is neither a fraction "
+			    "nor uncoated", el->id, model_key_path(k), text);
+		else if (v == MODEL_UNCOATED)
+			v = 2;          /* typed -1 is out of range, not "uncoated" */
+		break;
 	case KIND_AXIS:
 		if (strcmp(text, "both") == 0)
 			v = AXIS_BOTH;
@@ -488,6 +517,10 @@ model_value_text(const struct element *el, enum model_key k)
 		return xstrdup(v == AXIS_X ? "x" : v == AXIS_Y ? "y" : "both");
 	case KIND_CHOICE:
 		return xstrdup(v >= d->lo && v <= d->hi ? d->choices[(int)v] : "");
+	case KIND_SURFACE:
+		if (v == MODEL_UNCOATED)
+			return xstrdup("uncoated");
+		/* FALLTHROUGH */
 	default:
 		units_format_exact(tmp, sizeof tmp, v, DIM_NONE);
 		tol_format(tt, sizeof tt, tol_of(el, k), DIM_NONE, 0);
@@ -602,6 +635,7 @@ model_source_defaults(struct source *s)
 	s->m2[0] = s->m2[1] = 1;
 	s->shape = PULSE_GAUSSIAN;
 	s->pol = POL_LINEAR;
+	s->max_return = NAN;
 }
 
 struct bench *
@@ -612,6 +646,8 @@ model_bench_new(const char *name)
 	b->name = xstrdup(name != NULL ? name : "");
 	b->safety_factor = 2;
 	b->air_breakdown = 1e14;
+	b->ghost_tilt = 1;          /* degrees, ghost-conventions.md */
+	b->stray_warn = 1e-3;       /* W: common practice, class 2 CW limit */
 	model_source_defaults(&b->src);
 	return b;
 }

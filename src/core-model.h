@@ -20,6 +20,7 @@
 enum elem_type {
 	EL_SPACE, EL_MIRROR, EL_LENS, EL_SPLITTER, EL_WINDOW, EL_FILTER,
 	EL_WAVEPLATE, EL_POLARIZER, EL_IRIS, EL_DUMP, EL_DETECTOR, EL_TARGET,
+	EL_ISOLATOR,
 	EL_NTYPES
 };
 #define EL_BIT(t)  (1u << (t))
@@ -33,6 +34,7 @@ enum key_kind {
 	KIND_NUMBER,            /* plain number (od, waves, ratio, index) */
 	KIND_BOOL,              /* true/false */
 	KIND_AXIS,              /* "both" | "x" | "y" */
+	KIND_SURFACE,           /* fraction in [0, 1) or "uncoated" (MODEL_UNCOATED) */
 	KIND_CHOICE             /* one of the row's `choices`, stored as its index */
 };
 
@@ -42,12 +44,16 @@ enum model_key {
 	K_POLARIZING, K_OD, K_MAX_ABSORBED, K_RETARDANCE, K_ANGLE,
 	K_EXTINCTION, K_DIAMETER, K_MAX_POWER, K_APERTURE,
 	K_R1, K_R2, K_MATERIAL, K_BREWSTER, K_PHASE,
+	K_SURF_R, K_SURF_R_BACK, K_LEAK, K_REFLECTIVE, K_ISOLATION,
 	K_DMG_CW_LINEAR, K_DMG_CW_IRRADIANCE, K_DMG_FLUENCE,
 	K_DMG_WAVELENGTH, K_DMG_PULSE_WIDTH,
 	K_COUNT
 };
 #define K_DMG_FIRST K_DMG_CW_LINEAR
 #define KEY_BIT(k)  ((uint64_t)1 << (k))
+
+/* surface_reflectance "uncoated": Fresnel from the index (ghost-conventions.md) */
+#define MODEL_UNCOATED (-1.0)
 
 enum axis_sel { AXIS_BOTH = 0, AXIS_X = 1, AXIS_Y = 2 };
 /* Glasses of the `material` key, in the order of material_names[]
@@ -117,6 +123,7 @@ struct source {
 	int              divergence_given;   /* written instead of m2 */
 	enum pol_kind    pol;
 	double           pol_angle_deg;
+	double           max_return;         /* W tolerable back at the source; NAN: not judged */
 };
 
 /* Operating points (core-point.h): named lists of changes to the bench. */
@@ -132,6 +139,9 @@ struct bench {
 	double         safety_factor;   /* > 1 */
 	double         air_breakdown;   /* W/m² */
 	int            safety_given, air_given;
+	double         ghost_tilt;      /* degrees: at or above, reflections are strays */
+	double         stray_warn;      /* W: a stray at or above warns */
+	int            tilt_given, stray_given;
 	struct source  src;
 	struct branch  path;        /* owned */
 	struct point_list points;   /* owned; empty for most benches */

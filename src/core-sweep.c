@@ -62,7 +62,8 @@ element_knob(struct bench *b, const char *text, const char *end, struct element 
 		free(t);
 		return -1;
 	}
-	if (model_keys[k].kind == KIND_BOOL || model_keys[k].kind == KIND_AXIS) {
+	if (model_keys[k].kind == KIND_BOOL || model_keys[k].kind == KIND_AXIS ||
+	    model_keys[k].kind == KIND_SURFACE) {
 		fail_with(cause, "knob '%s.%s': %s is not a number, it cannot be swept",
 		    t, dot + 1, dot + 1);
 		free(t);

@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "core-trace.h"
+#include "core-ghost.h"
 #include "core-material.h"
 #include "core-polar.h"
 #include "core-thick.h"
@@ -21,7 +22,7 @@
 static const char *const flag_names[TF_COUNT] = {
 	"clipping", "hard_clipping", "wavelength_scaled", "pulse_scaled",
 	"pulse_scaling_out_of_range", "pulsed_rating_on_cw", "self_focusing",
-	"focus", "air_breakdown", "above_critical_power",
+	"focus", "air_breakdown", "above_critical_power", "ghosts",
 };
 
 const char *
@@ -38,7 +39,7 @@ trace_warn_name(enum trace_warn_kind k)
 {
 	static const char *const names[] = {
 		"unterminated", "b_integral", "air_breakdown", "self_focusing",
-		"unrated_dump", "unrated_absorber",
+		"unrated_dump", "unrated_absorber", "ghost_over", "stray", "return_power",
 	};
 
 	return names[k];
@@ -70,6 +71,25 @@ struct cursor {
 	enum port             port;
 	struct state          st;
 };
+
+void
+trace_add_warning(struct trace *t, enum trace_warn_kind kind, const struct element *parent,
+    enum port port, const struct element *after, double value)
+{
+	struct trace_warning *w;
+
+	if (t->nwarn == t->capwarn) {
+		t->capwarn = t->capwarn ? 2 * t->capwarn : 8;
+		t->warn = xreallocarray(t->warn, t->capwarn, sizeof *t->warn);
+	}
+	w = &t->warn[t->nwarn++];
+	w->kind = kind;
+	w->parent = parent;
+	w->port = port;
+	w->after = after;
+	w->value = value;
+	w->distance = NAN;
+}
 
 static void
 warn(struct trace *t, enum trace_warn_kind kind, const struct cursor *c,
@@ -198,6 +218,7 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 		}
 		/* fall through */
 	case EL_LENS:
+	case EL_ISOLATOR:
 		polar_scalar(main_m, model_get(el, K_TRANSMISSION));
 		break;
 	case EL_FILTER:
@@ -233,7 +254,8 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 /* What the element does to the beam's size; returns how far z advances
  * through it (its glass; 0 for thin elements). */
 static double
-element_optics(const struct element *el, double lambda, struct state *st)
+optics_axes(const struct element *el, double lambda, struct beam_axis *x,
+    struct beam_axis *y)
 {
 	double fx, fy;
 
@@ -242,14 +264,48 @@ element_optics(const struct element *el, double lambda, struct state *st)
 		if (!model_has(el, K_ROC))
 			return 0;
 		beam_mirror_focal(el->val[K_ROC], model_get(el, K_AOI), &fx, &fy);
-		beam_lens(&st->x, fx);
-		beam_lens(&st->y, fy);
+		beam_lens(x, fx);
+		beam_lens(y, fy);
 		return 0;
 	case EL_LENS:
 	case EL_WINDOW:
-		return thick_apply(el, lambda, &st->x, &st->y);
+		return thick_apply(el, lambda, x, y);
 	default:
 		return 0;
+	}
+}
+
+static double
+element_optics(const struct element *el, double lambda, struct state *st)
+{
+	return optics_axes(el, lambda, &st->x, &st->y);
+}
+
+void
+trace_element_optics(const struct element *el, double lambda, struct beam_axis *x,
+    struct beam_axis *y)
+{
+	(void)optics_axes(el, lambda, x, y);
+}
+
+void
+trace_element_ports(const struct element *el, double lambda, const double s_in[4],
+    double *main_out, double *side_out)
+{
+	struct mueller mm, ms;
+	double s[4];
+
+	*main_out = *side_out = 0;
+	if (el->type == EL_SPACE) {
+		*main_out = s_in[0];
+		return;
+	}
+	element_mueller(el, lambda, &mm, &ms);
+	polar_apply(&mm, s_in, s);
+	*main_out = s[0] > 0 ? s[0] : 0;
+	if (el->side_port != PORT_NONE) {
+		polar_apply(&ms, s_in, s);
+		*side_out = s[0] > 0 ? s[0] : 0;
 	}
 }
 
@@ -531,6 +587,12 @@ trace_run(const struct bench *b)
 struct trace *
 trace_rerun(struct trace *t, const struct bench *b)
 {
+	return trace_rerun_opts(t, b, 0);
+}
+
+struct trace *
+trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
+{
 	struct cursor *stack;
 	size_t top = 0, cap = 16, nrow = 0;
 
@@ -551,6 +613,8 @@ trace_rerun(struct trace *t, const struct bench *b)
 	t->safe_source_power = NAN;
 	t->nonfinite = NULL;
 	t->nonfinite_what = NULL;
+	ghost_set_free(t->ghosts);
+	t->ghosts = NULL;
 	stack = xcalloc(cap, sizeof *stack);
 	stack[0].br = &b->path;
 	start_state(b, &stack[0].st);
@@ -608,6 +672,8 @@ trace_rerun(struct trace *t, const struct bench *b)
 	if (t->worst >= 0)
 		t->safe_source_power = t->worst_ratio > 0 ?
 		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
+	if (!(opts & TRACE_NO_GHOSTS))
+		ghost_run(t);       /* adds the reflections and rates them */
 	return t;
 }
 
@@ -618,6 +684,7 @@ trace_free(struct trace *t)
 		return;
 	free(t->rows);
 	free(t->warn);
+	ghost_set_free(t->ghosts);
 	free(t);
 }
 

@@ -26,8 +26,9 @@ enum trace_flag {
 	TF_AIR_BREAKDOWN       = 1 << 8,
 	TF_ABOVE_CRITICAL      = 1 << 9,   /* P ≥ P_cr, but the collapse distance
 	                                    * exceeds the thickness: a note */
+	TF_GHOSTS              = 1 << 10,  /* the ratio counts ghosts meeting it */
 };
-#define TF_COUNT 10
+#define TF_COUNT 11
 const char *trace_flag_name(unsigned bit);     /* "clipping", ... ; bit is one flag */
 
 /* A waist in a gap.  It is a focus when it concentrates the beam: the
@@ -78,9 +79,12 @@ struct trace_row {
 
 enum trace_warn_kind { TW_UNTERMINATED, TW_B_INTEGRAL, TW_AIR_BREAKDOWN, TW_SELF_FOCUSING,
 	TW_UNRATED_DUMP,     /* a dump with no max_power takes power */
-	TW_UNRATED_ABSORBER  /* another optic without any rating absorbs (or, a
+	TW_UNRATED_ABSORBER, /* another optic without any rating absorbs (or, a
 	                      * detector or target, takes) more than
 	                      * TRACE_UNRATED_LEVEL */
+	TW_GHOST_OVER,       /* a ghost over at an element (after: it; value: ratio) */
+	TW_STRAY,            /* a stray at or above stray_warn (after: its source; W) */
+	TW_RETURN_POWER      /* more than max_return back at the source (W) */
 };
 /* Absorbed power above which an unrated optic is worth a warning: 0.5 W,
  * the CW limit of class 3B (IEC 60825-1, from memory), where a beam starts
@@ -109,7 +113,12 @@ struct trace {
 	const struct element *nonfinite;        /* borrowed: first element with a result that
 	                                         * is not a finite number; NULL: none */
 	const char           *nonfinite_what;   /* static: which result ("beam radius") */
+	struct ghost_set     *ghosts;   /* owned (core-ghost.h); NULL: main beam only */
 };
+
+/* trace_rerun_opts: the main beam alone, exactly as before ghosts were
+ * traced (--no-ghosts). */
+#define TRACE_NO_GHOSTS 1u
 
 /* The bench must have passed model_validate.  Never fails. */
 struct trace *trace_run(const struct bench *);     /* caller frees */
@@ -117,6 +126,7 @@ struct trace *trace_run(const struct bench *);     /* caller frees */
  * NULL t allocates).  The workbench retraces on every edit this way, and a
  * large bench then costs no fresh pages. */
 struct trace *trace_rerun(struct trace *t, const struct bench *);
+struct trace *trace_rerun_opts(struct trace *t, const struct bench *, unsigned opts);
 void          trace_free(struct trace *);          /* NULL ok */
 /* 0, or -1 with *cause naming the element when some result of the trace is
  * not a finite number (values at the edge of their ranges, multiplied
@@ -128,6 +138,16 @@ int           trace_check(const struct trace *, char **cause);
 void          trace_branch_name(const struct element *parent, enum port,
                   char *buf, size_t n);
 const char   *trace_warn_name(enum trace_warn_kind);
+/* For the ghost engine: what an element does to q (lenses, curved
+ * mirrors), and the power it sends to its continuing and side ports from
+ * the Stokes vector s_in that reaches it after clipping. */
+void          trace_element_optics(const struct element *, double lambda,
+                  struct beam_axis *x, struct beam_axis *y);
+void          trace_element_ports(const struct element *, double lambda,
+                  const double s_in[4], double *main_out, double *side_out);
+void          trace_add_warning(struct trace *, enum trace_warn_kind,
+                  const struct element *parent, enum port,
+                  const struct element *after, double value);
 /* Radii dz past the start of a row's plane (inside a space). */
 void          trace_radius_at(const struct trace *, const struct trace_row *,
                   double dz, double *wx, double *wy);

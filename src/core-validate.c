@@ -110,6 +110,28 @@ check_splitter(const struct element *el, char **cause)
 	return 0;
 }
 
+/* ghost-conventions.md: "uncoated" is the Fresnel reflectance of a glass
+ * the file names; of a guessed one it is refused.  A mirror's leak and its
+ * reflectance cannot pass more than arrives. */
+static int
+check_surfaces(const struct element *el, char **cause)
+{
+	static const enum model_key surf[] = { K_SURF_R, K_SURF_R_BACK };
+
+	for (size_t i = 0; i < 2; i++)
+		if (model_has(el, surf[i]) && el->val[surf[i]] == MODEL_UNCOATED &&
+		    !model_has(el, K_INDEX) && !model_has(el, K_MATERIAL))
+			return fail_with(cause, "element '%s': %s \"uncoated\" needs the "
+			    "glass's index or material (an uncoated surface of a guessed "
+			    "glass is refused)", el->id, model_key_path(surf[i]));
+	if (el->type == EL_MIRROR && model_has(el, K_LEAK) && !model_has(el, K_RS) &&
+	    !model_has(el, K_RP) && el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
+		return fail_with(cause, "element '%s': leak %g + reflectance %g exceeds 1 "
+		    "(the mirror would make power)", el->id, el->val[K_LEAK],
+		    model_get(el, K_REFLECTANCE));
+	return 0;
+}
+
 static int
 check_element(struct element *el, struct element *parent, size_t depth, void *arg)
 {
@@ -176,9 +198,15 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 		if (require(el, K_DIAMETER, cause) != 0)
 			return -1;
 		break;
+	case EL_ISOLATOR:
+		if (require(el, K_ISOLATION, cause) != 0)
+			return -1;
+		break;
 	default:
 		break;
 	}
+	if (check_surfaces(el, cause) != 0)
+		return -1;
 	if (exclusive(el, K_MATERIAL, K_INDEX, cause) != 0)
 		return -1;
 	if (model_has(el, K_MATERIAL) && !isnan(v->wavelength)) {
@@ -287,6 +315,8 @@ model_source_validate(const struct source *s, char **cause)
 		    "source: power must be given and > 0");
 	if (s->pol == POL_LINEAR && !isfinite(s->pol_angle_deg))
 		return fail_with(cause, "source: polarization angle must be finite");
+	if (!isnan(s->max_return) && !(s->max_return > 0 && s->max_return <= 1e9))
+		return fail_with(cause, "source: max_return must be > 0 and at most 1 GW");
 	return source_ranges(s, cause);
 }
 
@@ -309,6 +339,12 @@ model_validate(const struct bench *bench, char **cause)
 	if (in_range("safety_factor", b->safety_factor, 1, 1e3, DIM_NONE, cause) ||
 	    in_range("air_breakdown", b->air_breakdown, 1e6, 1e22, DIM_IRRADIANCE, cause))
 		return -1;
+	if (!(b->ghost_tilt > 0 && b->ghost_tilt < 90))
+		return fail_with(cause, "ghost_tilt %g is out of range (allowed: (0, 90) degrees)",
+		    b->ghost_tilt);
+	if (!(b->stray_warn > 0) || in_range("stray_warn", b->stray_warn, 1e-15, 1e9,
+	    DIM_POWER, cause))
+		return !(b->stray_warn > 0) ? fail_with(cause, "stray_warn must be > 0") : -1;
 	if (model_source_validate(&b->src, cause) != 0)
 		return -1;
 	while (cap < 2 * n)

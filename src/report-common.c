@@ -144,6 +144,17 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
 		return xasprintf("unrated_dump: %s goes into %s, which has no max_power: "
 		    "give its rating to check it (branch %s)", v, after, br);
+	case TW_GHOST_OVER:
+		return xasprintf("ghost_over: a surface reflection reaches %.3g times the "
+		    "threshold of %s (branch %s)", w->value, after, br);
+	case TW_STRAY:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("stray: %s leaves the beam line at %s: block or dump it",
+		    v, after);
+	case TW_RETURN_POWER:
+		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		return xasprintf("return_power: %s of reflections comes back to the source, "
+		    "more than its max_return", v);
 	case TW_UNRATED_ABSORBER:
 		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
 		return xasprintf("unrated_absorber: %s %s %s and has no rating "

@@ -3,8 +3,10 @@
 #include <config.h>
 
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
+#include "core-ghost.h"
 #include "report.h"
 #include "util-buf.h"
 
@@ -30,6 +32,68 @@ number(struct buf *b, double v)
 	buf_addc(b, ',');
 	if (isfinite(v))
 		buf_printf(b, "%.10g", v);
+}
+
+/* The reflections in the same columns, to filter on type: a "ghost" row
+ * per element a ghost meets (branch: its surfaces, depth: its order), a
+ * "stray" row per stray (power_in: its power). */
+static void
+ghost_rows(struct buf *b, const struct trace *t)
+{
+	const struct ghost_set *gs = t->ghosts;
+	char name[2][160], what[330];
+
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		ghost_surface_name(g, 0, name[0], sizeof name[0]);
+		if (g->order == 2)
+			ghost_surface_name(g, 1, name[1], sizeof name[1]);
+		snprintf(what, sizeof what, "%s%s%s", name[0], g->order == 2 ? ">" : "",
+		    g->order == 2 ? name[1] : "");
+		for (size_t k = 0; k < g->nrows; k++) {
+			const struct ghost_row *r = &gs->rows[g->row0 + k];
+			char fl[128] = "";
+
+			field(b, r->el->id);
+			buf_add(b, ",ghost,");
+			field(b, what);
+			buf_printf(b, ",%d", g->order);
+			number(b, t->rows[r->trace_row].z);
+			number(b, r->power_in);
+			number(b, r->power_lost);
+			number(b, r->wx);
+			number(b, r->wy);
+			number(b, r->irradiance);
+			number(b, r->linear_density);
+			number(b, r->peak_irradiance);
+			number(b, r->fluence);
+			buf_add(b, ",,,,");
+			number(b, r->ratio);
+			buf_printf(b, ",%s,", damage_status_name(r->status));
+			for (int f = 0; f < GF_COUNT; f++)
+				if (g->flags & (1u << f))
+					snprintf(fl + strlen(fl), sizeof fl - strlen(fl), "%s%s",
+					    fl[0] ? ";" : "", ghost_flag_name(1u << f));
+			field(b, fl);
+			buf_add(b, "\r\n");
+		}
+	}
+	for (size_t i = 0; i < gs->nstrays; i++) {
+		const struct ghost_stray *s = &gs->strays[i];
+
+		snprintf(what, sizeof what, "%s.%s", s->from->id, s->what);
+		field(b, s->from->id);
+		buf_add(b, ",stray,");
+		field(b, what);
+		buf_add(b, ",1,");
+		number(b, s->power);
+		buf_add(b, ",,,,,,,");
+		number(b, s->peak_power);
+		buf_add(b, ",,,,,");
+		buf_add(b, s->power >= t->bench->stray_warn ? "block," : ",");
+		buf_add(b, "\r\n");
+	}
 }
 
 char *
@@ -69,5 +133,7 @@ report_csv(const struct trace *t)
 		field(&b, flags);
 		buf_add(&b, "\r\n");
 	}
+	if (t->ghosts != NULL)
+		ghost_rows(&b, t);
 	return buf_take(&b);
 }

@@ -5,8 +5,10 @@
 #include <config.h>
 
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 
+#include "core-ghost.h"
 #include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
@@ -175,6 +177,108 @@ waist_json(struct buf *b, const struct trace_row *r, int present)
 	}
 }
 
+/* ghost-conventions.md, Output: ghosts, strays, return_power. */
+static void
+ghosts_json(struct buf *b, const struct trace *t)
+{
+	const struct ghost_set *gs = t->ghosts;
+	char name[160];
+
+	buf_add(b, ",\n  \"ghosts\": [");
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+		int first = 1;
+
+		buf_printf(b, "%s\n    {\"order\": %d, \"surfaces\": [", i ? "," : "", g->order);
+		for (int k = 0; k < g->order; k++) {
+			ghost_surface_name(g, k, name, sizeof name);
+			if (k)
+				buf_add(b, ", ");
+			json_put_string(b, name);
+		}
+		buf_add(b, "], \"power_start\": ");
+		json_put_number(b, g->power_start);
+		buf_add(b, ",\n      \"rows\": [");
+		for (size_t k = 0; k < g->nrows; k++) {
+			const struct ghost_row *r = &gs->rows[g->row0 + k];
+
+			buf_add(b, k ? ",\n        {\"id\": " : "\n        {\"id\": ");
+			json_put_string(b, r->el->id);
+			buf_add(b, ", \"power_in\": ");
+			json_put_number(b, r->power_in);
+			buf_add(b, ", \"radius_x\": ");
+			json_put_number(b, r->wx);
+			buf_add(b, ", \"radius_y\": ");
+			json_put_number(b, r->wy);
+			buf_add(b, ", \"irradiance\": ");
+			json_put_number(b, r->irradiance);
+			buf_add(b, ", \"fluence\": ");
+			json_put_number(b, r->fluence);
+			buf_add(b, ", \"peak_irradiance\": ");
+			json_put_number(b, r->peak_irradiance);
+			buf_add(b, ", \"ratio\": ");
+			json_put_number(b, r->ratio);
+			buf_add(b, ", \"status\": ");
+			json_put_string(b, damage_status_name(r->status));
+			buf_addc(b, '}');
+		}
+		buf_add(b, "],\n      \"foci\": [");
+		for (size_t k = 0; k < g->nfoci; k++) {
+			const struct ghost_focus *f = &gs->foci[g->focus0 + k];
+
+			buf_add(b, k ? ", {\"z\": " : "{\"z\": ");
+			json_put_number(b, f->z);
+			buf_add(b, ", \"gap\": ");
+			json_put_string(b, f->gap->id);
+			buf_add(b, ", \"distance\": ");
+			json_put_number(b, f->distance);
+			buf_add(b, ", \"radius_x\": ");
+			json_put_number(b, f->wx);
+			buf_add(b, ", \"radius_y\": ");
+			json_put_number(b, f->wy);
+			buf_add(b, ", \"peak_irradiance\": ");
+			json_put_number(b, f->peak_irradiance);
+			buf_printf(b, ", \"air_breakdown\": %s}", f->air_breakdown ? "true" : "false");
+		}
+		buf_add(b, "],\n      \"worst\": ");
+		if (g->worst >= 0) {
+			buf_add(b, "{\"id\": ");
+			json_put_string(b, gs->rows[g->worst].el->id);
+			buf_add(b, ", \"ratio\": ");
+			json_put_number(b, g->worst_ratio);
+			buf_addc(b, '}');
+		} else {
+			buf_add(b, "null");
+		}
+		buf_add(b, ", \"flags\": [");
+		for (int k = 0; k < GF_COUNT; k++)
+			if (g->flags & (1u << k)) {
+				if (!first)
+					buf_add(b, ", ");
+				first = 0;
+				json_put_string(b, ghost_flag_name(1u << k));
+			}
+		buf_add(b, "]}");
+	}
+	buf_add(b, gs->n ? "\n  ],\n  \"strays\": [" : "],\n  \"strays\": [");
+	for (size_t i = 0; i < gs->nstrays; i++) {
+		const struct ghost_stray *s = &gs->strays[i];
+
+		snprintf(name, sizeof name, "%s.%s", s->from->id, s->what);
+		buf_add(b, i ? ",\n    {\"from\": " : "\n    {\"from\": ");
+		json_put_string(b, name);
+		buf_add(b, ", \"power\": ");
+		json_put_number(b, s->power);
+		buf_add(b, ", \"peak_power\": ");
+		json_put_number(b, s->peak_power);
+		buf_add(b, ", \"focus_distance\": ");
+		json_put_number(b, s->focus_distance);
+		buf_addc(b, '}');
+	}
+	buf_add(b, gs->nstrays ? "\n  ],\n  \"return_power\": " : "],\n  \"return_power\": ");
+	json_put_number(b, gs->return_power);
+}
+
 char *
 report_json(const struct trace *t)
 {
@@ -204,7 +308,9 @@ report_json(const struct trace *t)
 		else
 			buf_add(&b, "null");
 		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ||
-		    x->kind == TW_UNRATED_ABSORBER ? "power" : "value");
+		    x->kind == TW_UNRATED_ABSORBER || x->kind == TW_STRAY ||
+		    x->kind == TW_RETURN_POWER ? "power" : x->kind == TW_GHOST_OVER ? "ratio" :
+		    "value");
 		json_put_number(&b, x->value);
 		if (x->kind == TW_SELF_FOCUSING) {
 			buf_add(&b, ", \"distance\": ");
@@ -224,6 +330,8 @@ report_json(const struct trace *t)
 	}
 	buf_add(&b, ",\n  \"safe_source_power\": ");
 	json_put_number(&b, t->safe_source_power);
+	if (t->ghosts != NULL)
+		ghosts_json(&b, t);
 	buf_add(&b, "\n}\n");
 	return buf_take(&b);
 }

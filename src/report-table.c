@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-ghost.h"
 #include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
@@ -188,6 +189,82 @@ legend(struct buf *b, unsigned all)
 	}
 }
 
+static int
+by_ratio(const void *x, const void *y)
+{
+	const struct ghost *const *a = x, *const *b = y;
+	double ra = isnan((*a)->worst_ratio) ? -1 : (*a)->worst_ratio;
+	double rb = isnan((*b)->worst_ratio) ? -1 : (*b)->worst_ratio;
+
+	return ra < rb ? 1 : ra > rb ? -1 : 0;
+}
+
+/* ghost-conventions.md, Output: worst first, every ghost at caution or
+ * over and every stray to block; then how many more there are. */
+static void
+reflections(struct buf *b, const struct trace *t, int ascii)
+{
+	const struct ghost_set *gs = t->ghosts;
+	const struct ghost **order;
+	double caution = 1 / t->bench->safety_factor;
+	size_t shown = 0, rest = 0, strays = 0;
+	char name[2][160], v[48], pct[32];
+
+	if (gs == NULL || (gs->n == 0 && gs->nstrays == 0))
+		return;
+	order = xcalloc(gs->n ? gs->n : 1, sizeof *order);
+	for (size_t i = 0; i < gs->n; i++)
+		order[i] = &gs->g[i];
+	qsort(order, gs->n, sizeof *order, by_ratio);
+	buf_add(b, "\nReflections (surface ghosts and strays):\n");
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = order[i];
+		const struct ghost_focus *spark = NULL;
+
+		for (size_t k = 0; k < g->nfoci; k++)
+			if (gs->foci[g->focus0 + k].air_breakdown)
+				spark = &gs->foci[g->focus0 + k];
+		if (!(g->worst_ratio >= caution) && spark == NULL) {
+			rest++;
+			continue;
+		}
+		ghost_surface_name(g, 0, name[0], sizeof name[0]);
+		if (g->order == 2)
+			ghost_surface_name(g, 1, name[1], sizeof name[1]);
+		units_format(v, sizeof v, g->power_start, DIM_POWER, 3, ascii);
+		layout_percent(pct, sizeof pct, g->worst_ratio);
+		buf_printf(b, "  ghost %s%s%s: %s, worst at %s %s (%s)%s\n", name[0],
+		    g->order == 2 ? (ascii ? " > " : " \u2192 ") : "", g->order == 2 ? name[1] : "",
+		    v, gs->rows[g->worst].el->id, pct, layout_status_word(
+		    damage_status_of(g->worst_ratio, t->bench->safety_factor)), g->flags & GF_REFLECTANCE_ASSUMED ?
+		    "  reflectance assumed" : "");
+		if (spark != NULL) {
+			units_format(v, sizeof v, spark->distance, DIM_LENGTH, 3, ascii);
+			buf_printf(b, "    its focus in %s, %s from the nearest optic, sparks in air"
+			    " (AIR BREAKDOWN)\n", spark->gap->id, v);
+		}
+		shown++;
+	}
+	for (size_t i = 0; i < gs->nstrays; i++) {
+		const struct ghost_stray *s = &gs->strays[i];
+
+		if (s->power < t->bench->stray_warn) {
+			strays++;
+			continue;
+		}
+		units_format(v, sizeof v, s->power, DIM_POWER, 3, ascii);
+		buf_printf(b, "  stray %s.%s: %s leaves the beam line: block or dump it\n",
+		    s->from->id, s->what, v);
+		shown++;
+	}
+	units_format(v, sizeof v, gs->return_power, DIM_POWER, 3, ascii);
+	buf_printf(b, "  %zu more ghosts below 1/%g of a threshold, %zu more strays below "
+	    "the stray level; %s comes back to the source.\n", rest, t->bench->safety_factor,
+	    strays, v);
+	(void)shown;
+	free(order);
+}
+
 char *
 report_table(const struct trace *t, const struct report_opts *o)
 {
@@ -221,6 +298,7 @@ report_table(const struct trace *t, const struct report_opts *o)
 		all |= r->flags;
 	}
 	foci(&b, t, a);
+	reflections(&b, t, a);
 	if (t->nwarn > 0) {
 		buf_add(&b, "\nWarnings:\n");
 		for (size_t i = 0; i < t->nwarn; i++) {

@@ -12,6 +12,7 @@ struct report_opts {
 	int color;                  /* ANSI colour as an extra, never alone */
 	int ascii;                  /* no UTF-8 symbols */
 	const char *origin;         /* borrowed, may be NULL: "draft", "r3" (from the database) */
+	unsigned trace_opts;        /* TRACE_NO_GHOSTS: the main beam only */
 };
 
 int   report_format_parse(const char *s, enum report_format *out);   /* 0 / -1 */

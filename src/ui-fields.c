@@ -666,7 +666,12 @@ wb_k_settings(struct app *a, struct ui_pane *p)
 
 	d->focus = WB_FIELDS;
 	d->mode = WB_SETTINGS;
-	d->field = 4;               /* source.wavelength */
+	d->field = 0;               /* the beam first: source.wavelength */
+	for (int i = 0; edit_bench_keys[i] != NULL; i++)
+		if (strcmp(edit_bench_keys[i], "source.wavelength") == 0) {
+			d->field = i;
+			break;
+		}
 	d->field_top = 0;
 	app_msg(a, 0, "the beam and bench settings: Enter edits a value; Esc goes back to the chain");
 	return UI_REDRAW;

@@ -214,6 +214,7 @@ static const char *const type_items[EL_NTYPES] = {
 	[EL_FILTER] = "f\tfilter\t", [EL_WAVEPLATE] = "v\twaveplate\t",
 	[EL_POLARIZER] = "p\tpolarizer\t", [EL_IRIS] = "i\tiris\t", [EL_DUMP] = "d\tdump\t",
 	[EL_DETECTOR] = "e\tdetector\t", [EL_TARGET] = "t\ttarget\t",
+	[EL_ISOLATOR] = "o\tisolator\t",
 };
 
 static enum ui_reaction

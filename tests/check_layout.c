@@ -431,7 +431,7 @@ START_TEST(test_required_keys)
 {
 	static const char *const sample[K_COUNT] = {
 		[K_LENGTH] = "100 mm", [K_FOCAL] = "100 mm", [K_REFLECTANCE] = "0.5",
-		[K_RETARDANCE] = "0.5", [K_DIAMETER] = "5 mm",
+		[K_RETARDANCE] = "0.5", [K_DIAMETER] = "5 mm", [K_ISOLATION] = "30",
 	};
 	enum elem_type ty = (enum elem_type)_i;
 	struct bench *b = bare();
@@ -533,7 +533,7 @@ START_TEST(test_hazards_demo)
 	struct trace *t = trace_run(b);
 	struct layout_hazard *h;
 	size_t n = layout_hazards(t, &h), over = 0, caution = 0, unrated = 0, warn = 0;
-	static const char *const unrated_ids[] = { "POL1", "IR1", "BS1", "CL1", "T1" };
+	static const char *const unrated_ids[] = { "POL1", "IR1", "BS1", "CL1", "T1", "ISO1" };
 
 	for (size_t i = 0; i < n; i++) {
 		ck_assert_ptr_nonnull(h[i].el);
@@ -548,7 +548,7 @@ START_TEST(test_hazards_demo)
 			int known = 0;
 
 			unrated++;
-			for (size_t k = 0; k < 5; k++)
+			for (size_t k = 0; k < 6; k++)
 				known |= strcmp(h[i].el->id, unrated_ids[k]) == 0;
 			ck_assert_msg(known, "unrated %s", h[i].el->id);
 			ck_assert_int_ne(h[i].el->type, EL_SPACE);
@@ -562,7 +562,7 @@ START_TEST(test_hazards_demo)
 	ck_assert_uint_eq(caution, 2);
 	/* T1 takes 693 mW unrated: the trace warns (unrated_absorber, over its
 	 * 0.5 W level), so it is listed once, as that warning, not again here */
-	ck_assert_uint_eq(unrated, 4);
+	ck_assert_uint_eq(unrated, 5);     /* ISO1, the demo's isolator, too */
 	{
 		int t1 = 0;
 
@@ -604,7 +604,7 @@ END_TEST
 START_TEST(test_margin_line)
 {
 	struct bench *b = demo();
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 	char *s = layout_margin_line(t, 0, 400, "saved 12:00");
 	char *a = layout_margin_line(t, 1, 400, NULL);
 	char *n80 = layout_margin_line(t, 0, 80, "saved 12:00");
@@ -628,7 +628,7 @@ START_TEST(test_margin_line)
 	ck_assert_ptr_nonnull(strstr(s, "1 unterminated"));
 	ck_assert_ptr_nonnull(strstr(s, "1 spark"));
 	ck_assert_ptr_nonnull(strstr(s, "2 caution"));
-	ck_assert_ptr_nonnull(strstr(s, "5 unrated"));
+	ck_assert_ptr_nonnull(strstr(s, "6 unrated"));
 	ck_assert_ptr_nonnull(strstr(s, "saved 12:00"));
 	for (const char *p = a; *p; p++)
 		ck_assert_int_lt((unsigned char)*p, 128);
@@ -774,7 +774,7 @@ START_TEST(test_derivation_reports)
 {
 	struct bench *b = demo();
 	struct trace *t = trace_run(b);
-	struct report_opts o = { 0, 0, NULL };
+	struct report_opts o = { 0, 0, NULL, 0 };
 	char *table = report_table(t, &o), *json = report_json(t);
 	const char *w1 = strstr(table, "\nW1 "), *why;
 
@@ -895,7 +895,7 @@ END_TEST
 START_TEST(test_margin_widths)
 {
 	struct bench *b = demo();
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 
 	for (int w = 80; w <= 200; w++) {
 		char *s = layout_margin_line(t, 0, w, "saved 12:34");
@@ -969,7 +969,7 @@ row_of(const struct trace *t, const char *id)
 START_TEST(test_profile_path)
 {
 	static const char *const want[] = {
-		"S0", "HWP1", "S1", "PBS1", "S2", "M1", "S3", "ND1", "S4", "POL1", "S5",
+		"S0", "ISO1", "HWP1", "S1", "PBS1", "S2", "M1", "S3", "ND1", "S4", "POL1", "S5",
 		"CM1", "S6", "IR1", "S7", "BS1", "S7r", "CL1", "S8r", "PD1",
 	};
 	struct bench *b = demo();

@@ -306,9 +306,18 @@ START_TEST(test_survey)
 			t1 = j;
 	}
 	ck_assert(m1 < sv.nel && t1 < sv.nel);
-	ck_assert_double_eq_tol(sv.ratio[1 * sv.nel + m1], 0.01 * sv.ratio[m1], 1e-15);
-	ck_assert_double_eq_tol(sv.ratio[t1], 0.0495, 1e-12);          /* base */
-	ck_assert_double_eq_tol(sv.ratio[2 * sv.nel + t1], 0.099, 1e-12);  /* FM1 out */
+	/* The main beam scales exactly; at 'alignment' M1 also meets the
+	 * ghosts of the added ND9 (0.5 % of ~1 mW against its 10 mW): a few
+	 * 1e-5 more, never less. */
+	ck_assert(sv.ratio[1 * sv.nel + m1] >= 0.01 * sv.ratio[m1] * (1 - 1e-15));
+	ck_assert(sv.ratio[1 * sv.nel + m1] <= 0.01 * sv.ratio[m1] * (1 + 1e-4));
+	/* T1 by hand, plus the double bounce inside ND1 (ghost-conventions.md:
+	 * P(1 - R)R·R(1 - R)T³, R = 0.5 % assumed, T = 10^-od): at the base
+	 * 0.99·0.995²·0.005²·1e-3·0.5 W = 1.2253e-8 W, FM1 out twice that. */
+	ck_assert_double_eq_tol(sv.ratio[t1], 0.0495 + 0.99 * 0.995 * 0.995 * 25e-6 * 1e-3 * 0.5,
+	    1e-12);                                                    /* base */
+	ck_assert_double_eq_tol(sv.ratio[2 * sv.nel + t1], 0.099 + 0.99 * 0.995 * 0.995 * 25e-6 *
+	    1e-3, 1e-12);                                              /* FM1 out */
 	ck_assert_uint_eq(sv.el[t1].at, 2);
 	ck_assert_str_eq(sv.el[sv.nel - 1].id, "ND9");
 	ck_assert_uint_eq(sv.el[sv.nel - 1].present, 1);

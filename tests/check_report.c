@@ -329,8 +329,8 @@ START_TEST(test_schematic_demo)
 			ck_assert_int_eq(c->lane, sc.cell[c->prev].lane);
 		}
 	}
-	ck_assert_uint_eq(main_n, 11);   /* HWP1 ... T1 */
-	/* the spaces before HWP1 add up: S0 is 300 mm */
+	ck_assert_uint_eq(main_n, 12);   /* ISO1, HWP1 ... T1 */
+	/* the spaces before ISO1 add up: S0 is 300 mm */
 	CHECK_ABS(sc.cell[0].gap, 0.3, 1e-12);
 	strips = rep_schematic_strips(&sc, 4, lanes, row);
 	ck_assert_int_eq(strips, 3);

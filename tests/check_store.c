@@ -584,7 +584,7 @@ START_TEST(test_restore)
 	free(cause);
 	cause = NULL;
 	d = store_bench_load(st, "res", "draft", NULL, NULL);
-	ck_assert_double_eq(d->path.el[5].val[K_RS], 0.5);      /* untouched */
+	ck_assert_double_eq(d->path.el[6].val[K_RS], 0.5);      /* M1, untouched */
 	model_bench_free(d);
 	ck_assert_int_eq(store_restore(st, "res", "1", 1, &cause), 0);
 	d = store_bench_load(st, "res", "draft", NULL, NULL);

@@ -680,7 +680,7 @@ START_TEST(test_terminators)
 	    "{'id':'BS1','type':'splitter','reflectance':0.25,'reflected':[{'id':'E1','type':'%s'}]},"
 	    "{'id':'BS2','type':'splitter','reflectance':0.5,'transmitted':[{'id':'E2','type':'%s'}]},"
 	    "{'id':'E3','type':'%s'}]}", types[_i], types[(_i + 1) % 3], types[(_i + 2) % 3]);
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 
 	/* hand: 0.25; 0.75 × 0.5 transmitted; 0.75 × 0.5 reflected */
 	CHECK_REL(row_of(t, "E1")->power_lost, 0.25, 1e-12);
@@ -924,7 +924,7 @@ START_TEST(test_scaling_flags)
 	    " 'wavelength':'532 nm','pulse_width':'5 ns'}},"
 	    "{'id':'W2','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'10 ps'}},"
 	    "{'id':'W3','type':'window','damage':{'fluence':'10 J/cm^2','pulse_width':'8 ns'}}]}");
-	struct trace *t = trace_run(b);
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);  /* main beam */
 	const struct trace_row *w1 = row_of(t, "W1"), *w2 = row_of(t, "W2");
 	const struct trace_row *w3 = row_of(t, "W3");
 	double lim = 1.2e4 * 2 * sqrt(8.0 / 5);
@@ -1130,6 +1130,11 @@ gen_element(struct gen *g, struct element *el, enum elem_type type, unsigned dep
 	case EL_IRIS:
 		gen_set(el, K_DIAMETER, gen_uniform(g, 0.3e-3, 15e-3));
 		break;
+	case EL_ISOLATOR:
+		gen_set(el, K_ISOLATION, gen_uniform(g, 0, 60));
+		if (gen_chance(g, 0.5))
+			gen_set(el, K_TRANSMISSION, gen_uniform(g, 0.8, 1));
+		break;
 	case EL_DUMP:
 	case EL_DETECTOR:
 	case EL_TARGET:
@@ -1150,7 +1155,7 @@ gen_branch(struct gen *g, struct branch *br, unsigned depth)
 {
 	static const enum elem_type optics[] = {
 		EL_SPACE, EL_SPACE, EL_SPACE, EL_MIRROR, EL_LENS, EL_SPLITTER,
-		EL_WINDOW, EL_FILTER, EL_WAVEPLATE, EL_POLARIZER, EL_IRIS,
+		EL_WINDOW, EL_FILTER, EL_WAVEPLATE, EL_POLARIZER, EL_IRIS, EL_ISOLATOR,
 	};
 	unsigned n = 1 + (unsigned)(gen_next(g) % (depth == 0 ? 14 : 6));
 

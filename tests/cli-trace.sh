@@ -78,10 +78,13 @@ run csv trace --demo --format csv
 check "--format csv exits 1 too" status_is csv 1
 check "CSV header names id, type, branch and status" \
 	sh -c 'head -n 1 "$1" | grep -q "^id,type,branch,.*status"' sh "$T_DIR/csv.out"
-# One line per element: the demo's elements, counted in the bench itself.
+# One line per element: the demo's elements, counted in the bench itself;
+# the reflections follow as rows of type ghost and stray.
 n_el=$(run demo_text demo; grep -c '"id":' "$T_DIR/demo_text.out")
-n_csv=$(($(wc -l <"$T_DIR/csv.out") - 1))
+n_csv=$(($(grep -vc '^[^,]*,\(ghost\|stray\),' "$T_DIR/csv.out") - 1))
 check "CSV has one line per element ($n_el)" [ "$n_csv" -eq "$n_el" ]
+check "CSV: the reflections as ghost and stray rows" \
+	sh -c 'grep -q "^S8,ghost,L1.back," "$1" && grep -q "^PBS1,stray,PBS1.back," "$1"' sh "$T_DIR/csv.out"
 check "every CSV line has as many fields as the header" sh -c '
 	tr -d "\r" <"$1" | awk -F, "NR == 1 { n = NF } NF != n { bad = 1 } END { exit bad }"' \
 	sh "$T_DIR/csv.out"
@@ -140,6 +143,27 @@ bad_case bad_order "{$HEAD,$SRC,'path':[{'id':'BD','type':'dump'},{'id':'M2','ty
 bad_case bad_json "{$HEAD,$SRC,'path':[" "JSON"
 bad_case bad_source "{$HEAD,'source':{'wavelength':'1064 nm','power':'5 mm','waist':'1 mm'},
   'path':[]}" source power
+
+# surface reflections (ghost-conventions.md): a reflectance outside [0, 1),
+# "uncoated" of a guessed glass, an isolation below 0 dB, a lens given both
+# its focal length and a radius
+bad_case bad_surface "{$HEAD,$SRC,'path':[{'id':'W1','type':'window','surface_reflectance':1}]}" \
+	W1 surface_reflectance
+bad_case bad_surface_pair "{$HEAD,$SRC,'path':[{'id':'W2','type':'window','surface_reflectance':[0.01,-0.1]}]}" \
+	W2 surface_reflectance
+bad_case bad_uncoated "{$HEAD,$SRC,'path':[{'id':'F1','type':'filter','od':1,'surface_reflectance':'uncoated'}]}" \
+	F1 surface_reflectance uncoated index
+bad_case bad_isolation "{$HEAD,$SRC,'path':[{'id':'ISO1','type':'isolator','isolation':-3}]}" \
+	ISO1 isolation
+bad_case bad_focal_radii "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens','focal':'100 mm','r1':'50 mm'}]}" \
+	L1 focal r1
+
+# the ghosts are in the JSON; --no-ghosts leaves them out
+run ghosts trace --demo --format json
+check "trace --format json carries ghosts, strays, return_power" \
+	sh -c "grep -q '\"ghosts\": \[' '$T_DIR/ghosts.out' && grep -q '\"strays\": \[' '$T_DIR/ghosts.out' && grep -q '\"return_power\": ' '$T_DIR/ghosts.out'"
+run noghosts trace --demo --no-ghosts --format json
+check "--no-ghosts: the main beam only" sh -c "! grep -q '\"ghosts\"' '$T_DIR/noghosts.out'"
 
 run missing trace "$T_DIR/no-such-bench.json"
 check "a missing file exits 2" status_is missing 2

@@ -53,8 +53,8 @@ layout(const struct bench *b, const struct trace *t)
 		layout_percent(buf, sizeof buf, r->ratio);
 		layout_radius_text(buf, sizeof buf, r->wx, r->wy, (int)(i & 1));
 	}
-	free(layout_status_line(t, 0, 80));
-	free(layout_status_line(t, 1, 40));
+	free(layout_margin_line(t, 0, 80, "saved 12:00"));
+	free(layout_margin_line(t, 1, 40, NULL));
 	if (t->nrows == 0)
 		return;
 	np = layout_profile_path(t, t->nrows - 1, &path);

@@ -1,0 +1,680 @@
+/* core-ghost.c - first-order ghosts, strays and the combined rating
+ * (ghost-conventions.md).  Every untilted glass surface sends its residual
+ * reflection back up the beam; the ghost retraces the elements it came
+ * through, each passing the fraction it passed forward (an isolator its
+ * isolation), and is rated at every element it meets. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-ghost-impl.h"
+#include "core-thick.h"
+#include "util-err.h"
+
+static const char *const gflag_names[GF_COUNT] = {
+	"reflectance_assumed", "shape_assumed", "over",
+};
+
+const char *
+ghost_flag_name(unsigned bit)
+{
+	for (int i = 0; i < GF_COUNT; i++)
+		if (bit == 1u << i)
+			return gflag_names[i];
+	return "?";
+}
+
+void
+ghost_set_free(struct ghost_set *gs)
+{
+	if (gs == NULL)
+		return;
+	free(gs->g);
+	free(gs->rows);
+	free(gs->foci);
+	free(gs->strays);
+	free(gs);
+}
+
+void
+ghost_surface_name(const struct ghost *g, int k, char *buf, size_t n)
+{
+	const struct element *el = g->surf_el[k];
+
+	if (el == NULL) {
+		snprintf(buf, n, "?");
+		return;
+	}
+	snprintf(buf, n, "%s.%s", el->id, g->surf[k] == GS_FRONT ? "front" : "back");
+}
+
+/* ---- surface optics ---- */
+
+void
+ghost_radii(const struct element *el, double lambda, double *r1, double *r2, int *assumed)
+{
+	double n = thick_index(el, lambda), f;
+
+	*r1 = *r2 = INFINITY;
+	*assumed = 0;
+	if (el->type != EL_LENS)
+		return;
+	if (model_has(el, K_R1) || model_has(el, K_R2)) {
+		/* the file's shape; an absent radius is a flat face */
+		if (model_has(el, K_R1))
+			*r1 = el->val[K_R1];
+		if (model_has(el, K_R2))
+			*r2 = el->val[K_R2];
+		return;
+	}
+	/* focal alone: equi-convex (or equi-concave) in its index, from the
+	 * thin lensmaker's equation 1/f = (n - 1)(1/r1 - 1/r2) with r2 = -r1 */
+	f = el->val[K_FOCAL];
+	*r1 = 2 * (n - 1) * f;
+	*r2 = -*r1;
+	*assumed = 1;
+}
+
+static double
+inv(double r)
+{
+	return isinf(r) ? 0 : 1 / r;
+}
+
+double
+ghost_power_front_outside(double r1)
+{
+	return -2 * inv(r1);
+}
+
+double
+ghost_power_back_inside(double n, double r1, double r2)
+{
+	return 2 * (n - 1) * inv(r1) - 2 * n * inv(r2);
+}
+
+double
+ghost_power_back_outside(double r2)
+{
+	return 2 * inv(r2);
+}
+
+double
+ghost_power_front_inside(double n, double r1, double r2)
+{
+	return 2 * n * inv(r1) - 2 * (n - 1) * inv(r2);
+}
+
+double
+ghost_power_double(double n, double r1, double r2)
+{
+	return (3 * n - 1) * (inv(r1) - inv(r2));
+}
+
+void
+ghost_fresnel(double n, double aoi_deg, double *rs, double *rp)
+{
+	double ti = aoi_deg * M_PI / 180, st = sin(ti) / n;
+	double ci = cos(ti), ct = sqrt(1 - st * st);
+	double as = (ci - n * ct) / (ci + n * ct), ap = (ct - n * ci) / (ct + n * ci);
+
+	*rs = as * as;
+	*rp = ap * ap;
+}
+
+int
+ghost_has_surfaces(const struct element *el)
+{
+	return model_key_applies(K_SURF_R, el->type);
+}
+
+int
+ghost_untilted(const struct ghost_ctx *c, const struct element *el)
+{
+	return ghost_has_surfaces(el) && model_get(el, K_AOI) < c->b->ghost_tilt;
+}
+
+double
+ghost_surface_r(const struct ghost_ctx *c, size_t row, enum ghost_surface s,
+    unsigned *flags)
+{
+	const struct trace_row *r = &c->t->rows[row];
+	const struct element *el = r->el;
+	enum model_key k = s == GS_BACK && model_has(el, K_SURF_R_BACK) ? K_SURF_R_BACK : K_SURF_R;
+	double v, rs, rp, wp;
+
+	if (!model_has(el, k)) {
+		*flags |= GF_REFLECTANCE_ASSUMED;
+		return GHOST_R_ASSUMED;
+	}
+	v = el->val[k];
+	if (v != MODEL_UNCOATED)
+		return v;
+	/* Fresnel at the angle of incidence, s and p weighted by the Stokes
+	 * vector (x is p, S1 > 0 horizontal); the same value inside a plate */
+	ghost_fresnel(thick_index(el, c->lam), model_get(el, K_AOI), &rs, &rp);
+	wp = r->stokes[0] > 0 ? (r->stokes[0] + r->stokes[1]) / (2 * r->stokes[0]) : 0.5;
+	return wp * rp + (1 - wp) * rs;
+}
+
+double
+ghost_bulk(const struct element *el, double rf, double rb)
+{
+	double t;
+
+	if (el->type == EL_FILTER && model_has(el, K_OD))
+		return pow(10, -el->val[K_OD]);
+	if (!model_has(el, K_TRANSMISSION))
+		return 1;
+	t = el->val[K_TRANSMISSION] / ((1 - rf) * (1 - rb));
+	return t < 1 ? t : 1;
+}
+
+double
+ghost_p_clip(const struct trace_row *r)
+{
+	return r->power_in * (1 - r->clip_loss);
+}
+
+void
+ghost_mirror(const struct element *el, double pw, struct beam_axis *x, struct beam_axis *y)
+{
+	int axis = el->type == EL_LENS ? (int)model_get(el, K_AXIS) : AXIS_BOTH;
+
+	if (pw == 0 || !isfinite(pw))
+		return;
+	if (axis != AXIS_Y)
+		beam_lens(x, 1 / pw);
+	if (axis != AXIS_X)
+		beam_lens(y, 1 / pw);
+}
+
+/* ---- the set ---- */
+
+struct ghost *
+ghost_new(struct ghost_ctx *c, int order, unsigned flags)
+{
+	struct ghost_set *gs = c->gs;
+	struct ghost *g;
+
+	if (gs->n == gs->cap) {
+		gs->cap = gs->cap ? 2 * gs->cap : 16;
+		gs->g = xreallocarray(gs->g, gs->cap, sizeof *gs->g);
+	}
+	g = &gs->g[gs->n++];
+	memset(g, 0, sizeof *g);
+	g->order = order;
+	g->flags = flags;
+	g->row0 = gs->nrows;
+	g->focus0 = gs->nfoci;
+	g->worst = -1;
+	g->worst_ratio = NAN;
+	return g;
+}
+
+struct ghost_row *
+ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, const struct beam_axis *x,
+    const struct beam_axis *y, double p)
+{
+	struct ghost_set *gs = c->gs;
+	const struct trace_row *tr = &c->t->rows[u];
+	const struct source *src = &c->b->src;
+	struct damage_exposure ex;
+	struct ghost_row *r;
+	struct ghost_acc *a = &c->acc[u];
+
+	if (gs->nrows == gs->caprows) {
+		gs->caprows = gs->caprows ? 2 * gs->caprows : 64;
+		gs->rows = xreallocarray(gs->rows, gs->caprows, sizeof *gs->rows);
+	}
+	r = &gs->rows[gs->nrows++];
+	g->nrows++;
+	r->el = tr->el;
+	r->trace_row = u;
+	r->power_in = p;
+	r->wx = beam_radius(x, c->lam);
+	r->wy = beam_radius(y, c->lam);
+	r->irradiance = damage_peak_irradiance(p, r->wx, r->wy);
+	r->linear_density = damage_linear_density(p, r->wx, r->wy);
+	r->fluence = NAN;
+	r->peak_irradiance = r->irradiance;
+	if (src->pulsed) {
+		double e = p / src->rep_rate;
+
+		r->fluence = 2 * e / (M_PI * r->wx * r->wy);
+		r->peak_irradiance = damage_peak_irradiance(damage_peak_factor(src->shape) *
+		    e / src->pulse_width, r->wx, r->wy);
+	}
+	r->power_lost = 0;
+	ex.power_in = p;
+	ex.power_lost = 0;
+	ex.linear_density = r->linear_density;
+	ex.irradiance = r->irradiance;
+	ex.fluence = r->fluence;
+	r->ratio = damage_ratio(&tr->limits, &ex);
+	r->status = damage_status_of(r->ratio, c->b->safety_factor);
+	if (!isnan(r->ratio) && (g->worst < 0 || r->ratio > g->worst_ratio)) {
+		g->worst = (long)(r - gs->rows);
+		g->worst_ratio = r->ratio;
+	}
+	if (r->status == STATUS_OVER)
+		g->flags |= GF_OVER;
+	a->met = 1;
+	a->power_in += p;
+	a->irradiance += r->irradiance;
+	a->linear_density += r->linear_density;
+	if (src->pulsed)
+		a->fluence += r->fluence;
+	return r;
+}
+
+void
+ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
+    const struct beam_axis *x, const struct beam_axis *y, double p)
+{
+	const struct bench *b = c->b;
+	double len = c->t->rows[u].el->val[K_LENGTH], dz, wx, wy, w0x, w0y, ex, ey;
+	struct beam_axis x1 = *x, y1 = *y;
+	struct ghost_focus *f;
+	struct ghost_set *gs = c->gs;
+
+	if (!beam_gap_focus(x, y, c->lam, len, 0, &dz, &wx, &wy))
+		return;
+	/* the same concentration rule as a main-beam focus */
+	w0x = beam_radius(x, c->lam);
+	w0y = beam_radius(y, c->lam);
+	beam_space(&x1, len);
+	beam_space(&y1, len);
+	ex = beam_radius(&x1, c->lam);
+	ey = beam_radius(&y1, c->lam);
+	if (fmin(w0x * w0y, ex * ey) / (wx * wy) < TRACE_FOCUS_CONCENTRATION)
+		return;
+	if (gs->nfoci == gs->capfoci) {
+		gs->capfoci = gs->capfoci ? 2 * gs->capfoci : 16;
+		gs->foci = xreallocarray(gs->foci, gs->capfoci, sizeof *gs->foci);
+	}
+	f = &gs->foci[gs->nfoci++];
+	g->nfoci++;
+	f->z = z0 + dir * dz;
+	f->wx = wx;
+	f->wy = wy;
+	f->gap = c->t->rows[u].el;
+	f->distance = fmin(dz, len - dz);
+	f->peak_irradiance = damage_peak_irradiance(p, wx, wy);
+	f->air_breakdown = 0;
+	if (b->src.pulsed) {
+		double e = p / b->src.rep_rate;
+
+		f->peak_irradiance = damage_peak_irradiance(damage_peak_factor(b->src.shape) *
+		    e / b->src.pulse_width, wx, wy);
+		/* reported with the ghost's focus, not as a main-beam warning */
+		f->air_breakdown = f->distance > TRACE_PLANE_TOL &&
+		    f->peak_irradiance >= b->air_breakdown;
+	}
+}
+
+double
+ghost_clip(const struct ghost_ctx *c, size_t u, const struct beam_axis *x,
+    const struct beam_axis *y, double p)
+{
+	const struct element *el = c->t->rows[u].el;
+	double a = model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+
+	if (el->type == EL_IRIS && !(a < el->val[K_DIAMETER]))
+		a = el->val[K_DIAMETER];
+	if (isnan(a))
+		return p;
+	return p * beam_clip_transmission(beam_radius(x, c->lam), beam_radius(y, c->lam), a / 2);
+}
+
+void
+ghost_add_stray(struct ghost_ctx *c, const struct element *el, const char *what, double p,
+    double focus_distance)
+{
+	struct ghost_set *gs = c->gs;
+	const struct source *src = &c->b->src;
+	struct ghost_stray *s;
+
+	if (!(p > c->floor))
+		return;
+	if (gs->nstrays == gs->capstrays) {
+		gs->capstrays = gs->capstrays ? 2 * gs->capstrays : 16;
+		gs->strays = xreallocarray(gs->strays, gs->capstrays, sizeof *gs->strays);
+	}
+	s = &gs->strays[gs->nstrays++];
+	s->from = el;
+	s->what = what;
+	s->power = p;
+	s->peak_power = src->pulsed ?
+	    damage_peak_factor(src->shape) * (p / src->rep_rate) / src->pulse_width : NAN;
+	s->focus_distance = focus_distance;
+}
+
+/* ---- first order: back upstream ---- */
+
+/* The ghost g leaves row `from` upstream with axes x, y and power p. */
+static void
+walk_back(struct ghost_ctx *c, struct ghost *g, long from, struct beam_axis x,
+    struct beam_axis y, double p)
+{
+	const struct trace *t = c->t;
+	const struct element *branch_owner = t->rows[from].parent;
+	long u = c->prev[from];
+	size_t gi = (size_t)(g - c->gs->g), npend = 0;
+
+	while (u >= 0 && p > c->floor) {
+		const struct trace_row *tr = &t->rows[u];
+		const struct element *el = tr->el;
+		size_t gri;
+		double pin, pc, out, mo, so, s[4], scale, toward, other;
+
+		if (el->type == EL_SPACE) {
+			double len = el->val[K_LENGTH];
+
+			ghost_gap(c, g, (size_t)u, tr->z + len, -1, &x, &y, p);
+			g = &c->gs->g[gi];
+			beam_space(&x, len);
+			beam_space(&y, len);
+		}
+		pin = p;
+		ghost_add_row(c, g, (size_t)u, &x, &y, p);
+		gri = c->gs->nrows - 1;
+		p = ghost_clip(c, (size_t)u, &x, &y, p);
+		if (el->type == EL_SPACE) {
+			c->gs->rows[gri].power_lost = pin - p;
+			from = u;
+			u = c->prev[u];
+			continue;
+		}
+		/* a second reflection here, forward again: second order, traced
+		 * once this ghost is done (its rows stay together) */
+		if (tr->parent == branch_owner && ghost_untilted(c, el) &&
+		    (el->type != EL_SPLITTER || el->side_port == PORT_REFLECTED)) {
+			struct ghost_pending *q;
+
+			if (c->npend + npend == c->cappend) {
+				c->cappend = c->cappend ? 2 * c->cappend : 16;
+				c->pend = xreallocarray(c->pend, c->cappend, sizeof *c->pend);
+			}
+			q = &c->pend[c->npend + npend++];
+			q->row = (size_t)u;
+			q->x = x;
+			q->y = y;
+			q->p = p;
+		}
+		pc = ghost_p_clip(tr);
+		if (el->type == EL_ISOLATOR) {
+			toward = pow(10, -el->val[K_ISOLATION] / 10);
+			other = 0;
+		} else if (pc > 0) {
+			/* reciprocity: the fraction the forward beam came by */
+			scale = 1 - tr->clip_loss;
+			for (int i = 0; i < 4; i++)
+				s[i] = tr->stokes[i] * scale;
+			trace_element_ports(el, c->lam, s, &mo, &so);
+			toward = (t->rows[from].parent == el ? so : mo) / pc;
+			other = (t->rows[from].parent == el ? mo : so) / pc;
+		} else {
+			toward = other = 0;
+		}
+		out = p * toward;
+		if (el->side_port != PORT_NONE)
+			ghost_add_stray(c, el, "fourth_port", p * other, NAN);
+		c->gs->rows[gri].power_lost = pin - out -
+		    (el->side_port != PORT_NONE ? p * other : 0);
+		c->acc[u].power_lost += c->gs->rows[gri].power_lost;
+		trace_element_optics(el, c->lam, &x, &y);
+		p = out;
+		from = u;
+		u = c->prev[u];
+	}
+	if (u < 0 && p > c->floor)
+		c->gs->return_power += p;
+	{
+		struct ghost first = c->gs->g[gi];    /* a copy: the set grows */
+
+		for (size_t i = 0; i < npend; i++) {
+			struct ghost_pending q = c->pend[c->npend + i];
+
+			ghost_second_at(c, &first, q.row, &q.x, &q.y, q.p);
+		}
+	}
+}
+
+/* The two reflections of an element the main beam passes. */
+static void
+first_order(struct ghost_ctx *c, size_t r)
+{
+	const struct trace_row *tr = &c->t->rows[r];
+	const struct element *el = tr->el;
+	double pc = ghost_p_clip(tr), n = thick_index(el, c->lam);
+	double r1, r2, rf, rb, tb, tsp = 1, pf, pb, pwf, pwb;
+	unsigned flags = 0, fl_f = 0, fl_b = 0;
+	int assumed, tilted = !ghost_untilted(c, el);
+	struct beam_axis x, y;
+
+	if (!(pc > c->floor))
+		return;
+	ghost_radii(el, c->lam, &r1, &r2, &assumed);
+	if (assumed)
+		flags |= GF_SHAPE_ASSUMED;
+	rf = ghost_surface_r(c, r, GS_FRONT, &fl_f);
+	rb = ghost_surface_r(c, r, GS_BACK, &fl_b);
+	tb = ghost_bulk(el, rf, rb);
+	if (el->type == EL_SPLITTER) {
+		/* the front is the split coating; the back sees what it passes */
+		double s[4], mo, so;
+
+		for (int i = 0; i < 4; i++)
+			s[i] = tr->stokes[i] * (1 - tr->clip_loss);
+		trace_element_ports(el, c->lam, s, &mo, &so);
+		tsp = (el->side_port == PORT_REFLECTED ? mo : so) / pc;
+		pf = 0;
+		pb = pc * tsp * tsp * rb;
+	} else {
+		pf = pc * rf;
+		pb = pc * (1 - rf) * (1 - rf) * rb * tb * tb;
+	}
+	pwf = ghost_power_front_outside(r1);
+	pwb = ghost_power_back_inside(n, r1, r2);
+	if (tilted) {
+		/* off the axis at twice the aoi: strays, with where they focus */
+		for (int k = 0; k < 2; k++) {
+			double pw = k ? pwb : pwf, fd = NAN;
+
+			x = tr->qx;
+			y = tr->qy;
+			if (pw != 0) {
+				ghost_mirror(el, pw, &x, &y);
+				fd = fmin(beam_waist_distance(&x), beam_waist_distance(&y));
+				if (!(fd > 0))
+					fd = NAN;       /* diverging: no focus */
+			}
+			ghost_add_stray(c, el, k ? "back" : "front", k ? pb : pf, fd);
+		}
+		return;
+	}
+	for (int k = 0; k < 2; k++) {
+		double p = k ? pb : pf;
+		struct ghost *g;
+
+		if (!(p > c->floor))
+			continue;
+		x = tr->qx;
+		y = tr->qy;
+		ghost_mirror(el, k ? pwb : pwf, &x, &y);
+		g = ghost_new(c, 1, (k ? fl_f | fl_b : fl_f) | (el->type == EL_LENS ? flags : 0));
+		g->surf_el[0] = el;
+		g->surf[0] = k ? GS_BACK : GS_FRONT;
+		g->power_start = p;
+		walk_back(c, g, (long)r, x, y, p);
+	}
+}
+
+/* Light that leaves the beam line by a mirror's back or a reflective ND. */
+static void
+side_strays(struct ghost_ctx *c, size_t r)
+{
+	const struct trace_row *tr = &c->t->rows[r];
+	const struct element *el = tr->el;
+	double pc = ghost_p_clip(tr);
+
+	if (el->type == EL_MIRROR && model_has(el, K_LEAK))
+		ghost_add_stray(c, el, "leak", pc * el->val[K_LEAK], NAN);
+	if (el->type == EL_FILTER && model_get(el, K_REFLECTIVE) != 0) {
+		double tf = model_has(el, K_OD) ? pow(10, -el->val[K_OD]) :
+		    model_get(el, K_TRANSMISSION);
+
+		ghost_add_stray(c, el, "reflected", pc * (1 - tf), NAN);
+	}
+}
+
+/* prev and next of every row, from the depth-first order: a side branch
+ * follows its owner's row, so the last row seen one level up is it. */
+static void
+link_rows(struct ghost_ctx *c)
+{
+	const struct trace *t = c->t;
+	size_t maxd = 0;
+	long *last;
+
+	for (size_t i = 0; i < t->nrows; i++)
+		if (t->rows[i].depth > maxd)
+			maxd = t->rows[i].depth;
+	last = xmalloc((maxd + 2) * sizeof *last);
+	for (size_t d = 0; d <= maxd + 1; d++)
+		last[d] = -1;
+	for (size_t i = 0; i < t->nrows; i++) {
+		unsigned d = t->rows[i].depth;
+
+		c->next[i] = -1;
+		if (last[d] >= 0) {
+			c->prev[i] = last[d];
+			c->next[last[d]] = (long)i;
+		} else {
+			c->prev[i] = d > 0 ? last[d - 1] : -1;
+		}
+		last[d] = (long)i;
+		last[d + 1] = -1;       /* a deeper branch after this row is new */
+	}
+	free(last);
+}
+
+/* The element's own rating with the ghosts that met it added, coaxial and
+ * centred; then worst and safe_source_power again. */
+static void
+combine(struct ghost_ctx *c)
+{
+	struct trace *t = c->t;
+	const struct bench *b = c->b;
+
+	t->worst = -1;
+	t->worst_ratio = NAN;
+	for (size_t i = 0; i < t->nrows; i++) {
+		struct trace_row *r = &t->rows[i];
+		const struct ghost_acc *a = &c->acc[i];
+
+		if (a->met && a->power_in > 0) {
+			struct damage_exposure ex;
+
+			ex.power_in = r->power_in + a->power_in;
+			ex.power_lost = r->power_lost + a->power_lost;
+			ex.linear_density = r->linear_density + a->linear_density;
+			ex.irradiance = r->irradiance + a->irradiance;
+			ex.fluence = b->src.pulsed ? r->fluence + a->fluence : NAN;
+			r->flags |= TF_GHOSTS;
+			if (damage_rated(&r->limits)) {
+				r->ratio = damage_ratio(&r->limits, &ex);
+				if (!isfinite(r->ratio))
+					r->ratio = INFINITY;
+				r->status = damage_status_of(r->ratio, b->safety_factor);
+			}
+		}
+		if (!isnan(r->ratio) && (t->worst < 0 || r->ratio > t->worst_ratio)) {
+			t->worst = (long)i;
+			t->worst_ratio = r->ratio;
+		}
+	}
+	t->safe_source_power = NAN;
+	if (t->worst >= 0)
+		t->safe_source_power = t->worst_ratio > 0 ?
+		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
+}
+
+/* Ghosts that never reach an element are dropped (their power may still
+ * have reached the source); rows and foci move with the ones kept. */
+static void
+compact(struct ghost_set *gs)
+{
+	size_t k = 0;
+
+	for (size_t i = 0; i < gs->n; i++)
+		if (gs->g[i].nrows > 0)
+			gs->g[k++] = gs->g[i];
+	gs->n = k;
+}
+
+static void
+warnings(struct ghost_ctx *c)
+{
+	struct trace *t = c->t;
+	struct ghost_set *gs = c->gs;
+
+	gs->nover = 0;
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		if (g->flags & GF_OVER) {
+			const struct trace_row *tr = &t->rows[gs->rows[g->worst].trace_row];
+
+			gs->nover++;
+			trace_add_warning(t, TW_GHOST_OVER, tr->parent, tr->port, tr->el,
+			    g->worst_ratio);
+		}
+	}
+	for (size_t i = 0; i < gs->nstrays; i++)
+		if (gs->strays[i].power >= c->b->stray_warn)
+			trace_add_warning(t, TW_STRAY, NULL, PORT_NONE, gs->strays[i].from,
+			    gs->strays[i].power);
+	if (!isnan(c->b->src.max_return) && gs->return_power > c->b->src.max_return)
+		trace_add_warning(t, TW_RETURN_POWER, NULL, PORT_NONE, NULL, gs->return_power);
+}
+
+void
+ghost_run(struct trace *t)
+{
+	struct ghost_ctx c;
+
+	memset(&c, 0, sizeof c);
+	c.t = t;
+	c.b = t->bench;
+	c.gs = t->ghosts = xcalloc(1, sizeof *t->ghosts);
+	c.floor = GHOST_FLOOR * c.b->src.power;
+	c.lam = c.b->src.wavelength;
+	if (t->nrows == 0)
+		return;
+	c.prev = xmalloc(t->nrows * sizeof *c.prev);
+	c.next = xmalloc(t->nrows * sizeof *c.next);
+	c.acc = xcalloc(t->nrows, sizeof *c.acc);
+	link_rows(&c);
+	for (size_t r = 0; r < t->nrows; r++) {
+		const struct element *el = t->rows[r].el;
+
+		side_strays(&c, r);
+		if (!ghost_has_surfaces(el))
+			continue;
+		first_order(&c, r);
+		if (ghost_untilted(&c, el) && el->type != EL_SPLITTER)
+			ghost_second_double(&c, r);
+	}
+	compact(c.gs);
+	combine(&c);
+	warnings(&c);
+	free(c.prev);
+	free(c.next);
+	free(c.acc);
+	free(c.pend);
+}

@@ -1,0 +1,105 @@
+/* core-ghost.h - surface reflections as beams (ghost-conventions.md): the
+ * residual reflection of every glass surface, traced back upstream as a
+ * first-order ghost, forward again after a second reflection as a
+ * second-order ghost, or off the axis as a stray; what comes back to the
+ * source; and the element ratings with the ghosts that meet them added.
+ * Works from the bench and the finished main-beam trace.  Pure computation. */
+#ifndef CORE_GHOST_H
+#define CORE_GHOST_H
+
+#include <stddef.h>
+
+#include "core-trace.h"
+
+/* Below this fraction of the source power a ghost is not followed. */
+#define GHOST_FLOOR 1e-9
+/* An AR-coated surface where the file says nothing: 0.5 % (common practice:
+ * broadband AR is 0.2-0.5 %; the conservative end). */
+#define GHOST_R_ASSUMED 0.005
+
+enum ghost_flag {
+	GF_REFLECTANCE_ASSUMED = 1 << 0,    /* a surface without surface_reflectance */
+	GF_SHAPE_ASSUMED       = 1 << 1,    /* a lens of focal alone: equi-convex */
+	GF_OVER                = 1 << 2,    /* over at some element */
+};
+const char *ghost_flag_name(unsigned bit);     /* "reflectance_assumed", ... */
+#define GF_COUNT 3
+
+/* Which reflection: the element's front or back surface, seen from the
+ * side the light arrives on. */
+enum ghost_surface { GS_FRONT, GS_BACK };
+
+struct ghost_row {
+	const struct element *el;       /* borrowed */
+	size_t                trace_row;  /* index into the trace's rows */
+	double                power_in, wx, wy;
+	double                irradiance, linear_density, fluence, peak_irradiance;
+	double                power_lost;   /* what the element takes of it */
+	double                ratio;        /* NAN: unrated */
+	enum damage_status    status;
+};
+
+struct ghost_focus {
+	double                z;        /* m, in the table's frame */
+	double                wx, wy, peak_irradiance;
+	const struct element *gap;      /* borrowed: the space it lies in */
+	double                distance; /* m to the nearest element's plane */
+	int                   air_breakdown;
+};
+
+struct ghost {
+	int                   order;    /* 1 or 2 */
+	const struct element *surf_el[2];   /* borrowed; [1] NULL for order 1 */
+	enum ghost_surface    surf[2];
+	double                power_start;  /* W, after its last reflection */
+	size_t                row0, nrows;  /* into ghost_set.rows */
+	size_t                focus0, nfoci;
+	long                  worst;        /* index into rows (absolute); -1: unrated */
+	double                worst_ratio;
+	unsigned              flags;
+};
+
+struct ghost_stray {
+	const struct element *from;     /* borrowed */
+	const char           *what;     /* static: "front", "back", "fourth_port",
+	                                 * "leak", "reflected" */
+	double                power, peak_power;  /* W; peak NAN for CW */
+	double                focus_distance;     /* m from the surface; NAN: flat */
+};
+
+struct ghost_set {
+	struct ghost       *g;          /* owned */
+	size_t              n, cap;
+	struct ghost_row   *rows;       /* owned */
+	size_t              nrows, caprows;
+	struct ghost_focus *foci;       /* owned */
+	size_t              nfoci, capfoci;
+	struct ghost_stray *strays;     /* owned */
+	size_t              nstrays, capstrays;
+	double              return_power;   /* W back at the source (first order) */
+	size_t              nover;          /* ghosts over somewhere */
+};
+
+/* Computes the ghosts and strays of a finished main trace, adds the
+ * ghosts to the ratings of the elements they meet (flag "ghosts"), and
+ * updates worst, safe_source_power and the warnings.  Sets t->ghosts. */
+void ghost_run(struct trace *t);
+void ghost_set_free(struct ghost_set *);         /* NULL ok */
+/* "L1.back" for a ghost's k-th reflection, into buf. */
+void ghost_surface_name(const struct ghost *, int k, char *buf, size_t n);
+
+/* The optics of one element's surfaces, for the ghost engine and its tests.
+ * Radii r1, r2 as the file gives them, or from the focal length when it gives no shape
+ * (equi-convex, r1 = -r2 = 2(n - 1)f; *assumed set); a flat surface
+ * INFINITY.  Powers are 1/f of the equivalent thin mirror. */
+void   ghost_radii(const struct element *, double lambda, double *r1, double *r2,
+           int *assumed);
+double ghost_power_front_outside(double r1);                     /* -2/r1 */
+double ghost_power_back_inside(double n, double r1, double r2);  /* 2(n-1)/r1 - 2n/r2 */
+double ghost_power_back_outside(double r2);                      /* 2/r2, from downstream */
+double ghost_power_front_inside(double n, double r1, double r2); /* 2n/r1 - 2(n-1)/r2 */
+double ghost_power_double(double n, double r1, double r2);       /* (3n-1)(1/r1 - 1/r2) */
+/* Fresnel power reflectance at aoi (degrees) for s and p, from air into n. */
+void   ghost_fresnel(double n, double aoi_deg, double *rs, double *rp);
+
+#endif

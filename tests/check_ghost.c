@@ -1,0 +1,341 @@
+/* check_ghost.c - surface reflections as beams (ghost-conventions.md):
+ * ghost powers of lens surfaces from the published ray matrices, Fresnel
+ * values, the power bookkeeping of a ghost through two splitters and an
+ * isolator by hand, and a ghost focus that puts an upstream optic over. */
+#include <config.h>
+
+#include <check.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-file.h"
+#include "core-ghost.h"
+#include "core-model.h"
+#include "core-trace.h"
+
+#include "check-bench-util.h"
+#include "check-util.h"
+
+#define HEAD "{'format':'beamledger-bench-1','name':'t',"
+
+/* 2x2 ray matrices, reduced form: [[A, B], [C, D]]. */
+struct m2 { double a, b, c, d; };
+
+static struct m2
+mul(struct m2 x, struct m2 y)           /* x after y */
+{
+	struct m2 r = { x.a * y.a + x.b * y.c, x.a * y.b + x.b * y.d,
+	    x.c * y.a + x.d * y.c, x.c * y.b + x.d * y.d };
+
+	return r;
+}
+
+/* Refraction at a spherical surface of radius R from n1 into n2, R > 0
+ * when its centre lies in the direction of travel: [[1, 0], [-(n2 -
+ * n1)/R, 1]] (Siegman, Lasers (1986), ch. 15 table of ray matrices;
+ * REFERENCE §15).  Reflection off a mirror of radius R inside a medium of
+ * index n, R > 0 concave toward the light: [[1, 0], [-2n/R, 1]] (Siegman,
+ * the same table, in reduced slopes).  Going back, in the unfolded frame a
+ * surface's radius changes sign (its centre is now behind the light). */
+static struct m2
+refract(double n1, double n2, double r)
+{
+	struct m2 m = { 1, 0, isinf(r) ? 0 : -(n2 - n1) / r, 1 };
+
+	return m;
+}
+
+static struct m2
+reflect(double n, double r_concave)
+{
+	struct m2 m = { 1, 0, isinf(r_concave) ? 0 : -2 * n / r_concave, 1 };
+
+	return m;
+}
+
+/* The back-surface ghost of a thin lens: in through the front (1 -> n,
+ * radius r1), off the back from inside (centre downstream, r2 > 0, is
+ * convex seen from inside: concave radius -r2), out through the front
+ * going back (n -> 1, radius -r1).  Its power is -C. */
+static double
+back_ghost_power_by_matrices(double n, double r1, double r2)
+{
+	struct m2 m = mul(refract(n, 1, -r1), mul(reflect(n, -r2), refract(1, n, r1)));
+
+	return -m.c;
+}
+
+static const struct lens_case {
+	const char *what;
+	double r1, r2;          /* in units of f, at n = 1.5 */
+	double ghost_over_f;    /* the contract's check value */
+} lens_cases[] = {
+	/* equi-convex: 1/f = 0.5 (1/r + 1/r) gives r = f; ghost f/4 */
+	{ "equi-convex", 1, -1, 0.25 },
+	/* plano-convex, flat side first: 1/f = 0.5 (0 - 1/r2), r2 = -f/2; f/6 */
+	{ "plano-convex flat first", INFINITY, -0.5, 1.0 / 6 },
+	/* curved side first: r1 = f/2, r2 flat; f/2 (common practice: this
+	 * way round for a collimated beam) */
+	{ "plano-convex curved first", 0.5, INFINITY, 0.5 },
+};
+
+START_TEST(test_lens_ghost_focal)
+{
+	const struct lens_case *lc = &lens_cases[_i];
+	double n = 1.5, f = 0.2;
+	double r1 = lc->r1 * f, r2 = lc->r2 * f;
+	double p_mat = back_ghost_power_by_matrices(n, r1, r2);
+
+	/* the lens itself: thin lensmaker's equation, (n - 1)(1/r1 - 1/r2) = 1/f */
+	CHECK_REL((n - 1) * ((isinf(r1) ? 0 : 1 / r1) - (isinf(r2) ? 0 : 1 / r2)), 1 / f, 1e-12);
+	CHECK_REL(1 / p_mat, lc->ghost_over_f * f, 1e-12);
+	CHECK_REL(1 / ghost_power_back_inside(n, r1, r2), lc->ghost_over_f * f, 1e-12);
+	/* front surface, outside: a mirror of concave radius -r1 in air */
+	CHECK_REL(ghost_power_front_outside(r1), -reflect(1, -r1).c, 1e-12);
+}
+END_TEST
+
+/* A lens with focal alone is taken as equi-convex in its index: the
+ * engine's radii give back the focal length and the f/4 ghost. */
+START_TEST(test_shape_assumed)
+{
+	struct element el;
+	double r1, r2;
+	int assumed;
+
+	model_element_init(&el, EL_LENS, "L1");
+	ck_assert_int_eq(model_set(&el, K_FOCAL, 0.1, NULL), 0);
+	ck_assert_int_eq(model_set(&el, K_INDEX, 1.5, NULL), 0);
+	ghost_radii(&el, 1064e-9, &r1, &r2, &assumed);
+	ck_assert(assumed);
+	CHECK_REL(r1, 0.1, 1e-12);      /* 2 (n - 1) f */
+	CHECK_REL(r2, -0.1, 1e-12);
+	CHECK_REL(1 / ghost_power_back_inside(1.5, r1, r2), 0.025, 1e-12);
+	model_element_release(&el);
+}
+END_TEST
+
+/* Fresnel at normal incidence, R = ((n - 1)/(n + 1))² (Hecht sec. 4.6;
+ * REFERENCE §15 check values); at Brewster's angle atan(n) rp = 0 (Hecht
+ * sec. 4.7). */
+static const struct { double n, r; } fresnel_cases[] = {
+	{ 1.5, 0.04000 }, { 1.449631, 0.033691 }, { 1.754485, 0.075027 },
+};
+
+START_TEST(test_fresnel)
+{
+	double rs, rp;
+
+	ghost_fresnel(fresnel_cases[_i].n, 0, &rs, &rp);
+	CHECK_ABS(rs, fresnel_cases[_i].r, 5e-7);
+	CHECK_ABS(rp, fresnel_cases[_i].r, 5e-7);
+	ghost_fresnel(fresnel_cases[_i].n, atan(fresnel_cases[_i].n) * 180 / M_PI, &rs, &rp);
+	CHECK_ABS(rp, 0, 1e-15);
+	ck_assert(rs > fresnel_cases[_i].r);
+}
+END_TEST
+
+/* A window's front-surface ghost back through a splitter, an isolator and
+ * another splitter to the source, by hand:
+ *   at W1: 1 W · 0.7 (BS1 T) · 0.9 (ISO1) · 0.6 (BS2 T) = 0.378 W;
+ *   ghost: 0.378 · 0.02 = 7.56 mW (its back surface reflects nothing);
+ *   BS2 returns its T share 0.6: 4.536 mW on, 0.4 · 7.56 = 3.024 mW out of
+ *   its fourth port; ISO1 keeps 10^(-10/10) = 0.1: 0.4536 mW; BS1 returns
+ *   0.7: 0.31752 mW reach the laser, 0.3 · 0.4536 = 0.13608 mW leave by its
+ *   fourth port.  The splitters are at 45° (their backs make strays, not
+ *   ghosts); ISO1 has no glass surfaces of its own here. */
+START_TEST(test_bookkeeping)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},'path':["
+	    "{'id':'BS1','type':'splitter','reflectance':0.3,'reflected':[{'id':'BD1','type':'dump'}]},"
+	    "{'id':'S1','type':'space','length':'100 mm'},"
+	    "{'id':'ISO1','type':'isolator','transmission':0.9,'isolation':10},"
+	    "{'id':'S2','type':'space','length':'100 mm'},"
+	    "{'id':'BS2','type':'splitter','reflectance':0.4,'reflected':[{'id':'BD2','type':'dump'}]},"
+	    "{'id':'S3','type':'space','length':'100 mm'},"
+	    "{'id':'W1','type':'window','surface_reflectance':[0.02, 0]},"
+	    "{'id':'S4','type':'space','length':'100 mm'},"
+	    "{'id':'BD3','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct ghost_set *gs = t->ghosts;
+	const struct ghost *g = NULL;
+	int bs2 = 0, bs1 = 0;
+
+	ck_assert_ptr_nonnull(gs);
+	for (size_t i = 0; i < gs->n; i++)
+		if (gs->g[i].order == 1 && gs->g[i].surf_el[0] == row_of(t, "W1")->el)
+			g = &gs->g[i];
+	ck_assert_ptr_nonnull(g);
+	ck_assert_int_eq(g->surf[0], GS_FRONT);
+	CHECK_REL(g->power_start, 0.378 * 0.02, 1e-12);
+	for (size_t k = 0; k < g->nrows; k++) {
+		const struct ghost_row *r = &gs->rows[g->row0 + k];
+
+		if (strcmp(r->el->id, "BS2") == 0)
+			CHECK_REL(r->power_in, 7.56e-3, 1e-9);
+		if (strcmp(r->el->id, "ISO1") == 0)
+			CHECK_REL(r->power_in, 4.536e-3, 1e-9);
+		if (strcmp(r->el->id, "BS1") == 0)
+			CHECK_REL(r->power_in, 0.4536e-3, 1e-9);
+	}
+	CHECK_REL(gs->return_power, 0.31752e-3, 1e-9);
+	for (size_t i = 0; i < gs->nstrays; i++) {
+		const struct ghost_stray *s = &gs->strays[i];
+
+		if (strcmp(s->what, "fourth_port") != 0)
+			continue;
+		if (strcmp(s->from->id, "BS2") == 0) {
+			CHECK_REL(s->power, 3.024e-3, 1e-9);
+			bs2++;
+		} else if (strcmp(s->from->id, "BS1") == 0) {
+			CHECK_REL(s->power, 0.13608e-3, 1e-9);
+			bs1++;
+		}
+	}
+	ck_assert_int_eq(bs2, 1);
+	ck_assert_int_eq(bs1, 1);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* The back-surface ghost of an equi-convex f = 100 mm lens (n = 1.5,
+ * surface_reflectance 4 %) focuses f/4 = 25 mm upstream, on a window
+ * rated 10 kW/cm²: by hand the ghost carries 10 W · 0.96² · 0.04 =
+ * 0.369 W into a waist of λ(f/4)/(π w) = 1.064 µm · 25 mm / (π · 2 mm) =
+ * 4.23 µm (the 2 mm beam is collimated: zR = 11.8 m), about 1.3 MW/cm²;
+ * the main beam gives the window 2 · 10 W / (π (2 mm)²) = 159 W/cm². */
+START_TEST(test_ghost_focus_over)
+{
+	const char *text = HEAD
+	    "'source':{'wavelength':'1064 nm','power':'10 W','waist':'2 mm'},'path':["
+	    "{'id':'S0','type':'space','length':'100 mm'},"
+	    "{'id':'W0','type':'window','surface_reflectance':0,"
+	    " 'damage':{'cw_irradiance':'10 kW/cm^2'}},"
+	    "{'id':'S1','type':'space','length':'25 mm'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm','index':1.5,'surface_reflectance':0.04},"
+	    "{'id':'S2','type':'space','length':'100 mm'},"
+	    "{'id':'BD','type':'dump'}]}";
+	struct bench *b = bench_text("t", "%s", text);
+	struct trace *t0 = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+	struct trace *t = trace_run(b);
+	const struct trace_row *w0 = row_of(t, "W0");
+	const struct ghost_set *gs = t->ghosts;
+	double w_hand = 1.064e-6 * 0.025 / (M_PI * 2e-3);
+	int seen = 0;
+
+	/* 100 mm from the waist the area grows by (z/zR)² = 7e-5 */
+	CHECK_REL(row_of(t0, "W0")->ratio, 2 * 10 / (M_PI * 4e-6) / 1e8, 1e-4);
+	ck_assert_int_eq(row_of(t0, "W0")->status, STATUS_OK);
+	ck_assert_int_eq(w0->status, STATUS_OVER);
+	ck_assert(w0->flags & TF_GHOSTS);
+	ck_assert(count_warn(t, TW_GHOST_OVER) >= 1);
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		if (g->order != 1 || strcmp(g->surf_el[0]->id, "L1") != 0 || g->surf[0] != GS_BACK)
+			continue;
+		ck_assert(g->flags & GF_SHAPE_ASSUMED);
+		CHECK_REL(g->power_start, 10 * 0.96 * 0.96 * 0.04, 1e-12);
+		for (size_t k = 0; k < g->nrows; k++) {
+			const struct ghost_row *r = &gs->rows[g->row0 + k];
+
+			if (strcmp(r->el->id, "W0") == 0) {
+				CHECK_REL(r->wx, w_hand, 2e-3);
+				ck_assert_int_eq(r->status, STATUS_OVER);
+				seen = 1;
+			}
+		}
+	}
+	ck_assert(seen);
+	trace_free(t0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Second order between two flat windows, by hand (ghost-conventions.md):
+ * 1 W reaches W2 (transmission 1); its front sends 0.02 W back; W1 passes
+ * it back whole and reflects it forward off its back from outside,
+ * 0.02 · 0.01 = 2e-4 W, or, in through its back and off its front inside,
+ * 0.02 · (1 - 0.01)² · 0.01 = 1.9602e-4 W.  Both then travel to the dump. */
+START_TEST(test_second_order_pair)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},'path':["
+	    "{'id':'W1','type':'window','surface_reflectance':0.01},"
+	    "{'id':'S1','type':'space','length':'50 mm'},"
+	    "{'id':'W2','type':'window','surface_reflectance':[0.02, 0]},"
+	    "{'id':'S2','type':'space','length':'50 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct ghost_set *gs = t->ghosts;
+	int outside = 0, inside = 0;
+
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		if (g->order != 2 || strcmp(g->surf_el[0]->id, "W2") != 0)
+			continue;
+		ck_assert_str_eq(g->surf_el[1]->id, "W1");
+		ck_assert_str_eq(gs->rows[g->row0 + g->nrows - 1].el->id, "BD");
+		if (g->surf[1] == GS_BACK) {
+			CHECK_REL(g->power_start, 2e-4, 1e-12);
+			outside++;
+		} else {
+			CHECK_REL(g->power_start, 1.9602e-4, 1e-12);
+			inside++;
+		}
+	}
+	ck_assert_int_eq(outside, 1);
+	ck_assert_int_eq(inside, 1);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* --no-ghosts is the main beam alone: no ghost set, and every row the
+ * same as the ghost trace's before ghosts are added (ratios aside). */
+START_TEST(test_no_ghosts_same_rows)
+{
+	struct bench *b = demo();
+	struct trace *t0 = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS), *t = trace_run(b);
+
+	ck_assert_ptr_null(t0->ghosts);
+	ck_assert_ptr_nonnull(t->ghosts);
+	ck_assert_uint_eq(t0->nrows, t->nrows);
+	for (size_t i = 0; i < t->nrows; i++) {
+		ck_assert(t0->rows[i].power_in == t->rows[i].power_in);
+		ck_assert(t0->rows[i].wx == t->rows[i].wx);
+		ck_assert(!(t0->rows[i].flags & TF_GHOSTS));
+		/* ghosts only add: a share never falls */
+		if (!isnan(t0->rows[i].ratio))
+			ck_assert(t->rows[i].ratio >= t0->rows[i].ratio);
+	}
+	trace_free(t0);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+int
+main(void)
+{
+	Suite *s = suite_create("ghost");
+	TCase *tc = tcase_create("core");
+
+	tcase_add_loop_test(tc, test_lens_ghost_focal, 0, NELEMS(lens_cases));
+	tcase_add_test(tc, test_shape_assumed);
+	tcase_add_loop_test(tc, test_fresnel, 0, NELEMS(fresnel_cases));
+	tcase_add_test(tc, test_bookkeeping);
+	tcase_add_test(tc, test_ghost_focus_over);
+	tcase_add_test(tc, test_second_order_pair);
+	tcase_add_test(tc, test_no_ghosts_same_rows);
+	suite_add_tcase(s, tc);
+	return run_suite(s);
+}
