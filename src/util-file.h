@@ -1,7 +1,7 @@
 /* util-file.h - a whole file written at once: to a temporary file beside
  * it, synced, then renamed over it, so that a reader never sees half a
- * file and a failure leaves nothing behind.  (The bytes twin of
- * cmd_write_atomic in cmd-store.c, for output that may hold NULs.) */
+ * file and a failure leaves nothing behind.  cmd_write_atomic (cmd-store.c)
+ * is this for text. */
 #ifndef UTIL_FILE_H
 #define UTIL_FILE_H
 
