@@ -73,25 +73,6 @@ bench_tol_source_take(json_t **v, json_t **owned, struct bench *b, enum tol_src 
 	return 0;
 }
 
-static double
-src_value(const struct source *s, enum tol_src ts)
-{
-	switch (ts) {
-	case TS_WAVELENGTH:     return s->wavelength;
-	case TS_POWER:          return s->power;
-	case TS_PULSE_ENERGY:   return s->pulse_energy;
-	case TS_REP_RATE:       return s->rep_rate;
-	case TS_PULSE_WIDTH:    return s->pulse_width;
-	case TS_WAIST_X:        return s->waist[0];
-	case TS_WAIST_Y:        return s->waist[1];
-	case TS_WAIST_POSITION: return s->waist_position;
-	case TS_M2_X:           return s->m2[0];
-	case TS_M2_Y:           return s->m2[1];
-	case TS_POLARIZATION:   return s->pol_angle_deg;
-	default:                return NAN;
-	}
-}
-
 int
 bench_tol_source_check(const struct bench *b, char **cause)
 {
@@ -99,7 +80,7 @@ bench_tol_source_check(const struct bench *b, char **cause)
 		return 0;
 	for (int i = 0; i < TS_COUNT; i++) {
 		const struct tol *t = &b->tol->src[i];
-		double v = src_value(&b->src, (enum tol_src)i), w = tol_width(t, v), lo, hi;
+		double v = tol_source_value(&b->src, (enum tol_src)i), w = tol_width(t, v), lo, hi;
 
 		if (!tol_is_set(t) || !t->uniform)
 			continue;

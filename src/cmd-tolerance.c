@@ -384,36 +384,14 @@ cmd_tolerance(struct cmd_ctx *ctx, int argc, char **argv)
 	struct mc_opts o;
 	struct progress pr;
 	struct sigaction sa, old;
-	struct bench *b, *w;
-	char *cause = NULL, *origin = NULL, *text;
+	struct bench *w;
+	char *cause = NULL, *text;
 	int rc;
 
 	if ((rc = parse_args(argc, argv, &a)) != 0)
 		return rc == 1 ? 0 : rc;
-	if (a.demo)
-		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);
-	else
-		b = cmd_bench_open(ctx, a.ref, &origin, &cause);
-	free(origin);
-	if (b == NULL)
+	if ((w = cmd_bench_at_point(ctx, a.demo, a.ref, a.point, &cause)) == NULL)
 		return cause != NULL ? cmd_fail(cause) : 2;
-	if (a.point != NULL) {
-		const struct point *p = point_list_find(&b->points, a.point);
-
-		if (p == NULL) {
-			fail_with(&cause, "no point '%s' in bench '%s'%s", a.point, b->name,
-			    b->points.n == 0 ? " (it has no points)" : "");
-			model_bench_free(b);
-			return cmd_fail(cause);
-		}
-		w = point_apply(b, p, &cause);
-		model_bench_free(b);
-		if (w == NULL)
-			return cmd_fail(cause);
-	} else {
-		w = b;
-		point_list_release(&w->points);
-	}
 	memset(&o, 0, sizeof o);
 	o.samples = a.samples;
 	o.seed = a.seed;

@@ -94,6 +94,36 @@ cmd_bench_open(struct cmd_ctx *ctx, const char *arg, char **origin, char **cause
 	return load_from_db(ctx, arg, origin, cause);
 }
 
+struct bench *
+cmd_bench_at_point(struct cmd_ctx *ctx, int demo, const char *arg, const char *point,
+    char **cause)
+{
+	struct bench *b, *w;
+	char *origin = NULL;
+	const struct point *p;
+
+	*cause = NULL;
+	if (demo)
+		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", cause);
+	else
+		b = cmd_bench_open(ctx, arg, &origin, cause);
+	free(origin);
+	if (b == NULL || point == NULL) {
+		if (b != NULL)
+			point_list_release(&b->points);
+		return b;
+	}
+	if ((p = point_list_find(&b->points, point)) == NULL) {
+		fail_with(cause, "no point '%s' in bench '%s'%s", point, b->name,
+		    b->points.n == 0 ? " (it has no points)" : "");
+		model_bench_free(b);
+		return NULL;
+	}
+	w = point_apply(b, p, cause);
+	model_bench_free(b);
+	return w;
+}
+
 /* Every point's worst element, and per element its worst over all points,
  * as text after the base's table. */
 static void

@@ -35,7 +35,12 @@ int  cmd_help(struct cmd_ctx *, int, char **);
  * "#3", ... (NULL for a file).  NULL with *cause NULL: already said why. */
 struct bench;
 struct bench *cmd_bench_open(struct cmd_ctx *, const char *arg, char **origin,
-                  char **cause);                          /* caller frees */
+                  char **cause);
+/* The same (or the built-in demo), at operating point `point` when it is
+ * not NULL; the bench comes back without its points list.  NULL with
+ * *cause NULL: already said why. */
+struct bench *cmd_bench_at_point(struct cmd_ctx *, int demo, const char *arg,
+                  const char *point, char **cause);               /* caller frees */                          /* caller frees */
 
 int  cmd_trace(struct cmd_ctx *, int, char **);
 /* Operating points and sweeps (cmd-point.c, cmd-sweep.c). */

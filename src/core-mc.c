@@ -70,25 +70,6 @@ collect_fn(struct element *el, struct element *parent, size_t depth, void *arg)
 	return 0;
 }
 
-static double
-src_get(const struct source *s, enum tol_src ts)
-{
-	switch (ts) {
-	case TS_WAVELENGTH:     return s->wavelength;
-	case TS_POWER:          return s->power;
-	case TS_PULSE_ENERGY:   return s->pulse_energy;
-	case TS_REP_RATE:       return s->rep_rate;
-	case TS_PULSE_WIDTH:    return s->pulse_width;
-	case TS_WAIST_X:        return s->waist[0];
-	case TS_WAIST_Y:        return s->waist[1];
-	case TS_WAIST_POSITION: return s->waist_position;
-	case TS_M2_X:           return s->m2[0];
-	case TS_M2_Y:           return s->m2[1];
-	case TS_POLARIZATION:   return s->pol_angle_deg;
-	default:                return NAN;
-	}
-}
-
 static void
 src_put(struct source *s, enum tol_src ts, double v)
 {
@@ -139,7 +120,7 @@ mc_params(const struct bench *b, size_t *n)
 		p->elem = -1;
 		p->ts = (enum tol_src)i;
 		p->t = *t;
-		p->nominal = src_get(&b->src, (enum tol_src)i);
+		p->nominal = tol_source_value(&b->src, (enum tol_src)i);
 		p->width = tol_width(t, p->nominal);
 		p->dim = tol_src_dim((enum tol_src)i);
 		p->name = xstrdup(tol_src_name((enum tol_src)i));

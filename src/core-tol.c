@@ -440,3 +440,22 @@ tol_draw(const struct tol *t, double nominal, int k, double lo, double hi,
 		*z = 0;
 	return nominal;
 }
+
+double
+tol_source_value(const struct source *s, enum tol_src ts)
+{
+	switch (ts) {
+	case TS_WAVELENGTH:     return s->wavelength;
+	case TS_POWER:          return s->power;
+	case TS_PULSE_ENERGY:   return s->pulse_energy;
+	case TS_REP_RATE:       return s->rep_rate;
+	case TS_PULSE_WIDTH:    return s->pulse_width;
+	case TS_WAIST_X:        return s->waist[0];
+	case TS_WAIST_Y:        return s->waist[1];
+	case TS_WAIST_POSITION: return s->waist_position;
+	case TS_M2_X:           return s->m2[0];
+	case TS_M2_Y:           return s->m2[1];
+	case TS_POLARIZATION:   return s->pol_angle_deg;
+	default:                return NAN;
+	}
+}

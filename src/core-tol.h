@@ -56,6 +56,8 @@ struct tol_bench *tol_bench_dup(const struct tol_bench *);   /* NULL gives NULL 
 void              tol_bench_free(struct tol_bench *);        /* NULL ok */
 /* b's table, made when it has none (borrowed). */
 struct tol_bench *tol_bench_of(struct bench *);
+/* The source value slot ts stands for (NAN for none). */
+double            tol_source_value(const struct source *, enum tol_src ts);
 int               tol_bench_empty(const struct tol_bench *); /* NULL: 1 */
 
 /* ---- text ---- */
