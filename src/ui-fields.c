@@ -67,15 +67,21 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 		static const enum layout_key_group shown[] = { LKG_OPTIC, LKG_MATERIAL,
 			LKG_DAMAGE, LKG_ELEMENT };
 
-		for (size_t g = 0; g < sizeof shown / sizeof *shown; g++)
-			for (size_t i = 0; i < nf; i++) {
-				enum layout_key_group kg = LKG_ELEMENT;
+		/* a tilt is a mirror's or splitter's first value; on glass it
+		 * comes after what the optic is (a lens's focal length first) */
+		int tilt_last = r->el->type != EL_MIRROR && r->el->type != EL_SPLITTER;
 
-				if (f[i].kind == LF_KEY)
-					layout_key_label(f[i].key, &kg);
-				if (kg == shown[g])
-					order[no++] = i;
-			}
+		for (size_t g = 0; g < sizeof shown / sizeof *shown; g++)
+			for (int pass = 0; pass < 2; pass++)
+				for (size_t i = 0; i < nf; i++) {
+					enum layout_key_group kg = LKG_ELEMENT;
+					int late = tilt_last && f[i].kind == LF_KEY && f[i].key == K_AOI;
+
+					if (f[i].kind == LF_KEY)
+						layout_key_label(f[i].key, &kg);
+					if (kg == shown[g] && late == pass)
+						order[no++] = i;
+				}
 		for (size_t oi = 0; oi < no && n < max; oi++, n++) {
 			size_t i = order[oi];
 

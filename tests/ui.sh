@@ -186,12 +186,13 @@ t_keys ui Escape
 wait_gone ui "Enter›accept" >/dev/null
 
 # ---- values are edited in a box, at the marked field (9.7) ----
-# glass takes an angle of incidence (for its reflections): it comes first
-check "the marked field shows where Enter goes" wait_line ui '^ › angle of incidence'
-t_keys ui Enter Down
+# glass takes an angle of incidence too (for its reflections), but what the
+# window is comes first: its transmission; the tilt closes the group
+check "the marked field shows where Enter goes" wait_line ui '^ › transmission'
+t_keys ui Enter
 check "Enter edits the marked field at once, in a box" wait_line ui '^   transmission +\[ *\]'
 check "its dotted key is in the hint" wait_for ui "transmission: power transmission"
-t_keys ui Down Down Down Down Down Down
+t_keys ui Down Down Down Down Down Down Down
 check "Down walks the values, still editing" wait_for ui "damage.cw_irradiance: CW LIDT"
 check "values under human labels in groups (7e)" wait_line ui '^ Damage rating'
 t_keys ui -l "5 kW/cm"
