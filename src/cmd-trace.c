@@ -31,7 +31,8 @@ int
 cmd_trace_print(const struct bench *b, enum report_format fmt,
     const struct report_opts *o)
 {
-	struct trace *t = trace_rerun_opts(NULL, b, o->trace_opts);
+	struct trace *t = trace_rerun_opts(NULL, b, o->trace_opts |
+	    (fmt == REPORT_JSON || fmt == REPORT_CSV ? TRACE_GHOST_ROWS : 0));
 	char *text, *cause = NULL;
 	int rc, over = 0;
 
@@ -215,7 +216,8 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 	int rc;
 	const struct trace *shown;
 
-	if (point_survey_run(b, only, &sv, &cause) != 0)
+	if (point_survey_run_opts(b, only, fmt == REPORT_JSON || fmt == REPORT_CSV ?
+	    TRACE_GHOST_ROWS : 0, &sv, &cause) != 0)
 		return cmd_fail(cause);
 	if (only != NULL) {
 		origin = ro->origin != NULL ? xasprintf("%s, point %s", ro->origin, only) :

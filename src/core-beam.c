@@ -194,6 +194,11 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 	eps = 1e-12 * (length + fabs(ax) + fabs(ay));
 	lo = fmax(end_tol, 0);
 	hi = end_tol > 0 ? length + end_tol : length;
+	/* both waists before the start (or both past the end): every term of
+	 * the slope has one sign there, and the test below fails; this says
+	 * so without the divisions (a ghost walk asks once per gap) */
+	if ((ax <= lo && ay <= lo) || (ax >= hi && ay >= hi))
+		return 0;
 	if (!(log_slope(snap(lo - ax, eps), zx, snap(lo - ay, eps), zy) < 0) ||
 	    !(log_slope(snap(hi - ax, eps), zx, snap(hi - ay, eps), zy) > 0))
 		return 0;

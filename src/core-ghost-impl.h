@@ -11,6 +11,28 @@ struct ghost_acc {              /* what the ghosts add at one element */
 	int    met;
 };
 
+/* What any ghost meets at one trace row, worked out once per trace: the
+ * power fractions depend on the main beam there (its Stokes vector and
+ * clipping), not on the ghost, and a ghost walk visits every row once per
+ * ghost, 10⁴ ghosts on a long chain. */
+enum ghost_optic {
+	GO_NONE,                /* the element leaves q alone */
+	GO_THIN,                /* thin lenses of focal fx, fy (INFINITY: none) */
+	GO_GENERAL,             /* trace_element_optics */
+};
+struct ghost_pass {
+	double           back_same;     /* passed upstream, ghost from the same branch */
+	double           back_side;     /* ... from the element's own side branch */
+	double           stray_same, stray_side;   /* the fourth port's share of each */
+	double           fwd;           /* passed downstream along the branch */
+	double           ap;            /* clipping radius, m; NAN: none */
+	double           fx, fy;        /* GO_THIN */
+	enum ghost_optic optic;
+	unsigned char    space, term, rated, side;  /* side: has a side port */
+	unsigned char    linear;        /* rated in W/cm (needs the radii) */
+	unsigned char    sym;           /* acts alike on x and y */
+};
+
 struct ghost_pending {          /* a second reflection waiting to be traced */
 	size_t           row;
 	struct beam_axis x, y;
@@ -24,10 +46,19 @@ struct ghost_ctx {
 	long                *prev;      /* owned: per row, the row upstream; -1: the source */
 	long                *next;      /* owned: per row, the next row in its branch; -1: end */
 	struct ghost_acc    *acc;       /* owned: per row */
+	struct ghost_pass   *pass;      /* owned: per row */
 	struct ghost_pending *pend;     /* owned */
 	size_t               npend, cappend;
 	double               floor;     /* W: GHOST_FLOOR of the source */
 	double               lam;
+	int                  keep_rows; /* store every ghost's rows (GHOST_ROWS) */
+};
+
+/* A ghost's beam: its two axes, and whether they are equal (a round beam
+ * through round optics needs one of them worked out). */
+struct ghost_beam {
+	struct beam_axis x, y;
+	int              sym;
 };
 
 /* Surface reflectance of a row's element, front or back (as seen by the
@@ -44,19 +75,31 @@ int    ghost_has_surfaces(const struct element *);
 /* Applies a thin mirror of power pw (1/m) to the curved axes of an element. */
 void   ghost_mirror(const struct element *, double pw, struct beam_axis *x,
            struct beam_axis *y);
+/* x, y into a ghost beam (sym when they are equal). */
+void   ghost_beam_set(struct ghost_beam *, const struct beam_axis *x,
+           const struct beam_axis *y);
+/* Row u's element acting on the beam (pass[u].optic). */
+void   ghost_beam_optics(const struct ghost_ctx *, size_t u, struct ghost_beam *);
+void   ghost_beam_space(struct ghost_beam *, double len);
 
 struct ghost *ghost_new(struct ghost_ctx *, int order, unsigned flags);
-/* A row for ghost g at trace row u: radii from x, y; rated with u's limits;
- * added to u's sums.  Returns the row. */
+/* Ghost g at trace row u with power p and inverse squared radii ix, iy
+ * (1/wx², 1/wy²: the irradiance needs no root): rated with u's limits;
+ * added to u's sums (and kept as a row with keep_rows).  Returns the kept
+ * row or NULL. */
 struct ghost_row *ghost_add_row(struct ghost_ctx *, struct ghost *, size_t u,
-           const struct beam_axis *x, const struct beam_axis *y, double p);
+           double ix, double iy, double p);
+void   ghost_beam_inv2(const struct ghost_ctx *, const struct ghost_beam *,
+           double *ix, double *iy);
+/* The beam's radii at the lab wavelength. */
+void   ghost_beam_radii(const struct ghost_ctx *, const struct ghost_beam *,
+           double *wx, double *wy);
 /* A focus in a gap of length len that the ghost crosses from plane z0 in
  * direction dir (+1 downstream, -1 upstream). */
 void   ghost_gap(struct ghost_ctx *, struct ghost *, size_t u, double z0, int dir,
-           const struct beam_axis *x, const struct beam_axis *y, double p);
-/* Clips p at row u's aperture by the ghost's own radii. */
-double ghost_clip(const struct ghost_ctx *, size_t u, const struct beam_axis *x,
-           const struct beam_axis *y, double p);
+           const struct ghost_beam *, double p);
+/* Clips p at row u's aperture by the ghost's own radii (from 1/w²). */
+double ghost_clip(const struct ghost_ctx *, size_t u, double ix, double iy, double p);
 void   ghost_add_stray(struct ghost_ctx *, const struct element *, const char *what,
            double p, double focus_distance);
 

@@ -12,53 +12,43 @@
 
 /* The ghost leaves row i downstream with axes x, y and power p. */
 static void
-walk_forward(struct ghost_ctx *c, struct ghost *g, size_t i, struct beam_axis x,
-    struct beam_axis y, double p)
+walk_forward(struct ghost_ctx *c, struct ghost *g, size_t i, const struct beam_axis *x,
+    const struct beam_axis *y, double p)
 {
 	const struct trace *t = c->t;
 	size_t gi = (size_t)(g - c->gs->g);
 	long u = c->next[i];
+	struct ghost_beam gb;
 
+	ghost_beam_set(&gb, x, y);
 	while (u >= 0 && p > c->floor) {
 		const struct trace_row *tr = &t->rows[u];
-		const struct element *el = tr->el;
-		double pin = p, pc, f, mo, so, s[4];
-		size_t gri;
+		const struct ghost_pass *ps = &c->pass[u];
+		double pin = p, ix, iy;
+		struct ghost_row *kept;
 
-		ghost_add_row(c, &c->gs->g[gi], (size_t)u, &x, &y, p);
-		gri = c->gs->nrows - 1;
-		p = ghost_clip(c, (size_t)u, &x, &y, p);
-		if (el->type == EL_SPACE) {
-			double len = el->val[K_LENGTH];
-
-			c->gs->rows[gri].power_lost = pin - p;
-			ghost_gap(c, &c->gs->g[gi], (size_t)u, tr->z, +1, &x, &y, p);
-			beam_space(&x, len);
-			beam_space(&y, len);
+		ghost_beam_inv2(c, &gb, &ix, &iy);
+		kept = ghost_add_row(c, &c->gs->g[gi], (size_t)u, ix, iy, p);
+		p = ghost_clip(c, (size_t)u, ix, iy, p);
+		if (ps->space) {
+			if (kept != NULL)
+				kept->power_lost = pin - p;
+			ghost_gap(c, &c->gs->g[gi], (size_t)u, tr->z, +1, &gb, p);
+			ghost_beam_space(&gb, tr->el->val[K_LENGTH]);
 			u = c->next[u];
 			continue;
 		}
-		if (model_type_is_terminator(el->type)) {
-			c->gs->rows[gri].power_lost = pin;
+		if (ps->term) {
+			if (kept != NULL)
+				kept->power_lost = pin;
 			c->acc[u].power_lost += pin;
 			return;
 		}
-		pc = ghost_p_clip(tr);
-		if (el->type == EL_ISOLATOR) {
-			f = model_get(el, K_TRANSMISSION);
-		} else if (pc > 0) {
-			/* the fraction of the port the branch continues by */
-			for (int k = 0; k < 4; k++)
-				s[k] = tr->stokes[k] * (1 - tr->clip_loss);
-			trace_element_ports(el, c->lam, s, &mo, &so);
-			f = mo / pc;
-		} else {
-			f = 0;
-		}
-		c->gs->rows[gri].power_lost = pin - p * f;
-		c->acc[u].power_lost += pin - p * f;
-		trace_element_optics(el, c->lam, &x, &y);
-		p *= f;
+		if (kept != NULL)
+			kept->power_lost = pin - p * ps->fwd;
+		c->acc[u].power_lost += pin - p * ps->fwd;
+		ghost_beam_optics(c, (size_t)u, &gb);
+		p *= ps->fwd;
 		u = c->next[u];
 	}
 }
@@ -98,7 +88,7 @@ ghost_second_at(struct ghost_ctx *c, const struct ghost *first, size_t i,
 		g->surf_el[1] = el;
 		g->surf[1] = k ? GS_FRONT : GS_BACK;
 		g->power_start = p2;
-		walk_forward(c, g, i, gx, gy, p2);
+		walk_forward(c, g, i, &gx, &gy, p2);
 	}
 }
 
@@ -130,5 +120,5 @@ ghost_second_double(struct ghost_ctx *c, size_t i)
 	g->surf[0] = GS_BACK;
 	g->surf[1] = GS_FRONT;
 	g->power_start = p;
-	walk_forward(c, g, i, x, y, p);
+	walk_forward(c, g, i, &x, &y, p);
 }

@@ -5,6 +5,7 @@
  * isolation), and is rated at every element it meets. */
 #include <config.h>
 
+#include <complex.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -192,6 +193,56 @@ ghost_mirror(const struct element *el, double pw, struct beam_axis *x, struct be
 		beam_lens(y, 1 / pw);
 }
 
+/* ---- a ghost's beam ---- */
+
+void
+ghost_beam_set(struct ghost_beam *gb, const struct beam_axis *x, const struct beam_axis *y)
+{
+	gb->x = *x;
+	gb->y = *y;
+	gb->sym = x->q == y->q && x->m2 == y->m2;
+}
+
+void
+ghost_beam_radii(const struct ghost_ctx *c, const struct ghost_beam *gb, double *wx,
+    double *wy)
+{
+	*wx = beam_radius(&gb->x, c->lam);
+	*wy = gb->sym ? *wx : beam_radius(&gb->y, c->lam);
+}
+
+void
+ghost_beam_space(struct ghost_beam *gb, double len)
+{
+	beam_space(&gb->x, len);
+	beam_space(&gb->y, len);
+}
+
+void
+ghost_beam_optics(const struct ghost_ctx *c, size_t u, struct ghost_beam *gb)
+{
+	const struct ghost_pass *ps = &c->pass[u];
+
+	switch (ps->optic) {
+	case GO_NONE:
+		return;
+	case GO_THIN:
+		if (!isinf(ps->fx))
+			beam_lens(&gb->x, ps->fx);
+		if (gb->sym && ps->sym) {
+			gb->y = gb->x;
+			return;
+		}
+		if (!isinf(ps->fy))
+			beam_lens(&gb->y, ps->fy);
+		break;
+	case GO_GENERAL:
+		trace_element_optics(c->t->rows[u].el, c->lam, &gb->x, &gb->y);
+		break;
+	}
+	gb->sym = gb->x.q == gb->y.q && gb->x.m2 == gb->y.m2;
+}
+
 /* ---- the set ---- */
 
 struct ghost *
@@ -210,86 +261,111 @@ ghost_new(struct ghost_ctx *c, int order, unsigned flags)
 	g->flags = flags;
 	g->row0 = gs->nrows;
 	g->focus0 = gs->nfoci;
-	g->worst = -1;
+	g->worst_row = -1;
 	g->worst_ratio = NAN;
 	return g;
 }
 
+void
+ghost_beam_inv2(const struct ghost_ctx *c, const struct ghost_beam *gb, double *ix, double *iy)
+{
+	double re = creal(gb->x.q), im = cimag(gb->x.q);
+
+	/* 1/w² = π Im q / (M² λ |q|²), beam_radius without the root */
+	*ix = M_PI * im / (gb->x.m2 * c->lam * (re * re + im * im));
+	if (gb->sym) {
+		*iy = *ix;
+		return;
+	}
+	re = creal(gb->y.q);
+	im = cimag(gb->y.q);
+	*iy = M_PI * im / (gb->y.m2 * c->lam * (re * re + im * im));
+}
+
 struct ghost_row *
-ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, const struct beam_axis *x,
-    const struct beam_axis *y, double p)
+ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double iy, double p)
 {
 	struct ghost_set *gs = c->gs;
 	const struct trace_row *tr = &c->t->rows[u];
+	const struct ghost_pass *ps = &c->pass[u];
 	const struct source *src = &c->b->src;
-	struct damage_exposure ex;
-	struct ghost_row *r;
 	struct ghost_acc *a = &c->acc[u];
+	/* 2P/(π wx wy) (damage_peak_irradiance) */
+	double irr = 2 * p / M_PI * (ix == iy ? ix : sqrt(ix * iy));
+	double flu = src->pulsed ? irr / src->rep_rate : NAN, lin = NAN, wx = NAN, wy = NAN;
+	double ratio = NAN;
+	enum damage_status st = STATUS_UNRATED;
+	struct ghost_row *r;
 
+	g->nrows++;
+	if (c->keep_rows || ps->linear) {
+		wx = 1 / sqrt(ix);
+		wy = ix == iy ? wx : 1 / sqrt(iy);
+		lin = damage_linear_density(p, wx, wy);
+	}
+	if (ps->rated) {
+		struct damage_exposure ex;
+
+		ex.power_in = p;
+		ex.power_lost = 0;
+		ex.linear_density = lin;
+		ex.irradiance = irr;
+		ex.fluence = flu;
+		ratio = damage_ratio(&tr->limits, &ex);
+		st = damage_status_of(ratio, c->b->safety_factor);
+		if (!isnan(ratio) && (g->worst_row < 0 || ratio > g->worst_ratio)) {
+			g->worst_row = (long)u;
+			g->worst_ratio = ratio;
+		}
+		if (st == STATUS_OVER)
+			g->flags |= GF_OVER;
+	}
+	a->met = 1;
+	a->power_in += p;
+	a->irradiance += irr;
+	if (ps->linear)
+		a->linear_density += lin;
+	if (src->pulsed)
+		a->fluence += flu;
+	if (!c->keep_rows)
+		return NULL;
 	if (gs->nrows == gs->caprows) {
 		gs->caprows = gs->caprows ? 2 * gs->caprows : 64;
 		gs->rows = xreallocarray(gs->rows, gs->caprows, sizeof *gs->rows);
 	}
 	r = &gs->rows[gs->nrows++];
-	g->nrows++;
 	r->el = tr->el;
 	r->trace_row = u;
 	r->power_in = p;
-	r->wx = beam_radius(x, c->lam);
-	r->wy = beam_radius(y, c->lam);
-	r->irradiance = damage_peak_irradiance(p, r->wx, r->wy);
-	r->linear_density = damage_linear_density(p, r->wx, r->wy);
-	r->fluence = NAN;
-	r->peak_irradiance = r->irradiance;
-	if (src->pulsed) {
-		double e = p / src->rep_rate;
-
-		r->fluence = 2 * e / (M_PI * r->wx * r->wy);
-		r->peak_irradiance = damage_peak_irradiance(damage_peak_factor(src->shape) *
-		    e / src->pulse_width, r->wx, r->wy);
-	}
+	r->wx = wx;
+	r->wy = wy;
+	r->irradiance = irr;
+	r->linear_density = lin;
+	r->fluence = flu;
+	r->peak_irradiance = src->pulsed ?
+	    irr * damage_peak_factor(src->shape) / (src->rep_rate * src->pulse_width) : irr;
 	r->power_lost = 0;
-	ex.power_in = p;
-	ex.power_lost = 0;
-	ex.linear_density = r->linear_density;
-	ex.irradiance = r->irradiance;
-	ex.fluence = r->fluence;
-	r->ratio = damage_ratio(&tr->limits, &ex);
-	r->status = damage_status_of(r->ratio, c->b->safety_factor);
-	if (!isnan(r->ratio) && (g->worst < 0 || r->ratio > g->worst_ratio)) {
-		g->worst = (long)(r - gs->rows);
-		g->worst_ratio = r->ratio;
-	}
-	if (r->status == STATUS_OVER)
-		g->flags |= GF_OVER;
-	a->met = 1;
-	a->power_in += p;
-	a->irradiance += r->irradiance;
-	a->linear_density += r->linear_density;
-	if (src->pulsed)
-		a->fluence += r->fluence;
+	r->ratio = ratio;
+	r->status = st;
 	return r;
 }
 
 void
 ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
-    const struct beam_axis *x, const struct beam_axis *y, double p)
+    const struct ghost_beam *gb, double p)
 {
 	const struct bench *b = c->b;
 	double len = c->t->rows[u].el->val[K_LENGTH], dz, wx, wy, w0x, w0y, ex, ey;
-	struct beam_axis x1 = *x, y1 = *y;
+	struct ghost_beam end = *gb;
 	struct ghost_focus *f;
 	struct ghost_set *gs = c->gs;
 
-	if (!beam_gap_focus(x, y, c->lam, len, 0, &dz, &wx, &wy))
+	if (!beam_gap_focus(&gb->x, &gb->y, c->lam, len, 0, &dz, &wx, &wy))
 		return;
 	/* the same concentration rule as a main-beam focus */
-	w0x = beam_radius(x, c->lam);
-	w0y = beam_radius(y, c->lam);
-	beam_space(&x1, len);
-	beam_space(&y1, len);
-	ex = beam_radius(&x1, c->lam);
-	ey = beam_radius(&y1, c->lam);
+	ghost_beam_radii(c, gb, &w0x, &w0y);
+	ghost_beam_space(&end, len);
+	ghost_beam_radii(c, &end, &ex, &ey);
 	if (fmin(w0x * w0y, ex * ey) / (wx * wy) < TRACE_FOCUS_CONCENTRATION)
 		return;
 	if (gs->nfoci == gs->capfoci) {
@@ -317,17 +393,13 @@ ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
 }
 
 double
-ghost_clip(const struct ghost_ctx *c, size_t u, const struct beam_axis *x,
-    const struct beam_axis *y, double p)
+ghost_clip(const struct ghost_ctx *c, size_t u, double ix, double iy, double p)
 {
-	const struct element *el = c->t->rows[u].el;
-	double a = model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+	double a = c->pass[u].ap;
 
-	if (el->type == EL_IRIS && !(a < el->val[K_DIAMETER]))
-		a = el->val[K_DIAMETER];
 	if (isnan(a))
 		return p;
-	return p * beam_clip_transmission(beam_radius(x, c->lam), beam_radius(y, c->lam), a / 2);
+	return p * beam_clip_transmission(1 / sqrt(ix), 1 / sqrt(iy), a);
 }
 
 void
@@ -357,34 +429,38 @@ ghost_add_stray(struct ghost_ctx *c, const struct element *el, const char *what,
 
 /* The ghost g leaves row `from` upstream with axes x, y and power p. */
 static void
-walk_back(struct ghost_ctx *c, struct ghost *g, long from, struct beam_axis x,
-    struct beam_axis y, double p)
+walk_back(struct ghost_ctx *c, struct ghost *g, long from, const struct beam_axis *x0,
+    const struct beam_axis *y0, double p)
 {
 	const struct trace *t = c->t;
 	const struct element *branch_owner = t->rows[from].parent;
 	long u = c->prev[from];
 	size_t gi = (size_t)(g - c->gs->g), npend = 0;
+	struct ghost_beam gb;
 
+	ghost_beam_set(&gb, x0, y0);
 	while (u >= 0 && p > c->floor) {
 		const struct trace_row *tr = &t->rows[u];
+		const struct ghost_pass *ps = &c->pass[u];
 		const struct element *el = tr->el;
-		size_t gri;
-		double pin, pc, out, mo, so, s[4], scale, toward, other;
+		struct ghost_row *kept;
+		double pin, out, toward, other, ix, iy, lost;
+		int side;
 
-		if (el->type == EL_SPACE) {
+		if (ps->space) {
 			double len = el->val[K_LENGTH];
 
-			ghost_gap(c, g, (size_t)u, tr->z + len, -1, &x, &y, p);
+			ghost_gap(c, g, (size_t)u, tr->z + len, -1, &gb, p);
 			g = &c->gs->g[gi];
-			beam_space(&x, len);
-			beam_space(&y, len);
+			ghost_beam_space(&gb, len);
 		}
 		pin = p;
-		ghost_add_row(c, g, (size_t)u, &x, &y, p);
-		gri = c->gs->nrows - 1;
-		p = ghost_clip(c, (size_t)u, &x, &y, p);
-		if (el->type == EL_SPACE) {
-			c->gs->rows[gri].power_lost = pin - p;
+		ghost_beam_inv2(c, &gb, &ix, &iy);
+		kept = ghost_add_row(c, g, (size_t)u, ix, iy, p);
+		p = ghost_clip(c, (size_t)u, ix, iy, p);
+		if (ps->space) {
+			if (kept != NULL)
+				kept->power_lost = pin - p;
 			from = u;
 			u = c->prev[u];
 			continue;
@@ -401,32 +477,22 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, struct beam_axis x,
 			}
 			q = &c->pend[c->npend + npend++];
 			q->row = (size_t)u;
-			q->x = x;
-			q->y = y;
+			q->x = gb.x;
+			q->y = gb.y;
 			q->p = p;
 		}
-		pc = ghost_p_clip(tr);
-		if (el->type == EL_ISOLATOR) {
-			toward = pow(10, -el->val[K_ISOLATION] / 10);
-			other = 0;
-		} else if (pc > 0) {
-			/* reciprocity: the fraction the forward beam came by */
-			scale = 1 - tr->clip_loss;
-			for (int i = 0; i < 4; i++)
-				s[i] = tr->stokes[i] * scale;
-			trace_element_ports(el, c->lam, s, &mo, &so);
-			toward = (t->rows[from].parent == el ? so : mo) / pc;
-			other = (t->rows[from].parent == el ? mo : so) / pc;
-		} else {
-			toward = other = 0;
-		}
+		/* reciprocity: the fraction the forward beam came by */
+		side = t->rows[from].parent == el;
+		toward = side ? ps->back_side : ps->back_same;
+		other = side ? ps->stray_side : ps->stray_same;
 		out = p * toward;
-		if (el->side_port != PORT_NONE)
+		if (ps->side)
 			ghost_add_stray(c, el, "fourth_port", p * other, NAN);
-		c->gs->rows[gri].power_lost = pin - out -
-		    (el->side_port != PORT_NONE ? p * other : 0);
-		c->acc[u].power_lost += c->gs->rows[gri].power_lost;
-		trace_element_optics(el, c->lam, &x, &y);
+		lost = pin - out - (ps->side ? p * other : 0);
+		if (kept != NULL)
+			kept->power_lost = lost;
+		c->acc[u].power_lost += lost;
+		ghost_beam_optics(c, (size_t)u, &gb);
 		p = out;
 		from = u;
 		u = c->prev[u];
@@ -510,7 +576,7 @@ first_order(struct ghost_ctx *c, size_t r)
 		g->surf_el[0] = el;
 		g->surf[0] = k ? GS_BACK : GS_FRONT;
 		g->power_start = p;
-		walk_back(c, g, (long)r, x, y, p);
+		walk_back(c, g, (long)r, &x, &y, p);
 	}
 }
 
@@ -628,7 +694,7 @@ warnings(struct ghost_ctx *c)
 		const struct ghost *g = &gs->g[i];
 
 		if (g->flags & GF_OVER) {
-			const struct trace_row *tr = &t->rows[gs->rows[g->worst].trace_row];
+			const struct trace_row *tr = &t->rows[g->worst_row];
 
 			gs->nover++;
 			trace_add_warning(t, TW_GHOST_OVER, tr->parent, tr->port, tr->el,
@@ -643,8 +709,83 @@ warnings(struct ghost_ctx *c)
 		trace_add_warning(t, TW_RETURN_POWER, NULL, PORT_NONE, NULL, gs->return_power);
 }
 
+/* What every ghost meets at each row (struct ghost_pass). */
+static void
+prepare(struct ghost_ctx *c)
+{
+	const struct trace *t = c->t;
+
+	for (size_t u = 0; u < t->nrows; u++) {
+		const struct trace_row *tr = &t->rows[u];
+		const struct element *el = tr->el;
+		struct ghost_pass *ps = &c->pass[u];
+		double pc = ghost_p_clip(tr), a, s[4], mo = 0, so = 0;
+
+		memset(ps, 0, sizeof *ps);
+		ps->space = el->type == EL_SPACE;
+		ps->term = model_type_is_terminator(el->type);
+		ps->rated = damage_rated(&tr->limits);
+		ps->linear = !isnan(tr->limits.cw_linear);
+		ps->side = el->side_port != PORT_NONE;
+		a = model_has(el, K_APERTURE) ? el->val[K_APERTURE] : NAN;
+		if (el->type == EL_IRIS && !(a < el->val[K_DIAMETER]))
+			a = el->val[K_DIAMETER];
+		ps->ap = a / 2;
+		if (pc > 0 && !ps->space) {
+			for (int i = 0; i < 4; i++)
+				s[i] = tr->stokes[i] * (1 - tr->clip_loss);
+			trace_element_ports(el, c->lam, s, &mo, &so);
+		}
+		if (el->type == EL_ISOLATOR) {
+			ps->back_same = ps->back_side = pow(10, -el->val[K_ISOLATION] / 10);
+			ps->fwd = model_get(el, K_TRANSMISSION);
+		} else if (pc > 0) {
+			ps->back_same = mo / pc;
+			ps->stray_same = so / pc;
+			ps->back_side = so / pc;
+			ps->stray_side = mo / pc;
+			ps->fwd = mo / pc;
+		}
+		/* the optics, as trace_element_optics applies them */
+		ps->optic = GO_GENERAL;
+		ps->sym = 0;
+		ps->fx = ps->fy = INFINITY;
+		switch (el->type) {
+		case EL_MIRROR:
+			if (!model_has(el, K_ROC)) {
+				ps->optic = GO_NONE;
+				break;
+			}
+			beam_mirror_focal(el->val[K_ROC], model_get(el, K_AOI), &ps->fx, &ps->fy);
+			ps->optic = GO_THIN;
+			ps->sym = ps->fx == ps->fy;
+			break;
+		case EL_LENS:
+			if (model_has(el, K_FOCAL) && !(model_has(el, K_THICKNESS) &&
+			    el->val[K_THICKNESS] != 0)) {
+				int ax = (int)model_get(el, K_AXIS);
+
+				ps->optic = GO_THIN;
+				if (ax != AXIS_Y)
+					ps->fx = el->val[K_FOCAL];
+				if (ax != AXIS_X)
+					ps->fy = el->val[K_FOCAL];
+				ps->sym = ax == AXIS_BOTH;
+			}
+			break;
+		case EL_WINDOW:
+			if (!(model_has(el, K_THICKNESS) && el->val[K_THICKNESS] != 0))
+				ps->optic = GO_NONE;
+			break;
+		default:
+			ps->optic = GO_NONE;
+			break;
+		}
+	}
+}
+
 void
-ghost_run(struct trace *t)
+ghost_run(struct trace *t, unsigned opts)
 {
 	struct ghost_ctx c;
 
@@ -652,6 +793,7 @@ ghost_run(struct trace *t)
 	c.t = t;
 	c.b = t->bench;
 	c.gs = t->ghosts = xcalloc(1, sizeof *t->ghosts);
+	c.keep_rows = c.gs->rows_kept = (opts & GHOST_ROWS) != 0;
 	c.floor = GHOST_FLOOR * c.b->src.power;
 	c.lam = c.b->src.wavelength;
 	if (t->nrows == 0)
@@ -659,7 +801,9 @@ ghost_run(struct trace *t)
 	c.prev = xmalloc(t->nrows * sizeof *c.prev);
 	c.next = xmalloc(t->nrows * sizeof *c.next);
 	c.acc = xcalloc(t->nrows, sizeof *c.acc);
+	c.pass = xmalloc(t->nrows * sizeof *c.pass);
 	link_rows(&c);
+	prepare(&c);
 	for (size_t r = 0; r < t->nrows; r++) {
 		const struct element *el = t->rows[r].el;
 
@@ -676,5 +820,6 @@ ghost_run(struct trace *t)
 	free(c.prev);
 	free(c.next);
 	free(c.acc);
+	free(c.pass);
 	free(c.pend);
 }

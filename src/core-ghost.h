@@ -52,9 +52,10 @@ struct ghost {
 	const struct element *surf_el[2];   /* borrowed; [1] NULL for order 1 */
 	enum ghost_surface    surf[2];
 	double                power_start;  /* W, after its last reflection */
-	size_t                row0, nrows;  /* into ghost_set.rows */
+	size_t                nrows;        /* elements met */
+	size_t                row0;         /* its rows in ghost_set.rows (rows_kept only) */
 	size_t                focus0, nfoci;
-	long                  worst;        /* index into rows (absolute); -1: unrated */
+	long                  worst_row;    /* trace row where it is worst; -1: unrated */
 	double                worst_ratio;
 	unsigned              flags;
 };
@@ -70,8 +71,9 @@ struct ghost_stray {
 struct ghost_set {
 	struct ghost       *g;          /* owned */
 	size_t              n, cap;
-	struct ghost_row   *rows;       /* owned */
+	struct ghost_row   *rows;       /* owned; NULL unless rows_kept */
 	size_t              nrows, caprows;
+	int                 rows_kept;  /* ghost_run with GHOST_ROWS */
 	struct ghost_focus *foci;       /* owned */
 	size_t              nfoci, capfoci;
 	struct ghost_stray *strays;     /* owned */
@@ -82,8 +84,12 @@ struct ghost_set {
 
 /* Computes the ghosts and strays of a finished main trace, adds the
  * ghosts to the ratings of the elements they meet (flag "ghosts"), and
- * updates worst, safe_source_power and the warnings.  Sets t->ghosts. */
-void ghost_run(struct trace *t);
+ * updates worst, safe_source_power and the warnings.  Sets t->ghosts.
+ * With GHOST_ROWS every ghost keeps its row at every element it meets
+ * (the JSON and CSV output; a long chain has millions); without, only
+ * its summary (worst, foci, counts) - the ratings are the same. */
+#define GHOST_ROWS 1u
+void ghost_run(struct trace *t, unsigned opts);
 void ghost_set_free(struct ghost_set *);         /* NULL ok */
 /* "L1.back" for a ghost's k-th reflection, into buf. */
 void ghost_surface_name(const struct ghost *, int k, char *buf, size_t n);

@@ -494,6 +494,13 @@ int
 point_survey_run(const struct bench *b, const char *only, struct point_survey *sv,
     char **cause)
 {
+	return point_survey_run_opts(b, only, 0, sv, cause);
+}
+
+int
+point_survey_run_opts(const struct bench *b, const char *only, unsigned opts,
+    struct point_survey *sv, char **cause)
+{
 	const struct point *one = NULL;
 	struct cells cl = { NULL, NULL, 0, 0 };
 
@@ -504,7 +511,7 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 	sv->n = one != NULL ? 2 : 1 + b->points.n;
 	sv->pt = xcalloc(sv->n, sizeof *sv->pt);
 	sv->pt[0].name = "base";
-	sv->base_trace = trace_run(b);
+	sv->base_trace = trace_rerun_opts(NULL, b, opts);
 	survey_trace(sv, 0, sv->base_trace, &cl);
 	for (size_t i = 1; i < sv->n; i++) {
 		const struct point *p = one != NULL ? one : &b->points.p[i - 1];
@@ -519,7 +526,7 @@ point_survey_run(const struct bench *b, const char *only, struct point_survey *s
 			point_survey_release(sv);
 			return -1;
 		}
-		sv->last_trace = trace_rerun(sv->last_trace, sv->last);
+		sv->last_trace = trace_rerun_opts(sv->last_trace, sv->last, opts);
 		survey_trace(sv, i, sv->last_trace, &cl);
 	}
 	sv->ratio = xcalloc(sv->n * (sv->nel ? sv->nel : 1), sizeof *sv->ratio);

@@ -98,6 +98,9 @@ struct point_survey {
  * only_one: trace just the point of that name (NULL: every point). */
 int  point_survey_run(const struct bench *, const char *only_one,
          struct point_survey *out, char **cause);
+/* The same with trace_rerun_opts options for every trace (TRACE_GHOST_ROWS). */
+int  point_survey_run_opts(const struct bench *, const char *only_one, unsigned opts,
+         struct point_survey *out, char **cause);
 void point_survey_release(struct point_survey *);
 
 #endif

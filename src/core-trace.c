@@ -673,7 +673,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		t->safe_source_power = t->worst_ratio > 0 ?
 		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
 	if (!(opts & TRACE_NO_GHOSTS))
-		ghost_run(t);       /* adds the reflections and rates them */
+		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);  /* adds the reflections and rates them */
 	return t;
 }
 

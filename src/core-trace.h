@@ -119,6 +119,9 @@ struct trace {
 /* trace_rerun_opts: the main beam alone, exactly as before ghosts were
  * traced (--no-ghosts). */
 #define TRACE_NO_GHOSTS 1u
+/* ... and every ghost's row at every element it meets (JSON, CSV): the
+ * ratings are the same without; see ghost_run. */
+#define TRACE_GHOST_ROWS 2u
 
 /* The bench must have passed model_validate.  Never fails. */
 struct trace *trace_run(const struct bench *);     /* caller frees */

@@ -51,7 +51,7 @@ ghost_rows(struct buf *b, const struct trace *t)
 			ghost_surface_name(g, 1, name[1], sizeof name[1]);
 		snprintf(what, sizeof what, "%s%s%s", name[0], g->order == 2 ? ">" : "",
 		    g->order == 2 ? name[1] : "");
-		for (size_t k = 0; k < g->nrows; k++) {
+		for (size_t k = 0; gs->rows_kept && k < g->nrows; k++) {
 			const struct ghost_row *r = &gs->rows[g->row0 + k];
 			char fl[128] = "";
 

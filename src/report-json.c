@@ -198,8 +198,10 @@ ghosts_json(struct buf *b, const struct trace *t)
 		}
 		buf_add(b, "], \"power_start\": ");
 		json_put_number(b, g->power_start);
-		buf_add(b, ",\n      \"rows\": [");
-		for (size_t k = 0; k < g->nrows; k++) {
+		/* rows only where the trace kept them (TRACE_GHOST_ROWS) */
+		if (gs->rows_kept)
+			buf_add(b, ",\n      \"rows\": [");
+		for (size_t k = 0; gs->rows_kept && k < g->nrows; k++) {
 			const struct ghost_row *r = &gs->rows[g->row0 + k];
 
 			buf_add(b, k ? ",\n        {\"id\": " : "\n        {\"id\": ");
@@ -222,7 +224,7 @@ ghosts_json(struct buf *b, const struct trace *t)
 			json_put_string(b, damage_status_name(r->status));
 			buf_addc(b, '}');
 		}
-		buf_add(b, "],\n      \"foci\": [");
+		buf_add(b, gs->rows_kept ? "],\n      \"foci\": [" : ",\n      \"foci\": [");
 		for (size_t k = 0; k < g->nfoci; k++) {
 			const struct ghost_focus *f = &gs->foci[g->focus0 + k];
 
@@ -241,9 +243,9 @@ ghosts_json(struct buf *b, const struct trace *t)
 			buf_printf(b, ", \"air_breakdown\": %s}", f->air_breakdown ? "true" : "false");
 		}
 		buf_add(b, "],\n      \"worst\": ");
-		if (g->worst >= 0) {
+		if (g->worst_row >= 0) {
 			buf_add(b, "{\"id\": ");
-			json_put_string(b, gs->rows[g->worst].el->id);
+			json_put_string(b, t->rows[g->worst_row].el->id);
 			buf_add(b, ", \"ratio\": ");
 			json_put_number(b, g->worst_ratio);
 			buf_addc(b, '}');

@@ -233,12 +233,12 @@ reflections(struct buf *b, const struct trace *t, int ascii)
 			ghost_surface_name(g, 1, name[1], sizeof name[1]);
 		units_format(v, sizeof v, g->power_start, DIM_POWER, 3, ascii);
 		layout_percent(pct, sizeof pct, g->worst_ratio);
-		/* a ghost that sparks may meet no rated element (worst -1) */
+		/* a ghost that sparks may meet no rated element (worst_row -1) */
 		buf_printf(b, "  ghost %s%s%s: %s, %s%s %s (%s)%s\n", name[0],
 		    g->order == 2 ? (ascii ? " > " : " \u2192 ") : "", g->order == 2 ? name[1] : "",
-		    v, g->worst >= 0 ? "worst at " : "meets no rated element",
-		    g->worst >= 0 ? gs->rows[g->worst].el->id : "", g->worst >= 0 ? pct : "-",
-		    g->worst >= 0 ? layout_status_word(damage_status_of(g->worst_ratio,
+		    v, g->worst_row >= 0 ? "worst at " : "meets no rated element",
+		    g->worst_row >= 0 ? t->rows[g->worst_row].el->id : "", g->worst_row >= 0 ? pct : "-",
+		    g->worst_row >= 0 ? layout_status_word(damage_status_of(g->worst_ratio,
 		    t->bench->safety_factor)) : "unrated", g->flags & GF_REFLECTANCE_ASSUMED ?
 		    "  reflectance assumed" : "");
 		if (spark != NULL) {
