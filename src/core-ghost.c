@@ -37,6 +37,7 @@ ghost_set_free(struct ghost_set *gs)
 	free(gs->rows);
 	free(gs->foci);
 	free(gs->strays);
+	free(gs->at);
 	free(gs);
 }
 
@@ -319,6 +320,19 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 		}
 		if (st == STATUS_OVER)
 			g->flags |= GF_OVER;
+	}
+	{
+		struct ghost_at *at = &gs->at[u];
+
+		at->nmet++;
+		at->power_in += p;
+		at->irradiance += irr;
+		if (at->top < 0 || (ps->rated ? ratio > at->top_ratio : irr > at->top_irradiance)) {
+			at->top = (long)(g - gs->g);
+			at->top_ratio = ratio;
+			at->top_irradiance = irr;
+			at->top_power = p;
+		}
 	}
 	a->met = 1;
 	a->power_in += p;
@@ -643,6 +657,7 @@ combine(struct ghost_ctx *c)
 		struct trace_row *r = &t->rows[i];
 		const struct ghost_acc *a = &c->acc[i];
 
+		c->gs->at[i].main_ratio = r->ratio;
 		if (a->met && a->power_in > 0) {
 			struct damage_exposure ex;
 
@@ -673,13 +688,20 @@ combine(struct ghost_ctx *c)
 /* Ghosts that never reach an element are dropped (their power may still
  * have reached the source); rows and foci move with the ones kept. */
 static void
-compact(struct ghost_set *gs)
+compact(struct ghost_set *gs, size_t nrows)
 {
 	size_t k = 0;
+	long *to = xmalloc((gs->n ? gs->n : 1) * sizeof *to);
 
-	for (size_t i = 0; i < gs->n; i++)
+	for (size_t i = 0; i < gs->n; i++) {
+		to[i] = gs->g[i].nrows > 0 ? (long)k : -1;
 		if (gs->g[i].nrows > 0)
 			gs->g[k++] = gs->g[i];
+	}
+	for (size_t u = 0; u < nrows; u++)
+		if (gs->at[u].top >= 0)
+			gs->at[u].top = to[gs->at[u].top];
+	free(to);
 	gs->n = k;
 }
 
@@ -802,6 +824,11 @@ ghost_run(struct trace *t, unsigned opts)
 	c.next = xmalloc(t->nrows * sizeof *c.next);
 	c.acc = xcalloc(t->nrows, sizeof *c.acc);
 	c.pass = xmalloc(t->nrows * sizeof *c.pass);
+	c.gs->at = xcalloc(t->nrows, sizeof *c.gs->at);
+	for (size_t r = 0; r < t->nrows; r++) {
+		c.gs->at[r].top = -1;
+		c.gs->at[r].main_ratio = c.gs->at[r].top_ratio = NAN;
+	}
 	link_rows(&c);
 	prepare(&c);
 	for (size_t r = 0; r < t->nrows; r++) {
@@ -814,7 +841,7 @@ ghost_run(struct trace *t, unsigned opts)
 		if (ghost_untilted(&c, el) && el->type != EL_SPLITTER)
 			ghost_second_double(&c, r);
 	}
-	compact(c.gs);
+	compact(c.gs, t->nrows);
 	combine(&c);
 	warnings(&c);
 	free(c.prev);

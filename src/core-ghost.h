@@ -68,6 +68,19 @@ struct ghost_stray {
 	double                focus_distance;     /* m from the surface; NAN: flat */
 };
 
+/* What the ghosts bring to one element: one per trace row. */
+struct ghost_at {
+	size_t nmet;            /* ghosts that meet it */
+	double power_in;        /* W: their powers, summed */
+	double irradiance;      /* W/m²: their peak irradiances, summed (coaxial) */
+	double main_ratio;      /* the element's ratio from the main beam alone;
+	                         * NAN: unrated */
+	long   top;             /* index into ghost_set.g of the ghost that counts
+	                         * most here (largest ratio, or irradiance where
+	                         * unrated); -1: none */
+	double top_ratio, top_irradiance, top_power;
+};
+
 struct ghost_set {
 	struct ghost       *g;          /* owned */
 	size_t              n, cap;
@@ -78,6 +91,7 @@ struct ghost_set {
 	size_t              nfoci, capfoci;
 	struct ghost_stray *strays;     /* owned */
 	size_t              nstrays, capstrays;
+	struct ghost_at    *at;         /* owned [trace nrows] */
 	double              return_power;   /* W back at the source (first order) */
 	size_t              nover;          /* ghosts over somewhere */
 };

@@ -412,6 +412,7 @@ START_TEST(test_rows_kept_same_ratings)
 	    "{'id':'S7','type':'space','length':'40 mm'},"
 	    "{'id':'BD','type':'dump','damage':{'cw_irradiance':'1 kW/cm^2'}}]}");
 	struct trace *lean = trace_run(b), *kept = trace_rerun_opts(NULL, b, TRACE_GHOST_ROWS);
+	struct trace *bare = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
 	const struct ghost_set *gl = lean->ghosts, *gk = kept->ghosts;
 	size_t second = 0;
 
@@ -445,6 +446,36 @@ START_TEST(test_rows_kept_same_ratings)
 		ck_assert(g->worst_row < 0 ? isnan(top) : top == g->worst_ratio);
 	}
 	ck_assert_uint_gt(second, 0);
+	/* each element's summary is its kept rows, summed, and the one that
+	 * counts most among them */
+	for (size_t u = 0; u < kept->nrows; u++) {
+		const struct ghost_at *at = &gl->at[u];
+		size_t n = 0;
+		double pw = 0, best = -1;
+		long top = -1;
+
+		for (size_t i = 0; i < gk->n; i++)
+			for (size_t k = 0; k < gk->g[i].nrows; k++) {
+				const struct ghost_row *r = &gk->rows[gk->g[i].row0 + k];
+				double key = isnan(r->ratio) ? r->irradiance : r->ratio;
+
+				if (r->trace_row != u)
+					continue;
+				n++;
+				pw += r->power_in;
+				if (key > best) {
+					best = key;
+					top = (long)i;
+				}
+			}
+		ck_assert_uint_eq(at->nmet, n);
+		CHECK_REL(at->power_in + 1e-300, pw + 1e-300, 1e-12);
+		ck_assert_int_eq(at->top, top);
+		/* and the main beam's own share is the trace without ghosts */
+		ck_assert(at->main_ratio == bare->rows[u].ratio ||
+		    (isnan(at->main_ratio) && isnan(bare->rows[u].ratio)));
+	}
+	trace_free(bare);
 	trace_free(lean);
 	trace_free(kept);
 	model_bench_free(b);
