@@ -678,6 +678,13 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 }
 
 void
+trace_add_ghosts(struct trace *t, unsigned opts)
+{
+	if (t->ghosts == NULL)
+		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);
+}
+
+void
 trace_free(struct trace *t)
 {
 	if (t == NULL)

@@ -127,6 +127,9 @@ struct app {
 	char              *name;        /* owned */
 	struct bench      *bench;       /* owned: the draft in memory */
 	struct trace      *trace;       /* owned */
+	/* the trace holds the main beam only: its reflections are counted
+	 * when no key is waiting (ui_app_idle) or before the next key */
+	int                ghosts_pending;
 	struct layout_row *rows;        /* owned: the chain */
 	size_t             nrows;
 	int                sel, scroll; /* selected row, first shown */
@@ -161,6 +164,9 @@ struct app {
 };
 
 /* ---- ui-app.c: life cycle, frame, edits ---- */
+/* Work left from the last retrace (the reflections): does it and returns
+ * 1 (the screen needs a frame), or 0 when there is none. */
+int   ui_app_idle(struct app *);
 void  app_push(struct app *, const struct ui_pane_ops *, void *data);
 void  app_pop(struct app *);
 void  app_msg(struct app *, int error, const char *fmt, ...)
