@@ -482,6 +482,33 @@ START_TEST(test_rows_kept_same_ratings)
 }
 END_TEST
 
+/* The workbench draws the main beam first and adds the reflections when
+ * no key waits: the trace made whole that way is the whole trace. */
+START_TEST(test_add_ghosts_later_same)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b), *later = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+
+	ck_assert_ptr_null(later->ghosts);
+	trace_add_ghosts(later, 0);
+	ck_assert_ptr_nonnull(later->ghosts);
+	ck_assert_uint_eq(later->ghosts->n, t->ghosts->n);
+	ck_assert_uint_eq(later->nwarn, t->nwarn);
+	ck_assert_int_eq(later->worst, t->worst);
+	ck_assert(later->safe_source_power == t->safe_source_power);
+	for (size_t i = 0; i < t->nrows; i++) {
+		ck_assert(later->rows[i].ratio == t->rows[i].ratio ||
+		    (isnan(later->rows[i].ratio) && isnan(t->rows[i].ratio)));
+		ck_assert_uint_eq(later->rows[i].flags, t->rows[i].flags);
+	}
+	trace_add_ghosts(later, 0);     /* twice: nothing more */
+	ck_assert_uint_eq(later->nwarn, t->nwarn);
+	trace_free(t);
+	trace_free(later);
+	model_bench_free(b);
+}
+END_TEST
+
 /* --no-ghosts is the main beam alone: no ghost set, and every row the
  * same as the ghost trace's before ghosts are added (ratios aside). */
 START_TEST(test_no_ghosts_same_rows)
@@ -521,6 +548,7 @@ main(void)
 	tcase_add_test(tc, test_no_ghosts_same_rows);
 	tcase_add_test(tc, test_cylinder_ghost_one_axis);
 	tcase_add_test(tc, test_rows_kept_same_ratings);
+	tcase_add_test(tc, test_add_ghosts_later_same);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
