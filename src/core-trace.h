@@ -97,7 +97,9 @@ struct trace_warning {
 	enum port             port;
 	const struct element *after;    /* borrowed; NULL: straight after the source */
 	double                value;    /* W (unterminated, self_focusing), rad, W/m² */
-	double                distance; /* self_focusing: collapse distance, m */
+	double                distance; /* self_focusing: collapse distance, m;
+	                                 * a ghost's spark: m to the nearest element */
+	int                   ghost;    /* air_breakdown at a ghost's focus */
 };
 
 struct trace {
