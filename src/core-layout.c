@@ -11,6 +11,7 @@
 
 #include "core-edit.h"
 #include "core-layout.h"
+#include "core-layout-tol.h"
 #include "util-err.h"
 
 /* ---- numbers and words ---- */
@@ -159,7 +160,7 @@ static const struct { const char *u, *a; } ascii_map[] = {
 	{ "\u2500", "-" }, { "\u2514", "`" }, { "\u251c", "|" }, { "\u253c", "+" },
 	{ "\u00b7", "." }, { "\u2588", "#" }, { "\u25b6", ">" }, { "\u25c6", "F" },
 	{ "\u25cf", "*" }, { "\u2580", "=" }, { "\u2264", "<=" }, { "\u2265", ">=" },
-	{ "\u00b1", "+/-" }, { "\u2014", "-" }, { "\u2013", "-" }, { "\u25b2", "^" },
+	{ "\u00b1", "+-" }, { "\u2014", "-" }, { "\u2013", "-" }, { "\u25b2", "^" },
 	{ "\u25bc", "v" }, { "\u00b9", "1" }, { "\u203a", ">" }, { "\u2506", ":" },
 	{ "\u00f7", "/" }, { "\u03bb", "lambda" }, { "\u03c4", "tau" }, { "\u221e", "inf" },
 	{ "\u21c4", "<>" }, { "\u2592", ":" }, { "\u25b8", ">" }, { "\u2039", "<" },
@@ -593,12 +594,14 @@ layout_value_text(const struct element *el, enum model_key k)
 {
 	const struct model_key_def *d = &model_keys[k];
 	double v = model_get(el, k);
+	char *s;
 
 	if (isnan(v))
 		return xstrdup("");
 	switch (d->kind) {
 	case KIND_QUANTITY:
-		return layout_quantity_text(v, d->dim);
+		s = layout_quantity_text(v, d->dim);
+		break;
 	case KIND_BOOL:
 	case KIND_AXIS:
 	case KIND_CHOICE:
@@ -606,10 +609,13 @@ layout_value_text(const struct element *el, enum model_key k)
 	case KIND_SURFACE:
 		if (v == MODEL_UNCOATED)
 			return model_value_text(el, k);
-		return plain_text(v);
+		/* FALLTHROUGH */
 	default:
-		return plain_text(v);
+		s = plain_text(v);
+		break;
 	}
+	/* with its tolerance, as the editor reads it back (core-layout-tol.c) */
+	return layout_tol_with_value(el, k, s);
 }
 
 static const struct {
@@ -673,10 +679,11 @@ layout_bench_key_hint(const char *key)
 	return xstrdup("");
 }
 
+static char *bench_value_text(const struct bench *, const char *key);
+
 char *
 layout_bench_value_text(const struct bench *b, const char *key)
 {
-	const struct source *s = &b->src;
 	size_t i;
 
 	for (i = 0; i < NBENCH_KEYS; i++)
@@ -684,6 +691,15 @@ layout_bench_value_text(const struct bench *b, const char *key)
 			break;
 	if (i == NBENCH_KEYS || bench_keys[i].dim == DIM_COUNT)
 		return edit_bench_value(b, key);
+	/* with its tolerance, as the editor reads it back (core-layout-tol.c) */
+	return layout_tol_with_src(b, key, bench_value_text(b, key));
+}
+
+static char *
+bench_value_text(const struct bench *b, const char *key)
+{
+	const struct source *s = &b->src;
+
 	if (!s->pulsed && (strcmp(key, "source.pulse_energy") == 0 ||
 	    strcmp(key, "source.rep_rate") == 0 || strcmp(key, "source.pulse_width") == 0))
 		return xstrdup("");

@@ -128,13 +128,15 @@ int    layout_scroll(int sel, int top, int visible, int n);
 /* ---- values ---- */
 
 /* A key's value as short text that reads back to the same double ("250 mm"
- * rather than "0.25 m"); the given value or its default.  Caller frees. */
+ * rather than "0.25 m"); the given value or its default; its own tolerance
+ * after it ("250 mm ± 2 mm", core-layout-tol.h).  Caller frees. */
 char  *layout_value_text(const struct element *, enum model_key);
 /* v as the shortest units_format text that reads back to v ("532 nm"). */
 char  *layout_quantity_text(double v, enum unit_dim);                  /* caller frees */
 /* What a bench-level key's value looks like ("with its unit, e.g. ..."). */
 char  *layout_bench_key_hint(const char *key);                         /* caller frees */
-/* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm". */
+/* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm",
+ * "2 W ± 5 %". */
 char  *layout_bench_value_text(const struct bench *, const char *key);
 /* A new, empty bench with a starting source the user then edits:
  * 1064 nm, CW 1 W, waist 1 mm at the source, M² 1, linear 0°. */

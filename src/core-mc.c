@@ -535,7 +535,10 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	res->done = done;
 	res->stopped = done < n;
 	reduce(&sh, done, res);
-	free(sh.ratio);
+	if (o->keep_ratios)
+		res->ratio = sh.ratio;  /* reduce() read it and left it in sample order */
+	else
+		free(sh.ratio);
 	free(sh.status);
 	free(sh.z);
 	free(sh.safe);
@@ -553,5 +556,6 @@ mc_result_release(struct mc_result *r)
 	for (size_t j = 0; j < r->nrated; j++)
 		free(r->el[j].id);
 	free(r->el);
+	free(r->ratio);
 	memset(r, 0, sizeof *r);
 }

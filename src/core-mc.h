@@ -64,6 +64,10 @@ struct mc_result {
 	double           safe_p5;       /* W: 5th percentile of the safe source power */
 	double           nominal_safe;  /* W: of the bench as written */
 	double           safety_factor;
+	/* with mc_opts.keep_ratios: every sample's ratio of every rated
+	 * element, ratio[i * nrated + j] for sample i < done (owned; NULL
+	 * otherwise), for a histogram */
+	double          *ratio;
 };
 
 struct mc_opts {
@@ -74,6 +78,7 @@ struct mc_opts {
 	/* Called from the calling thread about ten times a second. */
 	void                 (*progress)(void *arg, size_t done, size_t total);
 	void                  *arg;
+	int                    keep_ratios; /* keep the per-sample ratios in the result */
 };
 
 /* The bench must have passed model_validate (its points are not used).

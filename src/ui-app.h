@@ -268,6 +268,7 @@ void  ui_bench_push(struct app *);              /* ui-bench.c */
 void  ui_profile_push(struct app *);            /* ui-profile.c */
 void  ui_history_push(struct app *);            /* ui-history.c */
 void  ui_hazards_push(struct app *);            /* ui-hazards.c */
+void  ui_tolerance_push(struct app *);          /* ui-tolerance.c: the odds of over */
 /* Compares the draft with the setup it came from, as a text screen. */
 void  ui_compare_draft(struct app *);           /* ui-history.c */
 void  ui_parts_push(struct app *);              /* ui-parts.c */
@@ -287,6 +288,7 @@ const struct point_survey *app_survey(struct app *);
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
     ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops;
+extern const struct ui_pane_ops ui_tolerance_ops;
 /* Keys every pane takes (help, quit, redraw). */
 extern const struct ui_key ui_global_keys[];
 

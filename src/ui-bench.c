@@ -692,6 +692,14 @@ k_hazards(struct app *a, struct ui_pane *p)
 }
 
 static enum ui_reaction
+k_tolerance(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	ui_tolerance_push(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
 k_parts(struct app *a, struct ui_pane *p)
 {
 	(void)p;
@@ -756,6 +764,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'h' }, "h", "history", 3, "the bench's logbook: its setups, compare, reinstate, mark", k_history, 0, UG_RECORD },
 	{ { 'c' }, "c", NULL, 0, "compare the draft with the setup it came from", k_compare, 0, UG_RECORD },
 	{ { '!' }, "!", "hazards", 1, "every hazard on the bench; Enter goes to its element", k_hazards, 0, UG_LOOK },
+	{ { 't' }, "t", "tolerance", 4, "the odds that each rated optic is over when every tolerance is drawn at random (Monte-Carlo); Enter goes to an element", k_tolerance, 0, UG_LOOK },
 	{ { 'z' }, "z", "profile", 4, "the beam along z to the end of the selected element's branch", k_profile, 0, UG_LOOK },
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
 	{ { 'o' }, "o", NULL, 0, "every operating point side by side: each element's ratio at each", k_points, 0, UG_LOOK },

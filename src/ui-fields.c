@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "core-edit.h"
+#include "core-layout-tol.h"
 #include "report.h"
 #include "ui-bench.h"
 #include "util-err.h"
@@ -263,6 +264,17 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				char *v = x->fixed ? xasprintf("%s (fixed)", x->value) :
 				    x->value[0] == '\0' ? xstrdup("-") :
 				    !x->given ? xasprintf("%s (default)", x->value) : xstrdup(x->value);
+				char who[96] = "", fit[400];
+				/* a tolerance shown beside the value (a bench-wide one
+				 * in brackets), shortened to fit (core-layout-tol.c) */
+				char *inh = d->mode == WB_ELEMENT && r != NULL && x->key >= 0 ?
+				    layout_tol_inherited(a->shown, r->el, (enum model_key)x->key,
+				    who, sizeof who) : NULL;
+
+				layout_tol_fit_value(fit, sizeof fit, v, inh, who, lw - 23);
+				free(inh);
+				free(v);
+				v = xstrdup(fit);
 
 				ui_put_attr(a, yy, 22, lw - 23, v, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
 				free(v);
@@ -489,9 +501,13 @@ begin_edit(struct app *a, struct wb *d, const char *initial)
 		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
 		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
 
-		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
-		    hint);
+		char *th = layout_tol_edit_hint(f[d->field].key, d->mode == WB_SETTINGS ?
+		    f[d->field].name : NULL, a->ascii);
+
+		app_msg(a, 0, "%s: %s%s%s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
+		    hint, th[0] ? "; " : "", th);
 		free(hint);
+		free(th);
 	}
 	fields_free(f, n);
 	return UI_REDRAW;
@@ -701,9 +717,13 @@ f_move_to(struct app *a, struct wb *d, int by)
 		char *hint = f[d->field].key >= 0 ? layout_key_hint(f[d->field].key) :
 		    d->mode == WB_SETTINGS ? layout_bench_key_hint(f[d->field].name) : xstrdup("");
 
-		app_msg(a, 0, "%s: %s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
-		    hint);
+		char *th = layout_tol_edit_hint(f[d->field].key, d->mode == WB_SETTINGS ?
+		    f[d->field].name : NULL, a->ascii);
+
+		app_msg(a, 0, "%s: %s%s%s%s%s", f[d->field].name, f[d->field].help, hint[0] ? "; " : "",
+		    hint, th[0] ? "; " : "", th);
 		free(hint);
+		free(th);
 	}
 	if (d->mode == WB_ELEMENT && field_row(a) != NULL) {
 		free(d->field_of);

@@ -82,6 +82,15 @@ help_text(const struct app *a)
 	    "    Backspace   delete before the cursor; Del (^D) under it\n"
 	    "    ^U ^K ^W    clear before the cursor, after it, the word before it\n");
 	section(&b, a, "Hazards (!)", ui_hazards_ops.keys);
+	section(&b, a, "Tolerances (t)", ui_tolerance_ops.keys);
+	buf_add(&b,
+	    "  A value may carry a tolerance after it: \"250 mm +- 2 mm\" (normal, that\n"
+	    "  standard deviation), \"2 W +- 5 %\", \"+- 0.004 uniform\" (anywhere within);\n"
+	    "  \"+- 0\" removes it.  t draws every tolerance at random a few thousand\n"
+	    "  times and traces each draw: the chance that each rated optic is over or at\n"
+	    "  caution, with its standard error, the histogram of the selected one's\n"
+	    "  ratio and the tolerances its ratio follows most.  These are statistical\n"
+	    "  estimates of the tolerances as written; beamledger tolerance runs more.\n");
 	section(&b, a, "Beam profile (z)", ui_profile_ops.keys);
 	buf_add(&b,
 	    "  The plot shows both 1/e^2 radii (x and y) along the path from the source\n"

@@ -330,6 +330,69 @@ START_TEST(test_p_over_normal)
 }
 END_TEST
 
+static int
+cmp_double(const void *x, const void *y)
+{
+	double a = *(const double *)x, b = *(const double *)y;
+
+	return a < b ? -1 : a > b;
+}
+
+/* Kept ratios (mc_opts.keep_ratios, for the workbench's histogram): the
+ * run's own figures follow from them as their definitions say, computed
+ * here independently (a count for P(over), a sort for the nearest-rank
+ * median: Hyndman & Fan 1996 definition 1, from memory); keeping changes
+ * no figure; the kept samples are the same for any thread count; a run
+ * without the option keeps none. */
+START_TEST(test_keep_ratios)
+{
+	struct bench *b = bench_text("dump", DUMP_BENCH, "\xc2\xb1 10 %");
+	struct mc_result plain, kept, kept1;
+	struct mc_opts o;
+	char *cause = NULL;
+	const size_t n = 3000;
+	double *col;
+	size_t over = 0, caution = 0;
+
+	run(b, n, 2, &plain);
+	ck_assert_ptr_null(plain.ratio);
+	memset(&o, 0, sizeof o);
+	o.samples = n;
+	o.seed = 2026;
+	o.threads = 2;
+	o.keep_ratios = 1;
+	ck_assert_msg(mc_run(b, &o, &kept, &cause) == 0, "%s", cause);
+	o.threads = 1;
+	ck_assert_msg(mc_run(b, &o, &kept1, &cause) == 0, "%s", cause);
+	ck_assert_ptr_nonnull(kept.ratio);
+	ck_assert_uint_eq(kept.nrated, 1);
+	ck_assert_int_eq(memcmp(kept.ratio, kept1.ratio, n * sizeof *kept.ratio), 0);
+	ck_assert_double_eq(kept.el[0].p_over, plain.el[0].p_over);
+	ck_assert_double_eq(kept.el[0].median, plain.el[0].median);
+	col = malloc(n * sizeof *col);
+	for (size_t i = 0; i < n; i++) {
+		double x = kept.ratio[i * kept.nrated];
+
+		/* the dump's ratio is P/1.1 W with P = 1 W ± 10 %: never 0 */
+		ck_assert(x > 0 && isfinite(x));
+		over += x >= 1;
+		caution += x < 1 && x >= 1 / kept.safety_factor;
+		col[i] = x;
+	}
+	ck_assert_double_eq(kept.el[0].p_over, (double)over / (double)n);
+	ck_assert_double_eq(kept.el[0].p_caution, (double)caution / (double)n);
+	qsort(col, n, sizeof *col, cmp_double);
+	ck_assert_double_eq(kept.el[0].median, col[(n + 1) / 2 - 1]);   /* ceil(n/2)-th */
+	ck_assert_double_eq(kept.el[0].p95, col[(size_t)ceil(0.95 * n) - 1]);
+	free(col);
+	mc_result_release(&kept);
+	ck_assert_ptr_null(kept.ratio);
+	mc_result_release(&kept1);
+	mc_result_release(&plain);
+	model_bench_free(b);
+}
+END_TEST
+
 START_TEST(test_p_over_uniform)
 {
 	/* P uniform on 0.8 .. 1.2 W: over from 1.1 W, P = (1.2 − 1.1)/0.4 */
@@ -623,6 +686,7 @@ main(void)
 	tcase_add_test(tc, test_streams);
 	tcase_add_test(tc, test_p_over_normal);
 	tcase_add_test(tc, test_p_over_uniform);
+	tcase_add_test(tc, test_keep_ratios);
 	tcase_add_test(tc, test_no_tolerance);
 	tcase_add_test(tc, test_drivers_ranked);
 	tcase_add_test(tc, test_defaults);

@@ -1,0 +1,763 @@
+/* core-layout-tol.c - tolerances as the workbench shows them: beside a
+ * value, and the tolerance screen's cells, lines and histogram.  Numbers
+ * come from core-mc.c; this file only decides how they read, so that a
+ * figure that is an estimate always says so.  See core-layout-tol.h. */
+#include <config.h>
+
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core-layout-tol.h"
+#include "core-layout.h"
+#include "core-tol.h"
+#include "core-units.h"
+#include "util-buf.h"
+#include "util-err.h"
+
+/* ---- a value with its tolerance ---- */
+
+static enum unit_dim
+key_dim(enum model_key k)
+{
+	return model_keys[k].kind == KIND_QUANTITY ? model_keys[k].dim : DIM_NONE;
+}
+
+/* The kinds a tolerance may sit on (model_set_text refuses the others). */
+static int
+key_takes_tol(int k)
+{
+	if (k < 0 || k >= K_COUNT)
+		return 0;
+	switch (model_keys[k].kind) {
+	case KIND_BOOL:
+	case KIND_AXIS:
+	case KIND_CHOICE:
+		return 0;
+	default:
+		return 1;
+	}
+}
+
+int
+layout_tol_suffix(char *buf, size_t n, const struct element *el, enum model_key k)
+{
+	const struct tol *t = key_takes_tol((int)k) ? tol_of(el, k) : NULL;
+
+	if (t == NULL || isnan(model_get(el, k))) {
+		if (n > 0)
+			buf[0] = '\0';
+		return 0;
+	}
+	return tol_format(buf, n, t, key_dim(k), 0);
+}
+
+int
+layout_tol_src_suffix(char *buf, size_t n, const struct bench *b, const char *key, int axis)
+{
+	if (n > 0)
+		buf[0] = '\0';
+	if (b->tol == NULL)
+		return 0;
+	for (int i = 0; i < TS_COUNT; i++) {
+		if (i == TS_WAIST_Y || i == TS_M2_Y || strcmp(key, tol_src_name((enum tol_src)i)) != 0)
+			continue;
+		if (axis == 1 && (i == TS_WAIST_X || i == TS_M2_X))
+			i++;            /* the y entry of the pair */
+		return tol_format(buf, n, &b->tol->src[i], tol_src_dim((enum tol_src)i), 0);
+	}
+	return 0;
+}
+
+char *
+layout_tol_with_value(const struct element *el, enum model_key k, char *v)
+{
+	char t[96], *s;
+
+	if (layout_tol_suffix(t, sizeof t, el, k) <= 0)
+		return v;
+	s = xasprintf("%s%s", v, t);
+	free(v);
+	return s;
+}
+
+char *
+layout_tol_with_src(const struct bench *b, const char *key, char *v)
+{
+	char t0[96], t1[96], *comma, *r;
+
+	layout_tol_src_suffix(t0, sizeof t0, b, key, 0);
+	layout_tol_src_suffix(t1, sizeof t1, b, key, 1);
+	if (v[0] == '\0' || (t0[0] == '\0' && t1[0] == '\0'))
+		return v;
+	comma = strcmp(key, "source.waist") == 0 ? strchr(v, ',') : NULL;
+	if (comma == NULL) {
+		r = xasprintf("%s%s", v, t0);
+	} else {
+		*comma = '\0';
+		r = xasprintf("%s%s,%s%s", v, t0, comma + 1, t1);
+	}
+	free(v);
+	return r;
+}
+
+char *
+layout_tol_inherited(const struct bench *b, const struct element *el, enum model_key k,
+    char *name, size_t n)
+{
+	const struct tol *t;
+	char s[96];
+
+	if (n > 0)
+		name[0] = '\0';
+	if (!key_takes_tol((int)k) || tol_of(el, k) != NULL)
+		return NULL;
+	t = tol_effective(b, el, k);
+	if (t == NULL)
+		return NULL;
+	tol_format(s, sizeof s, t, key_dim(k), 0);
+	for (size_t i = 0; i < b->tol->ndflt; i++)
+		if (&b->tol->dflt[i].t == t)
+			tol_default_name(&b->tol->dflt[i], name, n);
+	return xstrdup(s + 1);
+}
+
+/* "± 2 mm" as "±2 mm". */
+static void
+tight_sign(char *out, size_t n, const char *tol)
+{
+	size_t sl = strlen(TOL_SIGN);
+
+	if (strncmp(tol, TOL_SIGN " ", sl + 1) == 0)
+		snprintf(out, n, "%s%s", TOL_SIGN, tol + sl + 1);
+	else
+		snprintf(out, n, "%s", tol);
+}
+
+/* "250 mm" and "2 mm" sharing the unit: "250±2 mm" into out; 0 when they
+ * do not share it. */
+static int
+shared_unit(char *out, size_t n, const char *value, const char *amount)
+{
+	const char *vu = strchr(value, ' '), *au = strchr(amount, ' ');
+
+	if (vu == NULL || au == NULL || strcmp(vu, au) != 0 || strchr(vu + 1, ' ') != NULL)
+		return 0;
+	snprintf(out, n, "%.*s%s%s", (int)(vu - value), value, TOL_SIGN, amount);
+	return 1;
+}
+
+char *
+layout_tol_fit_value(char *buf, size_t n, const char *value, const char *inh,
+    const char *name, int cols)
+{
+	char cand[4][192], v[96], t[96];
+	const char *sign = strstr(value, " " TOL_SIGN " ");
+	int nc = 0;
+
+	if (n == 0)
+		return buf;
+	if (inh == NULL && sign == NULL) {
+		snprintf(buf, n, "%s", value);
+		return buf;
+	}
+	if (inh == NULL) {
+		/* its own: value, sign, amount */
+		snprintf(v, sizeof v, "%.*s", (int)(sign - value), value);
+		snprintf(cand[nc++], sizeof cand[0], "%s", value);
+		tight_sign(t, sizeof t, sign + 1);
+		snprintf(cand[nc++], sizeof cand[0], "%s %s", v, t);
+		if (shared_unit(cand[nc], sizeof cand[0], v, sign + 1 + strlen(TOL_SIGN) + 1))
+			nc++;
+	} else {
+		tight_sign(t, sizeof t, inh);
+		if (name != NULL && name[0] != '\0')
+			snprintf(cand[nc++], sizeof cand[0], "%s (%s for every %s)", value, inh, name);
+		snprintf(cand[nc++], sizeof cand[0], "%s (%s, bench)", value, inh);
+		snprintf(cand[nc++], sizeof cand[0], "%s (%s)", value, t);
+		{
+			/* "300 (±2) mm" */
+			const char *vu = strchr(value, ' '), *au = strchr(inh, ' ');
+			const char *au2 = au != NULL ? strchr(au + 1, ' ') : NULL;
+
+			if (vu != NULL && au2 != NULL && strcmp(vu, au2) == 0)
+				snprintf(cand[nc++], sizeof cand[0], "%.*s (%s%.*s)%s", (int)(vu - value),
+				    value, TOL_SIGN, (int)(au2 - au - 1), au + 1, vu);
+		}
+	}
+	for (int i = 0; i < nc; i++)
+		if ((int)utf8_cols(cand[i]) <= cols || i == nc - 1) {
+			snprintf(buf, n, "%s", cand[i]);
+			break;
+		}
+	return buf;
+}
+
+char *
+layout_tol_edit_hint(int key, const char *bench_key, int ascii)
+{
+	const char *sign = ascii ? "+-" : TOL_SIGN;
+	enum unit_dim dim = DIM_COUNT;
+	const char *ex;
+
+	if (key >= 0 && key_takes_tol(key))
+		dim = key_dim((enum model_key)key);
+	for (int i = 0; key < 0 && bench_key != NULL && i < TS_COUNT; i++)
+		if (i != TS_WAIST_Y && i != TS_M2_Y && strcmp(bench_key, tol_src_name((enum tol_src)i)) == 0)
+			dim = tol_src_dim((enum tol_src)i);
+	switch (dim) {
+	case DIM_COUNT:  return xstrdup("");
+	case DIM_LENGTH: ex = "2 mm"; break;
+	case DIM_NONE:   ex = "0.01"; break;
+	default:         ex = "5 %"; break;
+	}
+	return xasprintf("tolerance after it: \"%s %s\" (normal) or \"%s 1 %% uniform\"; "
+	    "\"%s 0\" removes it", sign, ex, sign, sign);
+}
+
+/* ---- the run ---- */
+
+size_t
+layout_tol_samples(size_t nrows, int more)
+{
+	size_t n = LAYOUT_TOL_SAMPLES;
+
+	for (size_t r = 64; r < nrows && n > 250; r *= 2)
+		n /= 2;
+	if (n < 250)
+		n = 250;
+	if (more < 0)
+		more = 0;
+	if (more > LAYOUT_TOL_MORE_MAX)
+		more = LAYOUT_TOL_MORE_MAX;
+	n <<= more;
+	return n > MC_MAX_SAMPLES ? MC_MAX_SAMPLES : n;
+}
+
+/* p as a percentage with as many decimals as its size asks. */
+static void
+pct_plain(char *buf, size_t n, double p, int *decimals)
+{
+	double v = 100 * p;
+	int d = v < 1 || v > 99 ? 2 : 1;
+
+	if (decimals != NULL)
+		*decimals = d;
+	snprintf(buf, n, "%.*f", d, v);
+}
+
+/* The bound of "none of n" (one-sided 95 %, exact binomial: 1 − 0.05^(1/n),
+ * about 3/n, the rule of three; Clopper & Pearson 1934, from memory). */
+static double
+none_bound(size_t n)
+{
+	return n > 0 ? 1 - pow(0.05, 1 / (double)n) : 1;
+}
+
+/* v (> 0) rounded up to two significant digits, and the decimals that
+ * shows. */
+static double
+up2(double v, int *decimals)
+{
+	int e = (int)floor(log10(v));
+	double scale = pow(10, e - 1);
+
+	*decimals = e - 1 < 0 ? 1 - e : 0;
+	return ceil(v / scale * (1 - 1e-12)) * scale;
+}
+
+/* The forms that are not an estimate with an error: no figure, an exact
+ * one, and the bounds of none and of all.  1 when buf got one. */
+static int
+bound_form(char *buf, size_t n, double p, size_t nsamples, int exact)
+{
+	double x;
+	int d;
+
+	if (isnan(p)) {
+		snprintf(buf, n, "-");
+		return 1;
+	}
+	if (exact && (p == 0 || p == 1)) {
+		snprintf(buf, n, "%s", p == 0 ? "0 %" : "100 %");
+		return 1;
+	}
+	if (p != 0 && p != 1)
+		return 0;
+	x = up2(100 * none_bound(nsamples), &d);
+	if (p == 0)
+		snprintf(buf, n, "<%.*f %%", d, x);
+	else
+		snprintf(buf, n, ">%.*f %%", d, 100 - x);
+	return 1;
+}
+
+void
+layout_tol_prob(char *buf, size_t n, double p, size_t nsamples, int exact)
+{
+	char v[32];
+
+	if (bound_form(buf, n, p, nsamples, exact))
+		return;
+	pct_plain(v, sizeof v, p, NULL);
+	snprintf(buf, n, "%s %%", v);
+}
+
+void
+layout_tol_prob_se(char *buf, size_t n, double p, double se, size_t nsamples, int exact)
+{
+	char v[32];
+	int d;
+
+	if (bound_form(buf, n, p, nsamples, exact))
+		return;
+	pct_plain(v, sizeof v, p, &d);
+	snprintf(buf, n, "%s %s %.*f %%", v, TOL_SIGN, d, 100 * se);
+}
+
+void
+layout_tol_bar_cells(double p_over, double p_caution, int width, int *over, int *caution)
+{
+	double pa = p_over + p_caution;
+	int o, oc;
+
+	*over = *caution = 0;
+	if (width <= 0 || isnan(p_over) || isnan(p_caution))
+		return;
+	o = (int)floor(p_over * width + 0.5);
+	oc = (int)floor(pa * width + 0.5);
+	if (p_over > 0 && o == 0)
+		o = 1;
+	if (p_over < 1 && o == width && width > 1)
+		o = width - 1;
+	if (oc < o)
+		oc = o;
+	if (p_caution > 0 && oc == o)
+		oc = o + 1;
+	if (pa < 1 && oc >= width && width > 1)
+		oc = width - 1;
+	if (oc > width)
+		oc = width;
+	if (o > oc)
+		o = oc;
+	*over = o;
+	*caution = oc - o;
+}
+
+static int
+kept_constant(const struct mc_result *r, size_t j)
+{
+	if (r->ratio == NULL || r->done == 0)
+		return 0;
+	for (size_t i = 1; i < r->done; i++)
+		if (r->ratio[i * r->nrated + j] != r->ratio[j])
+			return 0;
+	return 1;
+}
+
+void
+layout_tol_row(const struct mc_result *r, size_t j, int bar_w, struct layout_tol_row *o)
+{
+	const struct mc_elem *e = &r->el[j];
+
+	memset(o, 0, sizeof *o);
+	o->exact = kept_constant(r, j);
+	layout_percent(o->nominal, sizeof o->nominal, e->nominal);
+	layout_tol_prob_se(o->over, sizeof o->over, e->p_over, e->se_over, r->done, o->exact);
+	layout_tol_prob_se(o->caution, sizeof o->caution, e->p_caution, e->se_caution, r->done,
+	    o->exact);
+	layout_percent(o->median, sizeof o->median, e->median);
+	layout_percent(o->p95, sizeof o->p95, e->p95);
+	layout_tol_bar_cells(e->p_over, e->p_caution, bar_w, &o->bar_over, &o->bar_caution);
+	for (size_t q = 0; q < r->nworst; q++)
+		if (r->worst[q] == j)
+			o->worst = (int)q + 1;
+}
+
+char *
+layout_tol_head(const struct mc_result *r, int cols)
+{
+	char stop[96] = "", *s;
+	const char *tn = r->nparam == 1 ? "" : "s";
+	unsigned long long seed = (unsigned long long)r->seed;
+
+	if (r->stopped)
+		snprintf(stop, sizeof stop, "STOPPED at %zu of %zu samples; ", r->done, r->asked);
+	s = xasprintf("%sStatistical estimates from %zu random samples (seed %llu) of %zu "
+	    "tolerance%s; %s is one standard error", stop, r->done, seed, r->nparam, tn, TOL_SIGN);
+	if ((int)utf8_cols(s) <= cols)
+		return s;
+	free(s);
+	return xasprintf("%sStatistical: %zu samples, seed %llu, %zu tolerance%s; %s one "
+	    "standard error", stop, r->done, seed, r->nparam, tn, TOL_SIGN);
+}
+
+static void
+power_text(char *buf, size_t n, double w, int ascii)
+{
+	if (isnan(w))
+		snprintf(buf, n, "-");
+	else if (isinf(w))
+		snprintf(buf, n, "any");
+	else
+		units_format(buf, n, w, DIM_POWER, 3, ascii);
+}
+
+char *
+layout_tol_bench_line(const struct mc_result *r, int ascii, int cols)
+{
+	char p[48], s5[48], s0[48], *s = NULL;
+	const char *bar = ascii ? "|" : "\u2502";
+
+	layout_tol_prob_se(p, sizeof p, r->p_any, r->se_any, r->done, r->nparam == 0);
+	power_text(s5, sizeof s5, r->safe_p5, ascii);
+	power_text(s0, sizeof s0, r->nominal_safe, ascii);
+	/* the longest that fits, the last whatever its length */
+	for (int form = 0; form < 4; form++) {
+		free(s);
+		switch (form) {
+		case 0:
+			s = xasprintf("P(anything over) %s %s safe source power, 5th percentile %s "
+			    "(as written %s)", p, bar, s5, s0);
+			break;
+		case 1:
+			s = xasprintf("P(any over) %s %s safe source power, 5th percentile %s "
+			    "(as written %s)", p, bar, s5, s0);
+			break;
+		case 2:
+			s = xasprintf("P(any over) %s %s safe source power 5th pct %s (as written %s)",
+			    p, bar, s5, s0);
+			break;
+		default:
+			s = xasprintf("P(any over) %s %s safe source power 5th pct %s", p, bar, s5);
+			break;
+		}
+		if ((int)utf8_cols(s) <= cols)
+			break;
+	}
+	if (ascii) {
+		char *t = layout_ascii(s);
+
+		free(s);
+		s = t;
+	}
+	return s;
+}
+
+char *
+layout_tol_drivers(const struct mc_result *r, size_t j, char **others)
+{
+	struct buf b;
+	int ranked = 0;
+
+	*others = NULL;
+	for (size_t q = 0; q < r->nworst; q++)
+		ranked |= r->worst[q] == j;
+	if (!ranked) {
+		buf_init(&b);
+		for (size_t q = 0; q < r->nworst; q++)
+			buf_printf(&b, "%s%s", q ? ", " : "", r->el[r->worst[q]].id);
+		*others = buf_take(&b);
+		return NULL;
+	}
+	buf_init(&b);
+	for (size_t k = 0; k < r->el[j].nsens; k++)
+		buf_printf(&b, "%s%s %+.2f", k ? ", " : "", r->param[r->el[j].sens[k].param].name,
+		    r->el[j].sens[k].r);
+	if (r->el[j].nsens == 0)
+		buf_add(&b, "-");
+	return buf_take(&b);
+}
+
+char *
+layout_tol_unrated_note(const struct trace *t)
+{
+	struct layout_hazard *hz;
+	size_t n = layout_hazards(t, &hz), k = 0;
+	struct buf b;
+
+	buf_init(&b);
+	for (size_t i = 0; i < n; i++) {
+		const struct element *el = hz[i].kind == LH_UNRATED ? hz[i].el :
+		    hz[i].kind == LH_WARNING && strcmp(layout_hazard_word(&hz[i]), "unrated") == 0 ?
+		    hz[i].warn->after : NULL;
+
+		if (el != NULL)
+			buf_printf(&b, "%s%s", k++ ? ", " : "", el->id);
+	}
+	free(hz);
+	if (k == 0) {
+		buf_release(&b);
+		return NULL;
+	}
+	{
+		char *s = xasprintf("not in these odds: %s take%s power with no rating", b.s,
+		    k == 1 ? "s" : "");
+
+		buf_release(&b);
+		return s;
+	}
+}
+
+char *
+layout_tol_howto(const struct bench *b, int ascii)
+{
+	const char *s = ascii ? "+-" : TOL_SIGN;
+	int energy = b->src.pulsed && b->src.energy_given;
+	char v[48], ex[3][96], what[3][96];
+	struct buf out;
+
+	/* the source's own value as the example, on the key that takes it */
+	units_format_shortest(v, sizeof v, energy ? b->src.pulse_energy : b->src.power,
+	    energy ? DIM_ENERGY : DIM_POWER, ascii);
+	snprintf(ex[0], sizeof ex[0], "250 mm %s 2 mm", s);
+	snprintf(what[0], sizeof what[0], "normal, standard deviation 2 mm");
+	snprintf(ex[1], sizeof ex[1], "%s %s 5 %%", v, s);
+	snprintf(what[1], sizeof what[1], "normal, 5 %% of the value");
+	snprintf(ex[2], sizeof ex[2], "0.99 %s 0.004 uniform", s);
+	snprintf(what[2], sizeof what[2], "anywhere within %s 0.004", s);
+	buf_init(&out);
+	buf_printf(&out, "No value on this bench carries a tolerance, so every sample would "
+	    "be the bench as written: there are no odds to estimate.\n"
+	    "To give a value a tolerance, edit it (Enter on an element; b for the source's "
+	    "%s) and type the tolerance after the value:\n", energy ? "pulse energy" : "power");
+	for (int i = 0; i < 3; i++) {
+		size_t from = out.len;
+
+		buf_printf(&out, "  %s", ex[i]);
+		buf_pad(&out, 26, from);
+		buf_printf(&out, "%s\n", what[i]);
+	}
+	buf_add(&out, "The damage ratings may carry one too (the least certain numbers on a "
+	    "bench).  Then t again.");
+	return buf_take(&out);
+}
+
+/* ---- the histogram ---- */
+
+int
+layout_hist_make(const double *v, size_t n, size_t stride, double caution_at, int maxbins,
+    struct layout_hist *h)
+{
+	double lo, hi, w;
+	int nb;
+
+	memset(h, 0, sizeof *h);
+	h->caution_at = caution_at;
+	if (n == 0 || maxbins < 1)
+		return -1;
+	if (maxbins > LAYOUT_HIST_MAX)
+		maxbins = LAYOUT_HIST_MAX;
+	{
+		/* no more bins than the samples can fill: Rice's rule, 2·n^(1/3)
+		 * (common practice, from memory), and never fewer than 8 */
+		int rice = (int)ceil(2 * cbrt((double)n));
+
+		rice = rice < 8 ? 8 : rice;
+		maxbins = rice < maxbins ? rice : maxbins;
+	}
+	lo = hi = v[0];
+	for (size_t i = 1; i < n; i++) {
+		double x = v[i * stride];
+
+		lo = x < lo ? x : lo;
+		hi = x > hi ? x : hi;
+	}
+	h->min = lo;
+	h->max = hi;
+	h->n = n;
+	if (!(hi > lo)) {
+		/* one value: a single column in the middle of a ±1 % range */
+		double d = lo != 0 ? fabs(lo) * 0.01 : 0.01;
+
+		h->constant = 1;
+		lo -= d;
+		hi += d;
+	}
+	nb = maxbins;
+	w = (hi - lo) / nb;
+	if (lo < 1 && hi >= 1 && nb > 1) {
+		/* an edge at 100 %: one bin less, shifted so that 1 starts a bin */
+		long k;
+
+		w = (hi - lo) / (nb - 1);
+		k = (long)ceil((1 - lo) / w);
+		lo = 1 - (double)k * w;
+		nb = (int)ceil((hi - lo) / w);
+		if (lo + nb * w <= hi)
+			nb++;
+		if (nb > maxbins)
+			nb = maxbins;
+	}
+	h->nbins = nb;
+	h->lo = lo;
+	h->width = w;
+	for (size_t i = 0; i < n; i++) {
+		double x = v[i * stride];
+		int b = layout_hist_col(h, x);
+
+		b = b < 0 ? 0 : b >= nb ? nb - 1 : b;
+		h->count[b]++;
+		if (x >= 1) {
+			h->over[b]++;
+			h->n_over++;
+		} else if (x >= caution_at) {
+			h->caution[b]++;
+			h->n_caution++;
+		}
+	}
+	for (int b = 0; b < nb; b++)
+		h->top = h->count[b] > h->top ? h->count[b] : h->top;
+	return 0;
+}
+
+int
+layout_hist_of(const struct mc_result *r, size_t j, int maxbins, struct layout_hist *h)
+{
+	if (r->ratio == NULL || j >= r->nrated) {
+		memset(h, 0, sizeof *h);
+		return -1;
+	}
+	return layout_hist_make(r->ratio + j, r->done, r->nrated, 1 / r->safety_factor, maxbins,
+	    h);
+}
+
+const char *
+layout_hist_cell(const struct layout_hist *h, int b, int level, int height, int ascii)
+{
+	static const char *const eighth[9] = {
+		" ", "\u2581", "\u2582", "\u2583", "\u2584", "\u2585", "\u2586", "\u2587", "\u2588",
+	};
+	long e, unit = ascii ? 1 : 8;
+
+	if (b < 0 || b >= h->nbins || h->top == 0 || h->count[b] == 0 || height <= 0)
+		return " ";
+	e = (long)floor((double)h->count[b] / (double)h->top * (double)(height * unit) + 0.5);
+	if (e < 1)
+		e = 1;
+	e -= (long)level * unit;
+	if (e <= 0)
+		return " ";
+	if (ascii)
+		return "#";
+	return eighth[e >= 8 ? 8 : e];
+}
+
+enum damage_status
+layout_hist_status(const struct layout_hist *h, int b)
+{
+	size_t ov, ca, ok;
+
+	if (b < 0 || b >= h->nbins || h->count[b] == 0)
+		return STATUS_OK;
+	ov = h->over[b];
+	ca = h->caution[b];
+	ok = h->count[b] - ov - ca;
+	if (ov >= ca && ov >= ok)
+		return STATUS_OVER;
+	if (ca >= ok)
+		return STATUS_CAUTION;
+	return STATUS_OK;
+}
+
+int
+layout_hist_col(const struct layout_hist *h, double x)
+{
+	double c;
+
+	if (h->nbins == 0 || x < h->lo)
+		return -1;
+	c = floor((x - h->lo) / h->width);
+	if (c >= h->nbins)
+		return h->nbins;
+	/* the edge at 100 % by construction: a rounding below it is its bin */
+	if (c + 1 < h->nbins && h->lo + (c + 1) * h->width <= x)
+		c++;
+	return (int)c;
+}
+
+/* Puts label s (ASCII but for the mark byte 1) at column x of cells; 0 when
+ * it would not fit or would touch another label. */
+static int
+axis_put(char *cells, int cols, int x, const char *s)
+{
+	int l = (int)strlen(s);
+
+	if (x < 0 || x + l > cols)
+		return 0;
+	for (int i = x - 1; i <= x + l; i++)
+		if (i >= 0 && i < cols && cells[i] != ' ')
+			return 0;
+	memcpy(cells + x, s, (size_t)l);
+	return 1;
+}
+
+/* A mark under column c with the name after it, or before it at the
+ * right edge. */
+static void
+axis_mark(char *cells, int cols, int c, const char *name, double at)
+{
+	char pct[32], s[64];
+
+	layout_percent(pct, sizeof pct, at);
+	snprintf(s, sizeof s, "\001%s %s", name, pct);
+	if (axis_put(cells, cols, c, s))
+		return;
+	snprintf(s, sizeof s, "%s %s\001", name, pct);
+	if (axis_put(cells, cols, c - (int)strlen(s) + 1, s))
+		return;
+	snprintf(s, sizeof s, "\001%s", name);
+	if (axis_put(cells, cols, c, s))
+		return;
+	snprintf(s, sizeof s, "\001");
+	(void)axis_put(cells, cols, c, s);
+}
+
+char *
+layout_hist_axis(char *buf, size_t n, const struct layout_hist *h, int cw, int ascii)
+{
+	char cells[LAYOUT_HIST_AXIS_MAX + 1], lo[32], hi[32];
+	int oc = layout_hist_col(h, 1), cc = layout_hist_col(h, h->caution_at), cols;
+	struct buf b;
+
+	if (n == 0)
+		return buf;
+	cw = cw < 1 ? 1 : cw;
+	cols = h->nbins * cw > LAYOUT_HIST_AXIS_MAX ? LAYOUT_HIST_AXIS_MAX : h->nbins * cw;
+	memset(cells, ' ', sizeof cells);
+	cells[cols] = '\0';
+	if (oc >= 0 && oc < h->nbins && h->lo < 1)
+		axis_mark(cells, cols, oc * cw, "over", 1);
+	if (cc >= 0 && cc < h->nbins && h->lo < h->caution_at && cc != oc)
+		axis_mark(cells, cols, cc * cw, "caution", h->caution_at);
+	layout_percent(lo, sizeof lo, h->min);
+	layout_percent(hi, sizeof hi, h->max);
+	if (!h->constant) {
+		(void)axis_put(cells, cols, 0, lo);
+		(void)axis_put(cells, cols, cols - (int)strlen(hi), hi);
+	}
+	buf_init(&b);
+	for (int i = 0; i < cols; i++)
+		if (cells[i] == '\001')
+			buf_add(&b, ascii ? "^" : "\u25b2");
+		else
+			buf_addc(&b, cells[i]);
+	snprintf(buf, n, "%s", b.s != NULL ? b.s : "");
+	buf_release(&b);
+	return buf;
+}
+
+char *
+layout_hist_caption(const struct layout_hist *h, const char *id)
+{
+	char lo[32], hi[32];
+
+	layout_percent(lo, sizeof lo, h->min);
+	layout_percent(hi, sizeof hi, h->max);
+	if (h->constant)
+		return xasprintf("%s's ratio: %s in every one of %zu samples (no tolerance moves "
+		    "it)", id, lo, h->n);
+	return xasprintf("%s's ratio in %zu samples: %s to %s; %zu over, %zu caution, %zu ok",
+	    id, h->n, lo, hi, h->n_over, h->n_caution, h->n - h->n_over - h->n_caution);
+}
