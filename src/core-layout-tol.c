@@ -194,12 +194,12 @@ layout_tol_fit_value(char *buf, size_t n, const char *value, const char *inh,
 	return buf;
 }
 
-char *
-layout_tol_edit_hint(int key, const char *bench_key, int ascii)
+/* The example amount for a key's tolerance; NULL for a key that takes
+ * none. */
+static const char *
+tol_example(int key, const char *bench_key)
 {
-	const char *sign = ascii ? "+-" : TOL_SIGN;
 	enum unit_dim dim = DIM_COUNT;
-	const char *ex;
 
 	if (key >= 0 && key_takes_tol(key))
 		dim = key_dim((enum model_key)key);
@@ -207,13 +207,32 @@ layout_tol_edit_hint(int key, const char *bench_key, int ascii)
 		if (i != TS_WAIST_Y && i != TS_M2_Y && strcmp(bench_key, tol_src_name((enum tol_src)i)) == 0)
 			dim = tol_src_dim((enum tol_src)i);
 	switch (dim) {
-	case DIM_COUNT:  return xstrdup("");
-	case DIM_LENGTH: ex = "2 mm"; break;
-	case DIM_NONE:   ex = "0.01"; break;
-	default:         ex = "5 %"; break;
+	case DIM_COUNT:  return NULL;
+	case DIM_LENGTH: return "2 mm";
+	case DIM_NONE:   return "0.01";
+	default:         return "5 %";
 	}
+}
+
+char *
+layout_tol_edit_hint(int key, const char *bench_key, int ascii)
+{
+	const char *sign = ascii ? "+-" : TOL_SIGN, *ex = tol_example(key, bench_key);
+
+	if (ex == NULL)
+		return xstrdup("");
 	return xasprintf("tolerance after it: \"%s %s\" (normal) or \"%s 1 %% uniform\"; "
 	    "\"%s 0\" removes it", sign, ex, sign, sign);
+}
+
+char *
+layout_tol_edit_short(int key, const char *bench_key, int ascii)
+{
+	const char *ex = tol_example(key, bench_key);
+
+	if (ex == NULL)
+		return xstrdup("");
+	return xasprintf("+ tolerance: %s %s [uniform]", ascii ? "+-" : TOL_SIGN, ex);
 }
 
 /* ---- the run ---- */

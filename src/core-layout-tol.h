@@ -50,6 +50,9 @@ char *layout_tol_fit_value(char *buf, size_t n, const char *value, const char *i
  * uniform\"; \"± 0\" removes it", "" for keys that take none.  ascii: "+-"
  * for the sign.  Caller frees. */
 char *layout_tol_edit_hint(int key, const char *bench_key, int ascii);
+/* The same in 30 columns, for the line under the box: "+ tolerance: ± 2 mm
+ * [uniform]"; "" for keys that take none.  Caller frees. */
+char *layout_tol_edit_short(int key, const char *bench_key, int ascii);
 
 /* ---- the run the screen makes ---- */
 

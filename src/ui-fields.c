@@ -153,6 +153,7 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 	size_t n = fields_get(a, d, f, MAX_FIELDS);
 	const struct layout_row *r = field_row(a);
 	int lw = w * 2 / 5 < 34 ? 34 : w * 2 / 5 > 56 ? 56 : w * 2 / 5, y = g->detail_y, rows = g->detail_h, err_lines = 0;
+	char *tol_hint = NULL;
 	char *title;
 	size_t est[4], eln[4];
 	int title_end;
@@ -221,6 +222,11 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		err_lines = (int)layout_wrap(d->error, lw - 4, est, eln, 4);
 		if (err_lines > 3)
 			err_lines = 3;
+	} else if (d->editing && n > 0) {
+		/* while typing a number: how a tolerance goes after it, there */
+		tol_hint = layout_tol_edit_short(f[d->field].key, d->mode == WB_SETTINGS ?
+		    f[d->field].name : NULL, a->ascii);
+		err_lines = tol_hint[0] != '\0';
 	}
 	/* display lines: a heading where the group changes, then its fields */
 	{
@@ -280,6 +286,9 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				free(v);
 			}
 			line++;
+			if (here && d->editing && d->error == NULL && tol_hint != NULL &&
+			    tol_hint[0] != '\0' && line < rows)
+				ui_put(a, y + line++, 3, lw - 4, tol_hint, UC_DIM);
 			if (here && d->editing && d->error != NULL)
 				for (int e = 0; e < err_lines && line < rows; e++, line++) {
 					char *t = xstrdup(d->error + est[e]);
@@ -316,6 +325,7 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		}
 	}
 	fields_free(f, n);
+	free(tol_hint);
 }
 
 /* ---- the results of the selected element ---- */

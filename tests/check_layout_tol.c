@@ -212,6 +212,17 @@ START_TEST(test_edit_hint)
 	h = layout_tol_edit_hint(-1, "name", 0);
 	ck_assert_str_eq(h, "");
 	free(h);
+	/* the short form fits under the box at 80 columns (30 wide) */
+	h = layout_tol_edit_short(K_FOCAL, NULL, 0);
+	ck_assert_str_eq(h, "+ tolerance: " PM " 2 mm [uniform]");
+	ck_assert_int_le((int)utf8_cols(h), 30);
+	free(h);
+	h = layout_tol_edit_short(-1, "source.pulse_energy", 1);
+	ck_assert_str_eq(h, "+ tolerance: +- 5 % [uniform]");
+	free(h);
+	h = layout_tol_edit_short(K_POLARIZING, NULL, 0);
+	ck_assert_str_eq(h, "");
+	free(h);
 	model_bench_free(b);
 }
 END_TEST

@@ -422,6 +422,71 @@ check "its results call no focus" no_line tel '(focus|FOCUS)'
 t_keys tel Q
 check "telescope quits" wait_exit tel 5
 
+# ---- tolerances: the odds that an optic is over (t) ----
+TDB="$T_DIR/tol.db"
+tstart() {      # NAME COLS ROWS ARGS...: the workbench on $TDB
+	_s=$1 _x=$2 _y=$3; shift 3
+	t_start "$_s" "$_x" "$_y" env XDG_DATA_HOME="$XDG_DATA_HOME" USER=lab-tester NO_COLOR=1 \
+		"$BL" --db "$TDB" "$@"
+}
+tstart tol 80 24 open --demo
+check "tolerances: the demo open" wait_for tol "worst: W1"
+step "t on a bench without tolerances says so" tol "No value on this bench carries a tolerance" t
+check "... and how to give one, with the source's own value on its key" \
+	wait_line tol '^    200 mJ ± 5 % +normal, 5 % of the value$'
+check "... with only the way back on the key line" wait_line tol '^Esc›back ┆ \?›help$'
+t_keys tol Escape
+check "back on the chain" wait_line tol '^p›place'
+# a tolerance typed in place, as the screen said: Enter edits S0's length
+t_keys tol Enter
+check "S0's length in its box" wait_line tol '^   length +\[300 mm'
+check "under the box: how a tolerance goes after the value" wait_line tol '^   \+ tolerance: ± 2 mm \[uniform\] +│'
+t_keys tol C-u
+t_keys tol -l "300 mm ± 2 mm"
+step "the value with its tolerance is taken" tol "S0 length = 300 mm ± 2 mm" Enter
+check "the pane shows it beside the value, fitted to 80 columns" wait_line tol '^ +length +300±2 mm +│'
+t_keys tol Q
+check "tolerances: quits after the edit" wait_exit tol 5
+check "the tolerance typed is stored" \
+	sh -c '"$1" --db "$2" export table3-ablation | grep -q "\"length\": \"300 mm ± 2 mm\""' _ "$BL" "$TDB"
+"$BL" --db "$TDB" set table3-ablation --bench "source.pulse_energy=200 mJ ± 5 %" >/dev/null 2>&1
+tstart tol2 80 24 open table3-ablation
+check "reopened after the CLI set the pulse energy's tolerance" wait_for tol2 "worst: W1"
+t_keys tol2 b
+check "the source's settings" wait_for tol2 "the beam and bench settings"
+t_keys tol2 Down Down Down Down Down Down Down Down
+check "the settings pane shows the source's tolerance, fitted" wait_line tol2 '^   pulse energy +200 mJ ±5 %'
+t_keys tol2 Escape
+check "back on the chain again" wait_line tol2 '^p›place'
+step "t runs the Monte-Carlo" tol2 "Statistical: 2000 samples, seed 1, 2 tolerances; ± one standard error" t
+check "the bench-wide odds and the p5 safe power" wait_line tol2 '^ P\(any over\) [0-9.]+ ± [0-9.]+ % │ safe source power 5th pct [0-9.]+ mW'
+check "the table's columns" wait_line tol2 '^ element +written +P\(over\) +P\(caution\) █over ▒caution +median 95th pct$'
+check "the over window: P(over) with its error and a bar" wait_line tol2 '^▲W1 +109 % +[0-9.]+ ± [0-9.]+ % .*█'
+check "an optic no sample put over: a bound, not 0 %" wait_line tol2 '^ HWP1 +15\.9 % +<0\.15 %'
+check "the worst selected: its histogram" wait_for tol2 "W1's ratio in 2000 samples: "
+check "with the over edge marked under it" wait_line tol2 '▲over 100 %'
+check "what drives it: the pulse energy first" wait_line tol2 '^ drivers of W1 \(r\): source\.pulse_energy \+[01]\.[0-9]+'
+check "the unrated optics no odds cover" wait_line tol2 '^ not in these odds: .*POL1.* take power with no rating'
+check "the run's time and seed said" wait_line tol2 '^seed 1: 2000 samples in [0-9.]+ s'
+check "the screen's keys" wait_line tol2 '^↑↓›choose ┆ Enter›go to element  n›new seed'
+step "Up selects another optic: its histogram" tol2 "L1's ratio in 2000 samples" Up
+check "not ranked: the screen names the ones that are" wait_line tol2 '^ drivers are ranked for the worst only: W1'
+step "n: the next seed" tol2 "Statistical: 2000 samples, seed 2," n
+step "m: twice the samples" tol2 "Statistical: 4000 samples, seed 2," m
+check "L1 still selected after a rerun" wait_for tol2 "L1's ratio in 4000 samples"
+step "Enter goes to the element on the chain" tol2 "L1 selected: Enter edits its values" Enter
+check "the chain, on L1" wait_for tol2 'lens L1'
+t_keys tol2 Q
+check "tolerances: quits" wait_exit tol2 5
+# wider: the key on the chain's key line, the long forms
+tstart tolw 120 40 open table3-ablation
+check "tolerances at 120x40: the chain's key line offers t" wait_line tolw '!›hazards  t›tolerance'
+t_keys tolw t
+check "the long form of the head" wait_for tolw "Statistical estimates from 2000 random samples (seed 1) of 2 tolerances; ± is one standard error"
+check "the bench line in full" wait_line tolw '^ P\(anything over\) .* safe source power, 5th percentile [0-9.]+ mW \(as written 913 mW\)$'
+t_keys tolw Q
+check "tolerances at 120x40: quits" wait_exit tolw 5
+
 # ---- the database, checked with the CLI ----
 log=$("$BL" --db "$DB" history focus-test 2>&1)
 check "log: #2 with its note" sh -c 'printf "%s" "$1" | grep -q "lens closer to the window"' _ "$log"
