@@ -85,12 +85,14 @@ help_text(const struct app *a)
 	section(&b, a, "Tolerances (t)", ui_tolerance_ops.keys);
 	buf_add(&b,
 	    "  A value may carry a tolerance after it: \"250 mm +- 2 mm\" (normal, that\n"
-	    "  standard deviation), \"2 W +- 5 %\", \"+- 0.004 uniform\" (anywhere within);\n"
-	    "  \"+- 0\" removes it.  t draws every tolerance at random a few thousand\n"
-	    "  times and traces each draw: the chance that each rated optic is over or at\n"
-	    "  caution, with its standard error, the histogram of the selected one's\n"
-	    "  ratio and the tolerances its ratio follows most.  These are statistical\n"
-	    "  estimates of the tolerances as written; beamledger tolerance runs more.\n");
+	    "  standard deviation), \"200 mJ +- 5 %\", \"0.99 +- 0.004 uniform\" (anywhere\n"
+	    "  within); a value typed without one keeps it, \"+- 0\" removes it.  t draws\n"
+	    "  every tolerance at random a few thousand times and traces each draw: the\n"
+	    "  chance that each rated optic is over or at caution (+- one standard\n"
+	    "  error; \"<0.15 %\": no sample was), the histogram of the selected one's\n"
+	    "  ratio, and its drivers: r, the correlation of a tolerance's draw with the\n"
+	    "  ratio (near +1 or -1: that tolerance alone moves it).  These are\n"
+	    "  statistical estimates; beamledger tolerance runs as many samples as asked.\n");
 	section(&b, a, "Beam profile (z)", ui_profile_ops.keys);
 	buf_add(&b,
 	    "  The plot shows both 1/e^2 radii (x and y) along the path from the source\n"
