@@ -148,9 +148,24 @@ shared_unit(char *out, size_t n, const char *value, const char *amount)
 	return 1;
 }
 
+/* Columns s takes on the terminal: in ASCII "±" is written "+-". */
+static int
+shown_cols(const char *s, int ascii)
+{
+	char *t;
+	int c;
+
+	if (!ascii)
+		return (int)utf8_cols(s);
+	t = layout_ascii(s);
+	c = (int)utf8_cols(t);
+	free(t);
+	return c;
+}
+
 char *
 layout_tol_fit_value(char *buf, size_t n, const char *value, const char *inh,
-    const char *name, int cols)
+    const char *name, int cols, int ascii)
 {
 	char cand[4][192], v[96], t[96];
 	const char *sign = strstr(value, " " TOL_SIGN " ");
@@ -187,7 +202,7 @@ layout_tol_fit_value(char *buf, size_t n, const char *value, const char *inh,
 		}
 	}
 	for (int i = 0; i < nc; i++)
-		if ((int)utf8_cols(cand[i]) <= cols || i == nc - 1) {
+		if (shown_cols(cand[i], ascii) <= cols || i == nc - 1) {
 			snprintf(buf, n, "%s", cand[i]);
 			break;
 		}

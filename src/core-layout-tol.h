@@ -40,10 +40,11 @@ char *layout_tol_inherited(const struct bench *, const struct element *, enum mo
  * "250 mm ± 2 mm"), or with the bench-wide one in brackets when inh is not
  * NULL ("300 mm (± 2 mm for every space.length)"), in the first of ever
  * shorter forms that fits ("250 mm ±2 mm", "250±2 mm"; "300 mm (± 2 mm,
- * bench)", "300 mm (±2 mm)", "300 (±2) mm"), else the shortest.  Display only: the editor
- * starts from the value itself.  Returns buf. */
+ * bench)", "300 mm (±2 mm)", "300 (±2) mm"), else the shortest; columns
+ * counted as an ASCII terminal shows them when ascii ("±" as "+-").
+ * Display only: the editor starts from the value itself.  Returns buf. */
 char *layout_tol_fit_value(char *buf, size_t n, const char *value, const char *inh,
-          const char *name, int cols);
+          const char *name, int cols, int ascii);
 /* What the editor says about typing a tolerance after the value of
  * element key `key` (>= 0), or else of settings key `bench_key`
  * ("source.power"): "tolerance after it: \"± 2 mm\" (normal) or \"± 1 %

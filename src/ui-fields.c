@@ -277,7 +277,7 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				    layout_tol_inherited(a->shown, r->el, (enum model_key)x->key,
 				    who, sizeof who) : NULL;
 
-				layout_tol_fit_value(fit, sizeof fit, v, inh, who, lw - 23);
+				layout_tol_fit_value(fit, sizeof fit, v, inh, who, lw - 24, a->ascii);
 				free(inh);
 				free(v);
 				v = xstrdup(fit);

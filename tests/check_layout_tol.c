@@ -181,8 +181,21 @@ START_TEST(test_fit_value)
 	char buf[256];
 
 	layout_tol_fit_value(buf, sizeof buf, fit_cases[_i].value, fit_cases[_i].inh,
-	    fit_cases[_i].name, fit_cases[_i].cols);
+	    fit_cases[_i].name, fit_cases[_i].cols, 0);
 	ck_assert_str_eq(buf, fit_cases[_i].want);
+}
+END_TEST
+
+/* In ASCII the sign takes two columns ("+-"): "250 mm +-2 mm" is 13 wide,
+ * so 12 columns take the shorter form. */
+START_TEST(test_fit_value_ascii)
+{
+	char buf[256];
+
+	layout_tol_fit_value(buf, sizeof buf, "250 mm " PM " 2 mm", NULL, NULL, 13, 1);
+	ck_assert_str_eq(buf, "250 mm " PM "2 mm");
+	layout_tol_fit_value(buf, sizeof buf, "250 mm " PM " 2 mm", NULL, NULL, 12, 1);
+	ck_assert_str_eq(buf, "250" PM "2 mm");
 }
 END_TEST
 
@@ -604,6 +617,7 @@ main(void)
 	tcase_add_test(tc, test_source_with_tol);
 	tcase_add_test(tc, test_inherited);
 	LOOP(tc, test_fit_value, fit_cases);
+	tcase_add_test(tc, test_fit_value_ascii);
 	tcase_add_test(tc, test_edit_hint);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("run");
