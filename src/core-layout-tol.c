@@ -444,7 +444,12 @@ layout_tol_bench_line(const struct mc_result *r, int ascii, int cols)
 	char p[48], s5[48], s0[48], *s = NULL;
 	const char *bar = ascii ? "|" : "\u2502";
 
-	layout_tol_prob_se(p, sizeof p, r->p_any, r->se_any, r->done, r->nparam == 0);
+	int exact = r->nparam == 0 || r->ratio != NULL;
+
+	/* exact when no sample differs from the bench as written */
+	for (size_t j = 0; exact && r->nparam > 0 && j < r->nrated; j++)
+		exact = kept_constant(r, j);
+	layout_tol_prob_se(p, sizeof p, r->p_any, r->se_any, r->done, exact);
 	power_text(s5, sizeof s5, r->safe_p5, ascii);
 	power_text(s0, sizeof s0, r->nominal_safe, ascii);
 	/* the longest that fits, the last whatever its length */
@@ -495,10 +500,16 @@ layout_tol_drivers(const struct mc_result *r, size_t j, char **others)
 		*others = buf_take(&b);
 		return NULL;
 	}
+	if (kept_constant(r, j))
+		return xstrdup("none: no tolerance moves its ratio");
 	buf_init(&b);
-	for (size_t k = 0; k < r->el[j].nsens; k++)
+	for (size_t k = 0; k < r->el[j].nsens; k++) {
+		double x = r->el[j].sens[k].r;
+
+		/* no "-0.00": a correlation that rounds to 0 is 0 */
 		buf_printf(&b, "%s%s %+.2f", k ? ", " : "", r->param[r->el[j].sens[k].param].name,
-		    r->el[j].sens[k].r);
+		    fabs(x) < 0.005 ? 0.0 : x);
+	}
 	if (r->el[j].nsens == 0)
 		buf_add(&b, "-");
 	return buf_take(&b);

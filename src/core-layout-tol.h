@@ -98,10 +98,13 @@ void  layout_tol_bar_cells(double p_over, double p_caution, int width, int *over
 char *layout_tol_head(const struct mc_result *, int cols);
 /* "P(anything over) 91.5 ± 0.6 % │ safe source power, 5th percentile 821 mW
  * (as written 913 mW)", shorter in steps to fit cols ("P(any over) ...",
- * "... 5th pct ...", without the written one).  Caller frees. */
+ * "... 5th pct ...", without the written one); the odds exact ("0 %") when
+ * the kept ratios show no sample differs from the bench as written.
+ * Caller frees. */
 char *layout_tol_bench_line(const struct mc_result *, int ascii, int cols);
 /* What moves element j's ratio: "source.pulse_energy +0.79, S9.length
- * -0.62, ..." (correlation r of the draw with the ratio), or NULL when j is
+ * -0.62, ..." (correlation r of the draw with the ratio; "none: ..." when
+ * every kept sample is the same), or NULL when j is
  * not among the worst the run ranks (they are named in *others then,
  * "W1, ND1, PD1", caller frees both). */
 char *layout_tol_drivers(const struct mc_result *, size_t j, char **others);

@@ -376,6 +376,17 @@ START_TEST(test_rows_and_drivers)
 	ck_assert_str_eq(row.caution, "100 %");
 	ck_assert_int_eq(row.bar_over, 0);
 	ck_assert_int_eq(row.bar_caution, 12);
+	/* nothing moves: no bound, no correlation to rank */
+	s = layout_tol_bench_line(&rg, 0, 200);
+	ck_assert_msg(strncmp(s, "P(anything over) 0 % ", 21) == 0, "%s", s);
+	free(s);
+	dr = layout_tol_drivers(&rg, 0, &others);
+	ck_assert_str_eq(dr, "none: no tolerance moves its ratio");
+	free(dr);
+	/* ... while a run that moves it gives a bound or an estimate */
+	s = layout_tol_bench_line(&r, 0, 200);
+	ck_assert_msg(strncmp(s, "P(anything over) 0 % ", 21) != 0, "%s", s);
+	free(s);
 	mc_result_release(&r);
 	mc_result_release(&rg);
 	model_bench_free(b);
