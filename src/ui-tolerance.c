@@ -29,6 +29,7 @@ struct tolscr {
 	unsigned         threads;
 	double           secs;      /* the last run's time */
 	int              sel, top;
+	int              table_y, table_rows;   /* where the last frame put the rows */
 	char            *unrated;   /* owned: the optics no odds cover; NULL: none */
 	char            *error;     /* owned: why the run failed; NULL */
 };
@@ -277,6 +278,8 @@ ts_draw(struct app *a, struct ui_pane *p, int h, int w)
 	if (rows < 1)
 		rows = 1;
 	y = 4;
+	d->table_y = y + 1;
+	d->table_rows = rows;
 	draw_table(a, d, y, rows, w);
 	y += 1 + rows;
 	draw_hist(a, d, y, hh, w);
@@ -393,6 +396,21 @@ ts_jump(struct app *a, struct ui_pane *p)
 	return UI_POP | UI_REDRAW;
 }
 
+/* A click on a row selects it; a double click goes to it. */
+static enum ui_reaction
+ts_click(struct app *a, struct ui_pane *p, int y, int x, int dbl)
+{
+	struct tolscr *d = p->data;
+	int j = d->top + y - d->table_y;
+
+	(void)x;
+	if (!d->have || y < d->table_y || y >= d->table_y + d->table_rows || j < 0 ||
+	    j >= (int)d->r.nrated)
+		return UI_NONE;
+	d->sel = j;
+	return dbl ? ts_jump(a, p) : UI_REDRAW;
+}
+
 static enum ui_reaction
 ts_back(struct app *a, struct ui_pane *p)
 {
@@ -427,7 +445,7 @@ ts_release(struct ui_pane *p)
 }
 
 const struct ui_pane_ops ui_tolerance_ops = {
-	"tolerances (t)", 0, ts_keys, ts_draw, NULL, NULL, NULL, NULL, ts_release,
+	"tolerances (t)", 0, ts_keys, ts_draw, NULL, ts_click, NULL, NULL, ts_release,
 };
 
 void
