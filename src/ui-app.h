@@ -274,7 +274,11 @@ void  ui_parts_push(struct app *);              /* ui-parts.c */
 void  ui_help_push(struct app *);               /* ui-help.c */
 void  ui_record_prompt(struct app *);           /* ui-history.c */
 void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
-void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
+/* A full screen's title line: the program, the bench, what it shows. */
+void  ui_screen_title(struct app *, int w, const char *what);
+/* ui-sweep.c: KNOB FROM .. TO, then the sweep; knob: the marked field
+ * ("L1.focal", "source.power"), NULL: the selected element's usual knob */
+void  ui_sweep_prompt(struct app *, const char *knob);
 /* ui-points.c: the next operating point on the chain (base first); the
  * chain's worst over every point on or off; a value typed while a point is
  * shown, stored as that point's override (id NULL: a source key). */

@@ -710,8 +710,11 @@ k_points(struct app *a, struct ui_pane *p)
 static enum ui_reaction
 k_sweep(struct app *a, struct ui_pane *p)
 {
-	(void)p;
-	ui_sweep_prompt(a);
+	char *knob = wb_marked_knob(a, p->data);
+
+	/* opened on the marked field, when it is a number */
+	ui_sweep_prompt(a, knob);
+	free(knob);
 	return UI_REDRAW;
 }
 

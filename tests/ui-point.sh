@@ -46,8 +46,24 @@ t_keys ui Home
 check "Home: the start again" wait_for ui "HWP1.angle = 0°: worst W1"
 t_keys ui End
 check "End: the end again" wait_for ui "HWP1.angle = 45°: worst BD1"
+t_keys ui Tab
+# at 45° the plate sends everything into the splitter's reflected port
+check "Tab: the chain at the cursor's value" wait_line ui " BD1 +dump +1\.98 W +39\.6 % +ok"
+check "... with the knob's value above it" wait_for ui "HWP1.angle = 45°: worst BD1"
+t_keys ui Home
+check "... and it follows the cursor (0°: nothing reflected)" wait_line ui " BD1 +dump +[0-9.]+ [nµm]?W +[0-9.]+ % +ok|BD1 +dump +0 W"
+t_keys ui Tab
+check "Tab again: the plot" wait_for ui "safe (nothing over)"
 t_keys ui Escape
 check "Esc: back to the chain" wait_gone ui "sweep of HWP1.angle"
+# the sweep opens on the marked field: mark HWP1's retardance, then v
+t_keys ui Enter
+wait_for ui "Enter›apply" >/dev/null
+t_keys ui Escape Down Escape
+t_keys ui v
+check "v: the sweep prompt on the marked field" wait_for ui "HWP1.retardance 0.25 .. 1"
+t_keys ui Escape
+wait_gone ui "HWP1.retardance 0.25" >/dev/null
 t_keys ui v
 wait_for ui "HWP1.angle 0 .. 45" >/dev/null
 t_keys ui C-u
