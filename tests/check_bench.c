@@ -419,7 +419,7 @@ static const struct bad_case {
 	{ BENCH("{'id':'F1','type':'filter','od':1,'transmission':0.1}"),
 	    { "F1", "od", "transmission" } },
 	/* the keys of the physics review: a fit used outside its published
-	 * range (N-BK7 to 2.5 µm), material with index, focal with radii,
+	 * range (N-BK7 to 2.5 µm), material with index, focal 11 % from its radii,
 	 * an unknown glass, a lens with neither */
 	{ BENCH_SRC("'wavelength':'3 um','power':'1 W','waist':'1 mm'",
 	    "{'id':'W1','type':'window','material':'n-bk7'}"),

@@ -156,7 +156,81 @@ bad_case bad_uncoated "{$HEAD,$SRC,'path':[{'id':'F1','type':'filter','od':1,'su
 bad_case bad_isolation "{$HEAD,$SRC,'path':[{'id':'ISO1','type':'isolator','isolation':-3}]}" \
 	ISO1 isolation
 bad_case bad_focal_radii "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens','focal':'100 mm','r1':'50 mm'}]}" \
-	L1 focal r1
+	L1 focal r1 "111.111 mm"
+
+# focal together with r1/r2: accepted within 0.5 % of the focal length the
+# radii give, refused beyond (ghost-conventions.md, "Surfaces").  Derived in
+# the test from the thick-lens lensmaker's equation (Hecht, Optics, sec. 6.2;
+# REFERENCE §15): 1/f = (n - 1)[1/r1 - 1/r2 + (n - 1)t/(n r1 r2)], here
+# n = 1.5, r1 = 100 mm, r2 = -100 mm, t = 10 mm:
+#   1/f = 0.5 [0.01 + 0.01 - 0.5*10/(1.5*100*-100)] /mm = 0.5 * 59/3000 /mm
+#   f   = 6000/59 mm = 101.69492 mm; the 0.5 % edge is 101.1864 .. 102.2034 mm.
+# (In bad_focal_radii above: thin, n = 1.45 default, r1 = 50 mm, flat back:
+# f = 50/0.45 = 111.111 mm, 11 % from 100 mm.)
+F_LM=$(awk 'BEGIN { n = 1.5; r1 = 100; r2 = -100; t = 10
+	printf "%.6f", 1 / ((n - 1) * (1 / r1 - 1 / r2 + (n - 1) * t / (n * r1 * r2))) }')
+lens_with() {	# FOCAL_MM: a bench with that focal beside the radii above
+	bench "lens-$1.json" "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens','focal':'$1 mm',
+	  'r1':'100 mm','r2':'-100 mm','thickness':'10 mm','index':1.5},
+	  {'id':'S1','type':'space','length':'80 mm'},
+	  {'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}}]}"
+}
+off_pct() { awk -v f="$1" -v r="$F_LM" 'BEGIN { d = (f - r) / r * 100; printf "%.4f", d < 0 ? -d : d }'; }
+for f in 102.19 101.20; do
+	lens_with "$f"
+	run "focal_in_$f" trace "$T_DIR/lens-$f.json" --format json
+	check "focal $f mm is $(off_pct $f) % from $F_LM mm: inside 0.5 %" \
+		awk -v p="$(off_pct $f)" 'BEGIN { exit !(p < 0.5) }'
+	check "focal $f mm with r1/r2 agreeing: accepted" status_is "focal_in_$f" 0
+done
+for f in 102.22 101.17; do
+	lens_with "$f"
+	run "focal_out_$f" trace "$T_DIR/lens-$f.json"
+	check "focal $f mm is $(off_pct $f) % from $F_LM mm: outside 0.5 %" \
+		awk -v p="$(off_pct $f)" 'BEGIN { exit !(p > 0.5) }'
+	check "focal $f mm: exits 2" status_is "focal_out_$f" 2
+	check "focal $f mm: nothing on stdout" out_empty "focal_out_$f"
+	for w in "$T_DIR/lens-$f.json" "element 'L1'" "focal $f mm" "r1/r2" "101.695 mm"; do
+		check "focal $f mm: stderr names $w" err_has "focal_out_$f" "$w"
+	done
+done
+# The trace uses the radii (they fix the shape; beamledger-bench(5)): the
+# main-beam rows are those of the same lens by its radii alone.
+bench lens-radii.json "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens',
+  'r1':'100 mm','r2':'-100 mm','thickness':'10 mm','index':1.5},
+  {'id':'S1','type':'space','length':'80 mm'},
+  {'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}}]}"
+run focal_radii_only trace "$T_DIR/lens-radii.json" --format json --no-ghosts
+run focal_in_both trace "$T_DIR/lens-102.19.json" --format json --no-ghosts
+bench lens-focal.json "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens',
+  'focal':'102.19 mm','thickness':'10 mm','index':1.5},
+  {'id':'S1','type':'space','length':'80 mm'},
+  {'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}}]}"
+run focal_only trace "$T_DIR/lens-focal.json" --format json --no-ghosts
+if have python3; then
+	check "focal + r1/r2: the main beam is traced by the radii" python3 -c '
+import json, sys
+a = json.load(open(sys.argv[1]))["elements"]
+b = json.load(open(sys.argv[2]))["elements"]
+assert len(a) == len(b) == 3
+for x, y in zip(a, b):
+    for k in ("power_in", "radius_x", "radius_y", "irradiance", "ratio"):
+        assert x[k] == y[k], (x["id"], k, x[k], y[k])
+' "$T_DIR/focal_radii_only.out" "$T_DIR/focal_in_both.out"
+	# and not by the focal: the same lens by focal 102.19 mm alone (thin,
+	# then the 10 mm plate) leaves a different radius on M1, so the check
+	# above could fail
+	check "focal + r1/r2: by the focal alone M1 would differ" python3 -c '
+import json, sys
+a = json.load(open(sys.argv[1]))["elements"]
+b = json.load(open(sys.argv[2]))["elements"]
+assert a[2]["id"] == b[2]["id"] == "M1"
+assert a[2]["radius_x"] != b[2]["radius_x"], a[2]["radius_x"]
+' "$T_DIR/focal_only.out" "$T_DIR/focal_in_both.out"
+else
+	skip "no python3: focal + r1/r2 traced by the radii"
+	skip "no python3: focal + r1/r2 M1 row"
+fi
 
 # the ghosts are in the JSON; --no-ghosts leaves them out
 run ghosts trace --demo --format json
