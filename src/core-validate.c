@@ -126,11 +126,26 @@ check_surfaces(const struct element *el, char **cause)
 			return fail_with(cause, "element '%s': %s \"uncoated\" needs the "
 			    "glass's index or material (an uncoated surface of a guessed "
 			    "glass is refused)", el->id, model_key_path(surf[i]));
-	if (el->type == EL_MIRROR && model_has(el, K_LEAK) && !model_has(el, K_RS) &&
-	    !model_has(el, K_RP) && el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
-		return fail_with(cause, "element '%s': leak %g + reflectance %g exceeds 1 "
-		    "(the mirror would make power)", el->id, el->val[K_LEAK],
-		    model_get(el, K_REFLECTANCE));
+	if (el->type != EL_MIRROR || !model_has(el, K_LEAK))
+		return 0;
+	if (!model_has(el, K_RS) && !model_has(el, K_RP)) {
+		if (el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
+			return fail_with(cause, "element '%s': leak %g + reflectance %g "
+			    "exceeds 1 (the mirror would make power)", el->id,
+			    el->val[K_LEAK], model_get(el, K_REFLECTANCE));
+		return 0;
+	}
+	/* by s and p: the one not given reflects 1, as the trace takes it
+	 * (core-trace.c), so a leak needs both */
+	for (int i = 0; i < 2; i++) {
+		enum model_key k = i == 0 ? K_RS : K_RP;
+		double r = model_has(el, k) ? el->val[k] : 1;
+
+		if (el->val[K_LEAK] + r > 1 + 1e-12)
+			return fail_with(cause, "element '%s': leak %g + %s %g%s exceeds 1 "
+			    "(the mirror would make power)", el->id, el->val[K_LEAK],
+			    model_key_path(k), r, model_has(el, k) ? "" : " (not given: 1)");
+	}
 	return 0;
 }
 

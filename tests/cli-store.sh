@@ -231,6 +231,86 @@ for c in "1 L1 focal=abc" "2 BS1 reflectance=1.2" "3 L1 focal=5 W"; do
 	"$BEAMLEDGER" export $B > after.json
 	check "set $kv: nothing stored" same_file before.json after.json
 done
+# Surface reflections and the keys of issue 10: each bad value refused by
+# import (file, element and key named; no bench made, the list unchanged)
+# and by set (element and key named; the bench and its history unchanged).
+# ghost-conventions.md: surface reflectance in [0, 1); "uncoated" needs the
+# glass's index or material; isolation >= 0 dB; a leak is a fraction that,
+# with the mirror's reflectance, passes no more than arrives; focal within
+# 0.5 % of what r1/r2 give.  The demo's W1 is a window with neither index
+# nor material, ISO1 an isolator, CM1 a mirror of reflectance 0.995, M1 a
+# mirror by rs 0.998 / rp 0.995, L1 a lens of index 1.45 and 4 mm.
+have_python3() { command -v python3 >/dev/null 2>&1; }
+"$BEAMLEDGER" list > list-before.txt
+if have_python3; then
+	for c in "W1 surface_reflectance 1" "W1 surface_reflectance -0.1" \
+	    "W1 surface_reflectance [0.01,1]" "W1 surface_reflectance uncoated" \
+	    "ND1 surface_reflectance [0.01,uncoated]" "ISO1 isolation -3" \
+	    "CM1 leak 1.5" "CM1 leak -0.1" "CM1 leak 0.01" "M1 leak 0.003" \
+	    "L1 r1 0.1"; do         # (a plain length is in metres)
+		set -- $c
+		rm -f bad-import.json
+		python3 -c '
+import json, sys
+b = json.load(open("demo.json"))
+b["name"] = "refused import"
+def walk(p):
+    for e in p:
+        if e["id"] == sys.argv[1]:
+            e[sys.argv[2]] = json.loads(sys.argv[3].replace("uncoated", "\"uncoated\""))
+        for port in ("reflected", "transmitted", "rejected"):
+            walk(e.get(port, []))
+walk(b["path"])
+json.dump(b, open("bad-import.json", "w"))
+' "$1" "$2" "$3"
+		run import bad-import.json
+		check "import with $c: refused, file, element and key named" \
+			sh -c "[ $RC -eq 2 ] && grep -q 'bad-import.json' '$T_DIR/err' &&
+			    grep -q \"element '$1'\" '$T_DIR/err' && grep -q '$2' '$T_DIR/err'"
+		"$BEAMLEDGER" list > list-after.txt
+		check "import with $c: nothing stored" same_file list-before.txt list-after.txt
+	done
+else
+	skip "no python3: bad imports of the surface keys"
+fi
+run chain "refused import"
+check "no refused import left a bench behind" trouble "bench 'refused import' not found"
+
+"$BEAMLEDGER" export $B > before.json
+"$BEAMLEDGER" history $B > hist-before.txt
+"$BEAMLEDGER" chain $B > chain0.txt
+for c in "W1 surface_reflectance=1" "W1 surface_reflectance=-0.1" \
+    "W1 surface_reflectance_back=1" "W1 surface_reflectance=uncoated" \
+    "ND1 surface_reflectance_back=uncoated" "ISO1 isolation=-3" \
+    "CM1 leak=1.5" "CM1 leak=-0.1" "CM1 leak=0.01" "M1 leak=0.003" "L1 r1=100 mm"; do
+	id=${c%% *}; kv=${c#* }; key=${kv%%=*}
+	run set $B "$id" "$kv"
+	check "set $id $kv: refused, element and key named" \
+		sh -c "[ $RC -eq 2 ] && grep -q \"element '$id'\" '$T_DIR/err' && grep -q '$key' '$T_DIR/err'"
+	"$BEAMLEDGER" export $B > after.json
+	"$BEAMLEDGER" history $B > hist-after.txt
+	check "set $id $kv: nothing stored" \
+		sh -c 'cmp -s "$1" "$2" && cmp -s "$3" "$4"' sh before.json after.json \
+		hist-before.txt hist-after.txt
+done
+# the other side of each edge, so the refusals above are the values'
+# doing: 0.002 + rs 0.998 = 1 passes; r1 = 180 mm, r2 = -180 mm with the
+# 4 mm of n = 1.45 give 1/f = 0.45 (2/180 - 0.45*4/(1.45*180^2)) /mm,
+# f = 200.69 mm, 0.35 % from L1's 200 mm (lensmaker, Hecht sec. 6.2)
+focal0=$(sed -n 's/^L1 .*focal \([0-9.]* mm\).*/\1/p' chain0.txt)
+"$BEAMLEDGER" set $B L1 "focal=200 mm" >/dev/null 2>&1
+run set $B M1 leak=0.002
+check "set M1 leak=0.002: leak + rs = 1 accepted" rc_is 0
+run set $B L1 "r1=180 mm" "r2=-180 mm"
+check "set L1 r1/r2 within 0.5 % of focal 200 mm: accepted" rc_is 0
+run set $B L1 "focal=202 mm"
+check "set L1 focal=202 mm against r1/r2 (0.65 % off): refused naming both" \
+	sh -c "[ $RC -eq 2 ] && grep -q 'focal 202 mm' '$T_DIR/err' && grep -q '200.69. mm' '$T_DIR/err'"
+"$BEAMLEDGER" set $B L1 r1= r2= "focal=$focal0" >/dev/null
+"$BEAMLEDGER" set $B M1 leak= >/dev/null
+"$BEAMLEDGER" export $B > after.json
+check "... and unset again, the bench is what it was (focal $focal0)" same_file before.json after.json
+
 run set $B L1 focal=100mm "transmission=2"
 check "set: one bad pair of several refuses all" trouble "transmission 2 is out of range"
 run set $B L1 nokey=1

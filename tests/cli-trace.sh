@@ -155,6 +155,25 @@ bad_case bad_uncoated "{$HEAD,$SRC,'path':[{'id':'F1','type':'filter','od':1,'su
 	F1 surface_reflectance uncoated index
 bad_case bad_isolation "{$HEAD,$SRC,'path':[{'id':'ISO1','type':'isolator','isolation':-3}]}" \
 	ISO1 isolation
+bad_case bad_surface_neg "{$HEAD,$SRC,'path':[{'id':'W3','type':'window','surface_reflectance':-0.1}]}" \
+	W3 surface_reflectance "[0, 1)"
+bad_case bad_surface_back "{$HEAD,$SRC,'path':[{'id':'W4','type':'window','surface_reflectance_back':1}]}" \
+	W4 surface_reflectance_back "[0, 1)"
+bad_case bad_uncoated_lens "{$HEAD,$SRC,'path':[{'id':'L5','type':'lens','focal':'100 mm','surface_reflectance':'uncoated'}]}" \
+	L5 surface_reflectance uncoated material
+bad_case bad_isolation_text "{$HEAD,$SRC,'path':[{'id':'ISO2','type':'isolator','isolation':-0.01}]}" \
+	ISO2 isolation "[0, 100]"
+# a mirror's leak: a fraction, and with the reflectance no more than arrives
+bad_case bad_leak_high "{$HEAD,$SRC,'path':[{'id':'M5','type':'mirror','leak':1.5}]}" \
+	M5 leak "[0, 1]"
+bad_case bad_leak_neg "{$HEAD,$SRC,'path':[{'id':'M6','type':'mirror','leak':-0.1}]}" \
+	M6 leak "[0, 1]"
+bad_case bad_leak_sum "{$HEAD,$SRC,'path':[{'id':'M7','type':'mirror','reflectance':0.995,'leak':0.01}]}" \
+	M7 leak reflectance "exceeds 1"
+# by s and p the one not given reflects 1 (the trace's rule), so a leak
+# beside rs alone makes power for p light
+bad_case bad_leak_rs "{$HEAD,$SRC,'path':[{'id':'M8','type':'mirror','rs':0.9,'leak':0.01}]}" \
+	M8 leak rp "not given: 1"
 bad_case bad_focal_radii "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens','focal':'100 mm','r1':'50 mm'}]}" \
 	L1 focal r1 "111.111 mm"
 
