@@ -490,4 +490,97 @@ check "sweep: the first step's ratios are the table's cells" sh -c '
 run ex_filter trace "$T_DIR/ex_cap.json" --explain NOPE --point nope
 check "--explain with an unknown point: exit 2" status_is ex_filter 2
 
+# --- --no-ghosts is the main-beam trace exactly (issue 10) ---
+# For every bench file under tests/ (the fuzz corpus), the demo, and every
+# bench this script wrote above: the main-beam rows of the trace with
+# ghosts are those of --no-ghosts, field by field as printed, except what
+# the ghosts add (ghost-conventions.md, "Power of a ghost": the main beam is
+# not changed; "Output"): the combined ratio, never below the main beam's
+# own, its status no milder, the flag `ghosts`; the keys ghosts, strays,
+# return_power and the warnings ghost_over, stray, return_power only with
+# ghosts.  worst and safe_source_power move only to the safer side, and so
+# does the exit status.
+"$BEAMLEDGER" demo >"$T_DIR/nog-demo.json"
+# and one bench with every kind of reflection, so that ghost warnings,
+# strays and return power are there to be left out: an uncoated lens by
+# its radii focusing its back-surface ghost onto the window upstream, a
+# splitter, a reflective ND, a leaking mirror, an isolator, a tilted plate
+bench nog-rich.json "{$HEAD,'stray_warn':'1 uW',
+  'source':{'wavelength':'1064 nm','power':'20 W','waist':'1 mm','max_return':'1 mW'},
+  'path':[{'id':'W0','type':'window','surface_reflectance':'uncoated','index':1.5,
+    'damage':{'cw_irradiance':'200 W/cm^2'}},
+  {'id':'S0','type':'space','length':'25 mm'},
+  {'id':'L1','type':'lens','r1':'100 mm','r2':'-100 mm','thickness':'5 mm',
+    'material':'n-bk7','surface_reflectance':'uncoated','damage':{'cw_irradiance':'1 kW/cm^2'}},
+  {'id':'S1','type':'space','length':'50 mm'},
+  {'id':'ISO1','type':'isolator','isolation':20,'transmission':0.95},
+  {'id':'BS1','type':'splitter','reflectance':0.1,'reflected':[
+    {'id':'S1r','type':'space','length':'20 mm'},{'id':'BD1','type':'dump','max_power':'5 W'}]},
+  {'id':'ND1','type':'filter','od':0.5,'reflective':true,'surface_reflectance':0.01},
+  {'id':'P1','type':'window','aoi':5,'surface_reflectance':0.02},
+  {'id':'M1','type':'mirror','reflectance':0.99,'leak':0.005},
+  {'id':'S2','type':'space','length':'40 mm'},
+  {'id':'BD2','type':'dump','max_power':'20 W'}]}"
+run nog_rich trace "$T_DIR/nog-rich.json" --format json
+check "the reflection-rich bench traces, with ghosts, strays and return power warned" \
+	sh -c 'grep -q "\"kind\": \"stray\"" "$1" && grep -q "\"kind\": \"return_power\"" "$1"' \
+	sh "$T_DIR/nog_rich.out"
+ng_traced=0
+for f in "$srcdir"/tests/fuzz/corpus/bench/*.json "$T_DIR"/*.json; do
+	[ -f "$f" ] || continue
+	"$BEAMLEDGER" trace "$f" --format json >"$T_DIR/ng-g.out" 2>/dev/null
+	g_rc=$?
+	"$BEAMLEDGER" trace "$f" --no-ghosts --format json >"$T_DIR/ng-n.out" 2>/dev/null
+	n_rc=$?
+	name=${f##*/}
+	if [ "$n_rc" -eq 2 ] || [ "$g_rc" -eq 2 ]; then
+		# refused input is refused either way (not a trace to compare)
+		[ "$n_rc" -eq "$g_rc" ] || not_ok "$name: exit $g_rc with ghosts, $n_rc without"
+		continue
+	fi
+	ng_traced=$((ng_traced + 1))
+	check "$name: exit with ghosts ($g_rc) >= --no-ghosts ($n_rc)" [ "$g_rc" -ge "$n_rc" ]
+	if ! have python3; then
+		skip "no python3: $name --no-ghosts rows"
+		continue
+	fi
+	check "$name: --no-ghosts rows = main-beam rows of the ghost trace" python3 -c '
+import json, sys
+g = json.load(open(sys.argv[1]))
+n = json.load(open(sys.argv[2]))
+ghost_keys = {"ghosts", "strays", "return_power"}
+ghost_warn = {"ghost_over", "stray", "return_power"}
+rank = {"unrated": 0, "ok": 1, "caution": 2, "over": 3}
+assert not ghost_keys & set(n), sorted(ghost_keys & set(n))
+assert ghost_keys <= set(g), sorted(ghost_keys - set(g))
+assert not [w for w in n["warnings"] if w["kind"] in ghost_warn], n["warnings"]
+assert [w for w in g["warnings"] if w["kind"] not in ghost_warn] == n["warnings"], \
+    (g["warnings"], n["warnings"])
+assert [e["id"] for e in g["elements"]] == [e["id"] for e in n["elements"]]
+for a, b in zip(g["elements"], n["elements"]):
+    assert set(a) == set(b), (a["id"], set(a) ^ set(b))
+    for k in a:
+        if k in ("ratio", "status", "flags"):
+            continue
+        assert a[k] == b[k], (a["id"], k, a[k], b[k])
+    assert "ghosts" not in b["flags"], b["id"]
+    assert [x for x in a["flags"] if x != "ghosts"] == b["flags"], (a["id"], a["flags"], b["flags"])
+    if b["ratio"] is None:
+        assert a["ratio"] is None or "ghosts" in a["flags"], (a["id"], a["ratio"])
+    else:
+        assert a["ratio"] >= b["ratio"], (a["id"], a["ratio"], b["ratio"])
+        if a["ratio"] > b["ratio"]:
+            assert "ghosts" in a["flags"], a["id"]
+    assert rank[a["status"]] >= rank[b["status"]], (a["id"], a["status"], b["status"])
+if n["worst"] is not None and n["worst"].get("ratio") is not None:
+    assert g["worst"]["ratio"] >= n["worst"]["ratio"], (g["worst"], n["worst"])
+if n["safe_source_power"] is not None:
+    assert g["safe_source_power"] <= n["safe_source_power"], \
+        (g["safe_source_power"], n["safe_source_power"])
+' "$T_DIR/ng-g.out" "$T_DIR/ng-n.out"
+done
+# (19 when this was written: the demo, 5 of the corpus, 13 of this script's)
+check "--no-ghosts compared on $ng_traced benches (the demo, the corpus, this script's)" \
+	[ "$ng_traced" -ge 15 ]
+
 done_testing
