@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-beam.h"
 #include "core-material.h"
 #include "core-model.h"
 #include "core-point.h"
@@ -344,6 +345,24 @@ source_ranges(const struct source *s, char **cause)
 	    in_range("source: pulsed.pulse_width", s->pulse_width, 1e-18, 1, DIM_TIME, cause) ||
 	    in_range("source: pulsed.pulse_energy", s->pulse_energy, 1e-18, 1e7, DIM_ENERGY, cause))
 		return -1;
+	return 0;
+}
+
+int
+model_source_m2_from_divergence(struct source *s, char **cause)
+{
+	if (!s->divergence_given || isnan(s->waist[0]) || isnan(s->waist[1]) ||
+	    isnan(s->wavelength))
+		return 0;
+	for (int i = 0; i < 2; i++) {
+		s->m2[i] = beam_m2_from_divergence(s->waist[i], s->divergence[i], s->wavelength);
+		if (!(s->m2[i] >= 1))
+			return fail_with(cause, "source: divergence: %.6g rad with "
+			    "waist %.6g mm at %.6g nm gives M² = π·w0·θ/λ = %.4g, "
+			    "below 1: no beam diverges less than a Gaussian",
+			    s->divergence[i], s->waist[i] * 1e3,
+			    s->wavelength * 1e9, s->m2[i]);
+	}
 	return 0;
 }
 

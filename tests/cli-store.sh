@@ -328,6 +328,37 @@ check "set L1 focal=202 mm against r1/r2 (0.65 % off): refused naming both" \
 "$BEAMLEDGER" export $B > after.json
 check "... and unset again, the bench is what it was (focal $focal0)" same_file before.json after.json
 
+# source.divergence through set (as in a file): M² follows from it, by
+# M² = π·w0·θ/λ (ISO 11146-1; REFERENCE §15): the demo's 3 mm waist at
+# 1064 nm with θ = 0.5 mrad gives π·3·0.5/1064e-3 = 4.42894; a new waist of
+# 1 mm gives 1.47631 (REFERENCE's check value), one of 0.2 mm 0.295 < 1:
+# refused, as is a tolerance on it.  source.m2 replaces it again.
+m2_of() {       # the M² the trace's header shows, to 6 digits
+	"$BEAMLEDGER" trace $B 2>/dev/null | sed -n '1s/.* M² \([0-9.]*\),.*/\1/p' |
+		awk '{ printf "%.6g", $1 }'
+}
+"$BEAMLEDGER" export $B > before.json
+run set $B --bench source.divergence=0.5e-3
+check "set --bench source.divergence: taken" out_has "set 1 value on the bench"
+check "... and written back as the divergence" \
+	sh -c "'$BEAMLEDGER' export $B | grep -q '\"divergence\": 0.0005,' && ! '$BEAMLEDGER' export $B | grep -q '\"m2\"'"
+check "... M² = π·3 mm·0.5 mrad/1064 nm = 4.42894 ($(m2_of))" [ "$(m2_of)" = 4.42894 ]
+run set $B --bench "source.waist=1 mm"
+check "... a new waist gives a new M²: 1.47631 ($(m2_of))" [ "$(m2_of)" = 1.47631 ]
+"$BEAMLEDGER" export $B > div.json
+for kv in "source.waist=0.2 mm" "source.divergence=0.1e-3" "source.divergence=0.5e-3 ± 5 %" \
+    "source.divergence=0" "source.divergence=abc"; do
+	run set $B --bench "$kv"
+	check "set --bench $kv: refused" trouble "divergence"
+	"$BEAMLEDGER" export $B > after.json
+	check "set --bench $kv: nothing stored" same_file div.json after.json
+done
+run compare $B 1
+check "compare shows the M² the divergence gave" out_has "source.m2 1.3 → 1.4763123372132485"
+run set $B --bench source.m2=1.3 "source.waist=3 mm"
+"$BEAMLEDGER" export $B > after.json
+check "source.m2 replaces the divergence: the bench as it was" same_file before.json after.json
+
 run set $B L1 focal=100mm "transmission=2"
 check "set: one bad pair of several refuses all" trouble "transmission 2 is out of range"
 run set $B L1 nokey=1
