@@ -14,6 +14,7 @@
 #include "core-model.h"
 #include "core-point.h"
 #include "core-thick.h"
+#include "core-tol.h"
 #include "core-units.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -169,6 +170,11 @@ check_focal_radii(const struct element *el, double lambda, char **cause)
 	double f = el->val[K_FOCAL], fr;
 	char sf[64], sr[64], st[64];
 
+	/* a tolerance on focal would be drawn and change nothing */
+	if (tol_of(el, K_FOCAL) != NULL)
+		return fail_with(cause, "element '%s': focal has a tolerance, but the "
+		    "trace takes this lens by r1/r2 (focal only checks them): put the "
+		    "tolerance on r1 or r2", el->id);
 	if (isnan(n))
 		return 0;
 	fr = thick_lens_focal(n, r1, r2, t);

@@ -213,6 +213,12 @@ for f in 102.22 101.17; do
 		check "focal $f mm: stderr names $w" err_has "focal_out_$f" "$w"
 	done
 done
+# A sweep of focal on such a lens would change nothing: refused, naming
+# the radii to sweep instead; a sweep of r1 (on the lens by its radii
+# alone, written below) moves M1's ratio
+run sweep_focal sweep "$T_DIR/lens-102.19.json" L1.focal "101.3 mm" "102.1 mm" --steps 3
+check "sweep of focal on a lens by its radii: exits 2" status_is sweep_focal 2
+check "... naming L1.r1" err_has sweep_focal "sweep L1.r1 or L1.r2"
 # The trace uses the radii (they fix the shape; beamledger-bench(5)): the
 # main-beam rows are those of the same lens by its radii alone.
 bench lens-radii.json "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens',
@@ -220,6 +226,15 @@ bench lens-radii.json "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens',
   {'id':'S1','type':'space','length':'80 mm'},
   {'id':'M1','type':'mirror','damage':{'cw_irradiance':'10 kW/cm^2'}}]}"
 run focal_radii_only trace "$T_DIR/lens-radii.json" --format json --no-ghosts
+run sweep_r1 sweep "$T_DIR/lens-radii.json" L1.r1 "99.8 mm" "100.2 mm" --steps 3 --format json
+if have python3; then
+	check "... while a sweep of r1 changes M1's ratio" python3 -c '
+import json, sys
+r = [row["ratios"]["M1"] for row in json.load(open(sys.argv[1]))["rows"]]
+assert len(r) == 3 and r[0] != r[1] != r[2], r' "$T_DIR/sweep_r1.out"
+else
+	skip "no python3: sweep of r1"
+fi
 run focal_in_both trace "$T_DIR/lens-102.19.json" --format json --no-ghosts
 bench lens-focal.json "{$HEAD,$SRC,'path':[{'id':'L1','type':'lens',
   'focal':'102.19 mm','thickness':'10 mm','index':1.5},
