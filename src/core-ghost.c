@@ -831,7 +831,10 @@ prepare(struct ghost_ctx *c)
 			ps->sym = ps->fx == ps->fy;
 			break;
 		case EL_LENS:
-			if (model_has(el, K_FOCAL) && !(model_has(el, K_THICKNESS) &&
+			/* a thin lens by its focal length alone (the radii, when
+			 * given, fix the shape: thick_apply) */
+			if (model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2) &&
+			    !(model_has(el, K_THICKNESS) &&
 			    el->val[K_THICKNESS] != 0)) {
 				int ax = (int)model_get(el, K_AXIS);
 

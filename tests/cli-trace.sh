@@ -568,8 +568,10 @@ ghost_warn = {"ghost_over", "stray", "return_power"}
 rank = {"unrated": 0, "ok": 1, "caution": 2, "over": 3}
 assert not ghost_keys & set(n), sorted(ghost_keys & set(n))
 assert ghost_keys <= set(g), sorted(ghost_keys - set(g))
-assert not [w for w in n["warnings"] if w["kind"] in ghost_warn], n["warnings"]
-assert [w for w in g["warnings"] if w["kind"] not in ghost_warn] == n["warnings"], \
+# a spark at the focus of a reflection: air_breakdown marked "ghost"
+mine = lambda w: w["kind"] in ghost_warn or w.get("ghost") is True
+assert not [w for w in n["warnings"] if mine(w)], n["warnings"]
+assert [w for w in g["warnings"] if not mine(w)] == n["warnings"], \
     (g["warnings"], n["warnings"])
 assert [e["id"] for e in g["elements"]] == [e["id"] for e in n["elements"]]
 for a, b in zip(g["elements"], n["elements"]):
