@@ -62,26 +62,9 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 		if (nf > MAX_FIELDS)
 			nf = MAX_FIELDS;
 		/* the physical values first, each group together; the element's
-		 * names after them */
-		size_t order[MAX_FIELDS], no = 0;
-		static const enum layout_key_group shown[] = { LKG_OPTIC, LKG_MATERIAL,
-			LKG_DAMAGE, LKG_ELEMENT };
+		 * names after them (the layout's order) */
+		size_t order[MAX_FIELDS], no = layout_field_order(r->el, f, nf, order);
 
-		/* a tilt is a mirror's or splitter's first value; on glass it
-		 * comes after what the optic is (a lens's focal length first) */
-		int tilt_last = r->el->type != EL_MIRROR && r->el->type != EL_SPLITTER;
-
-		for (size_t g = 0; g < sizeof shown / sizeof *shown; g++)
-			for (int pass = 0; pass < 2; pass++)
-				for (size_t i = 0; i < nf; i++) {
-					enum layout_key_group kg = LKG_ELEMENT;
-					int late = tilt_last && f[i].kind == LF_KEY && f[i].key == K_AOI;
-
-					if (f[i].kind == LF_KEY)
-						layout_key_label(f[i].key, &kg);
-					if (kg == shown[g] && late == pass)
-						order[no++] = i;
-				}
 		for (size_t oi = 0; oi < no && n < max; oi++, n++) {
 			size_t i = order[oi];
 
@@ -89,7 +72,7 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 			out[n].help = f[i].help;
 			out[n].key = f[i].kind == LF_KEY ? f[i].key : -1;
 			if (f[i].kind == LF_KEY) {
-				out[n].label = layout_key_label(f[i].key, &out[n].group);
+				out[n].label = layout_key_label_for(r->el->type, f[i].key, &out[n].group);
 			} else {
 				out[n].group = LKG_ELEMENT;
 				out[n].label = f[i].kind == LF_SIDE ? "side port" : f[i].name;
@@ -256,7 +239,8 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 			ui_fill(a, yy, 0, lw, at);
 			if (marked)
 				ui_put(a, yy, 1, 1, ui_glyph(a, GL_KEY), UC_KEY);
-			ui_put_attr(a, yy, 3, 18, x->label, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+			ui_put_attr(a, yy, 3, LAYOUT_LABEL_COLS, x->label, at | (x->given ? 0 :
+			    ui_attr(a, UC_DIM)));
 			if (here && d->editing) {
 				ui_line_draw(a, &d->line, yy, 21, lw - 22);
 			} else {
@@ -341,6 +325,29 @@ result_wrapped(struct app *a, int y, int x, int w, int left, int max, const char
 	return used;
 }
 
+/* The ghost lines of trace row `tr` (made: the ones its surfaces send off,
+ * else the ones that meet it), as the layout words them. */
+static int
+ghost_lines(struct app *a, int y, int x, int w, int left, int made, size_t tr)
+{
+	struct layout_line l[12];
+	size_t nl = made ? layout_ghost_made(a->trace, tr, a->ascii, 4, l, 12) :
+	    layout_ghost_meet(a->trace, tr, a->ascii, l, 12);
+	int used = 0;
+
+	if (nl > 12)
+		nl = 12;
+	for (size_t i = 0; i < nl; i++) {
+		attr_t at = l[i].level >= STATUS_CAUTION ? ui_status_attr(a, l[i].level) : A_NORMAL;
+
+		if (used < left)
+			used += result_wrapped(a, y + used, x, w, left - used, 2, l[i].label,
+			    l[i].text, at);
+	}
+	layout_lines_free(l, nl);
+	return used;
+}
+
 void
 wb_draw_results(struct app *a, int y, int x, int h, int w)
 {
@@ -403,6 +410,9 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		    isnan(r->ratio) && layout_row_hazard(a->trace, (size_t)row->trace_row) ?
 		    ui_attr(a, UC_HAZARD) : ui_status_attr(a, r->status));
 	}
+	/* the ghosts that meet it: next to the ratio when they change it */
+	if (layout_ghost_matters(a->trace, (size_t)row->trace_row))
+		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
 	if (n < h) {
 		/* why the limit is what it is, wrapped over as many lines as it needs */
 		char *why = layout_derivation_text(r, a->shown, a->ascii);
@@ -457,6 +467,10 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		snprintf(line, sizeof line, "peak power above the critical %s: self-focusing", t1);
 		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_HAZARD));
 	}
+	if (!layout_ghost_matters(a->trace, (size_t)row->trace_row))
+		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
+	/* the ghosts and strays its own surfaces send off */
+	n += ghost_lines(a, y + n, x, w, h - n, 1, (size_t)row->trace_row);
 }
 
 /* ---- keys ---- */

@@ -52,7 +52,7 @@ check "the standing caution line (9.5)" wait_line ui '^▲ design estimate, not 
 check "with the wavelength and that it is invisible" wait_for ui "1.064 µm beam: invisible (IR)"
 check "the header starts with the beam (7d)" wait_line ui '^1\.064 µm 2\.00 W pulsed ▸ table3-ablation ▸ draft = #1'
 check "the margin line: headroom and safe source power" \
-	wait_line ui '^worst: W1 109 % OVER, headroom ×0\.9[0-9]* │ safe source power 91[34] mW │ [0-9]+ hazards'
+	wait_line ui '^worst: W1 109 % OVER(, headroom)? ×0\.9[0-9]* │ safe source power 91[34] mW │ [0-9]+ hazards'
 check "keys grouped by task with the key sign (7d)" wait_line ui '^p›place  l›lift  -›undo ┆ Enter›edit ┆ r›record'
 # HWP1's share: its main beam (15.8 %) and the ghosts that meet it
 check "ratio bar and status in words" wait_line ui '^ HWP1 .*15\.[89] % ok'
@@ -186,13 +186,15 @@ t_keys ui Escape
 wait_gone ui "Enter›accept" >/dev/null
 
 # ---- values are edited in a box, at the marked field (9.7) ----
-# glass takes an angle of incidence too (for its reflections), but what the
-# window is comes first: its transmission; the tilt closes the group
+# glass takes a tilt too (for its reflections), but what the window is comes
+# first: its transmission; the tilt is with the surface reflections, after
+# the rating (transmission, aperture, Brewster; four of material; then the
+# CW linear density and the CW irradiance: eight Down)
 check "the marked field shows where Enter goes" wait_line ui '^ › transmission'
 t_keys ui Enter
 check "Enter edits the marked field at once, in a box" wait_line ui '^   transmission +\[ *\]'
 check "its dotted key is in the hint" wait_for ui "transmission: power transmission"
-t_keys ui Down Down Down Down Down Down Down
+t_keys ui Down Down Down Down Down Down Down Down
 check "Down walks the values, still editing" wait_for ui "damage.cw_irradiance: CW LIDT"
 check "values under human labels in groups (7e)" wait_line ui '^ Damage rating'
 t_keys ui -l "5 kW/cm"
