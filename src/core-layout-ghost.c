@@ -265,7 +265,7 @@ layout_reflection_text(const struct trace *t, const struct layout_refl *r, int a
 			buf_printf(&b, " (peak %s)", pk);
 		}
 		if (isnan(s->focus_distance))
-			buf_add(&b, " leaves the beam line off a flat surface (no focus)");
+			buf_add(&b, " leaves the beam line, unfocused");
 		else
 			buf_printf(&b, " leaves the beam line and focuses %s from the surface", c.ratio);
 		if (stray_blocks(t, s))
