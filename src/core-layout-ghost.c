@@ -455,3 +455,50 @@ layout_ghost_made(const struct trace *t, size_t row, int ascii, size_t each,
 	}
 	return n;
 }
+
+/* ---- a ghost on the beam profile ---- */
+
+size_t
+layout_profile_ghost(const struct trace *rt, size_t gi, const size_t *path, size_t npath,
+    const struct layout_plot *pl, int band, struct layout_gpoint *out, size_t max)
+{
+	const struct ghost_set *gs = rt->ghosts;
+	const struct ghost *g;
+	int hr = pl->hr, mid = (hr - 1) / 2;
+	size_t n = 0;
+
+	if (gs == NULL || !gs->rows_kept || gi >= gs->n || hr < 2)
+		return 0;
+	g = &gs->g[gi];
+	for (size_t k = 0; k < g->nrows; k++) {
+		const struct ghost_row *r = &gs->rows[g->row0 + k];
+		double w = r->wx > r->wy ? r->wx : r->wy;
+		int on = 0, row, row2;
+
+		for (size_t i = 0; i < npath && !on; i++)
+			on = path[i] == r->trace_row;
+		if (!on || !isfinite(w))
+			continue;
+		if (band) {
+			/* rows from the axis to its edge, rounded, as the band's own */
+			int e = pl->rmax > 0 ? (int)floor(w / pl->rmax * mid + 0.5) : 0;
+
+			if (e > mid)
+				e = mid;
+			row = mid - e;
+			row2 = mid + e > hr - 1 ? hr - 1 : mid + e;
+		} else {
+			row = pl->rmax > 0 ? (hr - 1) - (int)floor(w / pl->rmax * (hr - 1) + 0.5) : hr - 1;
+			if (row < 0)
+				row = 0;
+			if (row > hr - 1)
+				row = hr - 1;
+			row2 = row;
+		}
+		if (n < max)
+			out[n] = (struct layout_gpoint){ layout_map_col(rt->rows[r->trace_row].z, pl->z0,
+			    pl->z1, pl->w), row, row2, r->trace_row, w > pl->rmax };
+		n++;
+	}
+	return n;
+}

@@ -419,4 +419,21 @@ int    layout_ghost_matters(const struct trace *, size_t row);
 size_t layout_ghost_made(const struct trace *, size_t row, int ascii, size_t each,
            struct layout_line *out, size_t max);
 
+/* Ghost gi of rt, a trace that keeps its ghosts' rows (TRACE_GHOST_ROWS;
+ * the workbench traces one so when a ghost is asked for on the profile),
+ * on plot pl laid out for path (layout_profile or, band, layout_profile_band
+ * of the same bench): one point per element of the path it meets, at that
+ * element's column, at the radius rows of its larger 1/e² radius (curves:
+ * row; band: row above the axis and row2 below it), clamped to the plot
+ * (beyond: 1, it is wider than the plot's top).  Returns the count (may
+ * exceed max; only max are stored); 0 when rt keeps no rows. */
+struct layout_gpoint {
+	int    col, row, row2;
+	size_t trace_row;
+	int    beyond;
+};
+size_t layout_profile_ghost(const struct trace *rt, size_t gi, const size_t *path,
+           size_t npath, const struct layout_plot *pl, int band,
+           struct layout_gpoint *out, size_t max);
+
 #endif

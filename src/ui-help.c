@@ -93,7 +93,8 @@ help_text(const struct app *a)
 	buf_add(&b,
 	    "  The plot shows both 1/e^2 radii (x and y) along the path from the source\n"
 	    "  to the end of the selected element's branch, the power below them, every\n"
-	    "  element marked on the axis with its id, and the foci.\n");
+	    "  element marked on the axis with its id, and the foci; f lays a ghost over\n"
+	    "  it (its radius at each element it meets), the worst first.\n");
 	section(&b, a, "Logbook (h)", ui_history_ops.keys);
 	section(&b, a, "Parts shelf (S)", ui_parts_ops.keys);
 	section(&b, a, "Operating points side by side (o)", ui_points_ops.keys);

@@ -552,6 +552,81 @@ START_TEST(test_field_order)
 }
 END_TEST
 
+/* ---- a ghost on the profile ---- */
+
+/* The demo's L1.back ghost on the profile to W1: a point at every element
+ * of the path it meets, at that element's column, higher for a wider
+ * radius; the lean trace gives none (it keeps no rows). */
+START_TEST(test_profile_ghost)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b), *rt = trace_rerun_opts(NULL, b, TRACE_GHOST_ROWS);
+	const struct ghost_set *gs = rt->ghosts;
+	size_t sel = (size_t)row_of(rt, "W1"), *path, np = layout_profile_path(rt, sel, &path);
+	long gi = -1;
+	struct layout_plot pl;
+	struct layout_gpoint gp[64];
+
+	ck_assert_int_eq(gs->rows_kept, 1);
+	/* the same ghosts, in the same order, as the workbench's lean trace */
+	ck_assert_uint_eq(gs->n, t->ghosts->n);
+	for (size_t i = 0; i < gs->n; i++) {
+		CHECK_REL(gs->g[i].power_start, t->ghosts->g[i].power_start, 1e-12);
+		if (gs->g[i].order == 1 && strcmp(gs->g[i].surf_el[0]->id, "L1") == 0 &&
+		    gs->g[i].surf[0] == GS_BACK)
+			gi = (long)i;
+	}
+	ck_assert_int_ge(gi, 0);
+	for (int band = 0; band < 2; band++) {
+		size_t want = 0, n;
+
+		ck_assert_int_eq((band ? layout_profile_band : layout_profile)(rt, path, np, sel, 60,
+		    12, 4, &pl), 0);
+		for (size_t k = 0; k < gs->g[gi].nrows; k++)
+			for (size_t i = 0; i < np; i++)
+				want += path[i] == gs->rows[gs->g[gi].row0 + k].trace_row;
+		ck_assert_uint_gt(want, 3);
+		n = layout_profile_ghost(rt, (size_t)gi, path, np, &pl, band, gp, 64);
+		ck_assert_uint_eq(n, want);
+		for (size_t i = 0; i < n; i++) {
+			const struct ghost_row *r = NULL;
+			double wi;
+
+			for (size_t k = 0; k < gs->g[gi].nrows; k++)
+				if (gs->rows[gs->g[gi].row0 + k].trace_row == gp[i].trace_row)
+					r = &gs->rows[gs->g[gi].row0 + k];
+			ck_assert_ptr_nonnull(r);
+			wi = r->wx > r->wy ? r->wx : r->wy;
+			ck_assert_int_eq(gp[i].col, layout_map_col(rt->rows[gp[i].trace_row].z, pl.z0,
+			    pl.z1, pl.w));
+			ck_assert_int_ge(gp[i].row, 0);
+			ck_assert_int_lt(gp[i].row2, pl.hr);
+			ck_assert_int_eq(gp[i].beyond, wi > pl.rmax);
+			if (band)
+				ck_assert_int_eq(gp[i].row + gp[i].row2, 2 * ((pl.hr - 1) / 2));
+			for (size_t j = 0; j < n; j++) {
+				const struct ghost_row *q = NULL;
+
+				for (size_t k = 0; k < gs->g[gi].nrows; k++)
+					if (gs->rows[gs->g[gi].row0 + k].trace_row == gp[j].trace_row)
+						q = &gs->rows[gs->g[gi].row0 + k];
+				if ((q->wx > q->wy ? q->wx : q->wy) > wi)
+					ck_assert_int_le(gp[j].row, gp[i].row);   /* wider: higher */
+			}
+		}
+		layout_plot_release(&pl);
+	}
+	/* the lean trace keeps no rows: nothing to lay over */
+	ck_assert_int_eq(layout_profile(t, path, np, sel, 60, 12, 4, &pl), 0);
+	ck_assert_uint_eq(layout_profile_ghost(t, (size_t)gi, path, np, &pl, 0, gp, 64), 0);
+	layout_plot_release(&pl);
+	free(path);
+	trace_free(rt);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
 int
 main(void)
 {
@@ -564,6 +639,7 @@ main(void)
 	tcase_add_test(tc, test_ghost_meet);
 	tcase_add_test(tc, test_ghost_made);
 	tcase_add_test(tc, test_margin_reflections);
+	tcase_add_test(tc, test_profile_ghost);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("labels");
 	tcase_add_test(tc, test_key_labels);

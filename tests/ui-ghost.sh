@@ -102,6 +102,17 @@ check "L1 selected" wait_for g 'lens L1 "focusing lens"'
 check "the ghosts it makes, worst first, with where each is worst" \
 	wait_line g '│ makes +L1\.(front|back)[^:]*: [A-Z0-9]+ [<0-9.]+ % (ok|caution|OVER)'
 check "the one that counts most where it meets" wait_line g '│ most +[A-Z0-9]+\.(front|back)'
+# the profile lays a chosen ghost over the beam (f there), worst first
+step "the profile of L1's branch" g "▸ profile along main" z
+check "its key line offers the ghost" wait_line g 'f›ghost'
+t_keys g f
+check "f lays the worst ghost on the path over the beam" wait_line g '^ ○=ghost L1\.back [0-9.]+ mW, larger radius at each element'
+check "... drawn at the elements it meets" wait_line g '│.*(○|▲)'
+t_keys g f
+check "f again: the next ghost" wait_line g '^ ○=ghost [A-Z0-9]+\.(front|back)'
+check "... not the same one" wait_gone g '○=ghost L1.back '
+t_keys g Escape
+check "back on L1" wait_for g 'lens L1 "focusing lens"'
 # the value pane of glass: the reflections under their own heading
 check "lens radii under a human label" wait_line g '^   front radius r1 +- '
 check "the glass by name" wait_line g '^   glass +- '
