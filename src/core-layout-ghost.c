@@ -292,13 +292,15 @@ layout_reflection_count(const struct trace *t, int ascii, int width)
 	block = layout_strays_to_block(t);
 	units_format(v, sizeof v, gs->return_power, DIM_POWER, 3, ascii);
 	for (int level = 0;; level++) {
-		char *full = xasprintf("%zu ghost%s: %zu over, %zu%s caution%s%zu stra%s: %zu to "
+		char *full = level == 3 ? xasprintf("%zu ghost%s, %zu over%s%zu stra%s to block",
+		    gs->n, gs->n == 1 ? "" : "s", gs->nover, dot, block, block == 1 ? "y" : "ys") :
+		    xasprintf("%zu ghost%s: %zu over, %zu%s caution%s%zu stra%s: %zu to "
 		    "block%s%s%s%s", gs->n, gs->n == 1 ? "" : "s", gs->nover, caution,
 		    level == 0 ? " at" : "", dot, gs->nstrays, gs->nstrays == 1 ? "y" : "ys", block,
 		    level < 2 ? dot : "", level == 1 ? "back to source " : "", level < 2 ? v : "",
 		    level == 0 ? " back at the source" : "");
 
-		if (level == 2 || (int)utf8_cols(full) <= width)
+		if (level == 3 || (int)utf8_cols(full) <= width)
 			return full;
 		free(full);
 	}

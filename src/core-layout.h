@@ -390,7 +390,8 @@ void   layout_reflection_cells(const struct trace *, const struct layout_refl *,
 char  *layout_reflection_text(const struct trace *, const struct layout_refl *, int ascii);
 /* "61 ghosts: 0 over, 1 at caution · 21 strays: 3 to block · 35.0 µW back
  * at the source", shorter when wider than width ("1 caution", "back to
- * source 35.0 µW", then without it).  Caller frees. */
+ * source 35.0 µW", then without it, then "61 ghosts, 0 over · 3 strays to
+ * block").  Caller frees. */
 char  *layout_reflection_count(const struct trace *, int ascii, int width);
 
 /* Lines of an element's results: a label (static; "" continues the one

@@ -281,6 +281,12 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		s = xasprintf("absorbed on the bench %s, leaving it %s", t, u);
 		ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_NORMAL);
 		free(s);
+		if (a->trace->ghosts != NULL && line < rows) {
+			/* what ghost_tilt and stray_warn decide, in one line */
+			s = layout_reflection_count(a->trace, a->ascii, w - lw - 3);
+			ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_NORMAL);
+			free(s);
+		}
 		for (size_t i = 0; i < a->trace->nwarn && line < rows; i++) {
 			s = report_warning_text(a->trace, &a->trace->warn[i], a->ascii);
 			ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_CAUTION);

@@ -230,12 +230,20 @@ START_TEST(test_reflection_count)
 	s = layout_reflection_count(t, 0, 79);
 	ck_assert_int_le((int)utf8_cols(s), 79);
 	ck_assert_ptr_nonnull(strstr(s, "back to source"));
-	narrow = layout_reflection_count(t, 1, 50);
+	narrow = layout_reflection_count(t, 1, 60);
 	ck_assert_ptr_null(strstr(narrow, "source"));
 	ck_assert_ptr_nonnull(strstr(narrow, want));
 	ck_assert(all_ascii(narrow));
 	free(s);
 	free(narrow);
+	/* the settings' pane at 80 columns has 43: the counts that matter */
+	s = layout_reflection_count(t, 0, 43);
+	ck_assert_int_le((int)utf8_cols(s), 43);
+	snprintf(want, sizeof want, "%zu ghosts, %zu over", gs->n, gs->nover);
+	ck_assert_ptr_eq(strstr(s, want), s);
+	snprintf(want, sizeof want, "%zu strays to block", block);
+	ck_assert_ptr_nonnull(strstr(s, want));
+	free(s);
 	trace_free(t);
 	model_bench_free(b);
 }

@@ -37,6 +37,14 @@ check "the demo opens" wait_for g "draft = #1"
 check "the margin line counts the strays to block" \
 	wait_line g "^worst: W1 109 % OVER ×0\.9[0-9]* │ safe source power 91[34] mW │ [0-9]+ hazards │ $BLOCK strays\$"
 
+# ---- the settings (b): the tilt and the stray level under their heading ----
+t_keys g b
+check "the settings' effect counts the reflections" wait_line g "│ [0-9]+ ghosts, [0-9]+ over · $BLOCK strays to block\$"
+check "the bench's reflection keys grouped" wait_line g '^ Surface reflections'
+check "... under human labels" wait_line g '^   stray warn level +1 mW'
+t_keys g Escape
+wait_for g "p›place" >/dev/null
+
 # ---- an element's results: the ghosts that meet it ----
 t_keys g Down Down
 check "HWP1 selected" wait_for g 'waveplate HWP1'
