@@ -411,8 +411,8 @@ layout_ghost_made(const struct trace *t, size_t row, int ascii, size_t each,
 	const struct ghost_set *gs = t->ghosts;
 	const struct element *el;
 	const struct ghost **mine;
-	size_t nm = 0, n = 0, ns = 0, shown = 0;
-	char name[200], pct[32], p[48];
+	size_t nm = 0, n = 0, shown = 0;
+	char name[200], pct[32];
 
 	if (gs == NULL || row >= t->nrows)
 		return 0;
@@ -444,6 +444,22 @@ layout_ghost_made(const struct trace *t, size_t row, int ascii, size_t each,
 		n = line_push(out, n, max, shown == 0 ? "makes" : "", xasprintf("+%zu more ghost%s "
 		    "(f lists all)", nm - shown, nm - shown == 1 ? "" : "s"), STATUS_OK);
 	free(mine);
+	return n;
+}
+
+size_t
+layout_ghost_strays(const struct trace *t, size_t row, int ascii, int *blocks,
+    struct layout_line *out, size_t max)
+{
+	const struct ghost_set *gs = t->ghosts;
+	const struct element *el;
+	size_t n = 0, ns = 0;
+	char p[48];
+
+	*blocks = 0;
+	if (gs == NULL || row >= t->nrows)
+		return 0;
+	el = t->rows[row].el;
 	for (size_t i = 0; i < gs->nstrays; i++) {
 		const struct ghost_stray *s = &gs->strays[i];
 
@@ -453,6 +469,7 @@ layout_ghost_made(const struct trace *t, size_t row, int ascii, size_t each,
 		n = line_push(out, n, max, ns == 0 ? "strays" : "", xasprintf("%s %s%s",
 		    stray_words(s->what), p, stray_blocks(t, s) ? ": block it" : ""),
 		    stray_blocks(t, s) ? STATUS_CAUTION : STATUS_OK);
+		*blocks |= stray_blocks(t, s);
 		ns++;
 	}
 	return n;

@@ -416,8 +416,13 @@ size_t layout_ghost_meet(const struct trace *, size_t row, int ascii,
 int    layout_ghost_matters(const struct trace *, size_t row);
 /* What the element of row `row` sends off: "makes", one line per ghost one
  * of whose reflections is its surface, worst first, at most `each` of them
- * and then "+N more"; "strays", one per stray it throws, with its power. */
+ * and then "+N more". */
 size_t layout_ghost_made(const struct trace *, size_t row, int ascii, size_t each,
+           struct layout_line *out, size_t max);
+/* "strays", one line per stray the element throws, with its power and
+ * ": block it" at or above stray_warn (*blocks is then 1: the results say
+ * them beside the rating). */
+size_t layout_ghost_strays(const struct trace *, size_t row, int ascii, int *blocks,
            struct layout_line *out, size_t max);
 
 /* Ghost gi of rt, a trace that keeps its ghosts' rows (TRACE_GHOST_ROWS;

@@ -331,13 +331,15 @@ result_wrapped(struct app *a, int y, int x, int w, int left, int max, const char
 	return used;
 }
 
-/* The ghost lines of trace row `tr` (made: the ones its surfaces send off,
- * else the ones that meet it), as the layout words them. */
+/* The ghost lines of trace row `tr`, as the layout words them: 0 the ghosts
+ * that meet it, 1 the ones its surfaces make, 2 its strays. */
 static int
 ghost_lines(struct app *a, int y, int x, int w, int left, int made, size_t tr)
 {
 	struct layout_line l[12];
-	size_t nl = made ? layout_ghost_made(a->trace, tr, a->ascii, 4, l, 12) :
+	int blocks;
+	size_t nl = made == 1 ? layout_ghost_made(a->trace, tr, a->ascii, 4, l, 12) :
+	    made == 2 ? layout_ghost_strays(a->trace, tr, a->ascii, &blocks, l, 12) :
 	    layout_ghost_meet(a->trace, tr, a->ascii, l, 12);
 	int used = 0;
 
@@ -360,7 +362,7 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 	const struct layout_row *row = app_sel_row(a);
 	const struct trace_row *r = app_sel_trace(a);
 	char t1[64], t2[64], t3[64], line[320];
-	int n = 0;
+	int n = 0, strays_first = 0;
 
 	if (row == NULL)
 		return;
@@ -416,9 +418,19 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		    isnan(r->ratio) && layout_row_hazard(a->trace, (size_t)row->trace_row) ?
 		    ui_attr(a, UC_HAZARD) : ui_status_attr(a, r->status));
 	}
-	/* the ghosts that meet it: next to the ratio when they change it */
+	/* the ghosts that meet it: next to the ratio when they change it; the
+	 * strays it throws there too when one must be blocked */
 	if (layout_ghost_matters(a->trace, (size_t)row->trace_row))
 		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
+	{
+		struct layout_line sl[12];
+		size_t ns = layout_ghost_strays(a->trace, (size_t)row->trace_row, a->ascii,
+		    &strays_first, sl, 12);
+
+		layout_lines_free(sl, ns < 12 ? ns : 12);
+	}
+	if (strays_first)
+		n += ghost_lines(a, y + n, x, w, h - n, 2, (size_t)row->trace_row);
 	if (n < h) {
 		/* why the limit is what it is, wrapped over as many lines as it needs */
 		char *why = layout_derivation_text(r, a->shown, a->ascii);
@@ -477,6 +489,8 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
 	/* the ghosts and strays its own surfaces send off */
 	n += ghost_lines(a, y + n, x, w, h - n, 1, (size_t)row->trace_row);
+	if (!strays_first)
+		n += ghost_lines(a, y + n, x, w, h - n, 2, (size_t)row->trace_row);
 }
 
 /* ---- keys ---- */

@@ -341,7 +341,7 @@ START_TEST(test_ghost_made)
 	}
 	ck_assert_uint_gt(mine, 3);          /* its own two and pairs with the others */
 	nl = layout_ghost_made(t, (size_t)l1, 0, 3, l, 16);
-	/* three of them, then how many more; L1 throws no stray */
+	/* three of them, then how many more */
 	ck_assert_uint_eq(nl, 4);
 	ck_assert_str_eq(l[0].label, "makes");
 	ck_assert_str_eq(l[1].label, "");
@@ -366,22 +366,26 @@ START_TEST(test_ghost_made)
 			blocks += gs->strays[i].power >= b->stray_warn;
 		}
 	ck_assert_uint_gt(strays, 0);
-	nl = layout_ghost_made(t, (size_t)pbs, 0, 0, l, 16);
+	ck_assert_uint_gt(blocks, 0);
 	{
-		size_t s = 0, bk = 0, start = nl;
+		int any;
+		size_t bk = 0;
 
+		nl = layout_ghost_strays(t, (size_t)pbs, 0, &any, l, 16);
+		ck_assert_uint_eq(nl, strays);
+		ck_assert_str_eq(l[0].label, "strays");
 		for (size_t i = 0; i < nl && i < 16; i++) {
-			if (strcmp(l[i].label, "strays") == 0)
-				start = i;
-			if (i >= start) {
-				s++;
-				bk += strstr(l[i].text, "block it") != NULL;
-			}
+			if (i > 0)
+				ck_assert_str_eq(l[i].label, "");
+			bk += strstr(l[i].text, "block it") != NULL;
 		}
-		ck_assert_uint_eq(s, strays);
 		ck_assert_uint_eq(bk, blocks);
+		ck_assert_int_eq(any, 1);
+		layout_lines_free(l, nl < 16 ? nl : 16);
+		/* L1, untilted, throws none */
+		ck_assert_uint_eq(layout_ghost_strays(t, (size_t)l1, 0, &any, l, 16), 0);
+		ck_assert_int_eq(any, 0);
 	}
-	layout_lines_free(l, nl < 16 ? nl : 16);
 	trace_free(t);
 	model_bench_free(b);
 }

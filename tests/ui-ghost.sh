@@ -69,6 +69,8 @@ t_keys g Down
 check "Down chooses the next" wait_for g "stray from PBS1 (back)"
 step "Enter goes to the stray's source" g "PBS1 selected" Enter
 check "the workbench, on PBS1" wait_for g 'splitter PBS1 "attenuator cube"'
+check "its strays to block are said beside its rating, even at 80x24" \
+	wait_line g '│ strays +back [0-9.]+ mW: block it'
 check "the reflections screen is closed" wait_gone g "▸ reflections ·"
 t_keys g f
 wait_for g "▸ reflections ·" >/dev/null
