@@ -47,6 +47,8 @@ struct ghost_ctx {
 	long                *next;      /* owned: per row, the next row in its branch; -1: end */
 	struct ghost_acc    *acc;       /* owned: per row */
 	struct ghost_pass   *pass;      /* owned: per row */
+	long                *fourth;    /* owned: per row, its fourth-port stray in
+	                                 * gs->strays; -1: none yet */
 	struct ghost_pending *pend;     /* owned */
 	size_t               npend, cappend;
 	double               floor;     /* W: GHOST_FLOOR of the source */
@@ -78,8 +80,9 @@ void   ghost_mirror(const struct element *, double pw, struct beam_axis *x,
 /* x, y into a ghost beam (sym when they are equal). */
 void   ghost_beam_set(struct ghost_beam *, const struct beam_axis *x,
            const struct beam_axis *y);
-/* Row u's element acting on the beam (pass[u].optic). */
-void   ghost_beam_optics(const struct ghost_ctx *, size_t u, struct ghost_beam *);
+/* Row u's element acting on the beam (pass[u].optic), crossed downstream
+ * or, back, upstream. */
+void   ghost_beam_optics(const struct ghost_ctx *, size_t u, int back, struct ghost_beam *);
 void   ghost_beam_space(struct ghost_beam *, double len);
 
 struct ghost *ghost_new(struct ghost_ctx *, int order, unsigned flags);

@@ -47,7 +47,7 @@ walk_forward(struct ghost_ctx *c, struct ghost *g, size_t i, const struct beam_a
 		if (kept != NULL)
 			kept->power_lost = pin - p * ps->fwd;
 		c->acc[u].power_lost += pin - p * ps->fwd;
-		ghost_beam_optics(c, (size_t)u, &gb);
+		ghost_beam_optics(c, (size_t)u, 0, &gb);
 		p *= ps->fwd;
 		u = c->next[u];
 	}

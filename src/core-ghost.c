@@ -220,7 +220,7 @@ ghost_beam_space(struct ghost_beam *gb, double len)
 }
 
 void
-ghost_beam_optics(const struct ghost_ctx *c, size_t u, struct ghost_beam *gb)
+ghost_beam_optics(const struct ghost_ctx *c, size_t u, int back, struct ghost_beam *gb)
 {
 	const struct ghost_pass *ps = &c->pass[u];
 
@@ -238,7 +238,10 @@ ghost_beam_optics(const struct ghost_ctx *c, size_t u, struct ghost_beam *gb)
 			beam_lens(&gb->y, ps->fy);
 		break;
 	case GO_GENERAL:
-		trace_element_optics(c->t->rows[u].el, c->lam, &gb->x, &gb->y);
+		if (back)
+			(void)thick_apply_back(c->t->rows[u].el, c->lam, &gb->x, &gb->y);
+		else
+			trace_element_optics(c->t->rows[u].el, c->lam, &gb->x, &gb->y);
 		break;
 	}
 	gb->sym = gb->x.q == gb->y.q && gb->x.m2 == gb->y.m2;
@@ -392,6 +395,7 @@ ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
 	f->wx = wx;
 	f->wy = wy;
 	f->gap = c->t->rows[u].el;
+	f->gap_row = u;
 	f->distance = fmin(dz, len - dz);
 	f->peak_irradiance = damage_peak_irradiance(p, wx, wy);
 	f->air_breakdown = 0;
@@ -500,13 +504,28 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, const struct beam_axi
 		toward = side ? ps->back_side : ps->back_same;
 		other = side ? ps->stray_side : ps->stray_same;
 		out = p * toward;
-		if (ps->side)
-			ghost_add_stray(c, el, "fourth_port", p * other, NAN);
+		if (ps->side && p * other > 0) {
+			/* one stray per splitter: every ghost's share summed, the
+			 * beam that must be blocked there */
+			long k = c->fourth[u];
+
+			if (k < 0 && p * other > c->floor) {
+				ghost_add_stray(c, el, "fourth_port", p * other, NAN);
+				c->fourth[u] = (long)c->gs->nstrays - 1;
+			} else if (k >= 0) {
+				struct ghost_stray *st = &c->gs->strays[k];
+
+				st->power += p * other;
+				if (!isnan(st->peak_power))
+					st->peak_power = damage_peak_factor(c->b->src.shape) *
+					    (st->power / c->b->src.rep_rate) / c->b->src.pulse_width;
+			}
+		}
 		lost = pin - out - (ps->side ? p * other : 0);
 		if (kept != NULL)
 			kept->power_lost = lost;
 		c->acc[u].power_lost += lost;
-		ghost_beam_optics(c, (size_t)u, &gb);
+		ghost_beam_optics(c, (size_t)u, 1, &gb);
 		p = out;
 		from = u;
 		u = c->prev[u];
@@ -723,6 +742,35 @@ warnings(struct ghost_ctx *c)
 			    g->worst_ratio);
 		}
 	}
+	/* a ghost focus that sparks is a spark like the main beam's: one
+	 * warning per gap, for the brightest (ghost-conventions.md: foci
+	 * with air_breakdown as for main-beam foci) */
+	{
+		long *spark = xmalloc(t->nrows * sizeof *spark);
+
+		for (size_t u = 0; u < t->nrows; u++)
+			spark[u] = -1;
+		for (size_t k = 0; k < gs->nfoci; k++) {
+			const struct ghost_focus *f = &gs->foci[k];
+
+			if (f->air_breakdown && (spark[f->gap_row] < 0 ||
+			    f->peak_irradiance > gs->foci[spark[f->gap_row]].peak_irradiance))
+				spark[f->gap_row] = (long)k;
+		}
+		for (size_t u = 0; u < t->nrows; u++)
+			if (spark[u] >= 0) {
+				const struct ghost_focus *f = &gs->foci[spark[u]];
+				const struct trace_row *tr = &t->rows[u];
+				struct trace_warning *w;
+
+				trace_add_warning(t, TW_AIR_BREAKDOWN, tr->parent, tr->port, f->gap,
+				    f->peak_irradiance);
+				w = &t->warn[t->nwarn - 1];
+				w->ghost = 1;
+				w->distance = f->distance;
+			}
+		free(spark);
+	}
 	for (size_t i = 0; i < gs->nstrays; i++)
 		if (gs->strays[i].power >= c->b->stray_warn)
 			trace_add_warning(t, TW_STRAY, NULL, PORT_NONE, gs->strays[i].from,
@@ -783,7 +831,10 @@ prepare(struct ghost_ctx *c)
 			ps->sym = ps->fx == ps->fy;
 			break;
 		case EL_LENS:
-			if (model_has(el, K_FOCAL) && !(model_has(el, K_THICKNESS) &&
+			/* a thin lens by its focal length alone (the radii, when
+			 * given, fix the shape: thick_apply) */
+			if (model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2) &&
+			    !(model_has(el, K_THICKNESS) &&
 			    el->val[K_THICKNESS] != 0)) {
 				int ax = (int)model_get(el, K_AXIS);
 
@@ -824,6 +875,9 @@ ghost_run(struct trace *t, unsigned opts)
 	c.next = xmalloc(t->nrows * sizeof *c.next);
 	c.acc = xcalloc(t->nrows, sizeof *c.acc);
 	c.pass = xmalloc(t->nrows * sizeof *c.pass);
+	c.fourth = xmalloc(t->nrows * sizeof *c.fourth);
+	for (size_t r = 0; r < t->nrows; r++)
+		c.fourth[r] = -1;
 	c.gs->at = xcalloc(t->nrows, sizeof *c.gs->at);
 	for (size_t r = 0; r < t->nrows; r++) {
 		c.gs->at[r].top = -1;
@@ -848,5 +902,6 @@ ghost_run(struct trace *t, unsigned opts)
 	free(c.next);
 	free(c.acc);
 	free(c.pass);
+	free(c.fourth);
 	free(c.pend);
 }

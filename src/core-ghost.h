@@ -43,6 +43,7 @@ struct ghost_focus {
 	double                z;        /* m, in the table's frame */
 	double                wx, wy, peak_irradiance;
 	const struct element *gap;      /* borrowed: the space it lies in */
+	size_t                gap_row;  /* its trace row */
 	double                distance; /* m to the nearest element's plane */
 	int                   air_breakdown;
 };

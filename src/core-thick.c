@@ -63,7 +63,9 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 	if (el->type == EL_LENS) {
 		on_x = model_get(el, K_AXIS) != AXIS_Y;
 		on_y = model_get(el, K_AXIS) != AXIS_X;
-		if (!model_has(el, K_FOCAL)) {
+		/* radii win over focal when both are given (they fix the
+		 * shape; model_validate has held focal to them) */
+		if (model_has(el, K_R1) || model_has(el, K_R2)) {
 			double c1 = curvature(el, K_R1), c2 = curvature(el, K_R2);
 
 			/* the glass is crossed on both axes; only the lens
@@ -98,5 +100,44 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 	}
 	beam_space(x, t / n);
 	beam_space(y, t / n);
+	return t;
+}
+
+double
+thick_apply_back(const struct element *el, double lambda, struct beam_axis *x,
+    struct beam_axis *y)
+{
+	double t = model_has(el, K_THICKNESS) ? el->val[K_THICKNESS] : 0;
+	double n = thick_index(el, lambda);
+	int on_x = 1, on_y = 1;
+
+	if (el->type != EL_LENS)
+		return thick_apply(el, lambda, x, y);   /* a plate is the same both ways */
+	on_x = model_get(el, K_AXIS) != AXIS_Y;
+	on_y = model_get(el, K_AXIS) != AXIS_X;
+	if (model_has(el, K_R1) || model_has(el, K_R2)) {
+		/* the radii fix the shape (as forward); the back face first: in the unfolded frame of the return
+		 * trip each radius changes sign and the faces swap */
+		double c1 = -curvature(el, K_R2), c2 = -curvature(el, K_R1);
+
+		if (on_x)
+			thick_lens(x, n, c1, c2, t);
+		else
+			beam_space(x, t / n);
+		if (on_y)
+			thick_lens(y, n, c1, c2, t);
+		else
+			beam_space(y, t / n);
+		return t;
+	}
+	/* by its focal length: the plate first, then the thin lens */
+	if (t != 0) {
+		beam_space(x, t / n);
+		beam_space(y, t / n);
+	}
+	if (on_x)
+		beam_lens(x, el->val[K_FOCAL]);
+	if (on_y)
+		beam_lens(y, el->val[K_FOCAL]);
 	return t;
 }

@@ -35,4 +35,10 @@ double thick_lens_focal(double n, double r1, double r2, double t);
 double thick_apply(const struct element *, double lambda,
            struct beam_axis *x, struct beam_axis *y);
 
+/* The same element crossed the other way (a ghost going upstream): a
+ * lens by its radii meets its back face first, a lens by its focal length
+ * its plate first; a window is the same both ways. */
+double thick_apply_back(const struct element *, double lambda,
+           struct beam_axis *x, struct beam_axis *y);
+
 #endif

@@ -89,25 +89,14 @@ trace_add_warning(struct trace *t, enum trace_warn_kind kind, const struct eleme
 	w->after = after;
 	w->value = value;
 	w->distance = NAN;
+	w->ghost = 0;
 }
 
 static void
 warn(struct trace *t, enum trace_warn_kind kind, const struct cursor *c,
     const struct element *after, double value)
 {
-	struct trace_warning *w;
-
-	if (t->nwarn == t->capwarn) {
-		t->capwarn = t->capwarn ? 2 * t->capwarn : 8;
-		t->warn = xreallocarray(t->warn, t->capwarn, sizeof *t->warn);
-	}
-	w = &t->warn[t->nwarn++];
-	w->kind = kind;
-	w->parent = c->parent;
-	w->port = c->port;
-	w->after = after;
-	w->value = value;
-	w->distance = NAN;
+	trace_add_warning(t, kind, c->parent, c->port, after, value);
 }
 
 static void
@@ -675,6 +664,13 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 	if (!(opts & TRACE_NO_GHOSTS))
 		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);  /* adds the reflections and rates them */
 	return t;
+}
+
+void
+trace_add_ghosts(struct trace *t, unsigned opts)
+{
+	if (t->ghosts == NULL)
+		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);
 }
 
 void

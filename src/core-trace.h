@@ -97,7 +97,9 @@ struct trace_warning {
 	enum port             port;
 	const struct element *after;    /* borrowed; NULL: straight after the source */
 	double                value;    /* W (unterminated, self_focusing), rad, W/m² */
-	double                distance; /* self_focusing: collapse distance, m */
+	double                distance; /* self_focusing: collapse distance, m;
+	                                 * a ghost's spark: m to the nearest element */
+	int                   ghost;    /* air_breakdown at a ghost's focus */
 };
 
 struct trace {
@@ -130,6 +132,10 @@ struct trace *trace_run(const struct bench *);     /* caller frees */
  * large bench then costs no fresh pages. */
 struct trace *trace_rerun(struct trace *t, const struct bench *);
 struct trace *trace_rerun_opts(struct trace *t, const struct bench *, unsigned opts);
+/* A trace made with TRACE_NO_GHOSTS made whole: its reflections added,
+ * exactly as trace_rerun_opts without TRACE_NO_GHOSTS would have (opts:
+ * TRACE_GHOST_ROWS or 0).  Nothing when it has them already. */
+void          trace_add_ghosts(struct trace *, unsigned opts);
 void          trace_free(struct trace *);          /* NULL ok */
 /* 0, or -1 with *cause naming the element when some result of the trace is
  * not a finite number (values at the edge of their ranges, multiplied

@@ -138,6 +138,14 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		    w->value, br, after);
 	case TW_AIR_BREAKDOWN:
 		units_format(v, sizeof v, w->value, DIM_IRRADIANCE, 3, ascii);
+		if (w->ghost) {
+			char d[48];
+
+			units_format(d, sizeof d, w->distance, DIM_LENGTH, 3, ascii);
+			return xasprintf("air_breakdown: a surface reflection focuses in %s, %s "
+			    "from the nearest optic, at %s peak: a spark in air (UV, noise, "
+			    "ozone; a lens there may crack)", after, d, v);
+		}
 		return xasprintf("air_breakdown: the focus in %s reaches %s peak: a spark "
 		    "in air (UV, noise, ozone)", after, v);
 	case TW_UNRATED_DUMP:

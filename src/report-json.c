@@ -314,10 +314,12 @@ report_json(const struct trace *t)
 		    x->kind == TW_RETURN_POWER ? "power" : x->kind == TW_GHOST_OVER ? "ratio" :
 		    "value");
 		json_put_number(&b, x->value);
-		if (x->kind == TW_SELF_FOCUSING) {
+		if (x->kind == TW_SELF_FOCUSING || x->ghost) {
 			buf_add(&b, ", \"distance\": ");
 			json_put_number(&b, x->distance);
 		}
+		if (x->ghost)
+			buf_add(&b, ", \"ghost\": true");
 		buf_addc(&b, '}');
 	}
 	buf_add(&b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");

@@ -34,9 +34,13 @@ review_count(const struct trace *t, struct review_counts *c)
 	for (size_t i = 0; i < t->nrows; i++)
 		if (t->rows[i].has_focus && t->rows[i].focus.air_breakdown)
 			c->air_breakdown++;
-	for (size_t i = 0; i < t->nwarn; i++)
+	for (size_t i = 0; i < t->nwarn; i++) {
 		if (t->warn[i].kind == TW_UNTERMINATED)
 			c->unterminated++;
+		/* a reflection's focus that sparks (one warning per gap) */
+		if (t->warn[i].kind == TW_AIR_BREAKDOWN && t->warn[i].ghost)
+			c->air_breakdown++;
+	}
 }
 
 void

@@ -127,6 +127,9 @@ struct app {
 	char              *name;        /* owned */
 	struct bench      *bench;       /* owned: the draft in memory */
 	struct trace      *trace;       /* owned */
+	/* the trace holds the main beam only: its reflections are counted
+	 * when no key is waiting (ui_app_idle) or before the next key */
+	int                ghosts_pending;
 	struct layout_row *rows;        /* owned: the chain */
 	size_t             nrows;
 	int                sel, scroll; /* selected row, first shown */
@@ -161,6 +164,9 @@ struct app {
 };
 
 /* ---- ui-app.c: life cycle, frame, edits ---- */
+/* Work left from the last retrace (the reflections): does it and returns
+ * 1 (the screen needs a frame), or 0 when there is none. */
+int   ui_app_idle(struct app *);
 void  app_push(struct app *, const struct ui_pane_ops *, void *data);
 void  app_pop(struct app *);
 void  app_msg(struct app *, int error, const char *fmt, ...)
@@ -269,7 +275,11 @@ void  ui_parts_push(struct app *);              /* ui-parts.c */
 void  ui_help_push(struct app *);               /* ui-help.c */
 void  ui_record_prompt(struct app *);           /* ui-history.c */
 void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
-void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
+/* A full screen's title line: the program, the bench, what it shows. */
+void  ui_screen_title(struct app *, int w, const char *what);
+/* ui-sweep.c: KNOB FROM .. TO, then the sweep; knob: the marked field
+ * ("L1.focal", "source.power"), NULL: the selected element's usual knob */
+void  ui_sweep_prompt(struct app *, const char *knob);
 /* ui-points.c: the next operating point on the chain (base first); the
  * chain's worst over every point on or off; a value typed while a point is
  * shown, stored as that point's override (id NULL: a source key). */

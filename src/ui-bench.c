@@ -250,7 +250,11 @@ wb_draw_status(struct app *a, int y, int w)
 	    a->trace->rows[a->trace->worst].status : STATUS_UNRATED;
 	const char *bar = a->ascii ? " |" : " \u2502";
 
-	if (a->readonly) {
+	if (a->ghosts_pending) {
+		/* drawn for the moment until the reflections are in: say so */
+		snprintf(tail, sizeof tail, "%s", a->ascii ? "reflections..." :
+		    "reflections\u2026");
+	} else if (a->readonly) {
 		snprintf(tail, sizeof tail, "VIEW ONLY");
 	} else if (a->unsaved != NULL) {
 		snprintf(tail, sizeof tail, "DRAFT NOT SAVED");
@@ -718,8 +722,11 @@ k_points(struct app *a, struct ui_pane *p)
 static enum ui_reaction
 k_sweep(struct app *a, struct ui_pane *p)
 {
-	(void)p;
-	ui_sweep_prompt(a);
+	char *knob = wb_marked_knob(a, p->data);
+
+	/* opened on the marked field, when it is a number */
+	ui_sweep_prompt(a, knob);
+	free(knob);
 	return UI_REDRAW;
 }
 

@@ -829,3 +829,31 @@ wb_click_fields(struct app *a, struct wb *d, int row, int dbl, struct ui_pane *p
 	d->field = lines[d->field_top + row];
 	return dbl ? f_edit(a, p) : UI_REDRAW;
 }
+
+char *
+wb_marked_knob(struct app *a, struct wb *d)
+{
+	const struct layout_row *r = app_sel_row(a);
+	struct fld f[MAX_FIELDS];
+	size_t n;
+	char *knob = NULL;
+
+	if (d->mode == WB_ELEMENT && (r == NULL || r->kind == LROW_PORT ||
+	    d->field_of == NULL || strcmp(d->field_of, r->el->id) != 0))
+		return NULL;        /* the mark is on another element's values */
+	n = fields_get(a, d, f, MAX_FIELDS);
+	if (d->field >= 0 && (size_t)d->field < n) {
+		const struct fld *x = &f[d->field];
+
+		if (d->mode == WB_ELEMENT && x->key >= 0 &&
+		    model_keys[x->key].kind != KIND_BOOL && model_keys[x->key].kind != KIND_AXIS &&
+		    model_keys[x->key].kind != KIND_CHOICE)
+			knob = xasprintf("%s.%s", r->el->id, model_key_path((enum model_key)x->key));
+		else if (d->mode == WB_SETTINGS && strncmp(x->name, "source.", 7) == 0 &&
+		    strcmp(x->name, "source.pulsed") != 0 && strcmp(x->name, "source.shape") != 0 &&
+		    strcmp(x->name, "source.polarization") != 0)
+			knob = xstrdup(x->name);
+	}
+	fields_free(f, n);
+	return knob;
+}

@@ -5,6 +5,7 @@
 #include <config.h>
 
 #include <check.h>
+#include <complex.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdint.h>
@@ -482,6 +483,164 @@ START_TEST(test_rows_kept_same_ratings)
 }
 END_TEST
 
+/* The workbench draws the main beam first and adds the reflections when
+ * no key waits: the trace made whole that way is the whole trace. */
+START_TEST(test_add_ghosts_later_same)
+{
+	struct bench *b = demo();
+	struct trace *t = trace_run(b), *later = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+
+	ck_assert_ptr_null(later->ghosts);
+	trace_add_ghosts(later, 0);
+	ck_assert_ptr_nonnull(later->ghosts);
+	ck_assert_uint_eq(later->ghosts->n, t->ghosts->n);
+	ck_assert_uint_eq(later->nwarn, t->nwarn);
+	ck_assert_int_eq(later->worst, t->worst);
+	ck_assert(later->safe_source_power == t->safe_source_power);
+	for (size_t i = 0; i < t->nrows; i++) {
+		ck_assert(later->rows[i].ratio == t->rows[i].ratio ||
+		    (isnan(later->rows[i].ratio) && isnan(t->rows[i].ratio)));
+		ck_assert_uint_eq(later->rows[i].flags, t->rows[i].flags);
+	}
+	trace_add_ghosts(later, 0);     /* twice: nothing more */
+	ck_assert_uint_eq(later->nwarn, t->nwarn);
+	trace_free(t);
+	trace_free(later);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A ghost going upstream crosses a thick lens the other way round: a
+ * plano-convex lens (r1 = 50 mm, flat back, 10 mm of n = 1.5) meets the
+ * W2 front ghost flat side first.  By hand from the ray matrices (the
+ * table above; a plate of t is [[1, t/n], [0, 1]] reduced, Siegman,
+ * Lasers, ch. 15): M = refract(n, 1, -r1) · plate · refract(1, n, -r2),
+ * each radius changing sign on the return trip, and q' = (Aq + B)/(Cq + D)
+ * (Kogelnik & Li 1966, eq. 21).  The forward matrix would put the plate
+ * on the other side of the curved face and miss by far more than 1e-9. */
+START_TEST(test_thick_lens_crossed_back)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},'path':["
+	    "{'id':'W0','type':'window','surface_reflectance':0,"
+	    " 'damage':{'cw_irradiance':'10 kW/cm^2'}},"
+	    "{'id':'S1','type':'space','length':'50 mm'},"
+	    "{'id':'L1','type':'lens','r1':'50 mm','thickness':'10 mm','index':1.5,"
+	    " 'surface_reflectance':0},"
+	    "{'id':'S2','type':'space','length':'100 mm'},"
+	    "{'id':'W2','type':'window','surface_reflectance':[0.04, 0]},"
+	    "{'id':'S3','type':'space','length':'50 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_rerun_opts(NULL, b, TRACE_GHOST_ROWS);
+	const struct ghost_set *gs = t->ghosts;
+	double n = 1.5, lam = 1.064e-6, w_hand, w_fwd;
+	struct m2 plate = { 1, 0.010 / n, 0, 1 };
+	struct m2 mb = mul(refract(n, 1, -0.05), mul(plate, refract(1, n, INFINITY)));
+	struct m2 mf = mul(refract(n, 1, INFINITY), mul(plate, refract(1, n, 0.05)));
+	double complex q0 = row_of(t, "W2")->qx.q + 0.100, q, qf;
+	int seen = 0;
+
+	q = (mb.a * q0 + mb.b) / (mb.c * q0 + mb.d) + 0.050;
+	qf = (mf.a * q0 + mf.b) / (mf.c * q0 + mf.d) + 0.050;
+	w_hand = sqrt(lam * cabs(q) * cabs(q) / (M_PI * cimag(q)));
+	w_fwd = sqrt(lam * cabs(qf) * cabs(qf) / (M_PI * cimag(qf)));
+	ck_assert(fabs(w_fwd / w_hand - 1) > 1e-6);     /* the two ways differ */
+	for (size_t i = 0; i < gs->n; i++) {
+		const struct ghost *g = &gs->g[i];
+
+		if (g->order != 1 || strcmp(g->surf_el[0]->id, "W2") != 0)
+			continue;
+		for (size_t k = 0; k < g->nrows; k++) {
+			const struct ghost_row *r = &gs->rows[g->row0 + k];
+
+			if (strcmp(r->el->id, "W0") == 0) {
+				CHECK_REL(r->wx, w_hand, 1e-9);
+				seen = 1;
+			}
+		}
+	}
+	ck_assert(seen);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* What all ghosts lose by one splitter's fourth port is one stray, their
+ * shares summed (that is the beam to block there).  By hand: BS (R = 0.5,
+ * no loss) passes 0.5 W to W1; W1's front returns 0.5 · 0.02 = 10 mW and
+ * its back 0.5 · 0.98² · 0.01 = 4.802 mW; BS sends R of each out of its
+ * fourth port: 0.5 · 14.802 mW = 7.401 mW (ghost-conventions.md,
+ * reciprocity). */
+START_TEST(test_fourth_port_summed)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm'},'path':["
+	    "{'id':'BS','type':'splitter','reflectance':0.5,'reflected':[{'id':'BDR','type':'dump'}]},"
+	    "{'id':'S1','type':'space','length':'100 mm'},"
+	    "{'id':'W1','type':'window','surface_reflectance':[0.02, 0.01]},"
+	    "{'id':'S2','type':'space','length':'100 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b);
+	const struct ghost_set *gs = t->ghosts;
+	int n = 0;
+
+	for (size_t i = 0; i < gs->nstrays; i++)
+		if (strcmp(gs->strays[i].what, "fourth_port") == 0) {
+			ck_assert_str_eq(gs->strays[i].from->id, "BS");
+			CHECK_REL(gs->strays[i].power, 7.401e-3, 1e-9);
+			n++;
+		}
+	ck_assert_int_eq(n, 1);
+	trace_free(t);
+	model_bench_free(b);
+}
+END_TEST
+
+/* A ghost focus in air that sparks is an air_breakdown warning like the
+ * main beam's, said to be a reflection's.  The back ghost of the f = 100
+ * mm equi-convex lens (test_ghost_focus_over) focuses f/4 = 25 mm
+ * upstream, 15 mm from W0 in the 40 mm gap.  Pulsed 100 mJ, 10 ns
+ * Gaussian: the ghost carries 0.1 J · 0.96² · 0.04 = 3.6864 mJ, a peak of
+ * 2√(ln2/π) · E/τ (the Gaussian pulse's peak, trace-conventions.md) into
+ * w = λ(f/4)/(π w0) = 4.23 µm: 2 P/(π w²) ≈ 1.2e16 W/m², far over the
+ * default 1e14. */
+START_TEST(test_ghost_spark_warned)
+{
+	struct bench *b = bench_text("t", HEAD
+	    "'source':{'wavelength':'1064 nm','waist':'2 mm',"
+	    " 'pulsed':{'rep_rate':'10 Hz','pulse_width':'10 ns','pulse_energy':'100 mJ'}},"
+	    "'path':["
+	    "{'id':'W0','type':'window','surface_reflectance':0},"
+	    "{'id':'S1','type':'space','length':'40 mm'},"
+	    "{'id':'L1','type':'lens','focal':'100 mm','index':1.5,'surface_reflectance':0.04},"
+	    "{'id':'S2','type':'space','length':'50 mm'},"
+	    "{'id':'BD','type':'dump'}]}");
+	struct trace *t = trace_run(b), *t0 = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+	double w = 1.064e-6 * 0.025 / (M_PI * 2e-3);
+	double pk = 2 * sqrt(log(2.0) / M_PI) * 0.1 * 0.96 * 0.96 * 0.04 / 10e-9;
+	int n = 0;
+
+	ck_assert_int_eq(count_warn(t0, TW_AIR_BREAKDOWN), 0);
+	for (size_t i = 0; i < t->nwarn; i++) {
+		const struct trace_warning *x = &t->warn[i];
+
+		if (x->kind != TW_AIR_BREAKDOWN)
+			continue;
+		/* (L1's double bounce, forward again, sparks in S2 as well) */
+		ck_assert(x->ghost);
+		if (strcmp(x->after->id, "S1") != 0)
+			continue;
+		n++;
+		CHECK_REL(x->value, 2 * pk / (M_PI * w * w), 5e-3);
+		CHECK_REL(x->distance, 0.015, 1e-3);
+	}
+	ck_assert_int_eq(n, 1);
+	trace_free(t);
+	trace_free(t0);
+	model_bench_free(b);
+}
+END_TEST
+
 /* --no-ghosts is the main beam alone: no ghost set, and every row the
  * same as the ghost trace's before ghosts are added (ratios aside). */
 START_TEST(test_no_ghosts_same_rows)
@@ -521,6 +680,10 @@ main(void)
 	tcase_add_test(tc, test_no_ghosts_same_rows);
 	tcase_add_test(tc, test_cylinder_ghost_one_axis);
 	tcase_add_test(tc, test_rows_kept_same_ratings);
+	tcase_add_test(tc, test_add_ghosts_later_same);
+	tcase_add_test(tc, test_thick_lens_crossed_back);
+	tcase_add_test(tc, test_fourth_port_summed);
+	tcase_add_test(tc, test_ghost_spark_warned);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
