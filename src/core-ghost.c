@@ -677,6 +677,9 @@ combine(struct ghost_ctx *c)
 		const struct ghost_acc *a = &c->acc[i];
 
 		c->gs->at[i].main_ratio = r->ratio;
+		c->gs->at[i].fluence = b->src.pulsed ? a->fluence : NAN;
+		c->gs->at[i].linear_density = a->linear_density;
+		c->gs->at[i].power_lost = a->power_lost;
 		if (a->met && a->power_in > 0) {
 			struct damage_exposure ex;
 

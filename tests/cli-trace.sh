@@ -429,11 +429,25 @@ assert abs(num("limit") - limit) < 5e-4 * limit, (num("limit"), limit)
 assert abs(num("caution level") - limit / 2) < 5e-4 * limit, num("caution level")
 w1 = [e for e in t["elements"] if e["id"] == "W1"][0]
 f = w1["fluence"] / 1e4           # J/m² -> J/cm²
-m = re.search(r"^  the beam +fluence ([0-9.]+) J/cm² at W1$", out, re.M)
+m = re.search(r"^  the beam +fluence ([0-9.]+) J/cm² at W1 \(the main beam\)$", out, re.M)
 assert m and abs(float(m.group(1)) - f) < 5e-4 * f, (m and m.group(1), f)
+# the reflections that meet W1: as many as the JSON's ghosts with a row at
+# W1, bringing the sum of their fluences there
+rows = [r for g in t["ghosts"] for r in g["rows"] if r["id"] == "W1"]
+gf = sum(r["fluence"] for r in rows) / 1e4
+m = re.search(r"^  reflections +\+ ([0-9.]+) (m?)J/cm² from the ([0-9]+) surface reflections", out, re.M)
+assert m and int(m.group(3)) == len(rows), (m and m.group(3), len(rows))
+got = float(m.group(1)) * (1e-3 if m.group(2) == "m" else 1)
+assert abs(got - gf) < 5e-4 * gf, (got, gf)
+# and the ratio is main beam plus reflections over the hand limit: the
+# trace's own ratio for W1
 pct = re.search(r"^  ratio .* = ([0-9.]+) %: OVER$", out, re.M)
-assert pct and abs(float(pct.group(1)) - round(100 * f / limit)) < 0.5, pct and pct.group(1)
+assert pct and abs(float(pct.group(1)) - round(100 * (f + gf) / limit)) < 0.5, pct and pct.group(1)
+assert abs(float(pct.group(1)) - round(100 * w1["ratio"])) < 0.5, (pct.group(1), w1["ratio"])
 EOF
+run ex_hwp trace --demo --explain HWP1 --color never
+check "--explain HWP1: the headline ratio counts the reflections, as the table does" \
+	out_has ex_hwp "Why HWP1 (waveplate) is at 15.9 % of its limit"
 else
 	skip "no python3: --explain hand derivation"
 fi
