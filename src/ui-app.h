@@ -268,6 +268,7 @@ void  ui_bench_push(struct app *);              /* ui-bench.c */
 void  ui_profile_push(struct app *);            /* ui-profile.c */
 void  ui_history_push(struct app *);            /* ui-history.c */
 void  ui_hazards_push(struct app *);            /* ui-hazards.c */
+void  ui_reflections_push(struct app *);        /* ui-reflections.c: every ghost and stray */
 /* Compares the draft with the setup it came from, as a text screen. */
 void  ui_compare_draft(struct app *);           /* ui-history.c */
 void  ui_parts_push(struct app *);              /* ui-parts.c */
@@ -290,7 +291,8 @@ int   ui_point_override(struct app *, const char *id, const char *key, const cha
 const struct point_survey *app_survey(struct app *);
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
-    ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops;
+    ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops,
+    ui_reflections_ops;
 /* Keys every pane takes (help, quit, redraw). */
 extern const struct ui_key ui_global_keys[];
 

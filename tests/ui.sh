@@ -70,7 +70,7 @@ m_table=$("$BL" trace --demo 2>/dev/null | sed -n 's/^Safe source power: \([0-9.
 check "hand: safe source power 2 W/(2·$m_worst) = $m_safe mW, as the table says ($m_table)" \
 	[ -n "$m_worst" -a "$m_safe mW" = "$m_table" ]
 check "the margin line: headroom and safe source power (×$m_hr, $m_table)" \
-	wait_line ui "^worst: W1 109 % OVER, headroom ×$(printf %s "$m_hr" | sed 's/\./\\./') │ safe source power $m_table │ [0-9]+ hazards"
+	wait_line ui "^worst: W1 109 % OVER(, headroom)? ×$(printf %s "$m_hr" | sed 's/\./\\./') │ safe source power $m_table │ [0-9]+ hazards"
 check "keys grouped by task with the key sign (7d)" wait_line ui '^p›place  l›lift  -›undo ┆ Enter›edit ┆ r›record'
 # HWP1's ratio, ghosts counted: 15.9 %, derived by hand.  Main beam (the
 # trace's Gaussian beam, Siegman ch. 17; fluence 2E/πw²; √τ law, REFERENCE):
@@ -228,13 +228,15 @@ t_keys ui Escape
 wait_gone ui "Enter›accept" >/dev/null
 
 # ---- values are edited in a box, at the marked field (9.7) ----
-# glass takes an angle of incidence too (for its reflections), but what the
-# window is comes first: its transmission; the tilt closes the group
+# glass takes a tilt too (for its reflections), but what the window is comes
+# first: its transmission; the tilt is with the surface reflections, after
+# the rating (transmission, aperture, Brewster; four of material; then the
+# CW linear density and the CW irradiance: eight Down)
 check "the marked field shows where Enter goes" wait_line ui '^ › transmission'
 t_keys ui Enter
 check "Enter edits the marked field at once, in a box" wait_line ui '^   transmission +\[ *\]'
 check "its dotted key is in the hint" wait_for ui "transmission: power transmission"
-t_keys ui Down Down Down Down Down Down Down
+t_keys ui Down Down Down Down Down Down Down Down
 check "Down walks the values, still editing" wait_for ui "damage.cw_irradiance: CW LIDT"
 check "values under human labels in groups (7e)" wait_line ui '^ Damage rating'
 t_keys ui -l "5 kW/cm"
