@@ -4,7 +4,9 @@
  *   2. one value edited on a 200-element bench, retraced, saved to the
  *      draft and redrawn (target <= 10 ms), replayed as keys; then, as
  *      the workbench does once no key waits, its reflections counted and
- *      the screen drawn again (printed, no target of its own).
+ *      the screen drawn again (printed, no target of its own);
+ *   3. the sweep screen's cursor moved one step on the demo (target <= 10
+ *      ms), over the plot and over the chain at the cursor.
  * The real UI code draws through newterm() into /dev/null at 80x24 and
  * 200x60.  Owned by the workbench. */
 #include <config.h>
@@ -14,10 +16,12 @@
 #include <string.h>
 #include <time.h>
 #include <unistd.h>
+#include <curses.h>
 
 #include "bench-demo.h"
 #include "bench-file.h"
 #include "core-edit.h"
+#include "core-ghost.h"
 #include "core-layout.h"
 #include "store.h"
 #include "ui-app.h"
@@ -219,7 +223,8 @@ main(int argc, char **argv)
 		snprintf(what, sizeof what, "edit on a 200-element bench: retrace+save+redraw (%dx%d)",
 		    cols, lines);
 		report(what, t, 40, 10);
-		snprintf(what, sizeof what, "  then its 20,100 reflections counted and redrawn");
+		snprintf(what, sizeof what, "  then its %zu reflections counted and redrawn",
+		    a->trace != NULL && a->trace->ghosts != NULL ? a->trace->ghosts->n : 0);
 		report(what, tr, 40, 0);
 		snprintf(what, sizeof what, "  edit to the screen with the reflections in");
 		report(what, tg, 40, 0);
@@ -233,6 +238,27 @@ main(int argc, char **argv)
 		}
 		snprintf(what, sizeof what, "undo on a 200-element bench (%dx%d)", cols, lines);
 		report(what, t, 40, 10);
+		ui_app_free(a);
+		/* the sweep screen's cursor on the demo: the plot, then the
+		 * chain at the cursor (one trace a step) */
+		a = open_ui(db, "table3-ablation", out, in);
+		ui_app_frame(a);
+		app_select_id(a, "HWP1", 0);
+		keys(a, "v");
+		ui_app_key(a, '\r');
+		ui_app_frame(a);
+		for (int pass2 = 0; pass2 < 2; pass2++) {
+			for (int i = 0; i < 40; i++) {
+				t0 = now_ms();
+				ui_app_key(a, UI_FKEY(KEY_RIGHT));
+				ui_app_frame(a);
+				t[i] = now_ms() - t0;
+			}
+			snprintf(what, sizeof what, "sweep cursor, one step: %s (%dx%d)",
+			    pass2 ? "the chain there" : "the plot", cols, lines);
+			report(what, t, 40, 10);
+			ui_app_key(a, '\t');
+		}
 		ui_app_free(a);
 	}
 	fclose(out);

@@ -502,18 +502,8 @@ read_source(json_t *obj, struct source *s, struct bench *b, json_t **own, char *
 		return fail_with(cause, "source: give power or pulsed.pulse_energy, not both");
 	if (s->divergence_given && json_object_get(obj, "m2") != NULL)
 		return fail_with(cause, "source: give m2 or divergence, not both");
-	if (s->divergence_given && !isnan(s->waist[0]) && !isnan(s->wavelength)) {
-		for (int i = 0; i < 2; i++) {
-			s->m2[i] = beam_m2_from_divergence(s->waist[i], s->divergence[i],
-			    s->wavelength);
-			if (!(s->m2[i] >= 1))
-				return fail_with(cause, "source: divergence: %.6g rad with "
-				    "waist %.6g mm at %.6g nm gives M² = π·w0·θ/λ = %.4g, "
-				    "below 1: no beam diverges less than a Gaussian",
-				    s->divergence[i], s->waist[i] * 1e3,
-				    s->wavelength * 1e9, s->m2[i]);
-		}
-	}
+	if (model_source_m2_from_divergence(s, cause) != 0)
+		return -1;
 	if (s->energy_given)
 		s->power = s->pulse_energy * s->rep_rate;
 	else if (s->pulsed && have_power)

@@ -242,7 +242,8 @@ cmd_set(struct cmd_ctx *ctx, int argc, char **argv)
 			    "notes, safety_factor, air_breakdown, source.wavelength,\n"
 			    "source.power, source.pulsed, source.pulse_energy, source.rep_rate,\n"
 			    "source.pulse_width, source.shape, source.waist, source.waist_position,\n"
-			    "source.m2, source.polarization.  An empty value unsets an optional key.\n"
+			    "source.m2, source.divergence (rad; M² follows), source.polarization.\n"
+			    "An empty value unsets an optional key.\n"
 			    "All pairs apply, or none.\n");
 			return 0;
 		} else {

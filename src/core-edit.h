@@ -56,4 +56,8 @@ char *edit_bench_value(const struct bench *, const char *key);        /* caller 
 /* Splits "KEY=VALUE" in place; returns the value or NULL without '='. */
 char *edit_split_pair(char *kv);
 
+/* For core-edit*.c: validates copy (owned, consumed) and swaps it into b,
+ * freeing what it replaces; on failure b is untouched. */
+int  edit_commit_copy(struct bench *b, struct bench *copy, char **cause);
+
 #endif

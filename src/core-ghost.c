@@ -677,6 +677,9 @@ combine(struct ghost_ctx *c)
 		const struct ghost_acc *a = &c->acc[i];
 
 		c->gs->at[i].main_ratio = r->ratio;
+		c->gs->at[i].fluence = b->src.pulsed ? a->fluence : NAN;
+		c->gs->at[i].linear_density = a->linear_density;
+		c->gs->at[i].power_lost = a->power_lost;
 		if (a->met && a->power_in > 0) {
 			struct damage_exposure ex;
 
@@ -831,7 +834,10 @@ prepare(struct ghost_ctx *c)
 			ps->sym = ps->fx == ps->fy;
 			break;
 		case EL_LENS:
-			if (model_has(el, K_FOCAL) && !(model_has(el, K_THICKNESS) &&
+			/* a thin lens by its focal length alone (the radii, when
+			 * given, fix the shape: thick_apply) */
+			if (model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2) &&
+			    !(model_has(el, K_THICKNESS) &&
 			    el->val[K_THICKNESS] != 0)) {
 				int ax = (int)model_get(el, K_AXIS);
 

@@ -74,6 +74,9 @@ struct ghost_at {
 	size_t nmet;            /* ghosts that meet it */
 	double power_in;        /* W: their powers, summed */
 	double irradiance;      /* W/m²: their peak irradiances, summed (coaxial) */
+	double fluence;         /* J/m², summed; NAN for CW */
+	double linear_density;  /* W/m, summed where the element is rated so (else 0) */
+	double power_lost;      /* W the element takes of them */
 	double main_ratio;      /* the element's ratio from the main beam alone;
 	                         * NAN: unrated */
 	long   top;             /* index into ghost_set.g of the ghost that counts

@@ -40,6 +40,16 @@ static const struct {
 	[K_DIAMETER] = { LKG_OPTIC, "opening diameter" },
 	[K_MAX_POWER] = { LKG_DAMAGE, "power" },
 	[K_APERTURE] = { LKG_OPTIC, "clear aperture" },
+	[K_R1] = { LKG_OPTIC, "front radius r1" },
+	[K_R2] = { LKG_OPTIC, "back radius r2" },
+	[K_MATERIAL] = { LKG_MATERIAL, "glass" },
+	[K_BREWSTER] = { LKG_OPTIC, "at Brewster angle" },
+	[K_PHASE] = { LKG_OPTIC, "s-p phase shift" },
+	[K_ISOLATION] = { LKG_OPTIC, "reverse isolation" },
+	[K_SURF_R] = { LKG_REFLECTION, "each surface" },
+	[K_SURF_R_BACK] = { LKG_REFLECTION, "back surface" },
+	[K_LEAK] = { LKG_REFLECTION, "leak behind it" },
+	[K_REFLECTIVE] = { LKG_REFLECTION, "reflects the rest" },
 	[K_DMG_CW_LINEAR] = { LKG_DAMAGE, "CW linear density" },
 	[K_DMG_CW_IRRADIANCE] = { LKG_DAMAGE, "CW irradiance" },
 	[K_DMG_FLUENCE] = { LKG_DAMAGE, "pulse fluence" },
@@ -50,6 +60,7 @@ static const struct {
 static const char *const group_names[LKG_COUNT] = {
 	[LKG_ELEMENT] = "Element", [LKG_OPTIC] = "Optic", [LKG_MATERIAL] = "Material",
 	[LKG_DAMAGE] = "Damage rating", [LKG_BENCH] = "Bench", [LKG_SOURCE] = "Source",
+	[LKG_REFLECTION] = "Surface reflections",
 };
 
 const char *
@@ -61,12 +72,50 @@ layout_group_name(enum layout_key_group g)
 const char *
 layout_key_label(int key, enum layout_key_group *group)
 {
-	if (key < 0 || key >= K_COUNT) {
+	if (key < 0 || key >= K_COUNT || key_labels[key].label == NULL) {
+		/* a key added to the table without a label here: its own name */
 		*group = LKG_OPTIC;
-		return "?";
+		return key >= 0 && key < K_COUNT ? model_keys[key].name : "?";
 	}
 	*group = key_labels[key].group;
 	return key_labels[key].label;
+}
+
+/* Glass passes the beam: its angle of incidence is a tilt, and what it
+ * decides is whether the surfaces' reflections go back up the beam as
+ * ghosts or off the axis as strays (ghost-conventions.md).  A mirror's or
+ * a splitter's is the angle it works at. */
+const char *
+layout_key_label_for(enum elem_type t, int key, enum layout_key_group *group)
+{
+	if (key == K_AOI && t != EL_MIRROR && t != EL_SPLITTER) {
+		*group = LKG_REFLECTION;
+		return "tilt (aoi)";
+	}
+	return layout_key_label(key, group);
+}
+
+/* The order of the value pane: what the optic is, its material, its
+ * rating, its surface reflections, then its names. */
+static const enum layout_key_group field_groups[] = { LKG_OPTIC, LKG_MATERIAL, LKG_DAMAGE,
+	LKG_REFLECTION, LKG_ELEMENT };
+
+size_t
+layout_field_order(const struct element *el, const struct layout_field *f, size_t n,
+    size_t *order)
+{
+	size_t no = 0;
+
+	for (size_t g = 0; g < sizeof field_groups / sizeof *field_groups; g++)
+		for (size_t i = 0; i < n; i++) {
+			enum layout_key_group kg = LKG_ELEMENT;
+
+			if (f[i].kind == LF_KEY)
+				layout_key_label_for(el->type, f[i].key, &kg);
+			if (kg == field_groups[g])
+				order[no++] = i;
+		}
+	return no;
 }
 
 static const struct {
@@ -77,8 +126,8 @@ static const struct {
 	{ "name", LKG_BENCH, "name" }, { "notes", LKG_BENCH, "notes" },
 	{ "safety_factor", LKG_BENCH, "safety factor" },
 	{ "air_breakdown", LKG_BENCH, "breakdown level" },
-	{ "ghost_tilt", LKG_BENCH, "tilt that makes strays" },
-	{ "stray_warn", LKG_BENCH, "stray warning level" },
+	{ "ghost_tilt", LKG_REFLECTION, "tilt for strays" },
+	{ "stray_warn", LKG_REFLECTION, "stray warn level" },
 	{ "source.wavelength", LKG_SOURCE, "wavelength" },
 	{ "source.power", LKG_SOURCE, "average power" },
 	{ "source.pulsed", LKG_SOURCE, "pulsed" },
@@ -90,7 +139,7 @@ static const struct {
 	{ "source.waist_position", LKG_SOURCE, "waist position" },
 	{ "source.m2", LKG_SOURCE, "beam quality M\u00b2" },
 	{ "source.polarization", LKG_SOURCE, "polarization" },
-	{ "source.max_return", LKG_SOURCE, "tolerable return power" },
+	{ "source.max_return", LKG_SOURCE, "max return power" },
 };
 
 const char *

@@ -13,6 +13,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-ghost.h"
 #include "core-layout.h"
 #include "core-point.h"
 #include "util-err.h"
@@ -168,7 +169,7 @@ layout_headroom(char *buf, size_t n, double ratio, int ascii)
 /* One form of the margin line; a higher level is shorter. */
 static char *
 margin_text(const struct trace *t, const struct layout_hazard *h, size_t nh, int ascii,
-    int level, const char *tail)
+    int level, int quiet, const char *tail)
 {
 	const char *sep = level >= 1 ? (ascii ? " | " : " \u2502 ") :
 	    (ascii ? "  |  " : "  \u2502  ");
@@ -181,11 +182,11 @@ margin_text(const struct trace *t, const struct layout_hazard *h, size_t nh, int
 
 		layout_percent(pct, sizeof pct, t->worst_ratio);
 		layout_headroom(hr, sizeof hr, t->worst_ratio, ascii);
-		buf_printf(&b, "%s%s %s %s", level < 3 ? "worst: " : "", w->el->id, pct,
+		buf_printf(&b, "%s%s %s %s", level < 4 ? "worst: " : "", w->el->id, pct,
 		    layout_status_word(w->status));
 		if (level < 3)
 			buf_printf(&b, ", headroom %s", hr);
-		else if (level < 5)
+		else if (level < 6)
 			buf_printf(&b, " %s", hr);
 	} else {
 		buf_add(&b, "worst: nothing rated");
@@ -201,7 +202,31 @@ margin_text(const struct trace *t, const struct layout_hazard *h, size_t nh, int
 	}
 	buf_add(&b, sep);
 	hazard_counts(&b, h, nh, level < 2);
-	if (tail != NULL && tail[0] != '\0' && level < 4) {
+	if (t->ghosts != NULL) {
+		/* surface reflections: ghosts over and strays to block, said in
+		 * every step (shorter in the later ones); nothing to say is said
+		 * only while there is room */
+		size_t over = t->ghosts->nover, block = layout_strays_to_block(t);
+
+		if (over > 0 || block > 0) {
+			buf_add(&b, sep);
+			if (level < 2)
+				buf_printf(&b, "reflections: %zu ghost%s over, %zu stra%s to block", over,
+				    over == 1 ? "" : "s", block, block == 1 ? "y" : "ys");
+			else if (over > 0 && block > 0)
+				buf_printf(&b, "%zu ghost%s over, %zu stra%s%s", over, over == 1 ? "" : "s",
+				    block, block == 1 ? "y" : "ys", level < 3 ? " to block" : "");
+			else if (over > 0)
+				buf_printf(&b, "%zu ghost%s over", over, over == 1 ? "" : "s");
+			else
+				buf_printf(&b, "%zu stra%s%s", block, block == 1 ? "y" : "ys",
+				    level < 3 ? " to block" : "");
+		} else if (!quiet) {
+			buf_add(&b, sep);
+			buf_add(&b, "reflections: no ghost over, no stray to block");
+		}
+	}
+	if (tail != NULL && tail[0] != '\0' && level < 5) {
 		buf_add(&b, sep);
 		buf_add(&b, tail);
 	}
@@ -214,15 +239,18 @@ layout_margin_line(const struct trace *t, int ascii, int width, const char *tail
 	struct layout_hazard *h;
 	size_t nh = layout_hazards(t, &h);
 
-	for (int level = 0;; level++) {
-		char *s = margin_text(t, h, nh, ascii, level, tail);
+	/* at each step first with "no ghost over, no stray to block" (only in
+	 * the first two), then without: saying nothing never costs the rest */
+	for (int level = 0;; level++)
+		for (int quiet = level >= 2; quiet < 2; quiet++) {
+			char *s = margin_text(t, h, nh, ascii, level, quiet, tail);
 
-		if (level == 5 || (int)utf8_cols(s) <= width) {
-			free(h);
-			return s;
+			if ((level == 6 && quiet) || (int)utf8_cols(s) <= width) {
+				free(h);
+				return s;
+			}
+			free(s);
 		}
-		free(s);
-	}
 }
 
 /* ---- the header and the caution line ---- */

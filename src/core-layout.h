@@ -168,11 +168,23 @@ const char *layout_bench_key_help(const char *key);
 /* ---- labels and hints (core-layout-keys.c) ---- */
 
 enum layout_key_group { LKG_ELEMENT, LKG_OPTIC, LKG_MATERIAL, LKG_DAMAGE, LKG_BENCH,
-	LKG_SOURCE, LKG_COUNT };
-/* "Damage rating", "Source", ... */
+	LKG_SOURCE, LKG_REFLECTION, LKG_COUNT };
+/* Columns the value pane gives a label: every label fits in them. */
+#define LAYOUT_LABEL_COLS 18
+/* "Damage rating", "Source", "Surface reflections", ... */
 const char *layout_group_name(enum layout_key_group);
-/* A model key's human label ("CW irradiance") and its group. */
+/* A model key's human label ("CW irradiance") and its group (never
+ * LKG_ELEMENT, which is the element's names: id, label, part). */
 const char *layout_key_label(int key, enum layout_key_group *group);
+/* The same for a key of an element of type t: on glass (lens, window, ...)
+ * aoi is a tilt, in the group of the surface reflections it decides. */
+const char *layout_key_label_for(enum elem_type, int key, enum layout_key_group *group);
+/* The value pane's order of fields f[0..n) of el (layout_fields): the
+ * optic's values, its material, its rating, its surface reflections, then
+ * id, label, part and side.  Writes n indices into order; returns n. */
+struct layout_field;
+size_t layout_field_order(const struct element *, const struct layout_field *f, size_t n,
+           size_t *order);
 /* The same for a bench-level key (edit_bench_keys): "waist position". */
 const char *layout_bench_key_label(const char *key, enum layout_key_group *group);
 /* What a value of this key looks like: its unit with an example and its
@@ -215,11 +227,16 @@ int    layout_row_hazard(const struct trace *, size_t row);
  * "×1.21", "×0.917" (already over), "×∞"; "-" for NAN. */
 void   layout_headroom(char *buf, size_t n, double ratio, int ascii);
 /* "worst: W1 109 % OVER, headroom ×0.914  │  safe source power 914 mW  │
- * 8 hazards: 1 over, 1 spark, ...  │  TAIL" (tail: e.g. the saved time;
+ * 8 hazards: 1 over, 1 spark, ...  │  reflections: 1 ghost over, 3 strays
+ * to block  │  TAIL" (tail: e.g. the saved time;
  * may be NULL).  Shorter in steps when wider than `width` (narrow
- * separators; the hazard count alone; "W1 109 % OVER ×0.914"; no tail; no
- * headroom); the last step is returned even if still too wide.  The
- * words "safe source power" and the hazard count stay in every step.
+ * separators; the hazard count alone; "worst: W1 109 % OVER ×0.914"; "W1
+ * 109 % OVER ×0.914"; no tail; no headroom); the last step is returned even
+ * if still too wide.  The
+ * words "safe source power" and the hazard count stay in every step, and
+ * so do the ghosts over and strays to block when there are any ("1 ghost
+ * over, 3 strays"; the reflections part is left out for a trace without
+ * ghosts, and says "no ghost over" only in the first two steps).
  * Caller frees. */
 char  *layout_margin_line(const struct trace *, int ascii, int width, const char *tail);
 
@@ -326,5 +343,105 @@ int    layout_place_labels(const int *col, const int *len, size_t n, long sel, i
            int *at);
 /* Column of z in [z0, z1] mapped onto w columns (clamped). */
 int    layout_map_col(double z, double z0, double z1, int w);
+
+/* ---- surface reflections (core-layout-ghost.c) ---- */
+
+/* Works from a trace's ghost summaries (ghost_set.g, .strays, .at); the
+ * workbench's lean trace keeps no per-ghost rows and needs none here. */
+struct ghost;
+struct ghost_set;
+/* "L1.back", "L2.front → L1.back" ("->" in ASCII). */
+void   layout_ghost_name(const struct ghost *, int ascii, char *buf, size_t n);
+/* Strays at or above the bench's stray_warn: each must be blocked. */
+size_t layout_strays_to_block(const struct trace *);
+
+enum layout_refl_kind { LR_GHOST, LR_STRAY };
+struct layout_refl {
+	enum layout_refl_kind   kind;
+	size_t                  index;  /* into ghost_set.g or .strays */
+	long                    row;    /* trace row to go to: a ghost's worst element
+	                                 * (unrated: the element of its last
+	                                 * reflection), a stray's source; -1 none */
+	int                     severity;   /* 2: a ghost over somewhere or whose
+	                                     * focus sparks; 1: a ghost at caution,
+	                                     * a stray to block; 0: the rest */
+	const struct ghost_set *set;    /* borrowed: the trace's */
+};
+/* Every ghost and stray, worst first: by severity, and in each tier the
+ * ghosts by worst_ratio (unrated last), then the strays by power; ties in
+ * the trace's order.  (So a focus that sparks and a stray to block are
+ * never below a ghost that harms nothing.)  Returns the count (0 when the
+ * trace has no ghosts); *out caller-freed. */
+size_t layout_reflections(const struct trace *, struct layout_refl **out);
+/* The cells of one row of the reflections screen. */
+struct layout_refl_cells {
+	char               kind[16];    /* "ghost", "ghost²", "stray" */
+	char               name[200];   /* surfaces, or "PBS1 fourth port" */
+	char               power[48];   /* a ghost's power_start, a stray's power */
+	char               where[48];   /* a ghost's worst element ("-": none rated);
+	                                 * a stray's "focus at" or "no focus" */
+	char               ratio[48];   /* its ratio there; a stray's focus distance */
+	const char        *word;        /* static: "ok", "OVER", "spark", "block", "low" */
+	enum damage_status status;      /* for the colour: a stray to block is caution,
+	                                 * a ghost focus that sparks over */
+	char               note[160];   /* "focus in S8 sparks, 43.9 mm from an optic" */
+};
+void   layout_reflection_cells(const struct trace *, const struct layout_refl *, int ascii,
+           struct layout_refl_cells *);
+/* One sentence about it, for the screen's foot.  Caller frees. */
+char  *layout_reflection_text(const struct trace *, const struct layout_refl *, int ascii);
+/* "61 ghosts: 0 over, 1 at caution · 21 strays: 3 to block · 35.0 µW back
+ * at the source", shorter when wider than width ("1 caution", "back to
+ * source 35.0 µW", then without it, then "61 ghosts, 0 over · 3 strays to
+ * block").  Caller frees. */
+char  *layout_reflection_count(const struct trace *, int ascii, int width);
+
+/* Lines of an element's results: a label (static; "" continues the one
+ * above), the text (owned) and the status its colour follows. */
+struct layout_line {
+	const char        *label;
+	char              *text;
+	enum damage_status level;
+};
+void   layout_lines_free(struct layout_line *, size_t n);
+/* What the ghosts bring to trace row `row`: "ghosts in" (how many, their
+ * summed peak irradiance, the main beam's own ratio and the combined one)
+ * and "most" (the ghost that counts most there).  None when no ghost meets
+ * it.  Returns the count (may exceed max; only max are stored). */
+size_t layout_ghost_meet(const struct trace *, size_t row, int ascii,
+           struct layout_line *out, size_t max);
+/* 1 when the ghosts that meet row `row` change what its rating says: its
+ * status, or its ratio by a factor LAYOUT_GHOST_MATTERS or more over the
+ * main beam's own (then the results say them beside the rating; else after
+ * the rest, where a small pane may leave them out).  0 for an unrated row. */
+#define LAYOUT_GHOST_MATTERS 1.1
+int    layout_ghost_matters(const struct trace *, size_t row);
+/* What the element of row `row` sends off: "makes", one line per ghost one
+ * of whose reflections is its surface, worst first, at most `each` of them
+ * and then "+N more". */
+size_t layout_ghost_made(const struct trace *, size_t row, int ascii, size_t each,
+           struct layout_line *out, size_t max);
+/* "strays", one line per stray the element throws, with its power and
+ * ": block it" at or above stray_warn (*blocks is then 1: the results say
+ * them beside the rating). */
+size_t layout_ghost_strays(const struct trace *, size_t row, int ascii, int *blocks,
+           struct layout_line *out, size_t max);
+
+/* Ghost gi of rt, a trace that keeps its ghosts' rows (TRACE_GHOST_ROWS;
+ * the workbench traces one so when a ghost is asked for on the profile),
+ * on plot pl laid out for path (layout_profile or, band, layout_profile_band
+ * of the same bench): one point per element of the path it meets, at that
+ * element's column, at the radius rows of its larger 1/e² radius (curves:
+ * row; band: row above the axis and row2 below it), clamped to the plot
+ * (beyond: 1, it is wider than the plot's top).  Returns the count (may
+ * exceed max; only max are stored); 0 when rt keeps no rows. */
+struct layout_gpoint {
+	int    col, row, row2;
+	size_t trace_row;
+	int    beyond;
+};
+size_t layout_profile_ghost(const struct trace *rt, size_t gi, const size_t *path,
+           size_t npath, const struct layout_plot *pl, int band,
+           struct layout_gpoint *out, size_t max);
 
 #endif

@@ -203,6 +203,11 @@ char           *model_value_text(const struct element *, enum model_key);     /*
  * nesting within MODEL_MAX_DEPTH.  Messages name the element and key. */
 int             model_validate(const struct bench *, char **cause);
 int             model_source_validate(const struct source *, char **cause);
+/* M² of a source given by its measured divergence (divergence_given):
+ * M² = π·w0·θ/λ per axis (ISO 11146-1), refused below 1 with a message
+ * naming the values.  Nothing to do without a divergence, or before the
+ * waist and wavelength are known.  The one rule for files and edits. */
+int             model_source_m2_from_divergence(struct source *, char **cause);
 
 /* Depth-first walk over every element (path order, side branches right
  * after their element).  Stops and returns fn's value when it is nonzero. */

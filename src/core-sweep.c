@@ -69,6 +69,15 @@ element_knob(struct bench *b, const char *text, const char *end, struct element 
 		free(t);
 		return -1;
 	}
+	if (k == K_FOCAL && (model_has(*el, K_R1) || model_has(*el, K_R2))) {
+		/* the trace takes such a lens by its radii: a swept focal
+		 * would change nothing but the check */
+		fail_with(cause, "knob '%s.focal': %s is given by r1/r2 as well, and the "
+		    "trace uses the radii (focal only checks them): sweep %s.r1 or %s.r2",
+		    t, t, t, t);
+		free(t);
+		return -1;
+	}
 	*key = (enum model_key)k;
 	free(t);
 	return 0;

@@ -63,7 +63,9 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 	if (el->type == EL_LENS) {
 		on_x = model_get(el, K_AXIS) != AXIS_Y;
 		on_y = model_get(el, K_AXIS) != AXIS_X;
-		if (!model_has(el, K_FOCAL)) {
+		/* radii win over focal when both are given (they fix the
+		 * shape; model_validate has held focal to them) */
+		if (model_has(el, K_R1) || model_has(el, K_R2)) {
 			double c1 = curvature(el, K_R1), c2 = curvature(el, K_R2);
 
 			/* the glass is crossed on both axes; only the lens
@@ -113,8 +115,8 @@ thick_apply_back(const struct element *el, double lambda, struct beam_axis *x,
 		return thick_apply(el, lambda, x, y);   /* a plate is the same both ways */
 	on_x = model_get(el, K_AXIS) != AXIS_Y;
 	on_y = model_get(el, K_AXIS) != AXIS_X;
-	if (!model_has(el, K_FOCAL)) {
-		/* the back face first: in the unfolded frame of the return
+	if (model_has(el, K_R1) || model_has(el, K_R2)) {
+		/* the radii fix the shape (as forward); the back face first: in the unfolded frame of the return
 		 * trip each radius changes sign and the faces swap */
 		double c1 = -curvature(el, K_R2), c2 = -curvature(el, K_R1);
 

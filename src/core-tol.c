@@ -251,6 +251,10 @@ tol_effective(const struct bench *b, const struct element *el, enum model_key k)
 
 	if (own != NULL || b->tol == NULL || !model_has(el, k))
 		return own;
+	/* a lens given by its radii is traced by them: a bench-wide focal
+	 * tolerance does not reach it (core-validate.c refuses its own) */
+	if (k == K_FOCAL && (model_has(el, K_R1) || model_has(el, K_R2)))
+		return NULL;
 	for (size_t i = 0; i < b->tol->ndflt; i++) {
 		const struct tol_default *d = &b->tol->dflt[i];
 

@@ -9,9 +9,13 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-beam.h"
 #include "core-material.h"
 #include "core-model.h"
 #include "core-point.h"
+#include "core-thick.h"
+#include "core-tol.h"
+#include "core-units.h"
 #include "util-buf.h"
 #include "util-err.h"
 
@@ -124,12 +128,70 @@ check_surfaces(const struct element *el, char **cause)
 			return fail_with(cause, "element '%s': %s \"uncoated\" needs the "
 			    "glass's index or material (an uncoated surface of a guessed "
 			    "glass is refused)", el->id, model_key_path(surf[i]));
-	if (el->type == EL_MIRROR && model_has(el, K_LEAK) && !model_has(el, K_RS) &&
-	    !model_has(el, K_RP) && el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
-		return fail_with(cause, "element '%s': leak %g + reflectance %g exceeds 1 "
-		    "(the mirror would make power)", el->id, el->val[K_LEAK],
-		    model_get(el, K_REFLECTANCE));
+	if (el->type != EL_MIRROR || !model_has(el, K_LEAK))
+		return 0;
+	if (!model_has(el, K_RS) && !model_has(el, K_RP)) {
+		if (el->val[K_LEAK] + model_get(el, K_REFLECTANCE) > 1 + 1e-12)
+			return fail_with(cause, "element '%s': leak %g + reflectance %g "
+			    "exceeds 1 (the mirror would make power)", el->id,
+			    el->val[K_LEAK], model_get(el, K_REFLECTANCE));
+		return 0;
+	}
+	/* by s and p: the one not given reflects 1, as the trace takes it
+	 * (core-trace.c), so a leak needs both */
+	for (int i = 0; i < 2; i++) {
+		enum model_key k = i == 0 ? K_RS : K_RP;
+		double r = model_has(el, k) ? el->val[k] : 1;
+
+		if (el->val[K_LEAK] + r > 1 + 1e-12)
+			return fail_with(cause, "element '%s': leak %g + %s %g%s exceeds 1 "
+			    "(the mirror would make power)", el->id, el->val[K_LEAK],
+			    model_key_path(k), r, model_has(el, k) ? "" : " (not given: 1)");
+	}
 	return 0;
+}
+
+/* ghost-conventions.md, "Surfaces": a lens given both its radii and its
+ * focal length is accepted when the focal length the radii give (the
+ * thick-lens lensmaker's equation, Hecht sec. 6.2, with the lens's own
+ * thickness and its index at the source's wavelength) agrees with `focal`
+ * within 0.5 % of the radii's value; the trace then uses the radii, which
+ * fix the shape.  Called after the material's fit is known to hold at the
+ * source's wavelength (a NaN index cannot reach here; it is skipped). */
+#define FOCAL_RADII_TOL 0.005
+
+static int
+check_focal_radii(const struct element *el, double lambda, char **cause)
+{
+	double n = thick_index(el, lambda);
+	double r1 = model_has(el, K_R1) ? el->val[K_R1] : INFINITY;
+	double r2 = model_has(el, K_R2) ? el->val[K_R2] : INFINITY;
+	double t = model_has(el, K_THICKNESS) ? el->val[K_THICKNESS] : 0;
+	double f = el->val[K_FOCAL], fr;
+	char sf[64], sr[64], st[64];
+
+	/* a tolerance on focal would be drawn and change nothing */
+	if (tol_of(el, K_FOCAL) != NULL)
+		return fail_with(cause, "element '%s': focal has a tolerance, but the "
+		    "trace takes this lens by r1/r2 (focal only checks them): put the "
+		    "tolerance on r1 or r2", el->id);
+	if (isnan(n))
+		return 0;
+	fr = thick_lens_focal(n, r1, r2, t);
+	if (isfinite(fr) && fabs(f - fr) <= FOCAL_RADII_TOL * fabs(fr))
+		return 0;
+	units_format_shortest(sf, sizeof sf, f, DIM_LENGTH, 0);
+	units_format(sr, sizeof sr, fr, DIM_LENGTH, 6, 0);
+	units_format_shortest(st, sizeof st, t, DIM_LENGTH, 0);
+	if (!isfinite(fr))
+		return fail_with(cause, "element '%s': focal %s disagrees with r1/r2, "
+		    "which give a lens of no power (lensmaker's equation, n = %.6g, "
+		    "thickness %s); give focal or the radii, or make them agree",
+		    el->id, sf, n, st);
+	return fail_with(cause, "element '%s': focal %s disagrees with r1/r2, which "
+	    "give focal %s (lensmaker's equation, n = %.6g, thickness %s): %.3g %% "
+	    "apart, more than the 0.5 %% allowed", el->id, sf, sr, n, st,
+	    100 * fabs(f - fr) / fabs(fr));
 }
 
 static int
@@ -170,10 +232,8 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 		break;
 	case EL_LENS:
 		/* a thin lens by its focal length, or a lens by its radii
-		 * (one may be absent: flat) */
-		if (exclusive(el, K_FOCAL, K_R1, cause) != 0 ||
-		    exclusive(el, K_FOCAL, K_R2, cause) != 0)
-			return -1;
+		 * (one may be absent: flat), or both when they agree (below,
+		 * once the glass is known good) */
 		if (!model_has(el, K_FOCAL) && !model_has(el, K_R1) && !model_has(el, K_R2))
 			return fail_with(cause, "element '%s': a lens needs focal (%s), or "
 			    "r1 and/or r2 (the radii of its faces)", el->id,
@@ -220,6 +280,10 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 			    material_source((int)el->val[K_MATERIAL]), lo * 1e6, hi * 1e6,
 			    v->wavelength * 1e6);
 	}
+	if (el->type == EL_LENS && model_has(el, K_FOCAL) &&
+	    (model_has(el, K_R1) || model_has(el, K_R2)) &&
+	    check_focal_radii(el, v->wavelength, cause) != 0)
+		return -1;
 	if (model_has(el, K_DMG_FLUENCE) && !model_has(el, K_DMG_PULSE_WIDTH))
 		return fail_with(cause, "element '%s': damage.fluence needs "
 		    "damage.pulse_width (the pulse width it was measured at)", el->id);
@@ -287,6 +351,24 @@ source_ranges(const struct source *s, char **cause)
 	    in_range("source: pulsed.pulse_width", s->pulse_width, 1e-18, 1, DIM_TIME, cause) ||
 	    in_range("source: pulsed.pulse_energy", s->pulse_energy, 1e-18, 1e7, DIM_ENERGY, cause))
 		return -1;
+	return 0;
+}
+
+int
+model_source_m2_from_divergence(struct source *s, char **cause)
+{
+	if (!s->divergence_given || isnan(s->waist[0]) || isnan(s->waist[1]) ||
+	    isnan(s->wavelength))
+		return 0;
+	for (int i = 0; i < 2; i++) {
+		s->m2[i] = beam_m2_from_divergence(s->waist[i], s->divergence[i], s->wavelength);
+		if (!(s->m2[i] >= 1))
+			return fail_with(cause, "source: divergence: %.6g rad with "
+			    "waist %.6g mm at %.6g nm gives M² = π·w0·θ/λ = %.4g, "
+			    "below 1: no beam diverges less than a Gaussian",
+			    s->divergence[i], s->waist[i] * 1e3,
+			    s->wavelength * 1e9, s->m2[i]);
+	}
 	return 0;
 }
 

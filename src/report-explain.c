@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "core-damage.h"
+#include "core-ghost.h"
 #include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
@@ -26,6 +27,19 @@ exposure_of(const struct trace_row *r, enum layout_metric m)
 	case LD_FLUENCE:	return r->fluence;
 	case LD_MAX_POWER:	return r->power_in;
 	default:		return r->power_lost;
+	}
+}
+
+/* The same quantity, summed over the ghosts that meet the element. */
+static double
+ghost_share(const struct ghost_at *g, enum layout_metric m)
+{
+	switch (m) {
+	case LD_CW_LINEAR:	return g->linear_density;
+	case LD_CW_IRRADIANCE:	return g->irradiance;
+	case LD_FLUENCE:	return g->fluence;
+	case LD_MAX_POWER:	return g->power_in;
+	default:		return g->power_lost;
 	}
 }
 
@@ -98,6 +112,7 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	struct layout_derivation d;
 	char v1[48], v2[48], v3[48], pct[32];
 	struct buf o;
+	const struct ghost_at *ga = NULL;
 
 	if (r == NULL) {
 		fail_with(cause, "bench '%s': no element '%s' to explain", b->name, id);
@@ -126,7 +141,10 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 		return NULL;
 	}
 	buf_init(&o);
-	layout_percent(pct, sizeof pct, d.ratio);
+	/* the element's own ratio counts the reflections that meet it */
+	if (t->ghosts != NULL && (r->flags & TF_GHOSTS))
+		ga = &t->ghosts->at[r - t->rows];
+	layout_percent(pct, sizeof pct, ga != NULL ? r->ratio : d.ratio);
 	buf_printf(&o, "Why %s (%s) is at %s of its limit, on bench %s:\n\n", id,
 	    model_type_name(r->el->type), pct, b->name);
 	/* the rating as given, with the conditions it was specified at */
@@ -218,7 +236,17 @@ report_explain(const struct trace *t, const char *id, int ascii, char **cause)
 	    d.safety_factor, v3);
 	q4(v1, sizeof v1, exposure_of(r, d.metric), d.dim, ascii);
 	lab(&o, "the beam", "");
-	buf_printf(&o, "%s %s at %s\n", exposure_name(d.metric), v1, id);
+	buf_printf(&o, "%s %s at %s%s\n", exposure_name(d.metric), v1, id,
+	    ga != NULL ? " (the main beam)" : "");
+	if (ga != NULL) {
+		double g = ghost_share(ga, d.metric);
+
+		q4(v3, sizeof v3, g, d.dim, ascii);
+		lab(&o, "reflections", "");
+		buf_printf(&o, "+ %s from the %zu surface reflection%s that meet it (added "
+		    "as if coaxial)\n", v3, ga->nmet, ga->nmet == 1 ? "" : "s");
+		q4(v1, sizeof v1, exposure_of(r, d.metric) + g, d.dim, ascii);
+	}
 	lab(&o, "ratio", "");
 	buf_printf(&o, "%s / %s = %s: %s\n", v1, v2, pct,
 	    layout_status_word(r->status));

@@ -268,6 +268,7 @@ void  ui_bench_push(struct app *);              /* ui-bench.c */
 void  ui_profile_push(struct app *);            /* ui-profile.c */
 void  ui_history_push(struct app *);            /* ui-history.c */
 void  ui_hazards_push(struct app *);            /* ui-hazards.c */
+void  ui_reflections_push(struct app *);        /* ui-reflections.c: every ghost and stray */
 void  ui_tolerance_push(struct app *);          /* ui-tolerance.c: the odds of over */
 /* Compares the draft with the setup it came from, as a text screen. */
 void  ui_compare_draft(struct app *);           /* ui-history.c */
@@ -275,7 +276,11 @@ void  ui_parts_push(struct app *);              /* ui-parts.c */
 void  ui_help_push(struct app *);               /* ui-help.c */
 void  ui_record_prompt(struct app *);           /* ui-history.c */
 void  ui_points_push(struct app *);             /* ui-points.c: every point side by side */
-void  ui_sweep_prompt(struct app *);            /* ui-points.c: KNOB FROM .. TO, then the sweep */
+/* A full screen's title line: the program, the bench, what it shows. */
+void  ui_screen_title(struct app *, int w, const char *what);
+/* ui-sweep.c: KNOB FROM .. TO, then the sweep; knob: the marked field
+ * ("L1.focal", "source.power"), NULL: the selected element's usual knob */
+void  ui_sweep_prompt(struct app *, const char *knob);
 /* ui-points.c: the next operating point on the chain (base first); the
  * chain's worst over every point on or off; a value typed while a point is
  * shown, stored as that point's override (id NULL: a source key). */
@@ -287,7 +292,8 @@ int   ui_point_override(struct app *, const char *id, const char *key, const cha
 const struct point_survey *app_survey(struct app *);
 /* Every pane's ops, for the help screen. */
 extern const struct ui_pane_ops ui_list_ops, ui_bench_ops, ui_profile_ops,
-    ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops;
+    ui_history_ops, ui_parts_ops, ui_text_ops, ui_hazards_ops, ui_points_ops, ui_sweep_ops,
+    ui_reflections_ops;
 extern const struct ui_pane_ops ui_tolerance_ops;
 /* Keys every pane takes (help, quit, redraw). */
 extern const struct ui_key ui_global_keys[];

@@ -692,6 +692,18 @@ k_hazards(struct app *a, struct ui_pane *p)
 }
 
 static enum ui_reaction
+k_reflections(struct app *a, struct ui_pane *p)
+{
+	(void)p;
+	if (a->trace->ghosts == NULL) {
+		app_msg(a, 1, "this trace follows the main beam only: no reflections to list");
+		return UI_REDRAW;
+	}
+	ui_reflections_push(a);
+	return UI_REDRAW;
+}
+
+static enum ui_reaction
 k_tolerance(struct app *a, struct ui_pane *p)
 {
 	(void)p;
@@ -718,8 +730,11 @@ k_points(struct app *a, struct ui_pane *p)
 static enum ui_reaction
 k_sweep(struct app *a, struct ui_pane *p)
 {
-	(void)p;
-	ui_sweep_prompt(a);
+	char *knob = wb_marked_knob(a, p->data);
+
+	/* opened on the marked field, when it is a number */
+	ui_sweep_prompt(a, knob);
+	free(knob);
 	return UI_REDRAW;
 }
 
@@ -764,6 +779,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'h' }, "h", "history", 3, "the bench's logbook: its setups, compare, reinstate, mark", k_history, 0, UG_RECORD },
 	{ { 'c' }, "c", NULL, 0, "compare the draft with the setup it came from", k_compare, 0, UG_RECORD },
 	{ { '!' }, "!", "hazards", 1, "every hazard on the bench; Enter goes to its element", k_hazards, 0, UG_LOOK },
+	{ { 'f' }, "f", "reflections", 4, "every ghost and stray, worst first; Enter goes to its element", k_reflections, 0, UG_LOOK },
 	{ { 't' }, "t", "tolerance", 4, "the odds that each rated optic is over when every tolerance is drawn at random (Monte-Carlo); Enter goes to an element", k_tolerance, 0, UG_LOOK },
 	{ { 'z' }, "z", "profile", 4, "the beam along z to the end of the selected element's branch", k_profile, 0, UG_LOOK },
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },

@@ -32,6 +32,10 @@ void   wb_draw_detail(struct app *, struct wb *, const struct wb_geom *, int w);
 void   wb_draw_results(struct app *, int y, int x, int h, int w);
 void   wb_draw_status(struct app *, int y, int w);
 size_t wb_hints(struct app *, struct wb *, struct layout_hint *, size_t max);
+/* The marked field as a sweep knob ("L1.focal", "source.power"), when it
+ * is a number of the selected element or of the source (caller frees);
+ * NULL otherwise. */
+char  *wb_marked_knob(struct app *, struct wb *);
 /* Adds el (taken) after the selection, as `a` does. */
 int    wb_place(struct app *, struct element *el, char **cause);
 

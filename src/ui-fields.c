@@ -63,26 +63,9 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 		if (nf > MAX_FIELDS)
 			nf = MAX_FIELDS;
 		/* the physical values first, each group together; the element's
-		 * names after them */
-		size_t order[MAX_FIELDS], no = 0;
-		static const enum layout_key_group shown[] = { LKG_OPTIC, LKG_MATERIAL,
-			LKG_DAMAGE, LKG_ELEMENT };
+		 * names after them (the layout's order) */
+		size_t order[MAX_FIELDS], no = layout_field_order(r->el, f, nf, order);
 
-		/* a tilt is a mirror's or splitter's first value; on glass it
-		 * comes after what the optic is (a lens's focal length first) */
-		int tilt_last = r->el->type != EL_MIRROR && r->el->type != EL_SPLITTER;
-
-		for (size_t g = 0; g < sizeof shown / sizeof *shown; g++)
-			for (int pass = 0; pass < 2; pass++)
-				for (size_t i = 0; i < nf; i++) {
-					enum layout_key_group kg = LKG_ELEMENT;
-					int late = tilt_last && f[i].kind == LF_KEY && f[i].key == K_AOI;
-
-					if (f[i].kind == LF_KEY)
-						layout_key_label(f[i].key, &kg);
-					if (kg == shown[g] && late == pass)
-						order[no++] = i;
-				}
 		for (size_t oi = 0; oi < no && n < max; oi++, n++) {
 			size_t i = order[oi];
 
@@ -90,7 +73,7 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 			out[n].help = f[i].help;
 			out[n].key = f[i].kind == LF_KEY ? f[i].key : -1;
 			if (f[i].kind == LF_KEY) {
-				out[n].label = layout_key_label(f[i].key, &out[n].group);
+				out[n].label = layout_key_label_for(r->el->type, f[i].key, &out[n].group);
 			} else {
 				out[n].group = LKG_ELEMENT;
 				out[n].label = f[i].kind == LF_SIDE ? "side port" : f[i].name;
@@ -263,7 +246,8 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 			ui_fill(a, yy, 0, lw, at);
 			if (marked)
 				ui_put(a, yy, 1, 1, ui_glyph(a, GL_KEY), UC_KEY);
-			ui_put_attr(a, yy, 3, 18, x->label, at | (x->given ? 0 : ui_attr(a, UC_DIM)));
+			ui_put_attr(a, yy, 3, LAYOUT_LABEL_COLS, x->label, at | (x->given ? 0 :
+			    ui_attr(a, UC_DIM)));
 			if (here && d->editing) {
 				ui_line_draw(a, &d->line, yy, 21, lw - 22);
 			} else {
@@ -318,6 +302,12 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 		s = xasprintf("absorbed on the bench %s, leaving it %s", t, u);
 		ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_NORMAL);
 		free(s);
+		if (a->trace->ghosts != NULL && line < rows) {
+			/* what ghost_tilt and stray_warn decide, in one line */
+			s = layout_reflection_count(a->trace, a->ascii, w - lw - 3);
+			ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_NORMAL);
+			free(s);
+		}
 		for (size_t i = 0; i < a->trace->nwarn && line < rows; i++) {
 			s = report_warning_text(a->trace, &a->trace->warn[i], a->ascii);
 			ui_put(a, y + line++, lw + 2, w - lw - 3, s, UC_CAUTION);
@@ -363,13 +353,38 @@ result_wrapped(struct app *a, int y, int x, int w, int left, int max, const char
 	return used;
 }
 
+/* The ghost lines of trace row `tr`, as the layout words them: 0 the ghosts
+ * that meet it, 1 the ones its surfaces make, 2 its strays. */
+static int
+ghost_lines(struct app *a, int y, int x, int w, int left, int made, size_t tr)
+{
+	struct layout_line l[12];
+	int blocks;
+	size_t nl = made == 1 ? layout_ghost_made(a->trace, tr, a->ascii, 4, l, 12) :
+	    made == 2 ? layout_ghost_strays(a->trace, tr, a->ascii, &blocks, l, 12) :
+	    layout_ghost_meet(a->trace, tr, a->ascii, l, 12);
+	int used = 0;
+
+	if (nl > 12)
+		nl = 12;
+	for (size_t i = 0; i < nl; i++) {
+		attr_t at = l[i].level >= STATUS_CAUTION ? ui_status_attr(a, l[i].level) : A_NORMAL;
+
+		if (used < left)
+			used += result_wrapped(a, y + used, x, w, left - used, 2, l[i].label,
+			    l[i].text, at);
+	}
+	layout_lines_free(l, nl);
+	return used;
+}
+
 void
 wb_draw_results(struct app *a, int y, int x, int h, int w)
 {
 	const struct layout_row *row = app_sel_row(a);
 	const struct trace_row *r = app_sel_trace(a);
 	char t1[64], t2[64], t3[64], line[320];
-	int n = 0;
+	int n = 0, strays_first = 0;
 
 	if (row == NULL)
 		return;
@@ -425,6 +440,19 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		    isnan(r->ratio) && layout_row_hazard(a->trace, (size_t)row->trace_row) ?
 		    ui_attr(a, UC_HAZARD) : ui_status_attr(a, r->status));
 	}
+	/* the ghosts that meet it: next to the ratio when they change it; the
+	 * strays it throws there too when one must be blocked */
+	if (layout_ghost_matters(a->trace, (size_t)row->trace_row))
+		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
+	{
+		struct layout_line sl[12];
+		size_t ns = layout_ghost_strays(a->trace, (size_t)row->trace_row, a->ascii,
+		    &strays_first, sl, 12);
+
+		layout_lines_free(sl, ns < 12 ? ns : 12);
+	}
+	if (strays_first)
+		n += ghost_lines(a, y + n, x, w, h - n, 2, (size_t)row->trace_row);
 	if (n < h) {
 		/* why the limit is what it is, wrapped over as many lines as it needs */
 		char *why = layout_derivation_text(r, a->shown, a->ascii);
@@ -479,6 +507,12 @@ wb_draw_results(struct app *a, int y, int x, int h, int w)
 		snprintf(line, sizeof line, "peak power above the critical %s: self-focusing", t1);
 		n += result_wrapped(a, y + n, x, w, h - n, 2, "hazard", line, ui_attr(a, UC_HAZARD));
 	}
+	if (!layout_ghost_matters(a->trace, (size_t)row->trace_row))
+		n += ghost_lines(a, y + n, x, w, h - n, 0, (size_t)row->trace_row);
+	/* the ghosts and strays its own surfaces send off */
+	n += ghost_lines(a, y + n, x, w, h - n, 1, (size_t)row->trace_row);
+	if (!strays_first)
+		n += ghost_lines(a, y + n, x, w, h - n, 2, (size_t)row->trace_row);
 }
 
 /* ---- keys ---- */
@@ -824,4 +858,32 @@ wb_click_fields(struct app *a, struct wb *d, int row, int dbl, struct ui_pane *p
 	d->focus = WB_FIELDS;
 	d->field = lines[d->field_top + row];
 	return dbl ? f_edit(a, p) : UI_REDRAW;
+}
+
+char *
+wb_marked_knob(struct app *a, struct wb *d)
+{
+	const struct layout_row *r = app_sel_row(a);
+	struct fld f[MAX_FIELDS];
+	size_t n;
+	char *knob = NULL;
+
+	if (d->mode == WB_ELEMENT && (r == NULL || r->kind == LROW_PORT ||
+	    d->field_of == NULL || strcmp(d->field_of, r->el->id) != 0))
+		return NULL;        /* the mark is on another element's values */
+	n = fields_get(a, d, f, MAX_FIELDS);
+	if (d->field >= 0 && (size_t)d->field < n) {
+		const struct fld *x = &f[d->field];
+
+		if (d->mode == WB_ELEMENT && x->key >= 0 &&
+		    model_keys[x->key].kind != KIND_BOOL && model_keys[x->key].kind != KIND_AXIS &&
+		    model_keys[x->key].kind != KIND_CHOICE)
+			knob = xasprintf("%s.%s", r->el->id, model_key_path((enum model_key)x->key));
+		else if (d->mode == WB_SETTINGS && strncmp(x->name, "source.", 7) == 0 &&
+		    strcmp(x->name, "source.pulsed") != 0 && strcmp(x->name, "source.shape") != 0 &&
+		    strcmp(x->name, "source.polarization") != 0)
+			knob = xstrdup(x->name);
+	}
+	fields_free(f, n);
+	return knob;
 }

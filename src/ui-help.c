@@ -82,6 +82,13 @@ help_text(const struct app *a)
 	    "    Backspace   delete before the cursor; Del (^D) under it\n"
 	    "    ^U ^K ^W    clear before the cursor, after it, the word before it\n");
 	section(&b, a, "Hazards (!)", ui_hazards_ops.keys);
+	section(&b, a, "Reflections (f)", ui_reflections_ops.keys);
+	buf_add(&b,
+	    "  Every glass surface reflects a little of the beam: a ghost goes back up\n"
+	    "  the chain (and after a second reflection forward again) and adds to the\n"
+	    "  rating of every optic it meets; a tilted surface throws a stray off the\n"
+	    "  axis, to be blocked.  An element's results say which ghosts meet it and\n"
+	    "  which it makes.\n");
 	section(&b, a, "Tolerances (t)", ui_tolerance_ops.keys);
 	buf_add(&b,
 	    "  A value may carry a tolerance after it: \"250 mm +- 2 mm\" (normal, that\n"
@@ -97,7 +104,8 @@ help_text(const struct app *a)
 	buf_add(&b,
 	    "  The plot shows both 1/e^2 radii (x and y) along the path from the source\n"
 	    "  to the end of the selected element's branch, the power below them, every\n"
-	    "  element marked on the axis with its id, and the foci.\n");
+	    "  element marked on the axis with its id, and the foci; f lays a ghost over\n"
+	    "  it (its radius at each element it meets), the worst first.\n");
 	section(&b, a, "Logbook (h)", ui_history_ops.keys);
 	section(&b, a, "Parts shelf (S)", ui_parts_ops.keys);
 	section(&b, a, "Operating points side by side (o)", ui_points_ops.keys);

@@ -9,11 +9,20 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core-ghost.h"
 #include "core-report.h"
 #include "ui-app.h"
 #include "util-err.h"
 
 #define LABEL_W 10
+
+/* The pane's state: the view, and the ghost laid over the beam (f). */
+struct prof {
+	int           curves;       /* 0: the band */
+	long          ghost;        /* index into the trace's ghosts; -1: none */
+	struct trace *gt;           /* owned: the bench traced with its ghosts'
+	                             * rows, made when a ghost is first asked for */
+};
 
 static size_t
 sel_trace_row(const struct app *a)
@@ -49,7 +58,8 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 	char t1[64], t2[64], t3[64], pct[32], br[160], *t;
 	double ticks[32];
 	size_t nt;
-	int curves = *(const int *)p->data;
+	struct prof *d = p->data;
+	int curves = d->curves;
 
 	np = layout_profile_path(a->trace, sel, &path);
 	branch_of(a, sel, br, sizeof br);
@@ -183,8 +193,32 @@ profile_draw(struct app *a, struct ui_pane *p, int h, int w)
 				ui_put(a, ay + 3, LABEL_W + 1 + c, (int)utf8_cols(t1), t1, UC_DIM);
 		}
 	}
+	/* the ghost chosen with f, over the beam: a dot at each element it meets */
+	if (d->ghost >= 0 && d->gt != NULL) {
+		struct layout_gpoint gp[256];
+		size_t ng = layout_profile_ghost(d->gt, (size_t)d->ghost, path, np, &pl, !curves, gp,
+		    256);
+
+		for (size_t i = 0; i < ng && i < 256; i++) {
+			const char *gl = gp[i].beyond ? (a->ascii ? "^" : "\u25b2") :
+			    (a->ascii ? "o" : "\u25cb");
+
+			ui_put(a, y0 + gp[i].row, LABEL_W + 1 + gp[i].col, 1, gl, UC_HAZARD);
+			if (gp[i].row2 != gp[i].row)
+				ui_put(a, y0 + gp[i].row2, LABEL_W + 1 + gp[i].col, 1, gp[i].beyond ?
+				    (a->ascii ? "v" : "\u25bc") : gl, UC_HAZARD);
+		}
+	}
 	units_format(t1, sizeof t1, pl.rmax, DIM_LENGTH, 3, a->ascii);
-	if (curves)
+	if (d->ghost >= 0 && d->gt != NULL && (size_t)d->ghost < d->gt->ghosts->n) {
+		char name[200], gpw[48];
+		const struct ghost *g = &d->gt->ghosts->g[d->ghost];
+
+		layout_ghost_name(g, a->ascii, name, sizeof name);
+		units_format(gpw, sizeof gpw, g->power_start, DIM_POWER, 3, a->ascii);
+		t = xasprintf("%s=ghost %s %s, larger radius at each element; %s=wider  (f: next)",
+		    a->ascii ? "o" : "\u25cb", name, gpw, a->ascii ? "^" : "\u25b2");
+	} else if (curves)
 		t = xasprintf("%s=x %s=y radius  %s=both  %s=focus  %s=power  %s=selected  (1/e%s, top %s)",
 		    ui_glyph(a, GL_WX), ui_glyph(a, GL_WY), ui_glyph(a, GL_WXY), ui_glyph(a, GL_FOCUS),
 		    ui_glyph(a, GL_POWER), ui_glyph(a, GL_DOT), a->ascii ? "^2" : "\u00b2", t1);
@@ -238,10 +272,54 @@ p_next(struct app *a, struct ui_pane *p)
 static enum ui_reaction
 p_view(struct app *a, struct ui_pane *p)
 {
-	int *curves = p->data;
+	struct prof *d = p->data;
 
 	(void)a;
-	*curves = !*curves;
+	d->curves = !d->curves;
+	return UI_REDRAW;
+}
+
+/* The next ghost that meets the plotted path, worst first (as the
+ * reflections screen lists them); after the last, none.  The lean trace
+ * keeps no ghost rows: the bench shown is traced once with them. */
+static enum ui_reaction
+p_ghost(struct app *a, struct ui_pane *p)
+{
+	struct prof *d = p->data;
+	size_t sel = sel_trace_row(a), *path, np, nr;
+	struct layout_refl *v;
+	long pos = -1, next = -1;
+
+	if (a->trace->ghosts == NULL) {
+		app_msg(a, 1, "this trace follows the main beam only: no ghost to lay over it");
+		return UI_REDRAW;
+	}
+	if (d->gt == NULL || d->gt->nrows != a->trace->nrows)
+		d->gt = trace_rerun_opts(d->gt, a->shown, TRACE_GHOST_ROWS);
+	np = layout_profile_path(d->gt, sel, &path);
+	nr = layout_reflections(d->gt, &v);
+	for (size_t i = 0; i < nr; i++)
+		if (v[i].kind == LR_GHOST && (long)v[i].index == d->ghost)
+			pos = (long)i;
+	for (size_t i = (size_t)(pos + 1); i < nr && next < 0; i++) {
+		const struct ghost *g;
+
+		if (v[i].kind != LR_GHOST)
+			continue;
+		g = &d->gt->ghosts->g[v[i].index];
+		for (size_t k = 0; k < g->nrows && next < 0; k++)
+			for (size_t j = 0; j < np; j++)
+				if (path[j] == d->gt->ghosts->rows[g->row0 + k].trace_row &&
+				    a->trace->rows[path[j]].el->type != EL_SPACE) {
+					next = (long)v[i].index;
+					break;
+				}
+	}
+	d->ghost = next;
+	if (next < 0)
+		app_msg(a, 0, "no ghost laid over the beam (f: the worst again)");
+	free(v);
+	free(path);
 	return UI_REDRAW;
 }
 
@@ -260,6 +338,8 @@ static const struct ui_key profile_keys[] = {
 	    NULL, p_next, 0, UG_MOVE },
 	{ { 'v' }, "v", "view", 1, "the beam as a band about the axis, or both radii as curves",
 	    p_view, 0, UG_LOOK },
+	{ { 'f' }, "f", "ghost", 2, "lay the next ghost over the beam, worst first (its radius at "
+	    "each element it meets); after the last, none", p_ghost, 0, UG_LOOK },
 	{ { UI_ESC, 'q', 'z', '\r' }, "Esc", "back to the chain", 0,
 	    "back to the workbench, the element you reached selected (also q, z, Enter)", p_back, 0, UG_LEAVE },
 	UI_KEYS_END,
@@ -268,7 +348,10 @@ static const struct ui_key profile_keys[] = {
 static void
 p_release(struct ui_pane *p)
 {
-	free(p->data);
+	struct prof *d = p->data;
+
+	trace_free(d->gt);
+	free(d);
 }
 
 const struct ui_pane_ops ui_profile_ops = {
@@ -278,5 +361,8 @@ const struct ui_pane_ops ui_profile_ops = {
 void
 ui_profile_push(struct app *a)
 {
-	app_push(a, &ui_profile_ops, xcalloc(1, sizeof(int)));  /* 0: the band */
+	struct prof *d = xcalloc(1, sizeof *d);     /* the band, no ghost */
+
+	d->ghost = -1;
+	app_push(a, &ui_profile_ops, d);
 }

@@ -419,7 +419,7 @@ static const struct bad_case {
 	{ BENCH("{'id':'F1','type':'filter','od':1,'transmission':0.1}"),
 	    { "F1", "od", "transmission" } },
 	/* the keys of the physics review: a fit used outside its published
-	 * range (N-BK7 to 2.5 µm), material with index, focal with radii,
+	 * range (N-BK7 to 2.5 µm), material with index, focal 11 % from its radii,
 	 * an unknown glass, a lens with neither */
 	{ BENCH_SRC("'wavelength':'3 um','power':'1 W','waist':'1 mm'",
 	    "{'id':'W1','type':'window','material':'n-bk7'}"),
@@ -898,6 +898,57 @@ START_TEST(test_source_divergence)
 	    "'waist':'1 mm','divergence':5e-4,'m2':1.2", "{'id':'BD','type':'dump'}"), &cause));
 	ck_assert_ptr_nonnull(strstr(cause, "not both"));
 	free(cause);
+}
+END_TEST
+
+/* focal with r1/r2 (ghost-conventions.md, "Surfaces"): accepted within
+ * 0.5 % of the focal length the radii give, refused beyond, naming both.
+ * Derived in the test from the thick-lens lensmaker's equation (Hecht sec.
+ * 6.2; REFERENCE §15) with N-BK7's index at 1064 nm from REFERENCE §15's
+ * table (1.506635): r1 = 100 mm, r2 = -100 mm, t = 5 mm,
+ * 1/f = (n - 1)[2/100 mm + (n - 1)·5/(n·100·-100) mm] -> f = 99.527 mm;
+ * and a plano-convex lens of the default index 1.45 (r1 = 100 mm, flat
+ * back, thin): f = 100 mm/0.45 = 222.222 mm. */
+static char *
+lens_bench(double focal_mm, const char *shape)
+{
+	static char text[512];
+
+	snprintf(text, sizeof text, BENCH("{'id':'L1','type':'lens','focal':'%.6f mm',%s}"),
+	    focal_mm, shape);
+	return text;
+}
+
+START_TEST(test_focal_with_radii)
+{
+	struct {
+		const char *shape;
+		double      f;              /* mm, by hand above */
+		const char *shown;          /* as the message writes it */
+	} lens[] = {
+		{ "'r1':'100 mm','r2':'-100 mm','thickness':'5 mm','material':'n-bk7'",
+		  0, "99.527" },
+		{ "'r1':'100 mm'", 100 / 0.45, "222.222" },
+	};
+	double n = 1.506635;
+
+	lens[0].f = 1 / ((n - 1) * (2.0 / 100 + (n - 1) * 5 / (n * 100 * -100)));
+	CHECK_ABS(lens[0].f, 99.527, 0.001);
+	for (size_t i = 0; i < sizeof lens / sizeof *lens; i++) {
+		static const double ok[] = { 1.004, 0.996 }, bad[] = { 1.006, 0.994 };
+
+		for (size_t j = 0; j < 2; j++) {
+			struct bench *b = parse_ok(lens_bench(lens[i].f * ok[j], lens[i].shape));
+			char *cause = NULL;
+
+			model_bench_free(b);
+			ck_assert_ptr_null(parse(lens_bench(lens[i].f * bad[j], lens[i].shape), &cause));
+			ck_assert_msg(strstr(cause, "element 'L1'") != NULL &&
+			    strstr(cause, "focal") != NULL && strstr(cause, "r1/r2") != NULL &&
+			    strstr(cause, lens[i].shown) != NULL, "%s", cause);
+			free(cause);
+		}
+	}
 }
 END_TEST
 
@@ -1390,6 +1441,7 @@ main(void)
 	suite_add_tcase(s, tb);
 
 	tcase_add_test(tx, test_source_divergence);
+	tcase_add_test(tx, test_focal_with_radii);
 	tcase_add_test(tx, test_round_trip_demo);
 	tcase_add_loop_test(tx, test_export_units, 0, NELEMS(export_texts));
 	tcase_add_loop_test(tx, test_export_awkward_values, 0, NELEMS(awkward));

@@ -143,6 +143,11 @@ bad_set "a bad default" "lens.axis numeric" --bench "tolerance.lens.axis=± 1"
 bad_set "a default for an unknown type" "prism.length type" --bench "tolerance.prism.length=± 1 mm"
 bad_set "a source tolerance on the power given by energy" "source.power pulse_energy" --bench "source.power=± 5 %"
 bad_set "a negative source tolerance" "source.waist negative" --bench "source.waist=3 mm ± -1 %"
+# a lens given by r1/r2 is traced by them (beamledger-bench(5)): L1's own
+# focal tolerance (± 1 % above) would be drawn and change nothing, so
+# radii that agree with its focal (within 0.5 %: r = ±180 mm, 4 mm of
+# n = 1.45 give 200.69 mm by the lensmaker's equation) are still refused
+bad_set "radii beside a focal tolerance" "L1 focal tolerance r1" L1 "r1=180 mm" "r2=-180 mm"
 
 bad_run() {  # DESCRIPTION WORD ARGS...
 	_d=$1 _w=$2
@@ -158,6 +163,24 @@ bad_run "--max-risk over 1" "--max-risk" $B --max-risk 2
 bad_run "an unknown point" "no point 'nope'" $B --point nope
 bad_run "an unknown option" "--frobnicate" $B --frobnicate 1
 bad_run "no bench" "BENCH" --samples 10
+# A bench-wide lens.focal default passes a lens given by r1/r2 by (it would
+# change nothing there) and reaches the lens given by focal alone.
+cat >radii-default.json <<'EOF'
+{ "format": "beamledger-bench-1", "name": "radii default",
+  "tolerances": { "lens.focal": "± 2 %" },
+  "source": { "wavelength": "1064 nm", "power": "1 W", "waist": "1 mm" },
+  "path": [
+    { "id": "L1", "type": "lens", "focal": "102 mm", "r1": "100 mm", "r2": "-100 mm",
+      "thickness": "10 mm", "index": 1.5 },
+    { "id": "S1", "type": "space", "length": "80 mm" },
+    { "id": "L2", "type": "lens", "focal": "100 mm" },
+    { "id": "S2", "type": "space", "length": "80 mm" },
+    { "id": "M1", "type": "mirror", "damage": { "cw_irradiance": "10 kW/cm^2" } } ] }
+EOF
+run tolerance radii-default.json --samples 50
+check "a lens.focal default: drawn for L2 (focal alone), not for L1 (radii)" \
+	sh -c '[ "$1" -eq 0 ] && grep -q "^  L2.focal .*± 2 %" "$2" && ! grep -q "L1.focal" "$2" &&
+	    grep -q ", 1 tolerance$" "$2"' sh "$RC" "$T_DIR/out"
 sed 's/"length": "300 mm"/"length": "300 mm ± -1 mm"/' demo.json >neg.json
 bad_run "a file with a negative σ" "neg.json" neg.json
 check "... names the element and key" sh -c 'grep -q "S0" "$1" && grep -q "length" "$1"' sh "$T_DIR/err"
