@@ -196,7 +196,11 @@ by_ratio(const void *x, const void *y)
 	double ra = isnan((*a)->worst_ratio) ? -1 : (*a)->worst_ratio;
 	double rb = isnan((*b)->worst_ratio) ? -1 : (*b)->worst_ratio;
 
-	return ra < rb ? 1 : ra > rb ? -1 : 0;
+	if (ra != rb)
+		return ra < rb ? 1 : -1;
+	/* ties in the order traced (the pointers are into one array): the
+	 * same table on every libc */
+	return *a < *b ? -1 : *a > *b;
 }
 
 /* ghost-conventions.md, Output: worst first, every ghost at caution or
