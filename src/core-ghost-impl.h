@@ -47,8 +47,8 @@ struct ghost_ctx {
 	long                *next;      /* owned: per row, the next row in its branch; -1: end */
 	struct ghost_acc    *acc;       /* owned: per row */
 	struct ghost_pass   *pass;      /* owned: per row */
-	long                *fourth;    /* owned: per row, its fourth-port stray in
-	                                 * gs->strays; -1: none yet */
+	double              *fourth;    /* owned: per row, what the ghosts lose by its
+	                                 * fourth port, W */
 	struct ghost_pending *pend;     /* owned */
 	size_t               npend, cappend;
 	double               floor;     /* W: GHOST_FLOOR of the source */

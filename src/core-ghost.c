@@ -7,6 +7,7 @@
 
 #include <complex.h>
 #include <math.h>
+#include <pthread.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -504,23 +505,10 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, const struct beam_axi
 		toward = side ? ps->back_side : ps->back_same;
 		other = side ? ps->stray_side : ps->stray_same;
 		out = p * toward;
-		if (ps->side && p * other > 0) {
-			/* one stray per splitter: every ghost's share summed, the
-			 * beam that must be blocked there */
-			long k = c->fourth[u];
-
-			if (k < 0 && p * other > c->floor) {
-				ghost_add_stray(c, el, "fourth_port", p * other, NAN);
-				c->fourth[u] = (long)c->gs->nstrays - 1;
-			} else if (k >= 0) {
-				struct ghost_stray *st = &c->gs->strays[k];
-
-				st->power += p * other;
-				if (!isnan(st->peak_power))
-					st->peak_power = damage_peak_factor(c->b->src.shape) *
-					    (st->power / c->b->src.rep_rate) / c->b->src.pulse_width;
-			}
-		}
+		/* one stray per splitter, every ghost's share summed (the beam
+		 * that must be blocked there): made once the walks are done */
+		if (ps->side)
+			c->fourth[u] += p * other;
 		lost = pin - out - (ps->side ? p * other : 0);
 		if (kept != NULL)
 			kept->power_lost = lost;
@@ -860,10 +848,162 @@ prepare(struct ghost_ctx *c)
 	}
 }
 
+/* ---- two halves of the bench, one thread each ---- */
+
+/* A share of the surface rows, walked with its own sums and ghost set;
+ * prev, next and pass are the whole trace's, read only. */
+struct ghost_part {
+	struct ghost_ctx c;
+	size_t           r0, r1;
+};
+
+static void
+part_init(struct ghost_part *pt, const struct ghost_ctx *whole, struct ghost_set *gs,
+    size_t r0, size_t r1)
+{
+	size_t n = whole->t->nrows;
+
+	pt->c = *whole;
+	pt->c.gs = gs;
+	pt->c.acc = xcalloc(n, sizeof *pt->c.acc);
+	pt->c.fourth = xcalloc(n, sizeof *pt->c.fourth);
+	pt->c.pend = NULL;
+	pt->c.npend = pt->c.cappend = 0;
+	gs->rows_kept = whole->keep_rows;
+	gs->at = xcalloc(n, sizeof *gs->at);
+	for (size_t r = 0; r < n; r++) {
+		gs->at[r].top = -1;
+		gs->at[r].main_ratio = gs->at[r].top_ratio = NAN;
+	}
+	pt->r0 = r0;
+	pt->r1 = r1;
+}
+
+static void *
+part_walk(void *arg)
+{
+	struct ghost_part *pt = arg;
+	struct ghost_ctx *c = &pt->c;
+
+	for (size_t r = pt->r0; r < pt->r1; r++) {
+		const struct element *el = c->t->rows[r].el;
+
+		side_strays(c, r);
+		if (!ghost_has_surfaces(el))
+			continue;
+		first_order(c, r);
+		if (ghost_untilted(c, el) && el->type != EL_SPLITTER)
+			ghost_second_double(c, r);
+	}
+	return NULL;
+}
+
+/* Appends b's ghosts, rows, foci and strays to a's, and adds its sums:
+ * a's rows come first in the bench, so the order is the one a single walk
+ * gives. */
+static void
+part_merge(struct ghost_part *a, struct ghost_part *b)
+{
+	struct ghost_set *ga = a->c.gs, *gb = b->c.gs;
+	size_t n0 = ga->n, nr0 = ga->nrows, nf0 = ga->nfoci;
+
+	for (size_t i = 0; i < gb->n; i++) {
+		struct ghost *g = ghost_new(&a->c, gb->g[i].order, 0);
+
+		*g = gb->g[i];
+		g->row0 += nr0;
+		g->focus0 += nf0;
+	}
+	if (gb->nrows > 0) {
+		ga->rows = xreallocarray(ga->rows, nr0 + gb->nrows, sizeof *ga->rows);
+		memcpy(ga->rows + nr0, gb->rows, gb->nrows * sizeof *gb->rows);
+		ga->nrows = ga->caprows = nr0 + gb->nrows;
+	}
+	if (gb->nfoci > 0) {
+		ga->foci = xreallocarray(ga->foci, nf0 + gb->nfoci, sizeof *ga->foci);
+		memcpy(ga->foci + nf0, gb->foci, gb->nfoci * sizeof *gb->foci);
+		ga->nfoci = ga->capfoci = nf0 + gb->nfoci;
+	}
+	if (gb->nstrays > 0) {
+		ga->strays = xreallocarray(ga->strays, ga->nstrays + gb->nstrays, sizeof *ga->strays);
+		memcpy(ga->strays + ga->nstrays, gb->strays, gb->nstrays * sizeof *gb->strays);
+		ga->nstrays = ga->capstrays = ga->nstrays + gb->nstrays;
+	}
+	ga->return_power += gb->return_power;
+	for (size_t u = 0; u < a->c.t->nrows; u++) {
+		struct ghost_at *x = &ga->at[u];
+		const struct ghost_at *y = &gb->at[u];
+		struct ghost_acc *p = &a->c.acc[u];
+		const struct ghost_acc *q = &b->c.acc[u];
+
+		x->nmet += y->nmet;
+		x->power_in += y->power_in;
+		x->irradiance += y->irradiance;
+		/* strictly more, as a single walk keeps the first of equals */
+		if (y->top >= 0 && (x->top < 0 || (a->c.pass[u].rated ?
+		    y->top_ratio > x->top_ratio : y->top_irradiance > x->top_irradiance))) {
+			x->top = y->top + (long)n0;
+			x->top_ratio = y->top_ratio;
+			x->top_irradiance = y->top_irradiance;
+			x->top_power = y->top_power;
+		}
+		p->irradiance += q->irradiance;
+		p->linear_density += q->linear_density;
+		p->fluence += q->fluence;
+		p->power_in += q->power_in;
+		p->power_lost += q->power_lost;
+		p->met |= q->met;
+		a->c.fourth[u] += b->c.fourth[u];
+	}
+}
+
+/* The row where the work left of it equals the work right of it, by an
+ * estimate of the ghost-element visits each surface row costs: its first
+ * order walks every row upstream, each upstream surface sends a second
+ * order walk to the branch's end, and its own double bounce walks there
+ * too.  Depends on the bench alone, so the halves (and so the sums' order
+ * of addition) are the same whether they run in one thread or two. */
+static size_t
+split_row(const struct ghost_ctx *c, double *total)
+{
+	size_t n = c->t->nrows, m = 0;
+	double *up = xcalloc(n, sizeof *up), *down = xcalloc(n, sizeof *down);
+	double *pre = xcalloc(n, sizeof *pre), *cost = xcalloc(n, sizeof *cost), sum = 0, run = 0;
+
+	for (size_t u = n; u-- > 0;)
+		down[u] = c->next[u] >= 0 ? down[c->next[u]] + 1 : 0;
+	for (size_t u = 0; u < n; u++) {
+		long v = c->prev[u];
+
+		up[u] = v >= 0 ? up[v] + 1 : 0;
+		pre[u] = v >= 0 ? pre[v] + (ghost_has_surfaces(c->t->rows[v].el) ? down[v] : 0) : 0;
+		cost[u] = ghost_has_surfaces(c->t->rows[u].el) ? 1 + up[u] + pre[u] + down[u] : 1;
+		sum += cost[u];
+	}
+	while (m < n && run + cost[m] <= sum / 2)
+		run += cost[m++];
+	*total = sum;
+	free(up);
+	free(down);
+	free(pre);
+	free(cost);
+	return m;
+}
+
+/* Below this many estimated visits a second thread costs more than it
+ * saves (the demo has ~10³; a 200-surface chain ~5·10⁶). */
+#define GHOST_THREAD_WORK 2e5
+
 void
 ghost_run(struct trace *t, unsigned opts)
 {
 	struct ghost_ctx c;
+	struct ghost_part half[2];
+	struct ghost_set *second;
+	double work;
+	size_t m;
+	pthread_t th;
+	int threaded = 0;
 
 	memset(&c, 0, sizeof c);
 	c.t = t;
@@ -876,28 +1016,29 @@ ghost_run(struct trace *t, unsigned opts)
 		return;
 	c.prev = xmalloc(t->nrows * sizeof *c.prev);
 	c.next = xmalloc(t->nrows * sizeof *c.next);
-	c.acc = xcalloc(t->nrows, sizeof *c.acc);
 	c.pass = xmalloc(t->nrows * sizeof *c.pass);
-	c.fourth = xmalloc(t->nrows * sizeof *c.fourth);
-	for (size_t r = 0; r < t->nrows; r++)
-		c.fourth[r] = -1;
-	c.gs->at = xcalloc(t->nrows, sizeof *c.gs->at);
-	for (size_t r = 0; r < t->nrows; r++) {
-		c.gs->at[r].top = -1;
-		c.gs->at[r].main_ratio = c.gs->at[r].top_ratio = NAN;
-	}
 	link_rows(&c);
 	prepare(&c);
-	for (size_t r = 0; r < t->nrows; r++) {
-		const struct element *el = t->rows[r].el;
-
-		side_strays(&c, r);
-		if (!ghost_has_surfaces(el))
-			continue;
-		first_order(&c, r);
-		if (ghost_untilted(&c, el) && el->type != EL_SPLITTER)
-			ghost_second_double(&c, r);
-	}
+	m = (opts & GHOST_ONE_PART) ? t->nrows : split_row(&c, &work);
+	second = xcalloc(1, sizeof *second);
+	part_init(&half[0], &c, c.gs, 0, m);
+	part_init(&half[1], &c, second, m, t->nrows);
+	if (!(opts & GHOST_ONE_PART) && work > GHOST_THREAD_WORK &&
+	    pthread_create(&th, NULL, part_walk, &half[1]) == 0)
+		threaded = 1;
+	part_walk(&half[0]);
+	if (threaded)
+		pthread_join(th, NULL);
+	else
+		part_walk(&half[1]);
+	part_merge(&half[0], &half[1]);
+	free(half[1].c.acc);
+	free(half[1].c.fourth);
+	free(half[1].c.pend);
+	ghost_set_free(second);
+	c = half[0].c;
+	for (size_t u = 0; u < t->nrows; u++)
+		ghost_add_stray(&c, t->rows[u].el, "fourth_port", c.fourth[u], NAN);
 	compact(c.gs, t->nrows);
 	combine(&c);
 	warnings(&c);

@@ -107,6 +107,9 @@ struct ghost_set {
  * (the JSON and CSV output; a long chain has millions); without, only
  * its summary (worst, foci, counts) - the ratings are the same. */
 #define GHOST_ROWS 1u
+/* The bench walked as one part, not two (a test's check that the halves
+ * add up to the whole; the sums then differ only in the order added). */
+#define GHOST_ONE_PART 2u
 void ghost_run(struct trace *t, unsigned opts);
 void ghost_set_free(struct ghost_set *);         /* NULL ok */
 /* "L1.back" for a ghost's k-th reflection, into buf. */

@@ -641,6 +641,69 @@ START_TEST(test_ghost_spark_warned)
 }
 END_TEST
 
+/* A long glass chain is walked as two halves, in two threads: the halves
+ * add up to the single walk (the same ghosts in the same order, sums
+ * equal but for the order of addition) and to themselves run after run. */
+START_TEST(test_halves_add_up)
+{
+	struct bench *b = model_bench_new("chain");
+	struct trace *one, *two, *again;
+	char id[32];
+
+	b->src.wavelength = 1064e-9;
+	b->src.power = 5;
+	b->src.waist[0] = b->src.waist[1] = 1e-3;
+	for (int i = 0; i < 60; i++) {
+		struct element *el = model_branch_push(&b->path);
+
+		snprintf(id, sizeof id, "S%d", i);
+		model_element_init(el, EL_SPACE, id);
+		model_set(el, K_LENGTH, 0.05, NULL);
+		el = model_branch_push(&b->path);
+		snprintf(id, sizeof id, "G%d", i);
+		if (i % 2) {
+			model_element_init(el, EL_LENS, id);
+			model_set(el, K_FOCAL, i % 4 == 1 ? 0.5 : -0.5, NULL);
+		} else {
+			model_element_init(el, EL_WINDOW, id);
+			model_set(el, K_APERTURE, 4e-3, NULL);
+		}
+		model_set(el, K_DMG_CW_IRRADIANCE, 1e8, NULL);
+	}
+	model_element_init(model_branch_push(&b->path), EL_DUMP, "BD");
+	one = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+	ghost_run(one, GHOST_ONE_PART);
+	two = trace_run(b);
+	again = trace_run(b);
+	ck_assert_uint_gt(two->ghosts->n, 1000);
+	ck_assert_uint_eq(one->ghosts->n, two->ghosts->n);
+	ck_assert_uint_eq(one->ghosts->nstrays, two->ghosts->nstrays);
+	CHECK_REL(one->ghosts->return_power, two->ghosts->return_power, 1e-12);
+	for (size_t i = 0; i < one->ghosts->n; i++) {
+		const struct ghost *g1 = &one->ghosts->g[i], *g2 = &two->ghosts->g[i];
+
+		ck_assert(g1->power_start == g2->power_start);
+		ck_assert(g1->surf_el[0] == g2->surf_el[0] && g1->surf_el[1] == g2->surf_el[1]);
+		ck_assert_uint_eq(g1->nrows, g2->nrows);
+		ck_assert_int_eq(g1->worst_row, g2->worst_row);
+		ck_assert(g1->worst_ratio == g2->worst_ratio ||
+		    (isnan(g1->worst_ratio) && isnan(g2->worst_ratio)));
+	}
+	for (size_t u = 0; u < one->nrows; u++) {
+		if (!isnan(one->rows[u].ratio))
+			CHECK_REL(two->rows[u].ratio, one->rows[u].ratio, 1e-12);
+		ck_assert_uint_eq(one->ghosts->at[u].nmet, two->ghosts->at[u].nmet);
+		ck_assert_int_eq(one->ghosts->at[u].top, two->ghosts->at[u].top);
+		ck_assert(two->rows[u].ratio == again->rows[u].ratio ||
+		    (isnan(two->rows[u].ratio) && isnan(again->rows[u].ratio)));
+	}
+	trace_free(one);
+	trace_free(two);
+	trace_free(again);
+	model_bench_free(b);
+}
+END_TEST
+
 /* --no-ghosts is the main beam alone: no ghost set, and every row the
  * same as the ghost trace's before ghosts are added (ratios aside). */
 START_TEST(test_no_ghosts_same_rows)
@@ -684,6 +747,7 @@ main(void)
 	tcase_add_test(tc, test_thick_lens_crossed_back);
 	tcase_add_test(tc, test_fourth_port_summed);
 	tcase_add_test(tc, test_ghost_spark_warned);
+	tcase_add_test(tc, test_halves_add_up);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
 }
