@@ -56,7 +56,9 @@ hz_draw(struct app *a, struct ui_pane *p, int h, int w)
 	struct hz *d = p->data;
 	struct layout_hazard *hz;
 	size_t n = layout_hazards(a->trace, &hz);
-	int rows = h - 6;
+	/* the list, a blank line, then the selected one in full on h-5 and
+	 * h-4 (the list must stop above it, or its last rows are written over) */
+	int rows = h - 9 > 1 ? h - 9 : 1;
 	char *t = xasprintf("hazards %s %zu", ui_glyph(a, GL_DOT), n);
 
 	ui_frame(a, t, NULL, h, w);

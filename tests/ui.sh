@@ -121,6 +121,13 @@ check "the unterminated beam is listed" wait_line ui '^▲ unterminated +S4r'
 check "an unrated absorber's warning is listed" wait_line ui '^▲ unrated +T1 +unrated_absorber'
 check "unrated optics taking power are listed" wait_line ui '^▲ unrated +POL1'
 check "the over window is first" wait_line ui '^▲ over +W1 +window W1 at 109 %'
+# the selected one in full sits under the list, not over its last rows:
+# the line above it is blank (15 hazards, 15 rows at 80x24)
+list_stops_above() {
+	t_screen ui | awk '/^ window W1 at 109 %/ { found = 1; ok = prev ~ /^ *$/ }
+	    { prev = $0 } END { exit !(found && ok) }'
+}
+check "the list stops above the selected one's text" list_stops_above
 t_keys ui Down
 step "Enter goes to the hazard's element" ui "S4r selected" Enter
 check "the workbench again, on S4r" wait_for ui "space S4r"
