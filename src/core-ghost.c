@@ -763,9 +763,11 @@ warnings(struct ghost_ctx *c)
 		free(spark);
 	}
 	for (size_t i = 0; i < gs->nstrays; i++)
-		if (gs->strays[i].power >= c->b->stray_warn)
+		if (gs->strays[i].power >= c->b->stray_warn) {
 			trace_add_warning(t, TW_STRAY, NULL, PORT_NONE, gs->strays[i].from,
 			    gs->strays[i].power);
+			t->warn[t->nwarn - 1].surface = gs->strays[i].what;
+		}
 	if (!isnan(c->b->src.max_return) && gs->return_power > c->b->src.max_return)
 		trace_add_warning(t, TW_RETURN_POWER, NULL, PORT_NONE, NULL, gs->return_power);
 }

@@ -90,6 +90,7 @@ trace_add_warning(struct trace *t, enum trace_warn_kind kind, const struct eleme
 	w->value = value;
 	w->distance = NAN;
 	w->ghost = 0;
+	w->surface = NULL;
 }
 
 static void

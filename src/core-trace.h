@@ -100,6 +100,8 @@ struct trace_warning {
 	double                distance; /* self_focusing: collapse distance, m;
 	                                 * a ghost's spark: m to the nearest element */
 	int                   ghost;    /* air_breakdown at a ghost's focus */
+	const char           *surface;  /* static: a stray's kind ("back",
+	                                 * "fourth_port", ...); NULL otherwise */
 };
 
 struct trace {

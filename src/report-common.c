@@ -157,6 +157,17 @@ report_warning_text(const struct trace *t, const struct trace_warning *w, int as
 		    "threshold of %s (branch %s)", w->value, after, br);
 	case TW_STRAY:
 		units_format(v, sizeof v, w->value, DIM_POWER, 3, ascii);
+		if (w->surface != NULL) {
+			char what[32];
+
+			/* "fourth_port" as words */
+			snprintf(what, sizeof what, "%s", w->surface);
+			for (char *q = what; *q != '\0'; q++)
+				if (*q == '_')
+					*q = ' ';
+			return xasprintf("stray: %s leaves the beam line at %s (%s): block or "
+			    "dump it", v, after, what);
+		}
 		return xasprintf("stray: %s leaves the beam line at %s: block or dump it",
 		    v, after);
 	case TW_RETURN_POWER:

@@ -270,6 +270,10 @@ fi
 run ghosts trace --demo --format json
 check "trace --format json carries ghosts, strays, return_power" \
 	sh -c "grep -q '\"ghosts\": \[' '$T_DIR/ghosts.out' && grep -q '\"strays\": \[' '$T_DIR/ghosts.out' && grep -q '\"return_power\": ' '$T_DIR/ghosts.out'"
+run stray_words trace --demo --color never
+check "a stray's warning names which surface throws it (two at PBS1)" sh -c \
+	'grep -q "leaves the beam line at PBS1 (back): block" "$1" &&
+	 grep -q "leaves the beam line at PBS1 (fourth port): block" "$1"' sh "$T_DIR/stray_words.out"
 run noghosts trace --demo --no-ghosts --format json
 check "--no-ghosts: the main beam only" sh -c "! grep -q '\"ghosts\"' '$T_DIR/noghosts.out'"
 
