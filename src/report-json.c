@@ -320,6 +320,10 @@ report_json(const struct trace *t)
 		}
 		if (x->ghost)
 			buf_add(&b, ", \"ghost\": true");
+		if (x->surface != NULL) {
+			buf_add(&b, ", \"surface\": ");
+			json_put_string(&b, x->surface);
+		}
 		buf_addc(&b, '}');
 	}
 	buf_add(&b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");
