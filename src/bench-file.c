@@ -594,6 +594,22 @@ bench_head_from_json(json_t *root, struct bench *b, char **cause)
 struct bench *
 bench_file_parse(const char *text, size_t len, const char *where, char **cause)
 {
+	size_t skip = bom_len(text, len);
+	struct bench *b;
+
+	if (len > BENCH_FILE_MAX) {
+		fail_with(cause, "%s: larger than %d MiB, the most a bench file "
+		    "may be; refused", where, BENCH_FILE_MAX >> 20);
+		return NULL;
+	}
+	if ((b = bench_file_parse_fast(text + skip, len - skip)) != NULL)
+		return b;
+	return bench_file_parse_tree(text, len, where, cause);
+}
+
+struct bench *
+bench_file_parse_tree(const char *text, size_t len, const char *where, char **cause)
+{
 	json_error_t jerr;
 	json_t *root, *path;
 	struct bench *b;
