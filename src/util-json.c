@@ -177,6 +177,21 @@ json_put_number(struct buf *b, double v)
 		buf_add(b, out);
 		return;
 	}
+	if (v < 1e10 && v >= 1 && v == (double)(unsigned long long)v) {
+		/* a whole number of at most ten digits is its own ten digits
+		 * (powers, counts and zeros are half of a trace's numbers) */
+		char d[12];
+		int k = sizeof d;
+
+		m = (unsigned long long)v;
+		do {
+			d[--k] = (char)('0' + m % 10);
+			m /= 10;
+		} while (m != 0);
+		memcpy(out + pos, d + k, sizeof d - (size_t)k);
+		buf_addn(b, out, (size_t)pos + sizeof d - (size_t)k);
+		return;
+	}
 	e = decimal_exponent(v);
 	m = (unsigned long long)llround(scale10(v, 9 - e));
 	if (m >= 10000000000ULL) {

@@ -157,7 +157,8 @@ START_TEST(test_number_random)
 END_TEST
 
 /* Next to every power of ten, where the exponent by table and by log10
- * may differ: up to 64 doubles either side, and the halves 5·10^k. */
+ * may differ: up to 64 doubles either side, and the halves 5·10^k; whole
+ * numbers. */
 START_TEST(test_number_near_powers)
 {
 	struct buf b;
@@ -181,6 +182,18 @@ START_TEST(test_number_near_powers)
 			}
 		}
 	}
+	/* whole numbers, which take a shorter way */
+	for (int i = -100000; i <= 100000; i++)
+		check_number(&b, i);
+	for (double v = 1; v < 1e13; v = v * 3 + 1) {
+		check_number(&b, v);
+		check_number(&b, v - 1);
+		check_number(&b, nextafter(v, 0));
+		check_number(&b, nextafter(v, INFINITY));
+	}
+	check_number(&b, 9999999999.0);
+	check_number(&b, 9999999999.5);
+	check_number(&b, 10000000000.0);
 	check_number(&b, NAN);
 	check_number(&b, INFINITY);
 	check_number(&b, -0.0);
