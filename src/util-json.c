@@ -156,7 +156,11 @@ decimal_exponent(double v)
 void
 json_put_number(struct buf *b, double v)
 {
-	char out[40];
+	static const char pairs[] =
+	    "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
+	    "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
+	    "8081828384858687888990919293949596979899";
+	char out[40], digits[10];
 	unsigned long long m;
 	int e, nd, pos = 0;
 
@@ -201,23 +205,23 @@ json_put_number(struct buf *b, double v)
 		e--;
 		m = (unsigned long long)llround(scale10(v, 9 - e));
 	}
-	nd = 10;
-	while (nd > 1 && m % 10 == 0) {
-		m /= 10;
-		nd--;
+	/* ten digits, two at a time; then the trailing zeros dropped */
+	for (int i = 8; i >= 0; i -= 2) {
+		memcpy(digits + i, pairs + 2 * (m % 100), 2);
+		m /= 100;
 	}
+	nd = 10;
+	while (nd > 1 && digits[nd - 1] == '0')
+		nd--;
 	if (e < -4 || e >= 10) {
-		/* d.ddd then e±XX: the digits from the back, the point after the first */
 		int ae = e < 0 ? -e : e;
 
-		pos += nd + (nd > 1);
-		for (int i = pos - 1; i > pos - nd; i--) {
-			out[i] = (char)('0' + m % 10);
-			m /= 10;
+		out[pos++] = digits[0];
+		if (nd > 1) {
+			out[pos++] = '.';
+			memcpy(out + pos, digits + 1, (size_t)nd - 1);
+			pos += nd - 1;
 		}
-		if (nd > 1)
-			out[pos - nd] = '.';
-		out[pos - nd - (nd > 1)] = (char)('0' + m);
 		out[pos++] = 'e';
 		out[pos++] = e < 0 ? '-' : '+';
 		if (ae >= 100)
@@ -229,19 +233,9 @@ json_put_number(struct buf *b, double v)
 		out[pos++] = '.';
 		for (int i = -1; i > e; i--)
 			out[pos++] = '0';
+		memcpy(out + pos, digits, (size_t)nd);
 		pos += nd;
-		for (int i = pos - 1; i >= pos - nd; i--) {
-			out[i] = (char)('0' + m % 10);
-			m /= 10;
-		}
 	} else {
-		/* integer part e + 1 digits, zeros past the digits; then the rest */
-		char digits[16];
-
-		for (int i = nd - 1; i >= 0; i--) {
-			digits[i] = (char)('0' + m % 10);
-			m /= 10;
-		}
 		for (int i = 0; i <= e || i < nd; i++) {
 			if (i == e + 1)
 				out[pos++] = '.';
