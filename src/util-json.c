@@ -205,10 +205,21 @@ json_put_number(struct buf *b, double v)
 		e--;
 		m = (unsigned long long)llround(scale10(v, 9 - e));
 	}
-	/* ten digits, two at a time; then the trailing zeros dropped */
-	for (int i = 8; i >= 0; i -= 2) {
-		memcpy(digits + i, pairs + 2 * (m % 100), 2);
-		m /= 100;
+	/* ten digits (m has ten; the low ten were always the ones written),
+	 * as two independent halves of five, two digits at a time; then the
+	 * trailing zeros dropped */
+	if (m >= 10000000000ULL)
+		m %= 10000000000ULL;
+	{
+		unsigned hi = (unsigned)(m / 100000), lo = (unsigned)(m % 100000);
+		unsigned rh = hi % 10000, rl = lo % 10000;
+
+		digits[0] = (char)('0' + hi / 10000);
+		digits[5] = (char)('0' + lo / 10000);
+		memcpy(digits + 1, pairs + 2 * (rh / 100), 2);
+		memcpy(digits + 6, pairs + 2 * (rl / 100), 2);
+		memcpy(digits + 3, pairs + 2 * (rh % 100), 2);
+		memcpy(digits + 8, pairs + 2 * (rl % 100), 2);
 	}
 	nd = 10;
 	while (nd > 1 && digits[nd - 1] == '0')
