@@ -44,8 +44,18 @@ cmd_trace_print(const struct bench *b, enum report_format fmt,
 	for (size_t i = 0; i < t->nrows; i++)
 		if (t->rows[i].status == STATUS_OVER)
 			over = 1;
-	text = fmt == REPORT_JSON ? report_json(t) :
-	    fmt == REPORT_CSV ? report_csv(t) : report_table(t, o);
+	if (fmt == REPORT_JSON) {
+		/* straight to stdout: the text of a long chain is many times
+		 * the size of its trace */
+		rc = 0;
+		if (report_json_write(t, stdout) != 0 || fflush(stdout) == EOF) {
+			perror(PROG ": standard output");
+			rc = 2;
+		}
+		trace_free(t);
+		return rc != 0 ? rc : over;
+	}
+	text = fmt == REPORT_CSV ? report_csv(t) : report_table(t, o);
 	rc = cmd_print(text);
 	free(text);
 	trace_free(t);

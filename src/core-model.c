@@ -313,10 +313,12 @@ model_set(struct element *el, enum model_key k, double v, char **cause)
 		el->set |= KEY_BIT(k);
 		return 0;
 	}
-	units_format_shortest(shown, sizeof shown, v,
-	    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 	bad = !model_key_in_range(k, v);
 	if (bad) {
+		/* formatted only for the message: a 10^5-element file sets
+		 * half a million values */
+		units_format_shortest(shown, sizeof shown, v,
+		    d->kind == KIND_QUANTITY ? d->dim : DIM_NONE, 0);
 		buf_init(&b);
 		range_text(&b, d);
 		fail_with(cause, "element '%s': %s %s is out of range (allowed: %s)",

@@ -1,7 +1,9 @@
 /* report-json.c - the trace as one JSON object with the fields named in
  * bench-format.md ("Trace output"): SI numbers (10 significant digits),
- * null where a value does not apply.  Written straight into a buffer: a
- * 10^5-element trace must come out in well under a second. */
+ * null where a value does not apply.  Written straight into a buffer, and
+ * by report_json_write to a stream as it goes: a 10^5-element trace (76 MB
+ * of text) must come out in a fraction of a second and without holding
+ * the whole text. */
 #include <config.h>
 
 #include <math.h>
@@ -14,85 +16,128 @@
 #include "util-buf.h"
 #include "util-json.h"
 
+/* Appends a string literal without measuring it. */
+#define ADD(b, lit)     buf_addn((b), "" lit, sizeof(lit) - 1)
+/* ",\n      \"k\": " for a literal key: a row has thirty of them */
+#define KEY(b, k)       ADD(b, ",\n      \"" k "\": ")
+#define KNUM(b, k, v)   (KEY(b, k), json_put_number((b), (v)))
+#define KSTR(b, k, v)   (KEY(b, k), json_put_string((b), (v)))
+
+/* Where the text goes while it is written: with f set, the buffer is
+ * emptied into f whenever it holds SPILL bytes, so a 10^5-element report
+ * (76 MB) never sits in memory whole. */
+struct jout {
+	struct buf  b;
+	FILE       *f;          /* borrowed; NULL: keep everything in b */
+	int         err;        /* a write to f failed (errno says why) */
+};
+#define SPILL (1 << 16)
+
 static void
-key(struct buf *b, const char *k)
+spill(struct jout *o, size_t at_least)
 {
-	buf_printf(b, ",\n      \"%s\": ", k);
+	if (o->f == NULL || o->b.len < at_least)
+		return;
+	if (!o->err && fwrite(o->b.s, 1, o->b.len, o->f) != o->b.len)
+		o->err = 1;
+	buf_reset(&o->b);
 }
 
 static void
-knum(struct buf *b, const char *k, double v)
+put_uint(struct buf *b, unsigned v)
 {
-	key(b, k);
-	json_put_number(b, v);
+	char d[12];
+	int n = sizeof d;
+
+	do {
+		d[--n] = (char)('0' + v % 10);
+		v /= 10;
+	} while (v != 0);
+	buf_addn(b, d + n, sizeof d - (size_t)n);
 }
 
-static void
-kstr(struct buf *b, const char *k, const char *v)
+/* The branch name of consecutive rows on one branch, made once. */
+struct branch_cache {
+	const struct element *parent;
+	enum port             port;
+	int                   valid;
+	char                  name[160];
+};
+
+static const char *
+branch_of(struct branch_cache *c, const struct element *parent, enum port port)
 {
-	key(b, k);
-	json_put_string(b, v);
+	if (!c->valid || c->parent != parent || c->port != port) {
+		trace_branch_name(parent, port, c->name, sizeof c->name);
+		c->parent = parent;
+		c->port = port;
+		c->valid = 1;
+	}
+	return c->name;
 }
 
 static void waist_json(struct buf *, const struct trace_row *, int present);
 
 static void
-row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
+row_json(struct buf *b, const struct trace *t, const struct trace_row *r,
+    struct branch_cache *bc)
 {
 	const struct damage_limits *l = &r->limits;
-	char br[160];
+	const char *br = branch_of(bc, r->parent, r->port);
 	int first = 1;
 
-	trace_branch_name(r->parent, r->port, br, sizeof br);
-	buf_add(b, "    {\n      \"id\": ");
+	ADD(b, "    {\n      \"id\": ");
 	json_put_string(b, r->el->id);
-	kstr(b, "type", model_type_name(r->el->type));
+	KSTR(b, "type", model_type_name(r->el->type));
 	if (r->el->label != NULL)
-		kstr(b, "label", r->el->label);
-	kstr(b, "branch", br);
-	key(b, "depth");
-	buf_printf(b, "%u", r->depth);
-	knum(b, "z", r->z);
-	knum(b, "power_in", r->power_in);
-	knum(b, "power_out", r->power_out);
-	knum(b, "power_lost", r->power_lost);
-	knum(b, "radius_x", r->wx);
-	knum(b, "radius_y", r->wy);
-	knum(b, "irradiance", r->irradiance);
-	knum(b, "linear_density", r->linear_density);
-	knum(b, "peak_irradiance", r->peak_irradiance);
-	knum(b, "field", r->field);
-	knum(b, "clip_loss", r->clip_loss);
+		KSTR(b, "label", r->el->label);
+	KSTR(b, "branch", br);
+	KEY(b, "depth");
+	put_uint(b, r->depth);
+	KNUM(b, "z", r->z);
+	KNUM(b, "power_in", r->power_in);
+	KNUM(b, "power_out", r->power_out);
+	KNUM(b, "power_lost", r->power_lost);
+	KNUM(b, "radius_x", r->wx);
+	KNUM(b, "radius_y", r->wy);
+	KNUM(b, "irradiance", r->irradiance);
+	KNUM(b, "linear_density", r->linear_density);
+	KNUM(b, "peak_irradiance", r->peak_irradiance);
+	KNUM(b, "field", r->field);
+	KNUM(b, "clip_loss", r->clip_loss);
 	if (t->bench->src.pulsed) {
-		knum(b, "fluence", r->fluence);
-		knum(b, "peak_power", r->peak_power);
+		KNUM(b, "fluence", r->fluence);
+		KNUM(b, "peak_power", r->peak_power);
 	}
 	if (!isnan(r->critical_power)) {
-		knum(b, "critical_power", r->critical_power);
-		knum(b, "critical_ratio", r->critical_ratio);
-		knum(b, "collapse_distance", r->collapse_distance);
-		knum(b, "b_integral", r->b_integral);
+		KNUM(b, "critical_power", r->critical_power);
+		KNUM(b, "critical_ratio", r->critical_ratio);
+		KNUM(b, "collapse_distance", r->collapse_distance);
+		KNUM(b, "b_integral", r->b_integral);
 	}
-	knum(b, "b_total", r->b_total);
-	key(b, "stokes");
+	KNUM(b, "b_total", r->b_total);
+	KEY(b, "stokes");
 	for (int i = 0; i < 4; i++) {
-		buf_add(b, i ? ", " : "[");
+		if (i)
+			ADD(b, ", ");
+		else
+			buf_addc(b, '[');
 		json_put_number(b, r->stokes[i]);
 	}
 	buf_addc(b, ']');
-	knum(b, "ratio", r->ratio);
-	kstr(b, "status", damage_status_name(r->status));
-	key(b, "flags");
+	KNUM(b, "ratio", r->ratio);
+	KSTR(b, "status", damage_status_name(r->status));
+	KEY(b, "flags");
 	buf_addc(b, '[');
 	for (int i = 0; i < TF_COUNT; i++)
 		if (r->flags & (1u << i)) {
 			if (!first)
-				buf_add(b, ", ");
+				ADD(b, ", ");
 			first = 0;
 			json_put_string(b, trace_flag_name(1u << i));
 		}
 	buf_addc(b, ']');
-	key(b, "scaled_limits");
+	KEY(b, "scaled_limits");
 	buf_addc(b, '{');
 	first = 1;
 	{
@@ -105,7 +150,11 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 		for (size_t i = 0; i < sizeof lims / sizeof *lims; i++) {
 			if (isnan(lims[i].v))
 				continue;
-			buf_printf(b, "%s\"%s\": ", first ? "" : ", ", lims[i].name);
+			if (!first)
+				ADD(b, ", ");
+			buf_addc(b, '"');
+			buf_add(b, lims[i].name);
+			ADD(b, "\": ");
 			json_put_number(b, lims[i].v);
 			first = 0;
 		}
@@ -115,23 +164,23 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 		/* how the governing limit came from its rating (layout_derive) */
 		struct layout_derivation d;
 
-		key(b, "limit_derivation");
+		KEY(b, "limit_derivation");
 		if (layout_derive(r, t->bench, &d) != 0) {
-			buf_add(b, "null");
+			ADD(b, "null");
 		} else {
-			buf_add(b, "{\"rating_key\": ");
+			ADD(b, "{\"rating_key\": ");
 			json_put_string(b, model_key_path((enum model_key)d.key));
-			buf_add(b, ", \"rating\": ");
+			ADD(b, ", \"rating\": ");
 			json_put_number(b, d.rating);
-			buf_add(b, ", \"wavelength_factor\": ");
+			ADD(b, ", \"wavelength_factor\": ");
 			json_put_number(b, d.lambda_factor);
-			buf_add(b, ", \"pulse_factor\": ");
+			ADD(b, ", \"pulse_factor\": ");
 			json_put_number(b, d.tau_factor);
-			buf_add(b, ", \"limit\": ");
+			ADD(b, ", \"limit\": ");
 			json_put_number(b, d.limit);
-			buf_add(b, ", \"safety_factor\": ");
+			ADD(b, ", \"safety_factor\": ");
 			json_put_number(b, d.safety_factor);
-			buf_add(b, ", \"caution_level\": ");
+			ADD(b, ", \"caution_level\": ");
 			json_put_number(b, d.caution_level);
 			buf_addc(b, '}');
 		}
@@ -139,12 +188,12 @@ row_json(struct buf *b, const struct trace *t, const struct trace_row *r)
 	if (r->el->type == EL_SPACE) {
 		/* "waist": every waist in the gap; "focus": the same when it
 		 * concentrates the beam at least TRACE_FOCUS_CONCENTRATION times */
-		key(b, "waist");
+		KEY(b, "waist");
 		waist_json(b, r, r->has_waist);
-		key(b, "focus");
+		KEY(b, "focus");
 		waist_json(b, r, r->has_focus);
 	}
-	buf_add(b, "\n    }");
+	ADD(b, "\n    }");
 }
 
 static void
@@ -152,39 +201,42 @@ waist_json(struct buf *b, const struct trace_row *r, int present)
 {
 	{
 		if (!present) {
-			buf_add(b, "null");
+			ADD(b, "null");
 		} else {
-			buf_add(b, "{\"z\": ");
+			ADD(b, "{\"z\": ");
 			json_put_number(b, r->focus.z);
-			buf_add(b, ", \"radius_x\": ");
+			ADD(b, ", \"radius_x\": ");
 			json_put_number(b, r->focus.wx);
-			buf_add(b, ", \"radius_y\": ");
+			ADD(b, ", \"radius_y\": ");
 			json_put_number(b, r->focus.wy);
-			buf_add(b, ", \"irradiance\": ");
+			ADD(b, ", \"irradiance\": ");
 			json_put_number(b, r->focus.irradiance);
-			buf_add(b, ", \"peak_irradiance\": ");
+			ADD(b, ", \"peak_irradiance\": ");
 			json_put_number(b, r->focus.peak_irradiance);
-			buf_add(b, ", \"concentration\": ");
+			ADD(b, ", \"concentration\": ");
 			json_put_number(b, r->focus.concentration);
-			buf_add(b, ", \"on\": ");
+			ADD(b, ", \"on\": ");
 			if (r->focus.on != NULL)
 				json_put_string(b, r->focus.on->id);
 			else
-				buf_add(b, "null");
-			buf_printf(b, ", \"air_breakdown\": %s}",
-			    r->focus.air_breakdown ? "true" : "false");
+				ADD(b, "null");
+			if (r->focus.air_breakdown)
+				ADD(b, ", \"air_breakdown\": true}");
+			else
+				ADD(b, ", \"air_breakdown\": false}");
 		}
 	}
 }
 
 /* ghost-conventions.md, Output: ghosts, strays, return_power. */
 static void
-ghosts_json(struct buf *b, const struct trace *t)
+ghosts_json(struct jout *o, const struct trace *t)
 {
+	struct buf *b = &o->b;
 	const struct ghost_set *gs = t->ghosts;
 	char name[160];
 
-	buf_add(b, ",\n  \"ghosts\": [");
+	ADD(b, ",\n  \"ghosts\": [");
 	for (size_t i = 0; i < gs->n; i++) {
 		const struct ghost *g = &gs->g[i];
 		int first = 1;
@@ -193,36 +245,37 @@ ghosts_json(struct buf *b, const struct trace *t)
 		for (int k = 0; k < g->order; k++) {
 			ghost_surface_name(g, k, name, sizeof name);
 			if (k)
-				buf_add(b, ", ");
+				ADD(b, ", ");
 			json_put_string(b, name);
 		}
-		buf_add(b, "], \"power_start\": ");
+		ADD(b, "], \"power_start\": ");
 		json_put_number(b, g->power_start);
 		/* rows only where the trace kept them (TRACE_GHOST_ROWS) */
 		if (gs->rows_kept)
-			buf_add(b, ",\n      \"rows\": [");
+			ADD(b, ",\n      \"rows\": [");
 		for (size_t k = 0; gs->rows_kept && k < g->nrows; k++) {
 			const struct ghost_row *r = &gs->rows[g->row0 + k];
 
 			buf_add(b, k ? ",\n        {\"id\": " : "\n        {\"id\": ");
 			json_put_string(b, r->el->id);
-			buf_add(b, ", \"power_in\": ");
+			ADD(b, ", \"power_in\": ");
 			json_put_number(b, r->power_in);
-			buf_add(b, ", \"radius_x\": ");
+			ADD(b, ", \"radius_x\": ");
 			json_put_number(b, r->wx);
-			buf_add(b, ", \"radius_y\": ");
+			ADD(b, ", \"radius_y\": ");
 			json_put_number(b, r->wy);
-			buf_add(b, ", \"irradiance\": ");
+			ADD(b, ", \"irradiance\": ");
 			json_put_number(b, r->irradiance);
-			buf_add(b, ", \"fluence\": ");
+			ADD(b, ", \"fluence\": ");
 			json_put_number(b, r->fluence);
-			buf_add(b, ", \"peak_irradiance\": ");
+			ADD(b, ", \"peak_irradiance\": ");
 			json_put_number(b, r->peak_irradiance);
-			buf_add(b, ", \"ratio\": ");
+			ADD(b, ", \"ratio\": ");
 			json_put_number(b, r->ratio);
-			buf_add(b, ", \"status\": ");
+			ADD(b, ", \"status\": ");
 			json_put_string(b, damage_status_name(r->status));
 			buf_addc(b, '}');
+			spill(o, SPILL);
 		}
 		buf_add(b, gs->rows_kept ? "],\n      \"foci\": [" : ",\n      \"foci\": [");
 		for (size_t k = 0; k < g->nfoci; k++) {
@@ -230,37 +283,37 @@ ghosts_json(struct buf *b, const struct trace *t)
 
 			buf_add(b, k ? ", {\"z\": " : "{\"z\": ");
 			json_put_number(b, f->z);
-			buf_add(b, ", \"gap\": ");
+			ADD(b, ", \"gap\": ");
 			json_put_string(b, f->gap->id);
-			buf_add(b, ", \"distance\": ");
+			ADD(b, ", \"distance\": ");
 			json_put_number(b, f->distance);
-			buf_add(b, ", \"radius_x\": ");
+			ADD(b, ", \"radius_x\": ");
 			json_put_number(b, f->wx);
-			buf_add(b, ", \"radius_y\": ");
+			ADD(b, ", \"radius_y\": ");
 			json_put_number(b, f->wy);
-			buf_add(b, ", \"peak_irradiance\": ");
+			ADD(b, ", \"peak_irradiance\": ");
 			json_put_number(b, f->peak_irradiance);
 			buf_printf(b, ", \"air_breakdown\": %s}", f->air_breakdown ? "true" : "false");
 		}
-		buf_add(b, "],\n      \"worst\": ");
+		ADD(b, "],\n      \"worst\": ");
 		if (g->worst_row >= 0) {
-			buf_add(b, "{\"id\": ");
+			ADD(b, "{\"id\": ");
 			json_put_string(b, t->rows[g->worst_row].el->id);
-			buf_add(b, ", \"ratio\": ");
+			ADD(b, ", \"ratio\": ");
 			json_put_number(b, g->worst_ratio);
 			buf_addc(b, '}');
 		} else {
-			buf_add(b, "null");
+			ADD(b, "null");
 		}
-		buf_add(b, ", \"flags\": [");
+		ADD(b, ", \"flags\": [");
 		for (int k = 0; k < GF_COUNT; k++)
 			if (g->flags & (1u << k)) {
 				if (!first)
-					buf_add(b, ", ");
+					ADD(b, ", ");
 				first = 0;
 				json_put_string(b, ghost_flag_name(1u << k));
 			}
-		buf_add(b, "]}");
+		ADD(b, "]}");
 	}
 	buf_add(b, gs->n ? "\n  ],\n  \"strays\": [" : "],\n  \"strays\": [");
 	for (size_t i = 0; i < gs->nstrays; i++) {
@@ -269,11 +322,11 @@ ghosts_json(struct buf *b, const struct trace *t)
 		snprintf(name, sizeof name, "%s.%s", s->from->id, s->what);
 		buf_add(b, i ? ",\n    {\"from\": " : "\n    {\"from\": ");
 		json_put_string(b, name);
-		buf_add(b, ", \"power\": ");
+		ADD(b, ", \"power\": ");
 		json_put_number(b, s->power);
-		buf_add(b, ", \"peak_power\": ");
+		ADD(b, ", \"peak_power\": ");
 		json_put_number(b, s->peak_power);
-		buf_add(b, ", \"focus_distance\": ");
+		ADD(b, ", \"focus_distance\": ");
 		json_put_number(b, s->focus_distance);
 		buf_addc(b, '}');
 	}
@@ -281,65 +334,91 @@ ghosts_json(struct buf *b, const struct trace *t)
 	json_put_number(b, gs->return_power);
 }
 
-char *
-report_json(const struct trace *t)
+static void
+json_out(struct jout *o, const struct trace *t)
 {
-	struct buf b;
+	struct buf *b = &o->b;
+	struct branch_cache bc = { NULL, PORT_NONE, 0, "" };
 	char br[160];
 
-	buf_init(&b);
-	buf_add(&b, "{\n  \"bench\": ");
-	json_put_string(&b, t->bench->name);
-	buf_add(&b, ",\n  \"elements\": [");
+	ADD(b, "{\n  \"bench\": ");
+	json_put_string(b, t->bench->name);
+	ADD(b, ",\n  \"elements\": [");
 	for (size_t i = 0; i < t->nrows; i++) {
-		buf_add(&b, i ? ",\n" : "\n");
-		row_json(&b, t, &t->rows[i]);
+		if (i)
+			ADD(b, ",\n");
+		else
+			buf_addc(b, '\n');
+		row_json(b, t, &t->rows[i], &bc);
+		spill(o, SPILL);
 	}
-	buf_add(&b, t->nrows ? "\n  ],\n  \"warnings\": [" : "],\n  \"warnings\": [");
+	buf_add(b, t->nrows ? "\n  ],\n  \"warnings\": [" : "],\n  \"warnings\": [");
 	for (size_t i = 0; i < t->nwarn; i++) {
 		const struct trace_warning *x = &t->warn[i];
 
 		trace_branch_name(x->parent, x->port, br, sizeof br);
-		buf_add(&b, i ? ",\n    {\"kind\": " : "\n    {\"kind\": ");
-		json_put_string(&b, trace_warn_name(x->kind));
-		buf_add(&b, ", \"branch\": ");
-		json_put_string(&b, br);
-		buf_add(&b, ", \"after\": ");
+		buf_add(b, i ? ",\n    {\"kind\": " : "\n    {\"kind\": ");
+		json_put_string(b, trace_warn_name(x->kind));
+		ADD(b, ", \"branch\": ");
+		json_put_string(b, br);
+		ADD(b, ", \"after\": ");
 		if (x->after != NULL)
-			json_put_string(&b, x->after->id);
+			json_put_string(b, x->after->id);
 		else
-			buf_add(&b, "null");
-		buf_printf(&b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ||
+			ADD(b, "null");
+		buf_printf(b, ", \"%s\": ", x->kind == TW_UNTERMINATED || x->kind == TW_UNRATED_DUMP ||
 		    x->kind == TW_UNRATED_ABSORBER || x->kind == TW_STRAY ||
 		    x->kind == TW_RETURN_POWER ? "power" : x->kind == TW_GHOST_OVER ? "ratio" :
 		    "value");
-		json_put_number(&b, x->value);
+		json_put_number(b, x->value);
 		if (x->kind == TW_SELF_FOCUSING || x->ghost) {
-			buf_add(&b, ", \"distance\": ");
-			json_put_number(&b, x->distance);
+			ADD(b, ", \"distance\": ");
+			json_put_number(b, x->distance);
 		}
 		if (x->ghost)
-			buf_add(&b, ", \"ghost\": true");
+			ADD(b, ", \"ghost\": true");
 		if (x->surface != NULL) {
-			buf_add(&b, ", \"surface\": ");
-			json_put_string(&b, x->surface);
+			ADD(b, ", \"surface\": ");
+			json_put_string(b, x->surface);
 		}
-		buf_addc(&b, '}');
+		buf_addc(b, '}');
+		spill(o, SPILL);
 	}
-	buf_add(&b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");
+	buf_add(b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");
 	if (t->worst >= 0) {
-		buf_add(&b, "{\"id\": ");
-		json_put_string(&b, t->rows[t->worst].el->id);
-		buf_add(&b, ", \"ratio\": ");
-		json_put_number(&b, t->worst_ratio);
-		buf_addc(&b, '}');
+		ADD(b, "{\"id\": ");
+		json_put_string(b, t->rows[t->worst].el->id);
+		ADD(b, ", \"ratio\": ");
+		json_put_number(b, t->worst_ratio);
+		buf_addc(b, '}');
 	} else {
-		buf_add(&b, "null");
+		ADD(b, "null");
 	}
-	buf_add(&b, ",\n  \"safe_source_power\": ");
-	json_put_number(&b, t->safe_source_power);
+	ADD(b, ",\n  \"safe_source_power\": ");
+	json_put_number(b, t->safe_source_power);
 	if (t->ghosts != NULL)
-		ghosts_json(&b, t);
-	buf_add(&b, "\n}\n");
-	return buf_take(&b);
+		ghosts_json(o, t);
+	ADD(b, "\n}\n");
+}
+
+char *
+report_json(const struct trace *t)
+{
+	struct jout o = { .f = NULL };
+
+	buf_init(&o.b);
+	json_out(&o, t);
+	return buf_take(&o.b);
+}
+
+int
+report_json_write(const struct trace *t, FILE *f)
+{
+	struct jout o = { .f = f };
+
+	buf_init(&o.b);
+	json_out(&o, t);
+	spill(&o, 0);
+	buf_release(&o.b);
+	return o.err ? -1 : 0;
 }

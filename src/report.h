@@ -4,6 +4,8 @@
 #ifndef REPORT_H
 #define REPORT_H
 
+#include <stdio.h>
+
 #include "core-trace.h"
 
 enum report_format { REPORT_TABLE, REPORT_JSON, REPORT_CSV };
@@ -18,6 +20,9 @@ struct report_opts {
 int   report_format_parse(const char *s, enum report_format *out);   /* 0 / -1 */
 char *report_table(const struct trace *, const struct report_opts *); /* caller frees */
 char *report_json(const struct trace *);                              /* caller frees */
+/* The same text written to f in pieces of about 64 kB as it is made; 0, or
+ * -1 when a write failed (errno set; what came before it was written). */
+int   report_json_write(const struct trace *, FILE *f);
 char *report_csv(const struct trace *);                               /* caller frees */
 
 /* Shared by the table and the workbench: the source in one line

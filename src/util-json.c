@@ -12,23 +12,32 @@ void
 json_put_string(struct buf *b, const char *s)
 {
 	static const char hex[] = "0123456789abcdef";
+	const unsigned char *p = (const unsigned char *)s;
 
 	buf_addc(b, '"');
-	for (const unsigned char *p = (const unsigned char *)s; *p != '\0'; p++) {
+	for (;;) {
+		const unsigned char *run = p;
+
+		/* the plain bytes in one piece: ids and names rarely need escapes */
+		while (*p >= 0x20 && *p != '"' && *p != '\\')
+			p++;
+		if (p > run)
+			buf_addn(b, (const char *)run, (size_t)(p - run));
+		if (*p == '\0')
+			break;
 		switch (*p) {
-		case '"':	buf_add(b, "\\\""); break;
-		case '\\':	buf_add(b, "\\\\"); break;
-		case '\n':	buf_add(b, "\\n"); break;
-		case '\r':	buf_add(b, "\\r"); break;
-		case '\t':	buf_add(b, "\\t"); break;
-		default:
-			if (*p < 0x20) {
-				char esc[7] = { '\\', 'u', '0', '0', hex[*p >> 4], hex[*p & 15], 0 };
-				buf_add(b, esc);
-			} else {
-				buf_addc(b, (char)*p);
-			}
+		case '"':	buf_addn(b, "\\\"", 2); break;
+		case '\\':	buf_addn(b, "\\\\", 2); break;
+		case '\n':	buf_addn(b, "\\n", 2); break;
+		case '\r':	buf_addn(b, "\\r", 2); break;
+		case '\t':	buf_addn(b, "\\t", 2); break;
+		default: {
+			char esc[6] = { '\\', 'u', '0', '0', hex[*p >> 4], hex[*p & 15] };
+
+			buf_addn(b, esc, sizeof esc);
 		}
+		}
+		p++;
 	}
 	buf_addc(b, '"');
 }
@@ -104,20 +113,59 @@ scale10(double a, int k)
 	return k >= 0 ? a * pow10_exact(k) : a / pow10_exact(-k);
 }
 
+/* p10[k + 31] is the double nearest 10^k (k = -31 ... 31). */
+static const double p10[] = { 1e-31, 1e-30, 1e-29, 1e-28, 1e-27, 1e-26, 1e-25,
+    1e-24, 1e-23, 1e-22, 1e-21, 1e-20, 1e-19, 1e-18, 1e-17, 1e-16, 1e-15, 1e-14,
+    1e-13, 1e-12, 1e-11, 1e-10, 1e-9, 1e-8, 1e-7, 1e-6, 1e-5, 1e-4, 1e-3, 1e-2,
+    1e-1, 1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12,
+    1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22, 1e23, 1e24,
+    1e25, 1e26, 1e27, 1e28, 1e29, 1e30, 1e31 };
+
+/* floor(log10(v)) for v > 0.  Between 1e-30 and 1e30 by comparing with
+ * powers of ten, which is exact but where v is the double nearest a power
+ * of ten; there log10 may land either side too, and either exponent gives
+ * the same ten digits (json_put_number's m is then 10^9 or 10^10 exactly),
+ * so the text does not change (tests/check_units.c compares the two on
+ * many values near powers of ten).  A log10 costs more than the rest of a
+ * number. */
+static int
+decimal_exponent(double v)
+{
+	int e2, e;
+
+	if (!(v >= 1e-30 && v < 1e30))
+		return (int)floor(log10(v));
+	(void)frexp(v, &e2);            /* 2^(e2-1) <= v < 2^e2 */
+	/* 0.30103 < log10(2): e is floor(log10(v)) or one less */
+	e = (int)floor((e2 - 1) * 0.30102999566398);
+	if (e < -31)
+		e = -31;
+	while (e < 30 && v >= p10[e + 32])
+		e++;
+	while (e > -31 && v < p10[e + 31])
+		e--;
+	return e;
+}
+
 /* Ten significant digits, formatted like "%.10g" (trailing zeros dropped,
  * exponent form below 1e-4 and from 1e10), without the cost of printf's
  * arbitrary-precision conversion.  The last digit can differ from printf's
  * by one in rare halfway cases; this is output for reading, not for
- * reading back (json_put_exact is). */
+ * reading back (json_put_exact is).  Written into a local array and added
+ * once: a 10^5-element trace writes three million of them. */
 void
 json_put_number(struct buf *b, double v)
 {
-	char digits[16], out[40];
+	static const char pairs[] =
+	    "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
+	    "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
+	    "8081828384858687888990919293949596979899";
+	char out[40], digits[10];
 	unsigned long long m;
 	int e, nd, pos = 0;
 
 	if (!isfinite(v)) {
-		buf_add(b, "null");
+		buf_addn(b, "null", 4);
 		return;
 	}
 	if (v == 0) {
@@ -133,7 +181,22 @@ json_put_number(struct buf *b, double v)
 		buf_add(b, out);
 		return;
 	}
-	e = (int)floor(log10(v));
+	if (v < 1e10 && v >= 1 && v == (double)(unsigned long long)v) {
+		/* a whole number of at most ten digits is its own ten digits
+		 * (powers, counts and zeros are half of a trace's numbers) */
+		char d[12];
+		int k = sizeof d;
+
+		m = (unsigned long long)v;
+		do {
+			d[--k] = (char)('0' + m % 10);
+			m /= 10;
+		} while (m != 0);
+		memcpy(out + pos, d + k, sizeof d - (size_t)k);
+		buf_addn(b, out, (size_t)pos + sizeof d - (size_t)k);
+		return;
+	}
+	e = decimal_exponent(v);
 	m = (unsigned long long)llround(scale10(v, 9 - e));
 	if (m >= 10000000000ULL) {
 		m = (m + 5) / 10;
@@ -142,39 +205,53 @@ json_put_number(struct buf *b, double v)
 		e--;
 		m = (unsigned long long)llround(scale10(v, 9 - e));
 	}
+	/* ten digits (m has ten; the low ten were always the ones written),
+	 * as two independent halves of five, two digits at a time; then the
+	 * trailing zeros dropped */
+	if (m >= 10000000000ULL)
+		m %= 10000000000ULL;
+	{
+		unsigned hi = (unsigned)(m / 100000), lo = (unsigned)(m % 100000);
+		unsigned rh = hi % 10000, rl = lo % 10000;
+
+		digits[0] = (char)('0' + hi / 10000);
+		digits[5] = (char)('0' + lo / 10000);
+		memcpy(digits + 1, pairs + 2 * (rh / 100), 2);
+		memcpy(digits + 6, pairs + 2 * (rl / 100), 2);
+		memcpy(digits + 3, pairs + 2 * (rh % 100), 2);
+		memcpy(digits + 8, pairs + 2 * (rl % 100), 2);
+	}
 	nd = 10;
-	while (nd > 1 && m % 10 == 0) {
-		m /= 10;
+	while (nd > 1 && digits[nd - 1] == '0')
 		nd--;
-	}
-	for (int i = nd - 1; i >= 0; i--) {
-		digits[i] = (char)('0' + m % 10);
-		m /= 10;
-	}
 	if (e < -4 || e >= 10) {
+		int ae = e < 0 ? -e : e;
+
 		out[pos++] = digits[0];
 		if (nd > 1) {
 			out[pos++] = '.';
-			for (int i = 1; i < nd; i++)
-				out[pos++] = digits[i];
+			memcpy(out + pos, digits + 1, (size_t)nd - 1);
+			pos += nd - 1;
 		}
-		snprintf(out + pos, sizeof out - (size_t)pos, "e%c%02d", e < 0 ? '-' : '+',
-		    e < 0 ? -e : e);
+		out[pos++] = 'e';
+		out[pos++] = e < 0 ? '-' : '+';
+		if (ae >= 100)
+			out[pos++] = (char)('0' + ae / 100);
+		out[pos++] = (char)('0' + ae / 10 % 10);
+		out[pos++] = (char)('0' + ae % 10);
 	} else if (e < 0) {
 		out[pos++] = '0';
 		out[pos++] = '.';
 		for (int i = -1; i > e; i--)
 			out[pos++] = '0';
-		for (int i = 0; i < nd; i++)
-			out[pos++] = digits[i];
-		out[pos] = '\0';
+		memcpy(out + pos, digits, (size_t)nd);
+		pos += nd;
 	} else {
 		for (int i = 0; i <= e || i < nd; i++) {
 			if (i == e + 1)
 				out[pos++] = '.';
 			out[pos++] = i < nd ? digits[i] : '0';
 		}
-		out[pos] = '\0';
 	}
-	buf_add(b, out);
+	buf_addn(b, out, (size_t)pos);
 }

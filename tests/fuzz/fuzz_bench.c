@@ -4,7 +4,7 @@
  * format (table with and without colour and UTF-8, JSON, CSV, a diff
  * against itself) and laid out as the workbench would (chain rows, bars,
  * status line, values, the beam profile: the pure core-layout part).  Any crash, sanitizer report or broken round trip is a
- * finding.  Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
+ * finding, and so is the fast reader disagreeing with the tree reader.  Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
 #include <config.h>
 
 #include <stdint.h>
@@ -96,12 +96,36 @@ reports(const struct bench *b)
 	diff_free(d);
 }
 
+/* The fast reader (bench-file-scan.c) takes only what the whole-tree
+ * reader takes, and reads it to the same bench. */
+static void
+fast_vs_tree(const char *text, size_t size)
+{
+	size_t skip = size >= 3 && memcmp(text, "\xef\xbb\xbf", 3) == 0 ? 3 : 0;
+	struct bench *f = bench_file_parse_fast(text + skip, size - skip), *t;
+	char *cause = NULL, *a, *b;
+
+	if (f == NULL)
+		return;
+	if ((t = bench_file_parse_tree(text, size, "fuzz.json", &cause)) == NULL)
+		finding("the fast reader took what the tree reader refuses", cause, NULL);
+	a = bench_file_dump(f);
+	b = bench_file_dump(t);
+	if (strcmp(a, b) != 0)
+		finding("the fast and the tree reader read different benches", a, b);
+	free(a);
+	free(b);
+	model_bench_free(f);
+	model_bench_free(t);
+}
+
 int
 LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
 	char *cause = NULL, *one, *two;
 	struct bench *b, *back;
 
+	fast_vs_tree((const char *)data, size);
 	b = bench_file_parse((const char *)data, size, "fuzz.json", &cause);
 	if (b == NULL) {
 		if (cause == NULL || strncmp(cause, "fuzz.json", 9) != 0)

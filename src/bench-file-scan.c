@@ -1,0 +1,415 @@
+/* bench-file-scan.c - the fast way in for a valid bench file: the path is
+ * cut into its elements by a small scanner and each element is read by
+ * jansson alone, so a 10^5-element file never becomes one tree of 10^6
+ * nodes (about 100 MB and most of the reading time).  Anything the scanner
+ * is not sure of, and every error, goes back to the whole-tree reader,
+ * which alone writes the messages: the two never disagree on what is
+ * valid, only on how long it takes. */
+#include <config.h>
+
+#include <errno.h>
+#include <locale.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-file.h"
+#include "util-err.h"
+
+/* Deeper nesting inside one element than any valid element has (side
+ * branches stop at MODEL_MAX_DEPTH); past it, the tree reader decides. */
+#define SCAN_MAX_NEST 64
+
+struct span {
+	size_t from, to;            /* text[from..to) */
+};
+
+static size_t
+skip_ws(const char *t, size_t i, size_t n)
+{
+	while (i < n && (t[i] == ' ' || t[i] == '\n' || t[i] == '\r' || t[i] == '\t'))
+		i++;
+	return i;
+}
+
+/* Past the string opening at t[i] == '"'; 0 when it does not end.  *esc
+ * is set when it holds a backslash. */
+static size_t
+skip_string(const char *t, size_t i, size_t n, int *esc)
+{
+	for (i++; i < n; i++) {
+		if (t[i] == '\\') {
+			*esc = 1;
+			i++;
+		} else if (t[i] == '"') {
+			return i + 1;
+		}
+	}
+	return 0;
+}
+
+/* Past the value starting at t[i]: a string, an object or array (brackets
+ * matched, strings skipped), or a bare token.  0: no end found, or nested
+ * too deep.  Whether the value is valid JSON is jansson's to say. */
+static size_t
+skip_value(const char *t, size_t i, size_t n)
+{
+	int depth = 0, esc = 0;
+
+	if (i >= n)
+		return 0;
+	if (t[i] == '"')
+		return skip_string(t, i, n, &esc);
+	if (t[i] != '{' && t[i] != '[') {
+		while (i < n && strchr(" \t\r\n,}]", t[i]) == NULL && t[i] != '\0')
+			i++;
+		return i;
+	}
+	while (i < n) {
+		switch (t[i]) {
+		case '"':
+			if ((i = skip_string(t, i, n, &esc)) == 0)
+				return 0;
+			continue;
+		case '{':
+		case '[':
+			if (++depth > SCAN_MAX_NEST)
+				return 0;
+			break;
+		case '}':
+		case ']':
+			if (--depth == 0)
+				return i + 1;
+			break;
+		}
+		i++;
+	}
+	return 0;
+}
+
+/* Finds the top-level "path" array and every element in it.  Returns 0
+ * with *path its brackets and *el (caller frees) the n element objects,
+ * or -1 when the text is not plainly shaped so (the tree reader decides). */
+static int
+scan(const char *t, size_t n, struct span *path, struct span **el, size_t *nel)
+{
+	size_t i = skip_ws(t, 0, n), cap = 0;
+	int found = 0;
+
+	*el = NULL;
+	*nel = 0;
+	if (i >= n || t[i] != '{')
+		return -1;
+	for (i = skip_ws(t, i + 1, n); i < n && t[i] != '}'; ) {
+		size_t k0 = i, k1;
+		int esc = 0;
+
+		if (t[i] != '"' || (k1 = skip_string(t, i, n, &esc)) == 0 || esc)
+			goto fail;
+		i = skip_ws(t, k1, n);
+		if (i >= n || t[i] != ':')
+			goto fail;
+		i = skip_ws(t, i + 1, n);
+		if (k1 - k0 == 6 && memcmp(t + k0, "\"path\"", 6) == 0) {
+			if (found || i >= n || t[i] != '[')
+				goto fail;
+			found = 1;
+			path->from = i;
+			for (i = skip_ws(t, i + 1, n); i < n && t[i] != ']'; ) {
+				size_t e = i;
+
+				if (t[i] != '{' || (i = skip_value(t, i, n)) == 0)
+					goto fail;
+				if (*nel == cap) {
+					cap = cap ? 2 * cap : 1024;
+					*el = xreallocarray(*el, cap, sizeof **el);
+				}
+				(*el)[(*nel)++] = (struct span){ e, i };
+				i = skip_ws(t, i, n);
+				if (i < n && t[i] == ',') {
+					i = skip_ws(t, i + 1, n);
+					if (i >= n || t[i] != '{')
+						goto fail;
+				} else if (i >= n || t[i] != ']') {
+					goto fail;
+				}
+			}
+			if (i >= n)
+				goto fail;
+			path->to = ++i;
+		} else if ((i = skip_value(t, i, n)) == 0) {
+			goto fail;
+		}
+		i = skip_ws(t, i, n);
+		if (i < n && t[i] == ',')
+			i = skip_ws(t, i + 1, n);
+		else if (i >= n || t[i] != '}')
+			goto fail;
+	}
+	if (found)
+		return 0;
+fail:
+	free(*el);
+	*el = NULL;
+	return -1;
+}
+
+/* ---- one element's object, as jansson would build it ----
+ * jansson's reader costs about 1.5 us for a small element, eight times
+ * what building the same values costs: its character stream and string
+ * buffers.  This reader takes the plain shape of JSON that bench files
+ * are made of and builds the same json_t values (numbers as jansson
+ * types them, keys in their order, duplicates refused); for anything
+ * else (escapes, bytes past ASCII, control characters, deep nesting,
+ * long numbers) it gives up and jansson reads that element. */
+struct rd {
+	const char *t;
+	size_t      i, n;
+	int         depth;
+};
+
+static json_t *rd_value(struct rd *);
+
+static void
+rd_ws(struct rd *r)
+{
+	r->i = skip_ws(r->t, r->i, r->n);
+}
+
+static int
+is_digit(char c)
+{
+	return c >= '0' && c <= '9';
+}
+
+/* A string at t[i] == '"' with nothing to decode: *s and *len. */
+static int
+rd_string(struct rd *r, const char **s, size_t *len)
+{
+	for (size_t j = r->i + 1; j < r->n; j++) {
+		unsigned char c = (unsigned char)r->t[j];
+
+		if (c == '"') {
+			*s = r->t + r->i + 1;
+			*len = j - r->i - 1;
+			r->i = j + 1;
+			return 0;
+		}
+		if (c < 0x20 || c >= 0x80 || c == '\\')
+			return -1;
+	}
+	return -1;
+}
+
+/* RFC 8259 §6; integers as JSON_INTEGER unless out of range, the rest as
+ * JSON_REAL unless they overflow (jansson refuses both). */
+static json_t *
+rd_number(struct rd *r)
+{
+	const char *t = r->t;
+	size_t j = r->i, n = r->n;
+	int real = 0;
+	char tok[64], *end;
+
+	if (j < n && t[j] == '-')
+		j++;
+	if (j < n && t[j] == '0')
+		j++;
+	else if (j < n && t[j] >= '1' && t[j] <= '9')
+		while (j < n && is_digit(t[j]))
+			j++;
+	else
+		return NULL;
+	if (j < n && t[j] == '.') {
+		real = 1;
+		if (++j >= n || !is_digit(t[j]))
+			return NULL;
+		while (j < n && is_digit(t[j]))
+			j++;
+	}
+	if (j < n && (t[j] == 'e' || t[j] == 'E')) {
+		real = 1;
+		if (++j < n && (t[j] == '+' || t[j] == '-'))
+			j++;
+		if (j >= n || !is_digit(t[j]))
+			return NULL;
+		while (j < n && is_digit(t[j]))
+			j++;
+	}
+	if (j - r->i >= sizeof tok)
+		return NULL;
+	memcpy(tok, t + r->i, j - r->i);
+	tok[j - r->i] = '\0';
+	r->i = j;
+	errno = 0;
+	if (!real) {
+		long long v = strtoll(tok, &end, 10);
+
+		return errno == ERANGE ? NULL : json_integer(v);
+	} else {
+		double v = strtod(tok, &end);
+
+		return (v == HUGE_VAL || v == -HUGE_VAL) && errno == ERANGE ? NULL : json_real(v);
+	}
+}
+
+static json_t *
+rd_word(struct rd *r, const char *w, size_t len, json_t *v)
+{
+	if (r->n - r->i < len || memcmp(r->t + r->i, w, len) != 0)
+		return NULL;
+	r->i += len;
+	return v;
+}
+
+/* The members of an object or the items of an array, after its bracket. */
+static json_t *
+rd_container(struct rd *r, int object)
+{
+	json_t *c = object ? json_object() : json_array();
+	const char close = object ? '}' : ']';
+
+	if (c == NULL || ++r->depth > SCAN_MAX_NEST)
+		goto bad;
+	r->i++;
+	rd_ws(r);
+	if (r->i < r->n && r->t[r->i] == close) {
+		r->i++;
+		r->depth--;
+		return c;
+	}
+	for (;;) {
+		const char *key = NULL;
+		size_t klen = 0;
+		json_t *v;
+
+		if (object) {
+			if (r->i >= r->n || r->t[r->i] != '"' || rd_string(r, &key, &klen) != 0)
+				goto bad;
+			rd_ws(r);
+			if (r->i >= r->n || r->t[r->i] != ':')
+				goto bad;
+			r->i++;
+			rd_ws(r);
+		}
+		if ((v = rd_value(r)) == NULL)
+			goto bad;
+		if (object ? json_object_getn(c, key, klen) != NULL ||
+		    json_object_setn_new_nocheck(c, key, klen, v) != 0 :
+		    json_array_append_new(c, v) != 0) {
+			if (object)
+				json_decref(v);
+			goto bad;
+		}
+		rd_ws(r);
+		if (r->i < r->n && r->t[r->i] == ',') {
+			r->i++;
+			rd_ws(r);
+			continue;
+		}
+		if (r->i < r->n && r->t[r->i] == close) {
+			r->i++;
+			r->depth--;
+			return c;
+		}
+		goto bad;
+	}
+bad:
+	json_decref(c);
+	return NULL;
+}
+
+static json_t *
+rd_value(struct rd *r)
+{
+	const char *s;
+	size_t len;
+
+	if (r->i >= r->n)
+		return NULL;
+	switch (r->t[r->i]) {
+	case '{':	return rd_container(r, 1);
+	case '[':	return rd_container(r, 0);
+	case '"':	return rd_string(r, &s, &len) == 0 ? json_stringn_nocheck(s, len) : NULL;
+	case 't':	return rd_word(r, "true", 4, json_true());
+	case 'f':	return rd_word(r, "false", 5, json_false());
+	case 'n':	return rd_word(r, "null", 4, json_null());
+	default:	return rd_number(r);
+	}
+}
+
+/* The element at text[sp]: by the reader above where it can, else by
+ * jansson; NULL when it is not valid JSON. */
+static json_t *
+read_element(const char *text, struct span sp, int plain_numbers)
+{
+	struct rd r = { text, sp.from, sp.to, 0 };
+	json_t *obj = plain_numbers ? rd_value(&r) : NULL;
+
+	if (obj != NULL && r.i == sp.to)
+		return obj;
+	json_decref(obj);
+	return json_loadb(text + sp.from, sp.to - sp.from, JSON_REJECT_DUPLICATES, NULL);
+}
+
+struct bench *
+bench_file_parse_fast(const char *text, size_t len)
+{
+	struct span path, *el;
+	size_t nel, hlen;
+	char *head;
+	json_t *root;
+	struct bench *b;
+	char *cause = NULL;
+	/* strtod reads "0.5" as jansson does only with a decimal point */
+	int plain_numbers = strcmp(localeconv()->decimal_point, ".") == 0;
+
+	if (scan(text, len, &path, &el, &nel) != 0)
+		return NULL;
+	/* the file with an empty path: everything but the elements */
+	hlen = path.from + 2 + (len - path.to);
+	head = xmalloc(hlen);
+	memcpy(head, text, path.from);
+	memcpy(head + path.from, "[]", 2);
+	memcpy(head + path.from + 2, text + path.to, len - path.to);
+	root = json_loadb(head, hlen, JSON_REJECT_DUPLICATES, NULL);
+	free(head);
+	if (root == NULL) {
+		free(el);
+		return NULL;
+	}
+	b = model_bench_new(NULL);
+	free(b->name);
+	b->name = NULL;
+	if (bench_head_from_json(root, b, &cause) != 0)
+		goto bad;
+	json_decref(root);
+	root = NULL;
+	if (nel > 0) {
+		/* sized once: model_branch_push then never moves the array */
+		b->path.el = xreallocarray(NULL, nel, sizeof *b->path.el);
+		b->path.cap = nel;
+	}
+	for (size_t i = 0; i < nel; i++) {
+		json_t *obj = read_element(text, el[i], plain_numbers);
+		int rc;
+
+		if (obj == NULL)
+			goto bad;
+		/* as read_branch does for "path": depth 0, side branches allowed */
+		rc = bench_element_from_json(obj, model_branch_push(&b->path), 1, 1, 0, &cause);
+		json_decref(obj);
+		if (rc != 0)
+			goto bad;
+	}
+	if (model_validate(b, &cause) != 0)
+		goto bad;
+	free(el);
+	return b;
+bad:
+	free(cause);
+	json_decref(root);
+	free(el);
+	model_bench_free(b);
+	return NULL;
+}

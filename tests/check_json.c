@@ -1,0 +1,516 @@
+/* check_json.c - the fast paths of issue #12 against what they replaced:
+ * the ten-digit number writer and the string escaper (util-json.c), the
+ * streamed JSON report (report-json.c) and the element-by-element bench
+ * reader (bench-file-scan.c).  Each must give the same bytes, the same
+ * bench or the same message as the plain way, which lives here as the
+ * reference (derived in the test: the code as it was before). */
+#include <config.h>
+
+#include <check.h>
+#include <math.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bench-demo.h"
+#include "bench-file.h"
+#include "check-util.h"
+#include "core-trace.h"
+#include "report.h"
+#include "util-buf.h"
+#include "util-err.h"
+#include "util-json.h"
+
+/* xorshift64*: reproducible values without the libc generator */
+static uint64_t
+rnd(uint64_t *s)
+{
+	*s ^= *s >> 12;
+	*s ^= *s << 25;
+	*s ^= *s >> 27;
+	return *s * 2685821657736338717ULL;
+}
+
+/* ---- the reference writer: json_put_number before this change, which
+ * took the exponent from floor(log10(v)) and formatted with snprintf ---- */
+static double
+ref_scale10(double a, int k)
+{
+	static const double p[] = { 1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8,
+	    1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19,
+	    1e20, 1e21, 1e22 };
+
+	while (k > 22) {
+		a *= 1e22;
+		k -= 22;
+	}
+	while (k < -22) {
+		a /= 1e22;
+		k += 22;
+	}
+	return k >= 0 ? a * p[k] : a / p[-k];
+}
+
+static void
+ref_number(char *out, size_t n, double v)
+{
+	char digits[16];
+	unsigned long long m;
+	int e, nd, pos = 0;
+
+	if (!isfinite(v)) {
+		snprintf(out, n, "null");
+		return;
+	}
+	if (v == 0) {
+		snprintf(out, n, "0");
+		return;
+	}
+	if (v < 0) {
+		out[pos++] = '-';
+		v = -v;
+	}
+	if (v < 1e-300 || v > 1e300) {
+		snprintf(out + pos, n - (size_t)pos, "%.10g", v);
+		return;
+	}
+	e = (int)floor(log10(v));
+	m = (unsigned long long)llround(ref_scale10(v, 9 - e));
+	if (m >= 10000000000ULL) {
+		m = (m + 5) / 10;
+		e++;
+	} else if (m < 1000000000ULL) {
+		e--;
+		m = (unsigned long long)llround(ref_scale10(v, 9 - e));
+	}
+	nd = 10;
+	while (nd > 1 && m % 10 == 0) {
+		m /= 10;
+		nd--;
+	}
+	for (int i = nd - 1; i >= 0; i--) {
+		digits[i] = (char)('0' + m % 10);
+		m /= 10;
+	}
+	if (e < -4 || e >= 10) {
+		out[pos++] = digits[0];
+		if (nd > 1) {
+			out[pos++] = '.';
+			for (int i = 1; i < nd; i++)
+				out[pos++] = digits[i];
+		}
+		snprintf(out + pos, n - (size_t)pos, "e%c%02d", e < 0 ? '-' : '+',
+		    e < 0 ? -e : e);
+	} else if (e < 0) {
+		out[pos++] = '0';
+		out[pos++] = '.';
+		for (int i = -1; i > e; i--)
+			out[pos++] = '0';
+		for (int i = 0; i < nd; i++)
+			out[pos++] = digits[i];
+		out[pos] = '\0';
+	} else {
+		for (int i = 0; i <= e || i < nd; i++) {
+			if (i == e + 1)
+				out[pos++] = '.';
+			out[pos++] = i < nd ? digits[i] : '0';
+		}
+		out[pos] = '\0';
+	}
+}
+
+static void
+check_number(struct buf *b, double v)
+{
+	char want[64];
+
+	buf_reset(b);
+	json_put_number(b, v);
+	ref_number(want, sizeof want, v);
+	ck_assert_msg(strcmp(b->s, want) == 0, "%.17g: wrote %s, the reference %s",
+	    v, b->s, want);
+}
+
+/* Any double (random bits), and random magnitudes over the usual range. */
+START_TEST(test_number_random)
+{
+	uint64_t s = 0x9e3779b97f4a7c15ULL + (uint64_t)_i;
+	struct buf b;
+
+	buf_init(&b);
+	for (int i = 0; i < 200000; i++) {
+		uint64_t bits = rnd(&s);
+		double v;
+
+		memcpy(&v, &bits, sizeof v);
+		check_number(&b, v);
+		/* log-uniform over 1e-35 .. 1e35, either sign */
+		v = pow(10, (double)(rnd(&s) % 70000000) / 1e6 - 35);
+		check_number(&b, rnd(&s) & 1 ? -v : v);
+		/* short decimals, as typed: 1.25e-3 */
+		v = (double)(rnd(&s) % 100000) * pow(10, (int)(rnd(&s) % 40) - 20);
+		check_number(&b, v);
+	}
+	buf_release(&b);
+}
+END_TEST
+
+/* Next to every power of ten, where the exponent by table and by log10
+ * may differ: up to 64 doubles either side, and the halves 5·10^k; whole
+ * numbers. */
+START_TEST(test_number_near_powers)
+{
+	struct buf b;
+
+	buf_init(&b);
+	for (int k = -320; k <= 320; k++) {
+		double p;
+		char lit[16];
+
+		snprintf(lit, sizeof lit, "1e%d", k);
+		p = strtod(lit, NULL);
+		for (int side = 0; side < 2; side++) {
+			double v = p;
+
+			for (int j = 0; j < 64; j++) {
+				check_number(&b, v);
+				check_number(&b, -v);
+				check_number(&b, 5 * v);
+				check_number(&b, 9.9999999995 * v);
+				v = nextafter(v, side ? INFINITY : 0);
+			}
+		}
+	}
+	/* whole numbers, which take a shorter way */
+	for (int i = -100000; i <= 100000; i++)
+		check_number(&b, i);
+	for (double v = 1; v < 1e13; v = v * 3 + 1) {
+		check_number(&b, v);
+		check_number(&b, v - 1);
+		check_number(&b, nextafter(v, 0));
+		check_number(&b, nextafter(v, INFINITY));
+	}
+	check_number(&b, 9999999999.0);
+	check_number(&b, 9999999999.5);
+	check_number(&b, 10000000000.0);
+	check_number(&b, NAN);
+	check_number(&b, INFINITY);
+	check_number(&b, -0.0);
+	check_number(&b, 4.9406564584124654e-324);
+	check_number(&b, 1.7976931348623157e308);
+	buf_release(&b);
+}
+END_TEST
+
+/* Ten significant digits, read back within half a unit of the tenth
+ * digit of the value written (what "%.10g" promises, derived in the test). */
+START_TEST(test_number_ten_digits)
+{
+	uint64_t s = 12345;
+	struct buf b;
+
+	buf_init(&b);
+	for (int i = 0; i < 200000; i++) {
+		double v = pow(10, (double)(rnd(&s) % 60000000) / 1e6 - 30), back, ulp10;
+		int sig = 0;
+
+		buf_reset(&b);
+		json_put_number(&b, v);
+		back = strtod(b.s, NULL);
+		ulp10 = pow(10, floor(log10(back)) - 9);
+		ck_assert_msg(fabs(back - v) <= 0.5 * ulp10 * (1 + 1e-9), "%.17g wrote %s", v, b.s);
+		for (const char *p = b.s; *p != '\0' && *p != 'e'; p++)
+			sig += *p >= '0' && *p <= '9';
+		ck_assert_msg(sig <= 10 + 9, "%s", b.s);   /* leading zeros of 0.000x */
+	}
+	buf_release(&b);
+}
+END_TEST
+
+/* ---- strings: the escaper before this change ---- */
+static void
+ref_string(struct buf *b, const char *s)
+{
+	static const char hex[] = "0123456789abcdef";
+
+	buf_addc(b, '"');
+	for (const unsigned char *p = (const unsigned char *)s; *p != '\0'; p++) {
+		switch (*p) {
+		case '"':	buf_add(b, "\\\""); break;
+		case '\\':	buf_add(b, "\\\\"); break;
+		case '\n':	buf_add(b, "\\n"); break;
+		case '\r':	buf_add(b, "\\r"); break;
+		case '\t':	buf_add(b, "\\t"); break;
+		default:
+			if (*p < 0x20) {
+				char esc[7] = { '\\', 'u', '0', '0', hex[*p >> 4], hex[*p & 15], 0 };
+				buf_add(b, esc);
+			} else {
+				buf_addc(b, (char)*p);
+			}
+		}
+	}
+	buf_addc(b, '"');
+}
+
+START_TEST(test_string_random)
+{
+	uint64_t s = 777;
+	struct buf got, want;
+	char str[40];
+
+	buf_init(&got);
+	buf_init(&want);
+	for (int i = 0; i < 100000; i++) {
+		size_t n = rnd(&s) % (sizeof str - 1);
+
+		for (size_t j = 0; j < n; j++) {
+			/* mostly plain, sometimes a byte that needs escaping */
+			uint64_t r = rnd(&s);
+
+			str[j] = (char)(r % 4 ? 'a' + r % 26 : 1 + (r >> 8) % 255);
+		}
+		str[n] = '\0';
+		buf_reset(&got);
+		buf_reset(&want);
+		json_put_string(&got, str);
+		ref_string(&want, str);
+		ck_assert_str_eq(got.s, want.s);
+	}
+	buf_release(&got);
+	buf_release(&want);
+}
+END_TEST
+
+/* ---- the bench reader: fast against the whole tree ---- */
+
+/* Invented benches in the shapes files take: the demo, a side branch and
+ * a rejected port, a pulsed source, tolerances (non-ASCII: jansson reads
+ * those elements), escapes, labels. */
+static const char branches_text[] =
+    "{\"format\": \"beamledger-bench-1\", \"name\": \"seed pulsed\", \"safety_factor\": 3,"
+    " \"air_breakdown\": \"1e10 W/cm^2\", \"source\": {\"wavelength\": \"1064 nm\","
+    " \"pulsed\": {\"rep_rate\": \"10 Hz\", \"pulse_width\": \"8 ns\", \"shape\": \"sech2\","
+    " \"pulse_energy\": \"200 mJ\"}, \"waist\": [\"2 mm\", 0.0015], \"waist_position\":"
+    " \"-100 mm\", \"m2\": [1.2, 1.4], \"polarization\": 30}, \"path\": [{\"id\": \"HWP\","
+    " \"type\": \"waveplate\", \"retardance\": 0.5, \"angle\": 22.5}, {\"id\": \"PBS\","
+    " \"type\": \"splitter\", \"polarizing\": true, \"tp\": 0.97, \"rs\": 0.99, \"reflected\":"
+    " [{\"id\": \"S3\", \"type\": \"space\", \"length\": 0.2}, {\"id\": \"D1\", \"type\":"
+    " \"detector\", \"max_power\": \"10 mW\"}]}, {\"id\": \"F1\", \"type\": \"filter\","
+    " \"od\": 2, \"max_absorbed\": \"1 W\"}, {\"id\": \"POL\", \"type\": \"polarizer\","
+    " \"angle\": 90, \"extinction\": 1e4, \"rejected\": [{\"id\": \"BD2\", \"type\": \"dump\"}]},"
+    " {\"id\": \"IR\", \"type\": \"iris\", \"diameter\": \"3 mm\", \"aperture\": \"25 mm\"},"
+    " {\"id\": \"W1\", \"type\": \"window\", \"thickness\": \"5 mm\", \"damage\": {\"fluence\":"
+    " \"10 J/cm^2\", \"pulse_width\": \"10 ns\", \"wavelength\": \"1064 nm\"}},"
+    " {\"id\": \"T\", \"type\": \"target\", \"label\": \"sample \\u00b5\"}]}";
+
+static const char tol_text[] =
+    "\xef\xbb\xbf{ \"format\": \"beamledger-bench-1\", \"name\": \"tol \\\"q\\\"\",\n"
+    "  \"source\": { \"wavelength\": \"1064 nm\", \"power\": \"2 W \xc2\xb1 5 %\", \"waist\": \"1 mm\" },\n"
+    "  \"path\": [\r\n"
+    "\t{ \"id\": \"L1\", \"type\": \"lens\", \"focal\": \"200 mm \xc2\xb1 2 mm\" },\n"
+    "    { \"id\": \"G1\", \"type\": \"space\", \"length\": \"250 mm +- 1 mm uniform\" },\n"
+    "    { \"id\": \"M1\", \"type\": \"mirror\", \"reflectance\": 0.995, \"aoi\": -0,"
+    " \"label\": \"fold\\tone\", \"damage\": { \"cw_irradiance\": 1.5e9 } },\n"
+    "    { \"id\": \"D\", \"type\": \"dump\", \"max_power\": 10 }\n  ] }\n";
+
+static char *
+dump_or_cause(struct bench *b, char *cause)
+{
+	char *s = b != NULL ? bench_file_dump(b) : xasprintf("error: %s", cause);
+
+	model_bench_free(b);
+	free(cause);
+	return s;
+}
+
+/* The fast reader accepts only what the tree reader accepts, giving the
+ * same bench; bench_file_parse gives the tree reader's bench or message. */
+static int
+compare_readers(const char *text, size_t len)
+{
+	char *c_tree = NULL, *c_all = NULL;
+	size_t skip = len >= 3 && memcmp(text, "\xef\xbb\xbf", 3) == 0 ? 3 : 0;
+	struct bench *fast = bench_file_parse_fast(text + skip, len - skip);
+	struct bench *bt = bench_file_parse_tree(text, len, "t.json", &c_tree);
+	struct bench *ba = bench_file_parse(text, len, "t.json", &c_all);
+	char *tree, *all;
+	int fast_ok = fast != NULL;
+
+	ck_assert_msg(bt != NULL || c_tree != NULL, "no bench and no message");
+	tree = dump_or_cause(bt, c_tree);
+	all = dump_or_cause(ba, c_all);
+
+	if (fast != NULL) {
+		char *f = dump_or_cause(fast, NULL);
+
+		ck_assert_msg(strcmp(f, tree) == 0, "fast reader: %s\ntree reader: %s\ninput: %.*s",
+		    f, tree, (int)len, text);
+		free(f);
+	}
+	ck_assert_msg(strcmp(all, tree) == 0, "bench_file_parse: %s\ntree reader: %s\ninput: %.*s",
+	    all, tree, (int)len, text);
+	free(tree);
+	free(all);
+	return fast_ok;
+}
+
+static const char *const reader_texts[] = { NULL /* the demo */, branches_text, tol_text };
+
+START_TEST(test_reader_valid)
+{
+	const char *text = reader_texts[_i] != NULL ? reader_texts[_i] : bench_demo_text;
+	struct bench *b = bench_file_parse_tree(text, strlen(text), "t", NULL);
+	char *dumped = bench_file_dump(b);
+
+	/* the fast way must be taken on valid files, else nothing is gained */
+	ck_assert_msg(compare_readers(text, strlen(text)), "fast reader refused text %d", _i);
+	ck_assert_msg(compare_readers(dumped, strlen(dumped)), "fast reader refused dump %d", _i);
+	free(dumped);
+	model_bench_free(b);
+}
+END_TEST
+
+/* Damaged copies: bytes deleted, replaced by JSON's own punctuation or
+ * any byte, duplicated keys, truncation. */
+START_TEST(test_reader_damaged)
+{
+	const char *text = reader_texts[_i] != NULL ? reader_texts[_i] : bench_demo_text;
+	static const char punct[] = "{}[],:\"\\ 0-.eE+tfn\x01\x80\xc2";
+	size_t len = strlen(text);
+	char *copy = xmalloc(len + 64);
+	uint64_t s = 4242 + (uint64_t)_i;
+
+	for (int round = 0; round < 3000; round++) {
+		size_t n = len, at;
+		int edits = 1 + (int)(rnd(&s) % 3);
+
+		memcpy(copy, text, len);
+		for (int e = 0; e < edits && n > 1; e++) {
+			uint64_t r = rnd(&s);
+
+			at = (size_t)(r >> 8) % n;
+			switch (r % 5) {
+			case 0:         /* delete */
+				memmove(copy + at, copy + at + 1, n - at - 1);
+				n--;
+				break;
+			case 1:         /* punctuation */
+				copy[at] = punct[(r >> 40) % (sizeof punct - 1)];
+				break;
+			case 2:         /* any byte */
+				copy[at] = (char)(r >> 40);
+				break;
+			case 3:         /* insert punctuation */
+				memmove(copy + at + 1, copy + at, n - at);
+				copy[at] = punct[(r >> 40) % (sizeof punct - 1)];
+				n++;
+				break;
+			default:        /* truncate */
+				n = at + 1;
+				break;
+			}
+		}
+		compare_readers(copy, n);
+	}
+	free(copy);
+}
+END_TEST
+
+START_TEST(test_reader_duplicates)
+{
+	static const char *const texts[] = {
+		"{'format':'beamledger-bench-1','name':'d','source':{'wavelength':'1064 nm',"
+		    "'power':'1 W','waist':'1 mm'},'path':[{'id':'A','type':'space','length':1,"
+		    "'length':2}]}",
+		"{'format':'beamledger-bench-1','name':'d','source':{'wavelength':'1064 nm',"
+		    "'power':'1 W','waist':'1 mm'},'path':[],'path':[{'id':'A','type':'dump'}]}",
+		"{'format':'beamledger-bench-1','name':'d','name':'e','source':{'wavelength':"
+		    "'1064 nm','power':'1 W','waist':'1 mm'},'path':[{'id':'A','type':'dump'}]}",
+		"{'format':'beamledger-bench-1','name':'d','source':{'wavelength':'1064 nm',"
+		    "'power':'1 W','waist':'1 mm'},'path':[{'id':'A','type':'space','length':"
+		    "123456789012345678901234567890},{'id':'B','type':'dump'}]}",
+		"{'format':'beamledger-bench-1','name':'d','source':{'wavelength':'1064 nm',"
+		    "'power':'1 W','waist':'1 mm'},'path':[{'id':'A','type':'space','length':1e999}]}",
+		"{'format':'beamledger-bench-1','name':'d','source':{'wavelength':'1064 nm',"
+		    "'power':'1 W','waist':'1 mm'},'p\\u0061th':[{'id':'A','type':'dump'}],'path':[]}",
+	};
+	char *t = xstrdup(texts[_i]);
+
+	for (char *p = t; *p != '\0'; p++)
+		if (*p == '\'')
+			*p = '"';
+	compare_readers(t, strlen(t));
+	free(t);
+}
+END_TEST
+
+/* ---- the report: streamed in pieces, the same text as in one string ---- */
+static void
+check_streamed(const struct bench *b, unsigned opts)
+{
+	struct trace *t = trace_rerun_opts(NULL, b, opts);
+	char *whole = report_json(t), *got = NULL;
+	size_t len = 0;
+	FILE *f = open_memstream(&got, &len);
+
+	ck_assert_ptr_nonnull(f);
+	ck_assert_int_eq(report_json_write(t, f), 0);
+	ck_assert_int_eq(fclose(f), 0);
+	ck_assert_uint_eq(len, strlen(whole));
+	ck_assert_msg(memcmp(got, whole, len) == 0, "streamed text differs");
+	free(got);
+	free(whole);
+	trace_free(t);
+}
+
+START_TEST(test_report_streamed)
+{
+	char *cause = NULL;
+	struct bench *b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo",
+	    &cause);
+	struct buf chain;
+
+	ck_assert_msg(b != NULL, "%s", cause);
+	check_streamed(b, TRACE_GHOST_ROWS);
+	check_streamed(b, TRACE_NO_GHOSTS);
+	model_bench_free(b);
+	/* long enough that the buffer is emptied many times (about 1.5 MB) */
+	buf_init(&chain);
+	buf_add(&chain, "{\"format\": \"beamledger-bench-1\", \"name\": \"long\", \"source\": "
+	    "{\"wavelength\": \"1064 nm\", \"power\": \"5 W\", \"waist\": \"1 mm\"}, \"path\": [");
+	for (int i = 0; i < 2000; i++)
+		buf_printf(&chain, "%s{\"id\": \"G%d\", \"type\": \"space\", \"length\": \"100 mm\"}, "
+		    "{\"id\": \"L%d\", \"type\": \"lens\", \"focal\": \"100 mm\", \"damage\": "
+		    "{\"cw_irradiance\": \"100 kW/cm^2\"}}", i ? ", " : "", i, i);
+	buf_add(&chain, ", {\"id\": \"END\", \"type\": \"dump\"}]}");
+	b = bench_file_parse(chain.s, chain.len, "long", &cause);
+	ck_assert_msg(b != NULL, "%s", cause);
+	check_streamed(b, TRACE_NO_GHOSTS);
+	model_bench_free(b);
+	buf_release(&chain);
+}
+END_TEST
+
+int
+main(void)
+{
+	Suite *s = suite_create("json");
+	TCase *tn = tcase_create("numbers");
+	TCase *tr = tcase_create("reader");
+
+	tcase_add_loop_test(tn, test_number_random, 0, 2);
+	tcase_add_test(tn, test_number_near_powers);
+	tcase_add_test(tn, test_number_ten_digits);
+	tcase_add_test(tn, test_string_random);
+	tcase_add_test(tn, test_report_streamed);
+	tcase_set_timeout(tn, 60);
+	suite_add_tcase(s, tn);
+	tcase_add_loop_test(tr, test_reader_valid, 0, sizeof reader_texts / sizeof *reader_texts);
+	tcase_add_loop_test(tr, test_reader_damaged, 0, sizeof reader_texts / sizeof *reader_texts);
+	tcase_add_loop_test(tr, test_reader_duplicates, 0, 6);
+	tcase_set_timeout(tr, 120);
+	suite_add_tcase(s, tr);
+	return run_suite(s);
+}
