@@ -960,10 +960,8 @@ part_merge(struct ghost_part *a, struct ghost_part *b)
 }
 
 /* The row where the work left of it equals the work right of it, by an
- * estimate of the ghost-element visits each surface row costs: its first
- * order walks every row upstream, each upstream surface sends a second
- * order walk to the branch's end, and its own double bounce walks there
- * too.  Depends on the bench alone, so the halves (and so the sums' order
+ * estimate of the ghost-element visits each surface row costs (an upper
+ * bound: ghosts that fade below the floor or stop early cost less).  Depends on the bench alone, so the halves (and so the sums' order
  * of addition) are the same whether they run in one thread or two. */
 static size_t
 split_row(const struct ghost_ctx *c, double *total)
@@ -979,7 +977,11 @@ split_row(const struct ghost_ctx *c, double *total)
 
 		up[u] = v >= 0 ? up[v] + 1 : 0;
 		pre[u] = v >= 0 ? pre[v] + (ghost_has_surfaces(c->t->rows[v].el) ? down[v] : 0) : 0;
-		cost[u] = ghost_has_surfaces(c->t->rows[u].el) ? 1 + up[u] + pre[u] + down[u] : 1;
+		/* two first-order ghosts walk up; each meets every upstream
+		 * surface's two reflections (four walks down); one double
+		 * bounce walks down */
+		cost[u] = ghost_has_surfaces(c->t->rows[u].el) ?
+		    1 + 2 * up[u] + 4 * pre[u] + down[u] : 1;
 		sum += cost[u];
 	}
 	while (m < n && run + cost[m] <= sum / 2)
@@ -1020,8 +1022,29 @@ ghost_run(struct trace *t, unsigned opts)
 	c.next = xmalloc(t->nrows * sizeof *c.next);
 	c.pass = xmalloc(t->nrows * sizeof *c.pass);
 	link_rows(&c);
+	m = split_row(&c, &work);
+	c.gs->work = work;
+	if (work > GHOST_WORK_LIMIT) {
+		/* an empty summary per row, as readers expect one */
+		c.gs->at = xcalloc(t->nrows, sizeof *c.gs->at);
+		for (size_t r = 0; r < t->nrows; r++) {
+			c.gs->at[r].top = -1;
+			c.gs->at[r].main_ratio = c.gs->at[r].top_ratio = NAN;
+		}
+		/* said by trace_check: never a silent main-beam-only rating */
+		c.gs->refused = 1;
+		free(c.prev);
+		free(c.next);
+		free(c.pass);
+		return;
+	}
+	if (c.keep_rows && work > GHOST_ROWS_LIMIT) {
+		c.keep_rows = c.gs->rows_kept = 0;
+		c.gs->rows_omitted = 1;
+	}
 	prepare(&c);
-	m = (opts & GHOST_ONE_PART) ? t->nrows : split_row(&c, &work);
+	if (opts & GHOST_ONE_PART)
+		m = t->nrows;
 	second = xcalloc(1, sizeof *second);
 	part_init(&half[0], &c, c.gs, 0, m);
 	part_init(&half[1], &c, second, m, t->nrows);

@@ -96,6 +96,12 @@ struct ghost_set {
 	struct ghost_stray *strays;     /* owned */
 	size_t              nstrays, capstrays;
 	struct ghost_at    *at;         /* owned [trace nrows] */
+	/* Bounds (GHOST_WORK_LIMIT, GHOST_ROWS_LIMIT): the estimated
+	 * ghost-element visits; refused: over the work limit, nothing traced
+	 * (trace_check says so); rows_omitted: rows asked for but over the
+	 * rows limit, so not kept */
+	double              work;
+	int                 refused, rows_omitted;
 	double              return_power;   /* W back at the source (first order) */
 	size_t              nover;          /* ghosts over somewhere */
 };
@@ -110,6 +116,15 @@ struct ghost_set {
 /* The bench walked as one part, not two (a test's check that the halves
  * add up to the whole; the sums then differ only in the order added). */
 #define GHOST_ONE_PART 2u
+/* A bench whose reflections would take more ghost-element visits than
+ * this (a few seconds) is refused with a clear error rather than left
+ * running for hours: `--no-ghosts` traces its main beam.  A 200-surface
+ * chain takes ~1e7. */
+#define GHOST_WORK_LIMIT 2e8
+/* Rows kept for JSON and CSV at most (~100 bytes each): past it the
+ * ghosts keep their summaries only, and the output says the rows are
+ * left out. */
+#define GHOST_ROWS_LIMIT 2e6
 void ghost_run(struct trace *t, unsigned opts);
 void ghost_set_free(struct ghost_set *);         /* NULL ok */
 /* "L1.back" for a ghost's k-th reflection, into buf. */

@@ -560,6 +560,12 @@ row_nonfinite(const struct bench *b, const struct trace_row *r)
 int
 trace_check(const struct trace *t, char **cause)
 {
+	if (t->ghosts != NULL && t->ghosts->refused)
+		return fail_with(cause, "its surface reflections would take about %.2g "
+		    "ghost-element visits, more than the %.0e this program allows (hours of "
+		    "work and memory); trace it with --no-ghosts for the main beam alone, or "
+		    "tilt glass past ghost_tilt so that its reflections leave as strays",
+		    t->ghosts->work, GHOST_WORK_LIMIT);
 	if (t->nonfinite == NULL)
 		return 0;
 	return fail_with(cause, "element '%s': the trace gives no finite %s there "

@@ -332,6 +332,9 @@ ghosts_json(struct jout *o, const struct trace *t)
 	}
 	buf_add(b, gs->nstrays ? "\n  ],\n  \"return_power\": " : "],\n  \"return_power\": ");
 	json_put_number(b, gs->return_power);
+	if (gs->rows_omitted)
+		buf_printf(b, ",\n  \"ghost_rows_omitted\": \"more than %.0f ghost rows: "
+		    "each ghost gives its worst, not a row per element\"", GHOST_ROWS_LIMIT);
 }
 
 static void
