@@ -30,18 +30,6 @@ beam_axis_from_waist(double w0, double m2, double lambda, double dz)
 	return a;
 }
 
-/* Complex arithmetic is written out: the library's general division
- * guards against overflow and infinities that a finite q never meets, and
- * costs several times more on the trace's hot path. */
-double
-beam_radius(const struct beam_axis *a, double lambda)
-{
-	double re = creal(a->q), im = cimag(a->q);
-
-	/* Im(1/q) = -Im q / |q|², so w² = M² λ |q|² / (π Im q) */
-	return sqrt(a->m2 * lambda * (re * re + im * im) / (M_PI * im));
-}
-
 double
 beam_curvature(const struct beam_axis *a)
 {
@@ -60,34 +48,6 @@ double
 beam_waist_radius(const struct beam_axis *a, double lambda)
 {
 	return sqrt(a->m2 * lambda * cimag(a->q) / M_PI);
-}
-
-void
-beam_space(struct beam_axis *a, double length)
-{
-	a->q += length;
-}
-
-static double complex
-cdiv(double complex n, double complex d)
-{
-	double dr = creal(d), di = cimag(d), nr = creal(n), ni = cimag(n);
-	double den = dr * dr + di * di;
-
-	return ((nr * dr + ni * di) + I * (ni * dr - nr * di)) / den;
-}
-
-void
-beam_abcd(struct beam_axis *a, double ma, double mb, double mc, double md)
-{
-	a->q = cdiv(ma * a->q + mb, mc * a->q + md);
-}
-
-void
-beam_lens(struct beam_axis *a, double focal)
-{
-	/* [[1, 0], [-1/f, 1]]: q' = q / (1 - q/f) = q f / (f - q) */
-	a->q = cdiv(a->q * focal, focal - a->q);
 }
 
 void

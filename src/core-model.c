@@ -221,18 +221,11 @@ model_key_applies(enum model_key k, enum elem_type t)
 	return (model_keys[k].types & EL_BIT(t)) != 0;
 }
 
-int
-model_has(const struct element *el, enum model_key k)
-{
-	return (el->set & KEY_BIT(k)) != 0;
-}
-
-/* Defaults that depend on the type (a splitter meets the beam at 45°). */
+/* Defaults that depend on the type (a splitter meets the beam at 45°);
+ * model_get (core-model.h) asks here when k is not given. */
 double
-model_get(const struct element *el, enum model_key k)
+model_get_default(const struct element *el, enum model_key k)
 {
-	if (model_has(el, k))
-		return el->val[k];
 	switch (k) {
 	case K_AOI:
 		return el->type == EL_SPLITTER ? 45 : 0;

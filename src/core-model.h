@@ -177,8 +177,18 @@ const char     *model_key_path(enum model_key);
 int             model_key_applies(enum model_key, enum elem_type);
 
 /* Value of a key: the given value or its default (NAN when absent with no default). */
-double          model_get(const struct element *, enum model_key);
-int             model_has(const struct element *, enum model_key);
+/* Inline: the trace asks several times per element (issue #12). */
+double          model_get_default(const struct element *, enum model_key);
+static inline int
+model_has(const struct element *el, enum model_key k)
+{
+	return (el->set & KEY_BIT(k)) != 0;
+}
+static inline double
+model_get(const struct element *el, enum model_key k)
+{
+	return model_has(el, k) ? el->val[k] : model_get_default(el, k);
+}
 
 /* 1 when v is finite and inside key k's range (and whole, for a kind that
  * counts); the one range test model_set and the tolerances share. */
