@@ -702,7 +702,8 @@ model_count(const struct branch *b)
 	size_t n = b->n;
 
 	for (size_t i = 0; i < b->n; i++)
-		n += model_count(&b->el[i].side);
+		if (b->el[i].side.n)        /* no call for the common empty side */
+			n += model_count(&b->el[i].side);
 	return n;
 }
 
