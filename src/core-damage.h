@@ -88,10 +88,23 @@ damage_peak_field(double irradiance)
 	return sqrt(2 * irradiance / (PHYS_C * PHYS_EPS0));
 }
 
+/* fmin without the library call in the cases that cannot differ from it
+ * (unequal numbers; equal ones other than zeros, whose signs it may pick
+ * either way): the same bits, issue #12. */
+static inline double
+damage_fmin(double a, double b)
+{
+	if (a < b)
+		return a;
+	if (b < a || (a == b && a != 0))
+		return b;
+	return fmin(a, b);
+}
+
 static inline double
 damage_linear_density(double power, double wx, double wy)
 {
-	return power / (2 * fmin(wx, wy));
+	return power / (2 * damage_fmin(wx, wy));
 }
 
 static inline int
@@ -126,16 +139,24 @@ damage_ratio(const struct damage_limits *l, const struct damage_exposure *e)
 	return r;
 }
 
+/* The same with 1/safety_factor given (a trace divides once, not per
+ * row: issue #12). */
 static inline enum damage_status
-damage_status_of(double ratio, double sf)
+damage_status_by(double ratio, double inv_sf)
 {
 	if (isnan(ratio))
 		return STATUS_UNRATED;
 	if (ratio >= 1)
 		return STATUS_OVER;
-	if (ratio >= 1 / sf)
+	if (ratio >= inv_sf)
 		return STATUS_CAUTION;
 	return STATUS_OK;
+}
+
+static inline enum damage_status
+damage_status_of(double ratio, double sf)
+{
+	return damage_status_by(ratio, 1 / sf);
 }
 
 #endif

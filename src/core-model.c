@@ -221,21 +221,6 @@ model_key_applies(enum model_key k, enum elem_type t)
 	return (model_keys[k].types & EL_BIT(t)) != 0;
 }
 
-/* Defaults that depend on the type (a splitter meets the beam at 45°);
- * model_get (core-model.h) asks here when k is not given. */
-double
-model_get_default(const struct element *el, enum model_key k)
-{
-	switch (k) {
-	case K_AOI:
-		return el->type == EL_SPLITTER ? 45 : 0;
-	case K_REFLECTANCE:
-		return el->type == EL_MIRROR ? 1 : NAN;
-	default:
-		return model_keys[k].dflt;
-	}
-}
-
 /* A bound as a person reads it: "1 nm", "1 km", "0.5". */
 static void
 bound_text(struct buf *b, const struct model_key_def *d, double v)

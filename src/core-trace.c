@@ -66,6 +66,11 @@ struct state {
 	double           z;
 	double           b_total;
 	int              b_warned;
+	/* The radii of x and y when a gap's focus has computed them at
+	 * the gap's end: the next row's radii, the same arithmetic on the
+	 * same q (issue #12); have_w 0: not known. */
+	int              have_w;
+	double           wx, wy;
 };
 
 /* A branch being walked: where it is and what beam it carries. */
@@ -126,6 +131,7 @@ start_state(const struct bench *b, struct state *st)
 	st->z = 0;
 	st->b_total = 0;
 	st->b_warned = 0;
+	st->have_w = 0;
 }
 
 /* What the element does to the polarization and power: the Mueller matrix
@@ -166,7 +172,8 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 {
 	double r, rs, rp, tp, ts, t, t2;
 
-	polar_identity(main_m);
+	/* every case sets main_m whole; the identity only where it stays
+	 * (no second fill of the matrix per element: issue #12) */
 	if (el->side_port != PORT_NONE)
 		polar_scalar(side_m, 0);
 	switch (el->type) {
@@ -241,6 +248,7 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 		polar_scalar(main_m, 0);
 		break;
 	default:
+		polar_identity(main_m);
 		break;
 	}
 }
@@ -310,7 +318,7 @@ trace_element_ports(const struct element *el, double lambda, const double s_in[4
  * iris, an empty plane (a space) or the end of the branch; a waist on an
  * optic's surface is that optic's rating to judge. */
 static void
-gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
+gap_focus(const struct bench *b, struct trace_row *row, struct state *st,
     const struct element *next)
 {
 	double p = st->s[0], len = row->el->val[K_LENGTH];
@@ -328,10 +336,14 @@ gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
 	beam_space(&y, len);
 	ex = beam_radius(&x, lam);
 	ey = beam_radius(&y, lam);
+	/* the radii at the next element's plane, once the gap is crossed */
+	st->have_w = 1;
+	st->wx = ex;
+	st->wy = ey;
 	a0 = row->wx * row->wy;
 	a1 = ex * ey;
 	/* a waist on the end plane is compared with the start alone */
-	row->focus.concentration = (dz >= len - TRACE_PLANE_TOL ? a0 : fmin(a0, a1)) /
+	row->focus.concentration = (dz >= len - TRACE_PLANE_TOL ? a0 : damage_fmin(a0, a1)) /
 	    (wx * wy);
 	if (row->focus.concentration >= TRACE_FOCUS_CONCENTRATION) {
 		row->has_focus = 1;
@@ -371,7 +383,7 @@ settle(double s[4], double source_power)
  * state of the side port through *side. */
 static void
 visit(struct trace *t, const struct cursor *c, struct trace_row *row,
-    struct state *st, struct state *side, unsigned depth)
+    struct state *st, struct state *side, unsigned depth, double inv_sf)
 {
 	const struct bench *b = t->bench;
 	const struct source *src = &b->src;
@@ -391,8 +403,14 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->qx = st->x;
 	row->qy = st->y;
 	p = row->power_in = st->s[0];
-	row->wx = beam_radius(&st->x, lam);
-	row->wy = beam_radius(&st->y, lam);
+	if (st->have_w) {
+		row->wx = st->wx;
+		row->wy = st->wy;
+	} else {
+		row->wx = beam_radius(&st->x, lam);
+		row->wy = beam_radius(&st->y, lam);
+	}
+	st->have_w = 0;
 	row->irradiance = damage_peak_irradiance(p, row->wx, row->wy);
 	row->linear_density = damage_linear_density(p, row->wx, row->wy);
 	row->fluence = row->peak_power = NAN;
@@ -503,7 +521,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	ex.irradiance = row->irradiance;
 	ex.fluence = row->fluence;
 	row->ratio = damage_ratio(&row->limits, &ex);
-	row->status = damage_status_of(row->ratio, b->safety_factor);
+	row->status = damage_status_by(row->ratio, inv_sf);
 	/* Dumps have their own warning (branch_end); a gap absorbs nothing. */
 	if (el->type != EL_SPACE && el->type != EL_DUMP && !damage_rated(&row->limits) &&
 	    row->power_lost > TRACE_UNRATED_LEVEL)
@@ -601,6 +619,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 	 * trace of an ordinary bench) */
 	struct cursor local[16], *stack = local;
 	size_t top = 0, cap = sizeof local / sizeof *local, nrow = 0;
+	double inv_sf = 1 / b->safety_factor;
 
 	if (t == NULL)
 		t = atomic_exchange(&spare, NULL);
@@ -640,7 +659,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		}
 		el = &c->br->el[c->i];
 		row = &t->rows[nrow++];
-		visit(t, c, row, &c->st, &side, (unsigned)(top - 1));
+		visit(t, c, row, &c->st, &side, (unsigned)(top - 1), inv_sf);
 		{
 			/* never NaN read as safe: a rated element without a
 			 * finite ratio is over, and the trace says where */
