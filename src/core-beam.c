@@ -30,18 +30,6 @@ beam_axis_from_waist(double w0, double m2, double lambda, double dz)
 	return a;
 }
 
-/* Complex arithmetic is written out: the library's general division
- * guards against overflow and infinities that a finite q never meets, and
- * costs several times more on the trace's hot path. */
-double
-beam_radius(const struct beam_axis *a, double lambda)
-{
-	double re = creal(a->q), im = cimag(a->q);
-
-	/* Im(1/q) = -Im q / |q|², so w² = M² λ |q|² / (π Im q) */
-	return sqrt(a->m2 * lambda * (re * re + im * im) / (M_PI * im));
-}
-
 double
 beam_curvature(const struct beam_axis *a)
 {
@@ -60,34 +48,6 @@ double
 beam_waist_radius(const struct beam_axis *a, double lambda)
 {
 	return sqrt(a->m2 * lambda * cimag(a->q) / M_PI);
-}
-
-void
-beam_space(struct beam_axis *a, double length)
-{
-	a->q += length;
-}
-
-static double complex
-cdiv(double complex n, double complex d)
-{
-	double dr = creal(d), di = cimag(d), nr = creal(n), ni = cimag(n);
-	double den = dr * dr + di * di;
-
-	return ((nr * dr + ni * di) + I * (ni * dr - nr * di)) / den;
-}
-
-void
-beam_abcd(struct beam_axis *a, double ma, double mb, double mc, double md)
-{
-	a->q = cdiv(ma * a->q + mb, mc * a->q + md);
-}
-
-void
-beam_lens(struct beam_axis *a, double focal)
-{
-	/* [[1, 0], [-1/f, 1]]: q' = q / (1 - q/f) = q f / (f - q) */
-	a->q = cdiv(a->q * focal, focal - a->q);
 }
 
 void
@@ -245,6 +205,29 @@ area(double ux, double zx, double uy, double zy)
 	return (1 + ux * ux / (zx * zx)) * (1 + uy * uy / (zy * zy));
 }
 
+/* fmin and fmax without the library call where they cannot differ from
+ * it (unequal numbers; equal ones other than zeros, whose signs they may
+ * pick either way): the same bits, issue #12.  A gap asks a few times. */
+static double
+num_min(double a, double b)
+{
+	if (a < b)
+		return a;
+	if (b < a || (a == b && a != 0))
+		return b;
+	return fmin(a, b);
+}
+
+static double
+num_max(double a, double b)
+{
+	if (a > b)
+		return a;
+	if (b > a || (a == b && a != 0))
+		return b;
+	return fmax(a, b);
+}
+
 int
 beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
     double lambda, double length, double end_tol, double *dz, double *wx, double *wy)
@@ -266,7 +249,7 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 	 * end_tol of the start to the gap before, so that a waist on an
 	 * element's plane is found once. */
 	eps = 1e-12 * (length + fabs(ax) + fabs(ay));
-	lo = fmax(end_tol, 0);
+	lo = num_max(end_tol, 0);
 	hi = end_tol > 0 ? length + end_tol : length;
 	/* both waists before the start (or both past the end): every term of
 	 * the slope has one sign there, and the test below fails; this says
@@ -277,7 +260,7 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 	    !(log_slope(snap(hi - ax, eps), zx, snap(hi - ay, eps), zy) > 0))
 		return 0;
 	hi = end_tol > 0 ? hi : length - eps;
-	lo = fmax(lo, eps);
+	lo = num_max(lo, eps);
 	/* Stationary points of wx·wy: with m the mid-point of the two waists,
 	 * d half their separation and s = z - m, the condition is the
 	 * depressed cubic 2s³ + (A + B - 2d²)s + d(A - B) = 0 (A = zx²,
@@ -297,7 +280,7 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 			roots[nroots++] = cbrt(-qq / 2 + sq) + cbrt(-qq / 2 - sq);
 		} else {
 			double r = sqrt(-p / 3);
-			double phi = acos(fmax(-1, fmin(1, -qq / (2 * r * r * r))));
+			double phi = acos(num_max(-1, num_min(1, -qq / (2 * r * r * r))));
 
 			for (int k = 0; k < 3; k++)
 				roots[nroots++] = 2 * r * cos((phi - 2 * M_PI * k) / 3);
@@ -315,7 +298,7 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 		t = m + s;
 		if (!(t > lo && t < hi))
 			continue;
-		t = fmin(t, length);
+		t = num_min(t, length);
 		ar = area(t - ax, zx, t - ay, zy);
 		if (ar < best_area) {
 			best_area = ar;

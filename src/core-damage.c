@@ -29,30 +29,6 @@ damage_peak_power(enum pulse_shape shape, double energy, double fwhm)
 }
 
 double
-damage_fluence(double energy, double wx, double wy)
-{
-	return 2 * energy / (M_PI * wx * wy);
-}
-
-double
-damage_peak_irradiance(double power, double wx, double wy)
-{
-	return 2 * power / (M_PI * wx * wy);
-}
-
-double
-damage_peak_field(double irradiance)
-{
-	return sqrt(2 * irradiance / (PHYS_C * PHYS_EPS0));
-}
-
-double
-damage_linear_density(double power, double wx, double wy)
-{
-	return power / (2 * fmin(wx, wy));
-}
-
-double
 damage_critical_power(double lambda, double n0, double n2)
 {
 	return 3.77 * lambda * lambda / (8 * M_PI * n0 * n2);
@@ -137,50 +113,6 @@ damage_limits(const struct element *el, const struct source *src,
 	/* λ scaling only matters when a scaled rating is in use */
 	if (isnan(lim->cw_linear) && isnan(lim->cw_irradiance) && isnan(lim->fluence))
 		lim->flags &= ~(unsigned)DAMAGE_WL_SCALED;
-}
-
-int
-damage_rated(const struct damage_limits *l)
-{
-	return !isnan(l->cw_linear) || !isnan(l->cw_irradiance) ||
-	    !isnan(l->fluence) || !isnan(l->max_power) || !isnan(l->max_absorbed);
-}
-
-static double
-worse(double r, double metric, double limit)
-{
-	double x;
-
-	if (isnan(limit))
-		return r;
-	x = metric / limit;
-	return isnan(r) || x > r ? x : r;
-}
-
-double
-damage_ratio(const struct damage_limits *l, const struct damage_exposure *e)
-{
-	double r = NAN;
-
-	r = worse(r, e->linear_density, l->cw_linear);
-	r = worse(r, e->irradiance, l->cw_irradiance);
-	if (!isnan(e->fluence))
-		r = worse(r, e->fluence, l->fluence);
-	r = worse(r, e->power_in, l->max_power);
-	r = worse(r, e->power_lost, l->max_absorbed);
-	return r;
-}
-
-enum damage_status
-damage_status_of(double ratio, double sf)
-{
-	if (isnan(ratio))
-		return STATUS_UNRATED;
-	if (ratio >= 1)
-		return STATUS_OVER;
-	if (ratio >= 1 / sf)
-		return STATUS_CAUTION;
-	return STATUS_OK;
 }
 
 const char *

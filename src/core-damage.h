@@ -5,6 +5,9 @@
 #ifndef CORE_DAMAGE_H
 #define CORE_DAMAGE_H
 
+#include <math.h>
+
+#include "core-beam.h"
 #include "core-model.h"
 
 /* Pulses shorter or longer than this are outside the range where the
@@ -15,10 +18,10 @@
 /* Peak power = k · E / τ_FWHM: 2√(ln2/π) gaussian, ln(1+√2) sech², 1 square. */
 double damage_peak_factor(enum pulse_shape);
 double damage_peak_power(enum pulse_shape, double energy, double fwhm);  /* k·E/τ */
-double damage_peak_irradiance(double power, double wx, double wy);  /* 2P/(π wx wy) */
-double damage_fluence(double energy, double wx, double wy);         /* 2E/(π wx wy) */
-double damage_peak_field(double irradiance);                        /* √(2I/(c ε0)) V/m */
-double damage_linear_density(double power, double wx, double wy);   /* P/(2 min w) */
+/* damage_peak_irradiance: 2P/(π wx wy) (inline below) */
+/* damage_fluence: 2E/(π wx wy) (inline below) */
+/* damage_peak_field: √(2I/(c ε0)) V/m (inline below) */
+/* damage_linear_density: P/(2 min w) (inline below) */
 /* Marburger: P_cr = 3.77 λ² / (8π n0 n2). */
 double damage_critical_power(double lambda, double n0, double n2);
 /* Distance after which a collimated Gaussian beam of radius w carrying
@@ -53,17 +56,107 @@ struct damage_limits {
 };
 
 void   damage_limits(const struct element *, const struct source *, struct damage_limits *);
-int    damage_rated(const struct damage_limits *);
+/* damage_rated: inline below */
 
 /* What the element sees, and the ratio to its scaled limits (the largest
  * that applies; NAN when none applies). */
 struct damage_exposure {
 	double power_in, power_lost, linear_density, irradiance, fluence;
 };
-double damage_ratio(const struct damage_limits *, const struct damage_exposure *);
+/* damage_ratio: inline below */
 
 enum damage_status { STATUS_UNRATED, STATUS_OK, STATUS_CAUTION, STATUS_OVER };
-enum damage_status damage_status_of(double ratio, double safety_factor);
+/* damage_status_of: inline below */
 const char *damage_status_name(enum damage_status);
+
+/* Inline (the trace's hot path, issue #12); same arithmetic as ever. */
+static inline double
+damage_fluence(double energy, double wx, double wy)
+{
+	return 2 * energy / (M_PI * wx * wy);
+}
+
+static inline double
+damage_peak_irradiance(double power, double wx, double wy)
+{
+	return 2 * power / (M_PI * wx * wy);
+}
+
+static inline double
+damage_peak_field(double irradiance)
+{
+	return sqrt(2 * irradiance / (PHYS_C * PHYS_EPS0));
+}
+
+/* fmin without the library call in the cases that cannot differ from it
+ * (unequal numbers; equal ones other than zeros, whose signs it may pick
+ * either way): the same bits, issue #12. */
+static inline double
+damage_fmin(double a, double b)
+{
+	if (a < b)
+		return a;
+	if (b < a || (a == b && a != 0))
+		return b;
+	return fmin(a, b);
+}
+
+static inline double
+damage_linear_density(double power, double wx, double wy)
+{
+	return power / (2 * damage_fmin(wx, wy));
+}
+
+static inline int
+damage_rated(const struct damage_limits *l)
+{
+	return !isnan(l->cw_linear) || !isnan(l->cw_irradiance) ||
+	    !isnan(l->fluence) || !isnan(l->max_power) || !isnan(l->max_absorbed);
+}
+
+static inline double
+damage_worse(double r, double metric, double limit)
+{
+	double x;
+
+	if (isnan(limit))
+		return r;
+	x = metric / limit;
+	return isnan(r) || x > r ? x : r;
+}
+
+static inline double
+damage_ratio(const struct damage_limits *l, const struct damage_exposure *e)
+{
+	double r = NAN;
+
+	r = damage_worse(r, e->linear_density, l->cw_linear);
+	r = damage_worse(r, e->irradiance, l->cw_irradiance);
+	if (!isnan(e->fluence))
+		r = damage_worse(r, e->fluence, l->fluence);
+	r = damage_worse(r, e->power_in, l->max_power);
+	r = damage_worse(r, e->power_lost, l->max_absorbed);
+	return r;
+}
+
+/* The same with 1/safety_factor given (a trace divides once, not per
+ * row: issue #12). */
+static inline enum damage_status
+damage_status_by(double ratio, double inv_sf)
+{
+	if (isnan(ratio))
+		return STATUS_UNRATED;
+	if (ratio >= 1)
+		return STATUS_OVER;
+	if (ratio >= inv_sf)
+		return STATUS_CAUTION;
+	return STATUS_OK;
+}
+
+static inline enum damage_status
+damage_status_of(double ratio, double sf)
+{
+	return damage_status_by(ratio, 1 / sf);
+}
 
 #endif

@@ -221,28 +221,6 @@ model_key_applies(enum model_key k, enum elem_type t)
 	return (model_keys[k].types & EL_BIT(t)) != 0;
 }
 
-int
-model_has(const struct element *el, enum model_key k)
-{
-	return (el->set & KEY_BIT(k)) != 0;
-}
-
-/* Defaults that depend on the type (a splitter meets the beam at 45°). */
-double
-model_get(const struct element *el, enum model_key k)
-{
-	if (model_has(el, k))
-		return el->val[k];
-	switch (k) {
-	case K_AOI:
-		return el->type == EL_SPLITTER ? 45 : 0;
-	case K_REFLECTANCE:
-		return el->type == EL_MIRROR ? 1 : NAN;
-	default:
-		return model_keys[k].dflt;
-	}
-}
-
 /* A bound as a person reads it: "1 nm", "1 km", "0.5". */
 static void
 bound_text(struct buf *b, const struct model_key_def *d, double v)
@@ -711,7 +689,8 @@ model_count(const struct branch *b)
 	size_t n = b->n;
 
 	for (size_t i = 0; i < b->n; i++)
-		n += model_count(&b->el[i].side);
+		if (b->el[i].side.n)        /* no call for the common empty side */
+			n += model_count(&b->el[i].side);
 	return n;
 }
 

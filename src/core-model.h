@@ -9,6 +9,7 @@
 #ifndef CORE_MODEL_H
 #define CORE_MODEL_H
 
+#include <math.h>
 #include <stddef.h>
 #include <stdint.h>
 
@@ -177,8 +178,27 @@ const char     *model_key_path(enum model_key);
 int             model_key_applies(enum model_key, enum elem_type);
 
 /* Value of a key: the given value or its default (NAN when absent with no default). */
-double          model_get(const struct element *, enum model_key);
-int             model_has(const struct element *, enum model_key);
+/* Inline: the trace asks several times per element (issue #12). */
+static inline int
+model_has(const struct element *el, enum model_key k)
+{
+	return (el->set & KEY_BIT(k)) != 0;
+}
+/* Defaults that depend on the type (a splitter meets the beam at 45°). */
+static inline double
+model_get(const struct element *el, enum model_key k)
+{
+	if (model_has(el, k))
+		return el->val[k];
+	switch (k) {
+	case K_AOI:
+		return el->type == EL_SPLITTER ? 45 : 0;
+	case K_REFLECTANCE:
+		return el->type == EL_MIRROR ? 1 : NAN;
+	default:
+		return model_keys[k].dflt;
+	}
+}
 
 /* 1 when v is finite and inside key k's range (and whole, for a kind that
  * counts); the one range test model_set and the tolerances share. */

@@ -10,20 +10,6 @@
 
 #define DEG (M_PI / 180.0)
 
-void
-polar_identity(struct mueller *m)
-{
-	polar_scalar(m, 1);
-}
-
-void
-polar_scalar(struct mueller *m, double t)
-{
-	memset(m, 0, sizeof *m);
-	for (int i = 0; i < 4; i++)
-		m->m[i][i] = t;
-}
-
 /* M' = R(-θ)·M·R(θ) for an M that is block-diagonal in (S1, S2): only the
  * middle 2×2 block and the first row/column mix. */
 static void
@@ -71,15 +57,6 @@ polar_retarder(struct mueller *m, double waves, double angle_deg)
 }
 
 void
-polar_reflect(struct mueller *m)
-{
-	for (int j = 0; j < 4; j++) {
-		m->m[2][j] = -m->m[2][j];
-		m->m[3][j] = -m->m[3][j];
-	}
-}
-
-void
 polar_mul(struct mueller *out, const struct mueller *a, const struct mueller *b)
 {
 	struct mueller t;
@@ -92,17 +69,6 @@ polar_mul(struct mueller *out, const struct mueller *a, const struct mueller *b)
 			t.m[i][j] = s;
 		}
 	*out = t;
-}
-
-void
-polar_apply(const struct mueller *m, const double in[4], double out[4])
-{
-	double t[4];
-
-	for (int i = 0; i < 4; i++)
-		t[i] = m->m[i][0] * in[0] + m->m[i][1] * in[1] +
-		    m->m[i][2] * in[2] + m->m[i][3] * in[3];
-	memcpy(out, t, sizeof t);
 }
 
 void

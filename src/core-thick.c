@@ -57,7 +57,7 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
     struct beam_axis *y)
 {
 	double t = model_has(el, K_THICKNESS) ? el->val[K_THICKNESS] : 0;
-	double n = thick_index(el, lambda);
+	double n;                   /* only where the glass is crossed (below) */
 	int on_x = 1, on_y = 1;
 
 	if (el->type == EL_LENS) {
@@ -67,6 +67,8 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 		 * shape; model_validate has held focal to them) */
 		if (model_has(el, K_R1) || model_has(el, K_R2)) {
 			double c1 = curvature(el, K_R1), c2 = curvature(el, K_R2);
+
+			n = thick_index(el, lambda);
 
 			/* the glass is crossed on both axes; only the lens
 			 * axes see the curved faces */
@@ -89,6 +91,7 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 	}
 	if (t == 0)
 		return 0;
+	n = thick_index(el, lambda);
 	if (el->type == EL_WINDOW && model_get(el, K_BREWSTER) != 0) {
 		double lt, ls;
 

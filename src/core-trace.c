@@ -4,6 +4,7 @@
 #include <config.h>
 
 #include <math.h>
+#include <stdatomic.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -54,6 +55,10 @@ trace_branch_name(const struct element *parent, enum port port, char *buf, size_
 		snprintf(buf, n, "%s.%s", parent->id, model_port_name(port));
 }
 
+/* A freed result whose memory the next fresh trace takes (trace_free);
+ * owned; NULL: none. */
+static _Atomic(struct trace *) spare;
+
 /* The beam between elements. */
 struct state {
 	double           s[4];
@@ -61,6 +66,11 @@ struct state {
 	double           z;
 	double           b_total;
 	int              b_warned;
+	/* The radii of x and y when a gap's focus has computed them at
+	 * the gap's end: the next row's radii, the same arithmetic on the
+	 * same q (issue #12); have_w 0: not known. */
+	int              have_w;
+	double           wx, wy;
 };
 
 /* A branch being walked: where it is and what beam it carries. */
@@ -122,6 +132,7 @@ start_state(const struct bench *b, struct state *st)
 	st->z = 0;
 	st->b_total = 0;
 	st->b_warned = 0;
+	st->have_w = 0;
 }
 
 /* What the element does to the polarization and power: the Mueller matrix
@@ -162,7 +173,8 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 {
 	double r, rs, rp, tp, ts, t, t2;
 
-	polar_identity(main_m);
+	/* every case sets main_m whole; the identity only where it stays
+	 * (no second fill of the matrix per element: issue #12) */
 	if (el->side_port != PORT_NONE)
 		polar_scalar(side_m, 0);
 	switch (el->type) {
@@ -237,6 +249,7 @@ element_mueller(const struct element *el, double lambda, struct mueller *main_m,
 		polar_scalar(main_m, 0);
 		break;
 	default:
+		polar_identity(main_m);
 		break;
 	}
 }
@@ -306,7 +319,7 @@ trace_element_ports(const struct element *el, double lambda, const double s_in[4
  * iris, an empty plane (a space) or the end of the branch; a waist on an
  * optic's surface is that optic's rating to judge. */
 static void
-gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
+gap_focus(const struct bench *b, struct trace_row *row, struct state *st,
     const struct element *next)
 {
 	double p = st->s[0], len = row->el->val[K_LENGTH];
@@ -324,10 +337,14 @@ gap_focus(const struct bench *b, struct trace_row *row, const struct state *st,
 	beam_space(&y, len);
 	ex = beam_radius(&x, lam);
 	ey = beam_radius(&y, lam);
+	/* the radii at the next element's plane, once the gap is crossed */
+	st->have_w = 1;
+	st->wx = ex;
+	st->wy = ey;
 	a0 = row->wx * row->wy;
 	a1 = ex * ey;
 	/* a waist on the end plane is compared with the start alone */
-	row->focus.concentration = (dz >= len - TRACE_PLANE_TOL ? a0 : fmin(a0, a1)) /
+	row->focus.concentration = (dz >= len - TRACE_PLANE_TOL ? a0 : damage_fmin(a0, a1)) /
 	    (wx * wy);
 	if (row->focus.concentration >= TRACE_FOCUS_CONCENTRATION) {
 		row->has_focus = 1;
@@ -367,7 +384,7 @@ settle(double s[4], double source_power)
  * state of the side port through *side. */
 static void
 visit(struct trace *t, const struct cursor *c, struct trace_row *row,
-    struct state *st, struct state *side, unsigned depth)
+    struct state *st, struct state *side, unsigned depth, double inv_sf)
 {
 	const struct bench *b = t->bench;
 	const struct source *src = &b->src;
@@ -376,7 +393,8 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	struct damage_exposure ex;
 	double p, a, lam = src->wavelength, glass = 0;
 
-	memset(row, 0, sizeof *row);
+	/* Every field is written below, once: no memset of the row first
+	 * (issue #12: it was an eighth of the time per element). */
 	row->el = el;
 	row->parent = c->parent;
 	row->port = c->port;
@@ -386,14 +404,28 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	row->qx = st->x;
 	row->qy = st->y;
 	p = row->power_in = st->s[0];
-	row->wx = beam_radius(&st->x, lam);
-	row->wy = beam_radius(&st->y, lam);
+	if (st->have_w) {
+		row->wx = st->wx;
+		row->wy = st->wy;
+	} else {
+		row->wx = beam_radius(&st->x, lam);
+		row->wy = beam_radius(&st->y, lam);
+	}
+	st->have_w = 0;
 	row->irradiance = damage_peak_irradiance(p, row->wx, row->wy);
 	row->linear_density = damage_linear_density(p, row->wx, row->wy);
 	row->fluence = row->peak_power = NAN;
 	row->b_integral = row->critical_power = row->collapse_distance = NAN;
 	row->critical_ratio = NAN;
 	row->b_total = st->b_total;
+	row->clip_loss = 0;
+	row->flags = 0;
+	row->has_waist = row->has_focus = 0;
+	row->focus.z = row->focus.wx = row->focus.wy = 0;
+	row->focus.irradiance = row->focus.peak_irradiance = 0;
+	row->focus.concentration = 0;
+	row->focus.on = NULL;
+	row->focus.air_breakdown = 0;
 	if (src->pulsed) {
 		double e = p / src->rep_rate;
 
@@ -490,7 +522,7 @@ visit(struct trace *t, const struct cursor *c, struct trace_row *row,
 	ex.irradiance = row->irradiance;
 	ex.fluence = row->fluence;
 	row->ratio = damage_ratio(&row->limits, &ex);
-	row->status = damage_status_of(row->ratio, b->safety_factor);
+	row->status = damage_status_by(row->ratio, inv_sf);
 	/* Dumps have their own warning (branch_end); a gap absorbs nothing. */
 	if (el->type != EL_SPACE && el->type != EL_DUMP && !damage_rated(&row->limits) &&
 	    row->power_lost > TRACE_UNRATED_LEVEL)
@@ -589,9 +621,15 @@ trace_rerun(struct trace *t, const struct bench *b)
 struct trace *
 trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 {
-	struct cursor *stack;
-	size_t top = 0, cap = 16, nrow = 0;
+	/* a side branch in a side branch is rare: the C stack holds the
+	 * first levels, the heap takes deeper nesting (no allocation per
+	 * trace of an ordinary bench) */
+	struct cursor local[16], *stack = local;
+	size_t top = 0, cap = sizeof local / sizeof *local, nrow = 0;
+	double inv_sf = 1 / b->safety_factor;
 
+	if (t == NULL)
+		t = atomic_exchange(&spare, NULL);
 	if (t == NULL)
 		t = xcalloc(1, sizeof *t);
 	t->bench = b;
@@ -611,7 +649,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 	t->nonfinite_what = NULL;
 	ghost_set_free(t->ghosts);
 	t->ghosts = NULL;
-	stack = xcalloc(cap, sizeof *stack);
+	memset(&stack[0], 0, sizeof stack[0]);
 	stack[0].br = &b->path;
 	start_state(b, &stack[0].st);
 	top = 1;
@@ -628,7 +666,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		}
 		el = &c->br->el[c->i];
 		row = &t->rows[nrow++];
-		visit(t, c, row, &c->st, &side, (unsigned)(top - 1));
+		visit(t, c, row, &c->st, &side, (unsigned)(top - 1), inv_sf);
 		{
 			/* never NaN read as safe: a rated element without a
 			 * finite ratio is over, and the trace says where */
@@ -652,7 +690,12 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		if (el->side_port != PORT_NONE) {
 			if (top == cap) {
 				cap *= 2;
-				stack = xreallocarray(stack, cap, sizeof *stack);
+				if (stack == local) {
+					stack = xreallocarray(NULL, cap, sizeof *stack);
+					memcpy(stack, local, sizeof local);
+				} else {
+					stack = xreallocarray(stack, cap, sizeof *stack);
+				}
 				c = &stack[top - 1];
 			}
 			stack[top].br = &el->side;
@@ -663,7 +706,8 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 			top++;
 		}
 	}
-	free(stack);
+	if (stack != local)
+		free(stack);
 	/* A worst ratio of 0 (rated, but no power reaches it) allows any power. */
 	if (t->worst >= 0)
 		t->safe_source_power = t->worst_ratio > 0 ?
@@ -680,8 +724,8 @@ trace_add_ghosts(struct trace *t, unsigned opts)
 		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);
 }
 
-void
-trace_free(struct trace *t)
+static void
+trace_release(struct trace *t)
 {
 	if (t == NULL)
 		return;
@@ -689,6 +733,22 @@ trace_free(struct trace *t)
 	free(t->warn);
 	ghost_set_free(t->ghosts);
 	free(t);
+}
+
+/* The last result freed is kept (its rows and warnings, not its
+ * reflections) for the next fresh trace: a 10^5-element result is larger
+ * than the C library hands back without fresh pages, and a fresh result
+ * then cost 2.7 times a reused one in page faults (issue #12).  One for
+ * the whole process, swapped atomically (the tolerance run traces from
+ * several threads); the one it displaces is freed. */
+void
+trace_free(struct trace *t)
+{
+	if (t == NULL)
+		return;
+	ghost_set_free(t->ghosts);
+	t->ghosts = NULL;
+	trace_release(atomic_exchange(&spare, t));
 }
 
 void
