@@ -52,6 +52,24 @@ thick_lens(struct beam_axis *a, double n, double c1, double c2, double t)
 	beam_abcd(a, ma, mb, mc, md);
 }
 
+/* A lens by its faces' curvatures c1 (met first) and c2: the glass is
+ * crossed on both axes; only the lens axes see the curved faces. */
+static void
+lens_by_radii(const struct element *el, double lambda, double c1, double c2, double t,
+    struct beam_axis *x, struct beam_axis *y)
+{
+	double n = thick_index(el, lambda);
+
+	if (model_get(el, K_AXIS) != AXIS_Y)
+		thick_lens(x, n, c1, c2, t);
+	else
+		beam_space(x, t / n);
+	if (model_get(el, K_AXIS) != AXIS_X)
+		thick_lens(y, n, c1, c2, t);
+	else
+		beam_space(y, t / n);
+}
+
 double
 thick_apply(const struct element *el, double lambda, struct beam_axis *x,
     struct beam_axis *y)
@@ -66,20 +84,7 @@ thick_apply(const struct element *el, double lambda, struct beam_axis *x,
 		/* radii win over focal when both are given (they fix the
 		 * shape; model_validate has held focal to them) */
 		if (model_has(el, K_R1) || model_has(el, K_R2)) {
-			double c1 = curvature(el, K_R1), c2 = curvature(el, K_R2);
-
-			n = thick_index(el, lambda);
-
-			/* the glass is crossed on both axes; only the lens
-			 * axes see the curved faces */
-			if (on_x)
-				thick_lens(x, n, c1, c2, t);
-			else
-				beam_space(x, t / n);
-			if (on_y)
-				thick_lens(y, n, c1, c2, t);
-			else
-				beam_space(y, t / n);
+			lens_by_radii(el, lambda, curvature(el, K_R1), curvature(el, K_R2), t, x, y);
 			return t;
 		}
 		/* a lens given by its focal length: thin at its front
@@ -111,7 +116,6 @@ thick_apply_back(const struct element *el, double lambda, struct beam_axis *x,
     struct beam_axis *y)
 {
 	double t = model_has(el, K_THICKNESS) ? el->val[K_THICKNESS] : 0;
-	double n = thick_index(el, lambda);
 	int on_x = 1, on_y = 1;
 
 	if (el->type != EL_LENS)
@@ -119,22 +123,16 @@ thick_apply_back(const struct element *el, double lambda, struct beam_axis *x,
 	on_x = model_get(el, K_AXIS) != AXIS_Y;
 	on_y = model_get(el, K_AXIS) != AXIS_X;
 	if (model_has(el, K_R1) || model_has(el, K_R2)) {
-		/* the radii fix the shape (as forward); the back face first: in the unfolded frame of the return
-		 * trip each radius changes sign and the faces swap */
-		double c1 = -curvature(el, K_R2), c2 = -curvature(el, K_R1);
-
-		if (on_x)
-			thick_lens(x, n, c1, c2, t);
-		else
-			beam_space(x, t / n);
-		if (on_y)
-			thick_lens(y, n, c1, c2, t);
-		else
-			beam_space(y, t / n);
+		/* the radii fix the shape (as forward); the back face first:
+		 * in the unfolded frame of the return trip each radius
+		 * changes sign and the faces swap */
+		lens_by_radii(el, lambda, -curvature(el, K_R2), -curvature(el, K_R1), t, x, y);
 		return t;
 	}
 	/* by its focal length: the plate first, then the thin lens */
 	if (t != 0) {
+		double n = thick_index(el, lambda);
+
 		beam_space(x, t / n);
 		beam_space(y, t / n);
 	}
