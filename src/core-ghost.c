@@ -859,6 +859,19 @@ struct ghost_part {
 	size_t           r0, r1;
 };
 
+/* n empty summaries: no ghost met, nothing rated yet. */
+static struct ghost_at *
+at_new(size_t n)
+{
+	struct ghost_at *at = xcalloc(n, sizeof *at);
+
+	for (size_t r = 0; r < n; r++) {
+		at[r].top = -1;
+		at[r].main_ratio = at[r].top_ratio = NAN;
+	}
+	return at;
+}
+
 static void
 part_init(struct ghost_part *pt, const struct ghost_ctx *whole, struct ghost_set *gs,
     size_t r0, size_t r1)
@@ -872,11 +885,7 @@ part_init(struct ghost_part *pt, const struct ghost_ctx *whole, struct ghost_set
 	pt->c.pend = NULL;
 	pt->c.npend = pt->c.cappend = 0;
 	gs->rows_kept = whole->keep_rows;
-	gs->at = xcalloc(n, sizeof *gs->at);
-	for (size_t r = 0; r < n; r++) {
-		gs->at[r].top = -1;
-		gs->at[r].main_ratio = gs->at[r].top_ratio = NAN;
-	}
+	gs->at = at_new(n);
 	pt->r0 = r0;
 	pt->r1 = r1;
 }
@@ -1026,11 +1035,7 @@ ghost_run(struct trace *t, unsigned opts)
 	c.gs->work = work;
 	if (work > GHOST_WORK_LIMIT) {
 		/* an empty summary per row, as readers expect one */
-		c.gs->at = xcalloc(t->nrows, sizeof *c.gs->at);
-		for (size_t r = 0; r < t->nrows; r++) {
-			c.gs->at[r].top = -1;
-			c.gs->at[r].main_ratio = c.gs->at[r].top_ratio = NAN;
-		}
+		c.gs->at = at_new(t->nrows);
 		/* said by trace_check: never a silent main-beam-only rating */
 		c.gs->refused = 1;
 		free(c.prev);
