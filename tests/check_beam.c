@@ -430,6 +430,30 @@ START_TEST(test_clip_very_elliptic)
 }
 END_TEST
 
+/* Beams near round take the program's series (e² <= 0.5, wy/wx within
+ * 1 + √2) and the rest the quadrature: both against the separable
+ * integral, relative to T so that small apertures count too, on either
+ * side of the switch and down to a hundredth of the beam. */
+START_TEST(test_clip_near_round)
+{
+	static const double ratio[] = { 1 + 1e-9, 1.001, 1.05, 1.3, 1.6, 2.0, 2.41, 2.42, 3.0 };
+	static const double aw[] = { 0.01, 0.1, 0.5, 1.0, 1.7, 3.0 };
+
+	for (size_t i = 0; i < NELEMS(ratio); i++) {
+		for (size_t j = 0; j < NELEMS(aw); j++) {
+			double wx = 1e-3, wy = wx * ratio[i], a = aw[j] * wy;
+			double ref = clip_separable(wx, wy, a);
+
+			ck_assert_msg(fabs(beam_clip_transmission(wx, wy, a) - ref) <= 1e-9 * ref,
+			    "wy/wx %g, a/wy %g: T %.15g, separable %.15g", ratio[i], aw[j],
+			    beam_clip_transmission(wx, wy, a), ref);
+			ck_assert_msg(fabs(beam_clip_transmission(wy, wx, a) - ref) <= 1e-9 * ref,
+			    "wx/wy %g, a/wx %g", ratio[i], aw[j]);
+		}
+	}
+}
+END_TEST
+
 /* Limits: nothing passes a closed aperture, everything passes a huge one,
  * a nearly round beam meets the circular formula, and a wider opening
  * never passes less. */
@@ -696,6 +720,7 @@ main(void)
 	tcase_add_loop_test(tk, test_clip_table, 0, NELEMS(clip_cases));
 	tcase_add_test(tk, test_clip_random);
 	tcase_add_test(tk, test_clip_very_elliptic);
+	tcase_add_test(tk, test_clip_near_round);
 	tcase_add_test(tk, test_clip_limits);
 	tcase_set_timeout(tk, 60);
 	suite_add_tcase(s, tk);
