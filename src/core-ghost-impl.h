@@ -54,6 +54,8 @@ struct ghost_ctx {
 	double               floor;     /* W: GHOST_FLOOR of the source */
 	double               lam;
 	int                  keep_rows; /* store every ghost's rows (GHOST_ROWS) */
+	int                  lean;      /* GHOST_LEAN */
+	double               inv_rep;   /* 1/rep_rate of a pulsed source (fluence) */
 };
 
 /* A ghost's beam: its two axes, and whether they are equal (a round beam

@@ -42,6 +42,139 @@ ghost_set_free(struct ghost_set *gs)
 	free(gs);
 }
 
+/* ---- buffers kept between traces ---- */
+
+struct ghost_scratch {
+	struct ghost_set     *set[2];   /* owned: emptied sets, the halves' */
+	size_t                cap;      /* rows the per-row arrays hold */
+	long                 *prev, *next;              /* owned [cap] */
+	struct ghost_pass    *pass;                     /* owned [cap] */
+	struct ghost_acc     *acc[2];                   /* owned [cap] */
+	double               *fourth[2];                /* owned [cap] */
+	double               *split;                    /* owned [4 cap] */
+	struct ghost_pending *pend[2];                  /* owned */
+	size_t                cappend[2];
+	long                 *tmp;                      /* owned [captmp] */
+	size_t                captmp;
+};
+
+/* Kept rows past this many are handed back to the C library rather
+ * than kept for the next trace (a long chain's run for JSON has 10⁶). */
+#define SCRATCH_ROWS_KEPT 65536
+
+void
+ghost_scratch_free(struct ghost_scratch *s)
+{
+	if (s == NULL)
+		return;
+	for (int k = 0; k < 2; k++) {
+		ghost_set_free(s->set[k]);
+		free(s->acc[k]);
+		free(s->fourth[k]);
+		free(s->pend[k]);
+	}
+	free(s->prev);
+	free(s->next);
+	free(s->pass);
+	free(s->split);
+	free(s->tmp);
+	free(s);
+}
+
+/* Set k of the scratch, emptied but with its buffers. */
+static void
+scratch_put_set(struct ghost_scratch *s, int k, struct ghost_set *gs)
+{
+	struct ghost_set kept;
+
+	if (gs->caprows > SCRATCH_ROWS_KEPT) {
+		free(gs->rows);
+		gs->rows = NULL;
+		gs->caprows = 0;
+	}
+	memset(&kept, 0, sizeof kept);
+	kept.g = gs->g;
+	kept.cap = gs->cap;
+	kept.rows = gs->rows;
+	kept.caprows = gs->caprows;
+	kept.foci = gs->foci;
+	kept.capfoci = gs->capfoci;
+	kept.strays = gs->strays;
+	kept.capstrays = gs->capstrays;
+	kept.at = gs->at;
+	kept.capat = gs->capat;
+	*gs = kept;
+	ghost_set_free(s->set[k]);
+	s->set[k] = gs;
+}
+
+void
+ghost_recycle(struct trace *t)
+{
+	if (t->ghosts == NULL)
+		return;
+	if (t->gscratch == NULL)
+		t->gscratch = xcalloc(1, sizeof *t->gscratch);
+	scratch_put_set(t->gscratch, 0, t->ghosts);
+	t->ghosts = NULL;
+}
+
+/* An empty set with room for n summaries, from the scratch when it has
+ * one (the caller owns it). */
+static struct ghost_set *
+scratch_take_set(struct ghost_scratch *s, int k, size_t n)
+{
+	struct ghost_set *gs = s->set[k];
+
+	s->set[k] = NULL;
+	if (gs == NULL)
+		gs = xcalloc(1, sizeof *gs);
+	if (gs->capat < n || gs->at == NULL) {
+		free(gs->at);
+		gs->capat = n ? n : 1;
+		gs->at = xmalloc(gs->capat * sizeof *gs->at);
+	}
+	return gs;
+}
+
+/* The per-row arrays for n rows (contents undefined). */
+static void
+scratch_rows(struct ghost_scratch *s, size_t n)
+{
+	if (s->cap >= n && s->prev != NULL)
+		return;
+	s->cap = n ? n : 1;
+	free(s->prev);
+	free(s->next);
+	free(s->pass);
+	free(s->split);
+	s->prev = xmalloc(s->cap * sizeof *s->prev);
+	s->next = xmalloc(s->cap * sizeof *s->next);
+	s->pass = xmalloc(s->cap * sizeof *s->pass);
+	s->split = xmalloc(4 * s->cap * sizeof *s->split);
+	for (int k = 0; k < 2; k++) {
+		free(s->acc[k]);
+		free(s->fourth[k]);
+		s->acc[k] = xmalloc(s->cap * sizeof *s->acc[k]);
+		s->fourth[k] = xmalloc(s->cap * sizeof *s->fourth[k]);
+	}
+}
+
+/* n longs for one step's own use (rows linked, ghosts renumbered, sparks
+ * per gap: one after the other, never two at once). */
+static long *
+scratch_longs(struct ghost_scratch *s, size_t n)
+{
+	if (n == 0)
+		n = 1;
+	if (s->captmp < n) {
+		free(s->tmp);
+		s->tmp = xmalloc(n * sizeof *s->tmp);
+		s->captmp = n;
+	}
+	return s->tmp;
+}
+
 void
 ghost_surface_name(const struct ghost *g, int k, char *buf, size_t n)
 {
@@ -295,14 +428,19 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 	const struct ghost_pass *ps = &c->pass[u];
 	const struct source *src = &c->b->src;
 	struct ghost_acc *a = &c->acc[u];
-	/* 2P/(π wx wy) (damage_peak_irradiance) */
-	double irr = 2 * p / M_PI * (ix == iy ? ix : sqrt(ix * iy));
-	double flu = src->pulsed ? irr / src->rep_rate : NAN, lin = NAN, wx = NAN, wy = NAN;
+	double irr, flu, lin = NAN, wx = NAN, wy = NAN;
 	double ratio = NAN;
 	enum damage_status st = STATUS_UNRATED;
 	struct ghost_row *r;
 
 	g->nrows++;
+	/* nothing here that a rating reads */
+	if (c->lean && !ps->rated)
+		return NULL;
+	/* 2P/(π wx wy) (damage_peak_irradiance) */
+	irr = 2 * p / M_PI * (ix == iy ? ix : sqrt(ix * iy));
+	/* c->inv_rep is NAN for CW, as the fluence is */
+	flu = irr * c->inv_rep;
 	if (c->keep_rows || ps->linear) {
 		wx = 1 / sqrt(ix);
 		wy = ix == iy ? wx : 1 / sqrt(iy);
@@ -368,6 +506,25 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 	return r;
 }
 
+/* Whether a focus of this ghost could reach the air's breakdown
+ * irradiance: nowhere is an axis narrower than its own waist, w0² = M²λ
+ * Im q/π (Kogelnik & Li 1966, eq. 21 at the waist), so 2P/(π w0x w0y) of
+ * the pulse's peak power bounds every focus it has (the margin keeps
+ * rounding on the safe side).  A CW ghost never sparks. */
+static int
+ghost_may_spark(const struct ghost_ctx *c, const struct ghost_beam *gb, double p)
+{
+	const struct source *s = &c->b->src;
+	double w0x2, w0y2, peak;
+
+	if (!s->pulsed)
+		return 0;
+	w0x2 = gb->x.m2 * c->lam * cimag(gb->x.q) / M_PI;
+	w0y2 = gb->y.m2 * c->lam * cimag(gb->y.q) / M_PI;
+	peak = damage_peak_factor(s->shape) * p / s->rep_rate / s->pulse_width;
+	return !(2 * peak / (M_PI * sqrt(w0x2 * w0y2)) < 0.999 * c->b->air_breakdown);
+}
+
 void
 ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
     const struct ghost_beam *gb, double p)
@@ -378,6 +535,8 @@ ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
 	struct ghost_focus *f;
 	struct ghost_set *gs = c->gs;
 
+	if (c->lean && !ghost_may_spark(c, gb, p))
+		return;
 	if (!beam_gap_focus(&gb->x, &gb->y, c->lam, len, 0, &dz, &wx, &wy))
 		return;
 	/* the same concentration rule as a main-beam focus */
@@ -631,7 +790,7 @@ link_rows(struct ghost_ctx *c)
 	for (size_t i = 0; i < t->nrows; i++)
 		if (t->rows[i].depth > maxd)
 			maxd = t->rows[i].depth;
-	last = xmalloc((maxd + 2) * sizeof *last);
+	last = scratch_longs(c->t->gscratch, maxd + 2);
 	for (size_t d = 0; d <= maxd + 1; d++)
 		last[d] = -1;
 	for (size_t i = 0; i < t->nrows; i++) {
@@ -647,7 +806,6 @@ link_rows(struct ghost_ctx *c)
 		last[d] = (long)i;
 		last[d + 1] = -1;       /* a deeper branch after this row is new */
 	}
-	free(last);
 }
 
 /* The element's own rating with the ghosts that met it added, coaxial and
@@ -698,10 +856,10 @@ combine(struct ghost_ctx *c)
 /* Ghosts that never reach an element are dropped (their power may still
  * have reached the source); rows and foci move with the ones kept. */
 static void
-compact(struct ghost_set *gs, size_t nrows)
+compact(struct ghost_scratch *s, struct ghost_set *gs, size_t nrows)
 {
 	size_t k = 0;
-	long *to = xmalloc((gs->n ? gs->n : 1) * sizeof *to);
+	long *to = scratch_longs(s, gs->n);
 
 	for (size_t i = 0; i < gs->n; i++) {
 		to[i] = gs->g[i].nrows > 0 ? (long)k : -1;
@@ -711,7 +869,6 @@ compact(struct ghost_set *gs, size_t nrows)
 	for (size_t u = 0; u < nrows; u++)
 		if (gs->at[u].top >= 0)
 			gs->at[u].top = to[gs->at[u].top];
-	free(to);
 	gs->n = k;
 }
 
@@ -737,7 +894,7 @@ warnings(struct ghost_ctx *c)
 	 * warning per gap, for the brightest (ghost-conventions.md: foci
 	 * with air_breakdown as for main-beam foci) */
 	{
-		long *spark = xmalloc(t->nrows * sizeof *spark);
+		long *spark = scratch_longs(t->gscratch, t->nrows);
 
 		for (size_t u = 0; u < t->nrows; u++)
 			spark[u] = -1;
@@ -760,7 +917,6 @@ warnings(struct ghost_ctx *c)
 				w->ghost = 1;
 				w->distance = f->distance;
 			}
-		free(spark);
 	}
 	for (size_t i = 0; i < gs->nstrays; i++)
 		if (gs->strays[i].power >= c->b->stray_warn) {
@@ -860,34 +1016,48 @@ struct ghost_part {
 };
 
 /* n empty summaries: no ghost met, nothing rated yet. */
-static struct ghost_at *
-at_new(size_t n)
+static void
+at_init(struct ghost_at *at, size_t n)
 {
-	struct ghost_at *at = xcalloc(n, sizeof *at);
-
+	memset(at, 0, n * sizeof *at);
 	for (size_t r = 0; r < n; r++) {
 		at[r].top = -1;
 		at[r].main_ratio = at[r].top_ratio = NAN;
 	}
-	return at;
 }
 
+/* Part k of the walk, with set gs, over rows r0 .. r1-1; its sums are
+ * the scratch's k-th. */
 static void
-part_init(struct ghost_part *pt, const struct ghost_ctx *whole, struct ghost_set *gs,
+part_init(struct ghost_part *pt, const struct ghost_ctx *whole, struct ghost_set *gs, int k,
     size_t r0, size_t r1)
 {
+	struct ghost_scratch *s = whole->t->gscratch;
 	size_t n = whole->t->nrows;
 
 	pt->c = *whole;
 	pt->c.gs = gs;
-	pt->c.acc = xcalloc(n, sizeof *pt->c.acc);
-	pt->c.fourth = xcalloc(n, sizeof *pt->c.fourth);
-	pt->c.pend = NULL;
-	pt->c.npend = pt->c.cappend = 0;
+	pt->c.acc = s->acc[k];
+	pt->c.fourth = s->fourth[k];
+	memset(pt->c.acc, 0, n * sizeof *pt->c.acc);
+	memset(pt->c.fourth, 0, n * sizeof *pt->c.fourth);
+	pt->c.pend = s->pend[k];
+	pt->c.cappend = s->cappend[k];
+	pt->c.npend = 0;
 	gs->rows_kept = whole->keep_rows;
-	gs->at = at_new(n);
+	at_init(gs->at, n);
 	pt->r0 = r0;
 	pt->r1 = r1;
+}
+
+/* The pending list (grown by the walk) back to the scratch. */
+static void
+part_done(struct ghost_part *pt, int k)
+{
+	struct ghost_scratch *s = pt->c.t->gscratch;
+
+	s->pend[k] = pt->c.pend;
+	s->cappend[k] = pt->c.cappend;
 }
 
 static void *
@@ -976,8 +1146,9 @@ static size_t
 split_row(const struct ghost_ctx *c, double *total)
 {
 	size_t n = c->t->nrows, m = 0;
-	double *up = xcalloc(n, sizeof *up), *down = xcalloc(n, sizeof *down);
-	double *pre = xcalloc(n, sizeof *pre), *cost = xcalloc(n, sizeof *cost), sum = 0, run = 0;
+	/* every entry is written before it is read (prev < u < next) */
+	double *up = c->t->gscratch->split, *down = up + n, *pre = down + n, *cost = pre + n;
+	double sum = 0, run = 0;
 
 	for (size_t u = n; u-- > 0;)
 		down[u] = c->next[u] >= 0 ? down[c->next[u]] + 1 : 0;
@@ -996,10 +1167,6 @@ split_row(const struct ghost_ctx *c, double *total)
 	while (m < n && run + cost[m] <= sum / 2)
 		run += cost[m++];
 	*total = sum;
-	free(up);
-	free(down);
-	free(pre);
-	free(cost);
 	return m;
 }
 
@@ -1012,35 +1179,39 @@ ghost_run(struct trace *t, unsigned opts)
 {
 	struct ghost_ctx c;
 	struct ghost_part half[2];
+	struct ghost_scratch *sc;
 	struct ghost_set *second;
 	double work;
 	size_t m;
 	pthread_t th;
 	int threaded = 0;
 
+	if (t->gscratch == NULL)
+		t->gscratch = xcalloc(1, sizeof *t->gscratch);
+	sc = t->gscratch;
 	memset(&c, 0, sizeof c);
 	c.t = t;
 	c.b = t->bench;
-	c.gs = t->ghosts = xcalloc(1, sizeof *t->ghosts);
+	c.gs = t->ghosts = scratch_take_set(sc, 0, t->nrows);
 	c.keep_rows = c.gs->rows_kept = (opts & GHOST_ROWS) != 0;
+	c.lean = (opts & GHOST_LEAN) != 0 && !c.keep_rows;
+	c.inv_rep = c.b->src.pulsed ? 1 / c.b->src.rep_rate : NAN;
 	c.floor = GHOST_FLOOR * c.b->src.power;
 	c.lam = c.b->src.wavelength;
 	if (t->nrows == 0)
 		return;
-	c.prev = xmalloc(t->nrows * sizeof *c.prev);
-	c.next = xmalloc(t->nrows * sizeof *c.next);
-	c.pass = xmalloc(t->nrows * sizeof *c.pass);
+	scratch_rows(sc, t->nrows);
+	c.prev = sc->prev;
+	c.next = sc->next;
+	c.pass = sc->pass;
 	link_rows(&c);
 	m = split_row(&c, &work);
 	c.gs->work = work;
 	if (work > GHOST_WORK_LIMIT) {
 		/* an empty summary per row, as readers expect one */
-		c.gs->at = at_new(t->nrows);
+		at_init(c.gs->at, t->nrows);
 		/* said by trace_check: never a silent main-beam-only rating */
 		c.gs->refused = 1;
-		free(c.prev);
-		free(c.next);
-		free(c.pass);
 		return;
 	}
 	if (c.keep_rows && work > GHOST_ROWS_LIMIT) {
@@ -1050,9 +1221,9 @@ ghost_run(struct trace *t, unsigned opts)
 	prepare(&c);
 	if (opts & GHOST_ONE_PART)
 		m = t->nrows;
-	second = xcalloc(1, sizeof *second);
-	part_init(&half[0], &c, c.gs, 0, m);
-	part_init(&half[1], &c, second, m, t->nrows);
+	second = scratch_take_set(sc, 1, t->nrows);
+	part_init(&half[0], &c, c.gs, 0, 0, m);
+	part_init(&half[1], &c, second, 1, m, t->nrows);
 	if (!(opts & GHOST_ONE_PART) && work > GHOST_THREAD_WORK &&
 	    pthread_create(&th, NULL, part_walk, &half[1]) == 0)
 		threaded = 1;
@@ -1062,20 +1233,13 @@ ghost_run(struct trace *t, unsigned opts)
 	else
 		part_walk(&half[1]);
 	part_merge(&half[0], &half[1]);
-	free(half[1].c.acc);
-	free(half[1].c.fourth);
-	free(half[1].c.pend);
-	ghost_set_free(second);
+	part_done(&half[1], 1);
+	scratch_put_set(sc, 1, second);
 	c = half[0].c;
 	for (size_t u = 0; u < t->nrows; u++)
 		ghost_add_stray(&c, t->rows[u].el, "fourth_port", c.fourth[u], NAN);
-	compact(c.gs, t->nrows);
+	compact(sc, c.gs, t->nrows);
 	combine(&c);
 	warnings(&c);
-	free(c.prev);
-	free(c.next);
-	free(c.acc);
-	free(c.pass);
-	free(c.fourth);
-	free(c.pend);
+	part_done(&half[0], 0);
 }

@@ -96,6 +96,7 @@ struct ghost_set {
 	struct ghost_stray *strays;     /* owned */
 	size_t              nstrays, capstrays;
 	struct ghost_at    *at;         /* owned [trace nrows] */
+	size_t              capat;
 	/* Bounds (GHOST_WORK_LIMIT, GHOST_ROWS_LIMIT): the estimated
 	 * ghost-element visits; refused: over the work limit, nothing traced
 	 * (trace_check says so); rows_omitted: rows asked for but over the
@@ -116,6 +117,9 @@ struct ghost_set {
 /* The bench walked as one part, not two (a test's check that the halves
  * add up to the whole; the sums then differ only in the order added). */
 #define GHOST_ONE_PART 2u
+/* Only what the ratings and warnings need (TRACE_LEAN): no summary at an
+ * unrated row, no focus that cannot reach air_breakdown. */
+#define GHOST_LEAN 4u
 /* A bench whose reflections would take more ghost-element visits than
  * this (a few seconds) is refused with a clear error rather than left
  * running for hours: `--no-ghosts` traces its main beam.  A 200-surface
@@ -127,6 +131,13 @@ struct ghost_set {
 #define GHOST_ROWS_LIMIT 2e6
 void ghost_run(struct trace *t, unsigned opts);
 void ghost_set_free(struct ghost_set *);         /* NULL ok */
+/* The buffers one ghost_run allocates, kept by the trace (t->gscratch)
+ * so that tracing the same result again (trace_rerun: a sweep, a
+ * tolerance run) allocates nothing once they have grown. */
+struct ghost_scratch;
+/* t->ghosts back into t's scratch, emptied (t->ghosts NULL after). */
+void ghost_recycle(struct trace *t);
+void ghost_scratch_free(struct ghost_scratch *); /* NULL ok */
 /* "L1.back" for a ghost's k-th reflection, into buf. */
 void ghost_surface_name(const struct ghost *, int k, char *buf, size_t n);
 

@@ -223,8 +223,8 @@ sample_one(struct worker *w, size_t i)
 	else if (s->pulsed)
 		s->pulse_energy = s->power / s->rep_rate;
 	power = s->power;
-	w->t = trace_rerun(w->t, w->b);
-	(void)trace_check(w->t, NULL);
+	/* the ratings alone: the same ratios as a full trace (TRACE_LEAN) */
+	w->t = trace_rerun_opts(w->t, w->b, TRACE_LEAN);
 	for (size_t j = 0; j < sh->nrated; j++) {
 		const struct trace_row *r = &w->t->rows[sh->rows[j]];
 		double x = isnan(r->ratio) ? 0 : r->ratio;

@@ -303,7 +303,7 @@ status_at(struct ctx *c, double x, long r)
 	enum damage_status st = STATUS_UNRATED;
 
 	sweep_knob_set(c->k, c->b, x);
-	c->t = trace_rerun(c->t, c->b);
+	c->t = trace_rerun_opts(c->t, c->b, TRACE_LEAN);
 	for (size_t i = 0; i < c->sw->nrated; i++) {
 		enum damage_status s;
 
@@ -460,12 +460,13 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
 	c.k = k;
 	c.sw = sw;
 	sweep_knob_set(k, b, sw->x[0]);
-	c.t = trace_run(b);
+	/* every step reads ratings and warnings only */
+	c.t = trace_rerun_opts(NULL, b, TRACE_LEAN);
 	setup(sw, c.t);
 	for (size_t s = 0; s < steps; s++) {
 		if (s > 0) {
 			sweep_knob_set(k, b, sw->x[s]);
-			c.t = trace_rerun(c.t, b);
+			c.t = trace_rerun_opts(c.t, b, TRACE_LEAN);
 		}
 		record_step(sw, s, c.t);
 	}

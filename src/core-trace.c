@@ -647,8 +647,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 	t->safe_source_power = NAN;
 	t->nonfinite = NULL;
 	t->nonfinite_what = NULL;
-	ghost_set_free(t->ghosts);
-	t->ghosts = NULL;
+	ghost_recycle(t);
 	memset(&stack[0], 0, sizeof stack[0]);
 	stack[0].br = &b->path;
 	start_state(b, &stack[0].st);
@@ -713,7 +712,9 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		t->safe_source_power = t->worst_ratio > 0 ?
 		    b->src.power / (b->safety_factor * t->worst_ratio) : INFINITY;
 	if (!(opts & TRACE_NO_GHOSTS))
-		ghost_run(t, opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0);  /* adds the reflections and rates them */
+		/* adds the reflections and rates them */
+		ghost_run(t, (opts & TRACE_GHOST_ROWS ? GHOST_ROWS : 0) |
+		    (opts & TRACE_LEAN ? GHOST_LEAN : 0));
 	return t;
 }
 
@@ -732,11 +733,12 @@ trace_release(struct trace *t)
 	free(t->rows);
 	free(t->warn);
 	ghost_set_free(t->ghosts);
+	ghost_scratch_free(t->gscratch);
 	free(t);
 }
 
-/* The last result freed is kept (its rows and warnings, not its
- * reflections) for the next fresh trace: a 10^5-element result is larger
+/* The last result freed is kept (its rows and warnings, and the ghost
+ * engine's buffers emptied) for the next fresh trace: a 10^5-element result is larger
  * than the C library hands back without fresh pages, and a fresh result
  * then cost 2.7 times a reused one in page faults (issue #12).  One for
  * the whole process, swapped atomically (the tolerance run traces from
@@ -746,8 +748,7 @@ trace_free(struct trace *t)
 {
 	if (t == NULL)
 		return;
-	ghost_set_free(t->ghosts);
-	t->ghosts = NULL;
+	ghost_recycle(t);
 	trace_release(atomic_exchange(&spare, t));
 }
 

@@ -118,6 +118,8 @@ struct trace {
 	                                         * is not a finite number; NULL: none */
 	const char           *nonfinite_what;   /* static: which result ("beam radius") */
 	struct ghost_set     *ghosts;   /* owned (core-ghost.h); NULL: main beam only */
+	struct ghost_scratch *gscratch; /* owned (core-ghost.h): the ghost engine's
+	                                 * buffers, kept for the next trace_rerun */
 };
 
 /* trace_rerun_opts: the main beam alone, exactly as before ghosts were
@@ -126,6 +128,12 @@ struct trace {
 /* ... and every ghost's row at every element it meets (JSON, CSV): the
  * ratings are the same without; see ghost_run. */
 #define TRACE_GHOST_ROWS 2u
+/* ... or only what the ratings and warnings need (a sweep, a tolerance
+ * run): every ratio, status, worst, safe_source_power and warning is
+ * exactly the full trace's, but the ghosts' summaries at unrated
+ * elements (the flag "ghosts" there) are left out, and so are ghost foci
+ * that cannot spark (every CW one).  See ghost_run. */
+#define TRACE_LEAN 4u
 
 /* The bench must have passed model_validate.  Never fails. */
 struct trace *trace_run(const struct bench *);     /* caller frees */

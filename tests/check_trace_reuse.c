@@ -16,6 +16,7 @@
 
 #include "bench-demo.h"
 #include "bench-file.h"
+#include "core-ghost.h"
 #include "core-model.h"
 #include "core-trace.h"
 
@@ -189,6 +190,126 @@ START_TEST(test_ghosts_in_any_memory)
 }
 END_TEST
 
+/* The reflections themselves, summary by summary. */
+static void
+same_ghosts(const char *what, const struct trace *a, const struct trace *b)
+{
+	const struct ghost_set *x = a->ghosts, *y = b->ghosts;
+
+	ck_assert_msg(x != NULL && y != NULL, "%s: no ghosts", what);
+	ck_assert_msg(x->n == y->n && x->nfoci == y->nfoci && x->nstrays == y->nstrays &&
+	    x->nover == y->nover, "%s: %zu ghosts, %zu foci, %zu strays != %zu, %zu, %zu",
+	    what, x->n, x->nfoci, x->nstrays, y->n, y->nfoci, y->nstrays);
+	ck_assert(same(x->return_power, y->return_power) && same(x->work, y->work));
+	for (size_t i = 0; i < x->n; i++)
+		ck_assert_msg(x->g[i].nrows == y->g[i].nrows && x->g[i].worst_row == y->g[i].worst_row &&
+		    same(x->g[i].power_start, y->g[i].power_start) && same(x->g[i].worst_ratio, y->g[i].worst_ratio),
+		    "%s: ghost %zu differs", what, i);
+	for (size_t u = 0; u < a->nrows; u++) {
+		const struct ghost_at *p = &x->at[u], *q = &y->at[u];
+
+		ck_assert_msg(p->nmet == q->nmet && p->top == q->top && same(p->power_in, q->power_in) &&
+		    same(p->irradiance, q->irradiance) && same(p->main_ratio, q->main_ratio) &&
+		    same(p->fluence, q->fluence), "%s: the summary at row %zu differs", what, u);
+	}
+	for (size_t k = 0; k < x->nfoci; k++)
+		ck_assert(same(x->foci[k].z, y->foci[k].z) &&
+		    same(x->foci[k].peak_irradiance, y->foci[k].peak_irradiance));
+	for (size_t k = 0; k < x->nstrays; k++)
+		ck_assert(same(x->strays[k].power, y->strays[k].power) &&
+		    x->strays[k].from == y->strays[k].from);
+}
+
+/* The ghost engine keeps its buffers in the result (trace_rerun): a
+ * result retraced after benches with more and fewer rows and ghosts, with
+ * rows kept and without, gives every ghost, summary, focus and stray of
+ * a fresh trace. */
+START_TEST(test_ghost_buffers_reused)
+{
+	struct bench *b[3] = { demo(), relay(41, 1), relay(9, 0) };
+	struct trace *ref[3], *t = NULL;
+	char what[64];
+
+	for (int i = 0; i < 3; i++) {
+		ref[i] = trace_rerun_opts(NULL, b[i], 0);
+		ck_assert(ref[i]->ghosts != NULL && ref[i]->ghosts->n > 0);
+	}
+	for (int round = 0; round < 4; round++)
+		for (int i = 0; i < 3; i++) {
+			int j = (i + 1 + round) % 3;
+
+			t = trace_rerun_opts(t, b[j], round % 2 ? TRACE_GHOST_ROWS : 0);
+			t = trace_rerun_opts(t, b[i], 0);
+			snprintf(what, sizeof what, "bench %d after bench %d, round %d", i, j, round);
+			same_trace(what, ref[i], t);
+			same_ghosts(what, ref[i], t);
+		}
+	trace_free(t);
+	for (int i = 0; i < 3; i++) {
+		trace_free(ref[i]);
+		model_bench_free(b[i]);
+	}
+}
+END_TEST
+
+/* TRACE_LEAN (sweeps, tolerance runs) leaves out what no rating reads:
+ * every ratio, status, worst, safe source power and warning must still
+ * be the full trace's, bit for bit.  The demo is pulsed with a ghost
+ * focus that sparks (the warning must survive); its source is then
+ * turned down and up, and the relay lines add a CW and a pulsed chain. */
+START_TEST(test_lean_same_ratings)
+{
+	struct bench *b[3] = { demo(), relay(41, 1), relay(61, 0) };
+	static const double scale[] = { 1, 0.01, 0.3, 3, 30 };
+	struct trace *full = NULL, *lean = NULL;
+	size_t sparks = 0;
+	char what[80];
+
+	for (int i = 0; i < 3; i++) {
+		double p0 = b[i]->src.power, e0 = b[i]->src.pulse_energy;
+
+		for (int k = 0; k < NELEMS(scale); k++) {
+			b[i]->src.power = p0 * scale[k];
+			b[i]->src.pulse_energy = e0 * scale[k];
+			full = trace_rerun_opts(full, b[i], 0);
+			lean = trace_rerun_opts(lean, b[i], TRACE_LEAN);
+			snprintf(what, sizeof what, "bench %d at %g of its power", i, scale[k]);
+			ck_assert_msg(full->nwarn == lean->nwarn, "%s: %zu warnings != %zu", what,
+			    full->nwarn, lean->nwarn);
+			for (size_t w = 0; w < full->nwarn; w++) {
+				const struct trace_warning *x = &full->warn[w], *y = &lean->warn[w];
+
+				ck_assert_msg(x->kind == y->kind && x->after == y->after &&
+				    x->ghost == y->ghost && same(x->value, y->value) &&
+				    same(x->distance, y->distance), "%s: warning %zu differs", what, w);
+				sparks += x->kind == TW_AIR_BREAKDOWN && x->ghost;
+			}
+			for (size_t r = 0; r < full->nrows; r++) {
+				const struct trace_row *x = &full->rows[r], *y = &lean->rows[r];
+
+				ck_assert_msg(same(x->ratio, y->ratio) && x->status == y->status,
+				    "%s: row %zu (%s) ratio %.17g != %.17g", what, r, x->el->id,
+				    x->ratio, y->ratio);
+				/* the flag "ghosts" may be missing only where unrated */
+				ck_assert((x->flags & ~(unsigned)TF_GHOSTS) == (y->flags & ~(unsigned)TF_GHOSTS));
+				if (damage_rated(&x->limits))
+					ck_assert(x->flags == y->flags);
+			}
+			ck_assert(full->worst == lean->worst && same(full->worst_ratio, lean->worst_ratio));
+			ck_assert(same(full->safe_source_power, lean->safe_source_power));
+			ck_assert(full->ghosts->nover == lean->ghosts->nover);
+		}
+		b[i]->src.power = p0;
+		b[i]->src.pulse_energy = e0;
+	}
+	ck_assert_msg(sparks > 0, "no ghost spark: the test would not see one dropped");
+	trace_free(full);
+	trace_free(lean);
+	for (int i = 0; i < 3; i++)
+		model_bench_free(b[i]);
+}
+END_TEST
+
 int
 main(void)
 {
@@ -197,6 +318,8 @@ main(void)
 
 	tcase_add_test(tc, test_same_in_any_memory);
 	tcase_add_test(tc, test_ghosts_in_any_memory);
+	tcase_add_test(tc, test_ghost_buffers_reused);
+	tcase_add_test(tc, test_lean_same_ratings);
 	tcase_set_timeout(tc, 60);
 	suite_add_tcase(s, tc);
 	return run_suite(s);
