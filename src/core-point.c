@@ -526,7 +526,10 @@ point_survey_run_opts(const struct bench *b, const char *only, unsigned opts,
 			point_survey_release(sv);
 			return -1;
 		}
-		sv->last_trace = trace_rerun_opts(sv->last_trace, sv->last, opts);
+		/* every point but the one asked for is read for its ratings
+		 * alone (survey_trace): the lean trace gives them exactly */
+		sv->last_trace = trace_rerun_opts(sv->last_trace, sv->last,
+		    one != NULL ? opts : TRACE_LEAN);
 		survey_trace(sv, i, sv->last_trace, &cl);
 	}
 	sv->ratio = xcalloc(sv->n * (sv->nel ? sv->nel : 1), sizeof *sv->ratio);

@@ -92,7 +92,10 @@ struct point_survey {
 	int                   any_over;
 	struct trace         *base_trace;   /* owned: of the base */
 	struct bench         *last;         /* owned: the last point applied; NULL when n == 1 */
-	struct trace         *last_trace;   /* owned: of `last` */
+	struct trace         *last_trace;   /* owned: of `last`; traced whole (opts) when
+	                                     * only_one names it, else TRACE_LEAN
+	                                     * (its ratings and warnings exact, the
+	                                     * ghosts' summaries not all there) */
 };
 /* The bench must have passed model_validate (which applies every point).
  * only_one: trace just the point of that name (NULL: every point). */
