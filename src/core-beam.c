@@ -78,6 +78,9 @@ clip_integrand(double psi, double c, double r2)
  * (the tolerance run traces from several threads). */
 #define CLIP_NODES 1024
 static double clip_cos2[CLIP_NODES + 1];
+/* the series' (2k+1)/(2k+2) and 1/j (clip_series, below) */
+#define CLIP_SERIES_MAX 64
+static double clip_dk[CLIP_SERIES_MAX], clip_inv[2 * CLIP_SERIES_MAX + 1];
 static pthread_once_t clip_once = PTHREAD_ONCE_INIT;
 
 static void
@@ -88,6 +91,10 @@ clip_fill(void)
 
 		clip_cos2[j] = co * co;
 	}
+	for (int k = 0; k < CLIP_SERIES_MAX; k++)
+		clip_dk[k] = (2.0 * k + 1) / (2.0 * k + 2);
+	for (int j = 1; j <= 2 * CLIP_SERIES_MAX; j++)
+		clip_inv[j] = 1.0 / j;
 }
 
 /* The integrand at node i of n intervals: in ψ (above), or, phi set, in
@@ -136,33 +143,41 @@ clip_node(int i, int n, double c, double r2, int phi)
  * is cut where S_m < 1e-17, which bounds the relative error of T by it,
  * because T >= √(1 - e²)(1 - e^{-x}) and Σ p_j <= 1 - e^{-x}.  Returns -1
  * when the beam is too elliptic for the series to be short. */
-#define CLIP_SERIES_MAX 64
+
 static double
 clip_series(double wx, double wy, double a)
 {
 	double ix = 1 / (wx * wx), iy = 1 / (wy * wy), e = (ix - iy) / (ix + iy), e2 = e * e;
 	double x = a * a * (ix + iy), d[CLIP_SERIES_MAX + 1], s[CLIP_SERIES_MAX + 2];
-	double p, sum = 0;
+	double p, t0, sum = 0, tail = 1e-17 * (1 - e2);
 	int k, m;
 
 	if (e2 > 0.5)
 		return -1;
 	/* d_k until the tail is below 1e-17: d_k e²/(1 - e²) bounds it */
 	d[0] = 1;
-	for (k = 0; k < CLIP_SERIES_MAX && d[k] * e2 > 1e-17 * (1 - e2); k++)
-		d[k + 1] = d[k] * e2 * (2 * k + 1) / (2 * k + 2);
+	for (k = 0; k < CLIP_SERIES_MAX && d[k] * e2 > tail; k++)
+		d[k + 1] = d[k] * e2 * clip_dk[k];
 	if (k == CLIP_SERIES_MAX)
 		return -1;
 	/* S_m for m = 1 .. k, summed from the small end */
 	s[k + 1] = 0;
 	for (m = k; m >= 1; m--)
 		s[m] = s[m + 1] + d[m];
-	p = exp(-x);
+	/* 1 - e^{-x} and e^{-x} from one exponential, each to a few ulps:
+	 * the one near 1 is had from the other by a subtraction */
+	if (x > 0.7) {
+		p = exp(-x);
+		t0 = 1 - p;
+	} else {
+		t0 = -expm1(-x);
+		p = 1 - t0;
+	}
 	for (int j = 1; j <= 2 * k; j++) {
-		p *= x / j;
+		p *= x * clip_inv[j];
 		sum += p * s[(j + 1) / 2];
 	}
-	return -expm1(-x) - sqrt(1 - e2) * sum;
+	return t0 - sqrt(1 - e2) * sum;
 }
 
 double
@@ -189,6 +204,7 @@ beam_clip_transmission(double wx, double wy, double a)
 	 * common case, then costs no quadrature [derived] */
 	if (c >= 38)
 		return 1;
+	pthread_once(&clip_once, clip_fill);
 	if ((sum = clip_series(wx, wy, a)) >= 0)
 		return sum;
 	/* a nearly round beam's integrand is nearly flat: start coarse and
@@ -210,7 +226,6 @@ beam_clip_transmission(double wx, double wy, double a)
 	h = M_PI / 2 / n;
 	/* ∫(1 - exp(-cu))/u dφ over a quarter turn is (π/2)·r·T */
 	scale = phi ? 2 / (M_PI * sqrt(r2)) : 2 / M_PI;
-	pthread_once(&clip_once, clip_fill);
 	sum = 0.5 * (clip_node(0, n, c, r2, phi) + clip_node(n, n, c, r2, phi));
 	for (int i = 1; i < n; i++)
 		sum += clip_node(i, n, c, r2, phi);

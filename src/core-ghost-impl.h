@@ -56,6 +56,7 @@ struct ghost_ctx {
 	int                  keep_rows; /* store every ghost's rows (GHOST_ROWS) */
 	int                  lean;      /* GHOST_LEAN */
 	double               inv_rep;   /* 1/rep_rate of a pulsed source (fluence) */
+	double               spark_a, spark_b;  /* ghost_may_spark's constants */
 };
 
 /* A ghost's beam: its two axes, and whether they are equal (a round beam

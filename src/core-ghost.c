@@ -509,20 +509,19 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 /* Whether a focus of this ghost could reach the air's breakdown
  * irradiance: nowhere is an axis narrower than its own waist, w0² = M²λ
  * Im q/π (Kogelnik & Li 1966, eq. 21 at the waist), so 2P/(π w0x w0y) of
- * the pulse's peak power bounds every focus it has (the margin keeps
- * rounding on the safe side).  A CW ghost never sparks. */
+ * the pulse's peak power bounds every focus it has.  Squared, that is
+ * (c->spark_a p)² against c->spark_b M²x M²y Im qx Im qy (ghost_run
+ * sets both; the 0.999 in spark_b keeps rounding on the safe side).  A
+ * CW ghost never sparks. */
 static int
 ghost_may_spark(const struct ghost_ctx *c, const struct ghost_beam *gb, double p)
 {
-	const struct source *s = &c->b->src;
-	double w0x2, w0y2, peak;
+	double lhs = c->spark_a * p;
 
-	if (!s->pulsed)
+	if (!c->b->src.pulsed)
 		return 0;
-	w0x2 = gb->x.m2 * c->lam * cimag(gb->x.q) / M_PI;
-	w0y2 = gb->y.m2 * c->lam * cimag(gb->y.q) / M_PI;
-	peak = damage_peak_factor(s->shape) * p / s->rep_rate / s->pulse_width;
-	return !(2 * peak / (M_PI * sqrt(w0x2 * w0y2)) < 0.999 * c->b->air_breakdown);
+	return !(lhs * lhs < c->spark_b * gb->x.m2 * gb->y.m2 * cimag(gb->x.q) *
+	    cimag(gb->y.q));
 }
 
 void
@@ -575,7 +574,9 @@ ghost_clip(const struct ghost_ctx *c, size_t u, double ix, double iy, double p)
 {
 	double a = c->pass[u].ap;
 
-	if (isnan(a))
+	/* NAN: no aperture; 2a²/w² of the narrower inverse at 38 or more:
+	 * all of it passes (beam_clip_transmission) without the roots */
+	if (isnan(a) || 2 * a * a * fmin(ix, iy) >= 38)
 		return p;
 	return p * beam_clip_transmission(1 / sqrt(ix), 1 / sqrt(iy), a);
 }
@@ -1198,6 +1199,14 @@ ghost_run(struct trace *t, unsigned opts)
 	c.inv_rep = c.b->src.pulsed ? 1 / c.b->src.rep_rate : NAN;
 	c.floor = GHOST_FLOOR * c.b->src.power;
 	c.lam = c.b->src.wavelength;
+	if (c.b->src.pulsed) {
+		const struct source *s = &c.b->src;
+		double lim = 0.999 * c.b->air_breakdown * c.lam;
+
+		/* ghost_may_spark: 2P_peak/(π w0x w0y) = 2P_peak/(λ √(M²x M²y Im qx Im qy)) */
+		c.spark_a = 2 * damage_peak_factor(s->shape) / (s->rep_rate * s->pulse_width);
+		c.spark_b = lim * lim;
+	}
 	if (t->nrows == 0)
 		return;
 	scratch_rows(sc, t->nrows);
