@@ -333,7 +333,10 @@ beam_gap_focus(const struct beam_axis *x, const struct beam_axis *y,
 	d = (ax - ay) / 2;
 	p = (zx * zx + zy * zy - 2 * d * d) / 2;
 	qq = d * (zx * zx - zy * zy) / 2;
-	if (p == 0 && qq == 0) {
+	if (qq == 0 && p >= 0) {
+		/* s(s² + p) = 0 has the one real root 0: a round beam (d = 0)
+		 * or equal Rayleigh ranges, the common case, without roots of
+		 * a cubic (the formula below gives 0 too, exactly) */
 		roots[nroots++] = 0;
 	} else {
 		/* s³ + p s + q = 0 */
