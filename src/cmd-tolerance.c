@@ -29,7 +29,7 @@ struct tol_args {
 	uint64_t           seed;
 	unsigned           threads;
 	double             max_risk;
-	int                demo;
+	int                demo, no_ghosts;
 	enum report_format fmt;
 };
 
@@ -102,6 +102,9 @@ table(const struct mc_result *r, const struct bench *b, const struct tol_args *a
 	if (r->stopped)
 		buf_printf(&out, "STOPPED: %zu of %zu samples done; the figures are of "
 		    "those only.\n", r->done, r->asked);
+	if (r->no_ghosts)
+		buf_add(&out, "Main beam only (--no-ghosts): surface reflections are not in "
+		    "these ratios.\n");
 	if (r->nparam == 0)
 		buf_add(&out, "No value carries a tolerance: every sample is the bench "
 		    "as written.\n");
@@ -187,6 +190,7 @@ json(const struct mc_result *r, const struct bench *b, const struct tol_args *a)
 	    "\"stopped\": %s,\n  \"max_risk\": ", (unsigned long long)r->seed, r->asked,
 	    r->done, r->stopped ? "true" : "false");
 	num(&out, a->max_risk);
+	buf_printf(&out, ", \"ghosts\": %s", r->no_ghosts ? "false" : "true");
 	buf_add(&out, ",\n  \"tolerances\": [");
 	for (size_t p = 0; p < r->nparam; p++) {
 		buf_add(&out, p ? ",\n    " : "\n    ");
@@ -308,10 +312,14 @@ parse_args(int argc, char **argv, struct tol_args *a)
 			a->demo = 1;
 			continue;
 		}
+		if (strcmp(s, "--no-ghosts") == 0) {
+			a->no_ghosts = 1;
+			continue;
+		}
 		if (strcmp(s, "--help") == 0) {
 			printf("Usage: " PROG " tolerance BENCH[@SETUP] | FILE | --demo [--samples N]\n"
 			    "       [--seed S] [--point NAME] [--format table|json|csv]\n"
-			    "       [--max-risk P] [--threads N]\n"
+			    "       [--max-risk P] [--threads N] [--no-ghosts]\n"
 			    "Draws every tolerance of the bench at once (\"250 mm ± 2 mm\",\n"
 			    "\"2 W ± 5 %%\", \"... uniform\"; beamledger-bench(5)) N times (default\n"
 			    "10000, at most %d) and traces each sample: per rated element the\n"
@@ -321,7 +329,9 @@ parse_args(int argc, char **argv, struct tol_args *a)
 			    "tolerances whose draws correlate most with their ratio.  The same\n"
 			    "seed (default 1) gives the same numbers with any number of threads\n"
 			    "(default: every core).  P is a fraction or a percentage (default 1 %%).\n"
-			    "Ctrl-C stops and reports the samples done so far.\n"
+			    "Ctrl-C stops and reports the samples done so far.  --no-ghosts\n"
+			    "traces the main beam alone (no surface reflections in any ratio:\n"
+			    "faster, and said so in the output).\n"
 			    "Exit status: 0 the chance that anything is over is at most P, 1 above\n"
 			    "P (or stopped early), 2 trouble.\n", MC_MAX_SAMPLES);
 			return 1;
@@ -396,6 +406,7 @@ cmd_tolerance(struct cmd_ctx *ctx, int argc, char **argv)
 	o.samples = a.samples;
 	o.seed = a.seed;
 	o.threads = a.threads;
+	o.no_ghosts = a.no_ghosts;
 	o.stop = &interrupted;
 	o.progress = on_progress;
 	o.arg = &pr;

@@ -224,7 +224,8 @@ sample_one(struct worker *w, size_t i)
 		s->pulse_energy = s->power / s->rep_rate;
 	power = s->power;
 	/* the ratings alone: the same ratios as a full trace (TRACE_LEAN) */
-	w->t = trace_rerun_opts(w->t, w->b, TRACE_LEAN);
+	w->t = trace_rerun_opts(w->t, w->b, TRACE_LEAN |
+	    (sh->o->no_ghosts ? TRACE_NO_GHOSTS : 0));
 	for (size_t j = 0; j < sh->nrated; j++) {
 		const struct trace_row *r = &w->t->rows[sh->rows[j]];
 		double x = isnan(r->ratio) ? 0 : r->ratio;
@@ -439,10 +440,13 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	sh.base = b;
 	sh.o = o;
 	sh.n = n;
+	nom = trace_rerun_opts(NULL, b, o->no_ghosts ? TRACE_NO_GHOSTS : 0);
+	if (trace_check(nom, cause) != 0) {
+		trace_free(nom);
+		return -1;
+	}
 	sh.param = mc_params(b, &sh.nparam);
 	sh.nominal_power = b->src.power;
-	nom = trace_run(b);
-	(void)trace_check(nom, NULL);
 	rows = xcalloc(nom->nrows ? nom->nrows : 1, sizeof *rows);
 	for (size_t r = 0; r < nom->nrows; r++)
 		if (damage_rated(&nom->rows[r].limits))
@@ -451,6 +455,7 @@ mc_run(const struct bench *b, const struct mc_opts *o, struct mc_result *res,
 	res->seed = o->seed;
 	res->asked = n;
 	res->safety_factor = b->safety_factor;
+	res->no_ghosts = o->no_ghosts;
 	res->nparam = sh.nparam;
 	res->param = sh.param;
 	res->nrated = sh.nrated;

@@ -64,6 +64,7 @@ struct mc_result {
 	double           safe_p5;       /* W: 5th percentile of the safe source power */
 	double           nominal_safe;  /* W: of the bench as written */
 	double           safety_factor;
+	int              no_ghosts;     /* mc_opts.no_ghosts: main beam only */
 	/* with mc_opts.keep_ratios: every sample's ratio of every rated
 	 * element, ratio[i * nrated + j] for sample i < done (owned; NULL
 	 * otherwise), for a histogram */
@@ -79,10 +80,14 @@ struct mc_opts {
 	void                 (*progress)(void *arg, size_t done, size_t total);
 	void                  *arg;
 	int                    keep_ratios; /* keep the per-sample ratios in the result */
+	int                    no_ghosts;   /* the main beam alone (--no-ghosts): no
+	                                     * surface reflections in the ratios */
 };
 
 /* The bench must have passed model_validate (its points are not used).
- * Fails only on bad options (no samples, too many). */
+ * Fails on bad options (no samples, too many) and on a bench whose trace
+ * fails trace_check (reflections beyond the work bound: never a silent
+ * main-beam-only run; no_ghosts traces the main beam). */
 int  mc_run(const struct bench *, const struct mc_opts *, struct mc_result *,
          char **cause);
 void mc_result_release(struct mc_result *);

@@ -29,7 +29,7 @@ const struct cmd cmd_table[] = {
 	    "[--format table|json|csv]",
 	    "trace the bench over a range of one value: crossings and safe intervals" },
 	{ "tolerance", cmd_tolerance, "BENCH[@SETUP] | FILE | --demo [--samples N] [--seed S] "
-	    "[--point NAME] [--format table|json|csv] [--max-risk P] [--threads N]",
+	    "[--point NAME] [--format table|json|csv] [--max-risk P] [--threads N] [--no-ghosts]",
 	    "Monte-Carlo over every tolerance: the chance that each optic is over" },
 	{ "point", cmd_point, "add BENCH NAME CHANGE... | list BENCH | show BENCH NAME | "
 	    "remove BENCH NAME", "operating points: the bench as it is run at each setting" },

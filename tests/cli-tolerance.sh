@@ -64,6 +64,32 @@ w1 = [e for e in d["elements"] if e["id"] == "W1"][0]
 assert d["p_any_over"] >= w1["p_over"] and d["over_risk"]
 ' one.json
 fi
+# Each sample is rated with its reflections, as trace rates it; --no-ghosts
+# leaves them out, says so, and matches trace --no-ghosts.
+run --db "$DB" tolerance $B --samples 300 --format json --no-ghosts
+cp "$T_DIR/out" bare.json
+check "--no-ghosts: says so in JSON" out_has '"ghosts": false'
+run --db "$DB" tolerance $B --samples 300 --no-ghosts
+check "--no-ghosts: says so in the table" out_has "Main beam only (--no-ghosts)"
+run --db "$DB" trace $B --format json
+cp "$T_DIR/out" trace.json
+run --db "$DB" trace $B --format json --no-ghosts
+cp "$T_DIR/out" trace-bare.json
+if command -v python3 >/dev/null 2>&1; then
+	check "nominal ratios: with ghosts as trace, --no-ghosts as trace --no-ghosts" python3 -c '
+import json, sys
+tol, bare, tr, trb = (json.load(open(f)) for f in sys.argv[1:5])
+assert tol["ghosts"] and not bare["ghosts"]
+def ratios(t):
+    return {e["id"]: e["ratio"] for e in t["elements"] if e.get("ratio") is not None}
+full, main = ratios(tr), ratios(trb)
+for d, want in ((tol, full), (bare, main)):
+    for e in d["elements"]:
+        assert abs(e["nominal_ratio"] - want[e["id"]]) <= 1e-12 * want[e["id"]], (e, want[e["id"]])
+# the reflections count: some element differs between the two
+assert any(abs(full[k] - main[k]) > 1e-9 * full[k] for k in full), "no ghost in any ratio"
+' one.json bare.json trace.json trace-bare.json
+fi
 run --db "$DB" tolerance $B --samples 1000 --format csv
 check "csv: a header" out_has "id,nominal_ratio,p_over,se_over,p_caution,se_caution,median_ratio,p95_ratio"
 check "csv: the bench-wide row" out_has "(any),,"
