@@ -300,6 +300,12 @@ EOT
 	check "... --no-ghosts named as the way out" err_has long "trace it with --no-ghosts"
 	run long_ng trace "$T_DIR/long.bench" --no-ghosts
 	check "--no-ghosts traces it" status_is long_ng 0
+	run long_tol tolerance "$T_DIR/long.bench" --samples 10
+	check "tolerance of it: refused the same way, never a silent main-beam run" \
+		err_has long_tol "ghost-element visits, more than the 2e+08"
+	check "... exit 2" status_is long_tol 2
+	run long_tol_ng tolerance "$T_DIR/long.bench" --samples 10 --no-ghosts
+	check "... and runs with --no-ghosts" status_is long_tol_ng 0
 	run chain100 trace "$T_DIR/chain100.bench" --format json
 	check "a 100-glass chain: JSON without the millions of ghost rows, said" sh -c \
 		'grep -q "\"ghost_rows_omitted\": \"more than 2000000" "$1" && ! grep -q "\"rows\": \[" "$1"' \
