@@ -23,7 +23,7 @@
 struct sweep_args {
 	const char *ref, *knob, *from, *to, *point;
 	size_t      steps;
-	int         log, demo;
+	int         log, demo, no_ghosts;
 	enum report_format fmt;
 };
 
@@ -116,6 +116,9 @@ table(const struct sweep *sw, const struct sweep_knob *k, const struct bench *b,
 	buf_printf(&out, "Sweep of %s on bench %s%s%s: %s .. %s, %zu steps%s\n", k->text,
 	    b->name, a->point != NULL ? ", point " : "", a->point != NULL ? a->point : "",
 	    a->from, a->to, sw->nsteps, a->log ? " (log)" : "");
+	if (a->no_ghosts)
+		buf_add(&out, "Main beam only (--no-ghosts): surface reflections are not in "
+		    "these ratios.\n");
 	buf_printf(&out, "%12s  %-10s %7s  %-8s", "value", "worst", "ratio", "status");
 	for (size_t i = 0; i < sw->nrated; i++)
 		buf_printf(&out, " %8s", sw->rated[i].id);
@@ -187,9 +190,9 @@ json(const struct sweep *sw, const struct sweep_knob *k, const struct bench *b,
 		buf_add(&out, "null");
 	buf_add(&out, ",\n  \"knob\": ");
 	json_put_string(&out, k->text);
-	buf_printf(&out, ",\n  \"unit\": \"%s\", \"log\": %s, \"steps\": %zu,\n  \"rows\": [\n",
-	    k->angle ? "deg" : k->dim == DIM_NONE ? "" : units_dim_name(k->dim),
-	    a->log ? "true" : "false", sw->nsteps);
+	buf_printf(&out, ",\n  \"unit\": \"%s\", \"log\": %s, \"ghosts\": %s, \"steps\": %zu,\n"
+	    "  \"rows\": [\n", k->angle ? "deg" : k->dim == DIM_NONE ? "" : units_dim_name(k->dim),
+	    a->log ? "true" : "false", a->no_ghosts ? "false" : "true", sw->nsteps);
 	for (size_t s = 0; s < sw->nsteps; s++) {
 		long w = sw->worst[s];
 
@@ -303,13 +306,18 @@ parse_args(int argc, char **argv, struct sweep_args *a)
 			a->demo = 1;
 			continue;
 		}
+		if (strcmp(s, "--no-ghosts") == 0) {
+			a->no_ghosts = 1;
+			continue;
+		}
 		if (strcmp(s, "--help") == 0) {
 			printf("Usage: " PROG " sweep BENCH[@SETUP] | FILE | --demo KNOB FROM TO [--steps N]\n"
-			    "       [--log] [--point NAME] [--format table|json|csv]\n"
+			    "       [--log] [--point NAME] [--format table|json|csv] [--no-ghosts]\n"
 			    "KNOB is ID.KEY, source.KEY, or ID1.length~ID2.length (a rail: the\n"
 			    "element between the two gaps slides, their sum fixed).  FROM and TO\n"
 			    "take the knob's unit (\"20 mW\"; angles in degrees).  N steps\n"
-			    "(default 101), evenly or with --log in equal ratios.\n"
+			    "(default 101), evenly or with --log in equal ratios.  --no-ghosts\n"
+			    "traces the main beam alone (no surface reflections; said so).\n"
 			    "Exit status: 0 nothing over anywhere in the range, 1 something over,\n"
 			    "2 trouble.\n");
 			return 1;
@@ -368,7 +376,8 @@ cmd_sweep(struct cmd_ctx *ctx, int argc, char **argv)
 	}
 	if (sweep_knob_value(&k, a.from, &from, &cause) != 0 ||
 	    sweep_knob_value(&k, a.to, &to, &cause) != 0 ||
-	    (sw = sweep_run(w, &k, from, to, a.steps, a.log, &cause)) == NULL) {
+	    (sw = sweep_run(w, &k, from, to, a.steps,
+	    (a.log ? SWEEP_LOG : 0) | (a.no_ghosts ? SWEEP_NO_GHOSTS : 0), &cause)) == NULL) {
 		sweep_knob_release(&k);
 		model_bench_free(w);
 		return cmd_fail(cause);

@@ -226,8 +226,8 @@ trace_points(const struct bench *b, const char *only, enum report_format fmt,
 	int rc;
 	const struct trace *shown;
 
-	if (point_survey_run_opts(b, only, fmt == REPORT_JSON || fmt == REPORT_CSV ?
-	    TRACE_GHOST_ROWS : 0, &sv, &cause) != 0)
+	if (point_survey_run_opts(b, only, (ro->trace_opts & TRACE_NO_GHOSTS) |
+	    (fmt == REPORT_JSON || fmt == REPORT_CSV ? TRACE_GHOST_ROWS : 0), &sv, &cause) != 0)
 		return cmd_fail(cause);
 	if (only != NULL) {
 		origin = ro->origin != NULL ? xasprintf("%s, point %s", ro->origin, only) :
@@ -395,8 +395,6 @@ cmd_trace(struct cmd_ctx *ctx, int argc, char **argv)
 	if (explain != NULL && (every || fmt != REPORT_TABLE))
 		return cmd_usage("trace: --explain ID writes text for one bench or one point "
 		    "(not with --every-point or --format)");
-	if ((point != NULL || every) && (ro.trace_opts & TRACE_NO_GHOSTS))
-		return cmd_usage("trace: --no-ghosts traces the bench itself, not its points");
 	ro.color = cmd_color(color);
 	if (demo) {
 		b = bench_file_parse(bench_demo_text, strlen(bench_demo_text), "demo", &cause);

@@ -512,6 +512,12 @@ point_survey_run_opts(const struct bench *b, const char *only, unsigned opts,
 	sv->pt = xcalloc(sv->n, sizeof *sv->pt);
 	sv->pt[0].name = "base";
 	sv->base_trace = trace_rerun_opts(NULL, b, opts);
+	/* reflections beyond the bound: refused as trace refuses them,
+	 * never surveyed on the main beam unasked */
+	if (trace_check(sv->base_trace, cause) != 0) {
+		point_survey_release(sv);
+		return -1;
+	}
 	survey_trace(sv, 0, sv->base_trace, &cl);
 	for (size_t i = 1; i < sv->n; i++) {
 		const struct point *p = one != NULL ? one : &b->points.p[i - 1];
@@ -529,7 +535,19 @@ point_survey_run_opts(const struct bench *b, const char *only, unsigned opts,
 		/* every point but the one asked for is read for its ratings
 		 * alone (survey_trace): the lean trace gives them exactly */
 		sv->last_trace = trace_rerun_opts(sv->last_trace, sv->last,
-		    one != NULL ? opts : TRACE_LEAN);
+		    one != NULL ? opts : (opts & TRACE_NO_GHOSTS) | TRACE_LEAN);
+		if (trace_check(sv->last_trace, cause) != 0) {
+			if (cause != NULL) {
+				char *why = *cause;
+
+				*cause = xasprintf("point '%s': %s", p->name, why);
+				free(why);
+			}
+			free(cl.v);
+			free(cl.r);
+			point_survey_release(sv);
+			return -1;
+		}
 		survey_trace(sv, i, sv->last_trace, &cl);
 	}
 	sv->ratio = xcalloc(sv->n * (sv->nel ? sv->nel : 1), sizeof *sv->ratio);

@@ -294,6 +294,7 @@ struct ctx {
 	const struct sweep_knob  *k;
 	struct trace             *t;
 	const struct sweep       *sw;
+	unsigned                  opts;     /* trace_rerun_opts: lean, maybe no ghosts */
 };
 
 /* Highest status at x: of one rated element (r >= 0) or of all. */
@@ -303,7 +304,7 @@ status_at(struct ctx *c, double x, long r)
 	enum damage_status st = STATUS_UNRATED;
 
 	sweep_knob_set(c->k, c->b, x);
-	c->t = trace_rerun_opts(c->t, c->b, TRACE_LEAN);
+	c->t = trace_rerun_opts(c->t, c->b, c->opts);
 	for (size_t i = 0; i < c->sw->nrated; i++) {
 		enum damage_status s;
 
@@ -418,8 +419,9 @@ setup(struct sweep *sw, const struct trace *t)
 
 struct sweep *
 sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
-    size_t steps, int log, char **cause)
+    size_t steps, unsigned flags, char **cause)
 {
+	int log = (flags & SWEEP_LOG) != 0;
 	struct sweep *sw;
 	struct saved saved;
 	struct ctx c;
@@ -461,12 +463,27 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
 	c.sw = sw;
 	sweep_knob_set(k, b, sw->x[0]);
 	/* every step reads ratings and warnings only */
-	c.t = trace_rerun_opts(NULL, b, TRACE_LEAN);
+	c.opts = TRACE_LEAN | (flags & SWEEP_NO_GHOSTS ? TRACE_NO_GHOSTS : 0);
+	c.t = trace_rerun_opts(NULL, b, c.opts);
 	setup(sw, c.t);
 	for (size_t s = 0; s < steps; s++) {
 		if (s > 0) {
 			sweep_knob_set(k, b, sw->x[s]);
-			c.t = trace_rerun_opts(c.t, b, TRACE_LEAN);
+			c.t = trace_rerun_opts(c.t, b, c.opts);
+		}
+		/* reflections beyond the bound (a tilt knob can bring them):
+		 * never a silent main-beam-only step */
+		if (trace_check(c.t, cause) != 0) {
+			if (cause != NULL) {
+				char *why = *cause;
+
+				*cause = xasprintf("sweep %s at step %zu: %s", k->text, s + 1, why);
+				free(why);
+			}
+			restore(&saved, k, b);
+			trace_free(c.t);
+			sweep_free(sw);
+			return NULL;
 		}
 		record_step(sw, s, c.t);
 	}

@@ -76,11 +76,14 @@ struct sweep {
 };
 
 /* Sweeps the knob from `from` to `to` in `steps` values (>= 2), evenly or,
- * with log != 0, in equal ratios (both ends of one sign, nonzero).  The
- * bench must be valid at both ends.  Returns NULL with *cause on bad
- * input. */
+ * with SWEEP_LOG, in equal ratios (both ends of one sign, nonzero); with
+ * SWEEP_NO_GHOSTS the main beam alone (--no-ghosts).  The bench must be
+ * valid at both ends.  Returns NULL with *cause on bad input, and on a
+ * step whose reflections are beyond the bound (trace_check). */
+#define SWEEP_LOG       1u
+#define SWEEP_NO_GHOSTS 2u
 struct sweep *sweep_run(struct bench *, const struct sweep_knob *, double from,
-                  double to, size_t steps, int log, char **cause);   /* caller frees */
+                  double to, size_t steps, unsigned flags, char **cause);   /* caller frees */
 void          sweep_free(struct sweep *);                             /* NULL ok */
 
 /* The plot of ratio against the knob, laid out on a grid of w x h cells:

@@ -26,7 +26,7 @@ const struct cmd cmd_table[] = {
 	    "[--format pdf|svg|md] [--since SETUP] [--point NAME | --every-point]",
 	    "a review of a setup to print and sign: verdict, schematic, profile, table, changes" },
 	{ "sweep", cmd_sweep, "BENCH[@SETUP] | FILE KNOB FROM TO [--steps N] [--log] [--point NAME] "
-	    "[--format table|json|csv]",
+	    "[--format table|json|csv] [--no-ghosts]",
 	    "trace the bench over a range of one value: crossings and safe intervals" },
 	{ "tolerance", cmd_tolerance, "BENCH[@SETUP] | FILE | --demo [--samples N] [--seed S] "
 	    "[--point NAME] [--format table|json|csv] [--max-risk P] [--threads N] [--no-ghosts]",

@@ -306,6 +306,16 @@ EOT
 	check "... exit 2" status_is long_tol 2
 	run long_tol_ng tolerance "$T_DIR/long.bench" --samples 10 --no-ghosts
 	check "... and runs with --no-ghosts" status_is long_tol_ng 0
+	run long_sw sweep "$T_DIR/long.bench" source.power "1 W" "2 W" --steps 3
+	check "sweep of it: refused the same way" err_has long_sw "ghost-element visits"
+	check "... exit 2" status_is long_sw 2
+	run long_sw_ng sweep "$T_DIR/long.bench" source.power "1 W" "2 W" --steps 3 --no-ghosts
+	check "... and runs with --no-ghosts, saying so" out_has long_sw_ng "Main beam only (--no-ghosts)"
+	run long_ep trace "$T_DIR/long.bench" --every-point
+	check "trace --every-point of it: refused the same way" err_has long_ep "ghost-element visits"
+	check "... exit 2" status_is long_ep 2
+	run long_ep_ng trace "$T_DIR/long.bench" --every-point --no-ghosts
+	check "... and runs with --no-ghosts" status_is long_ep_ng 0
 	run chain100 trace "$T_DIR/chain100.bench" --format json
 	check "a 100-glass chain: JSON without the millions of ghost rows, said" sh -c \
 		'grep -q "\"ghost_rows_omitted\": \"more than 2000000" "$1" && ! grep -q "\"rows\": \[" "$1"' \
