@@ -104,6 +104,12 @@ void   ghost_beam_radii(const struct ghost_ctx *, const struct ghost_beam *,
  * direction dir (+1 downstream, -1 upstream). */
 void   ghost_gap(struct ghost_ctx *, struct ghost *, size_t u, double z0, int dir,
            const struct ghost_beam *, double p);
+/* Ghost g with beam gb and power p meets row u: rated there
+ * (ghost_add_row) and clipped (ghost_clip); returns the power past the
+ * aperture and sets *kept.  In a lean walk a row neither rated nor
+ * clipping costs no radii. */
+double ghost_meet(struct ghost_ctx *, struct ghost *, size_t u, const struct ghost_beam *,
+           double p, struct ghost_row **kept);
 /* Clips p at row u's aperture by the ghost's own radii (from 1/w²). */
 double ghost_clip(const struct ghost_ctx *, size_t u, double ix, double iy, double p);
 void   ghost_add_stray(struct ghost_ctx *, const struct element *, const char *what,

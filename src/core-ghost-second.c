@@ -24,12 +24,10 @@ walk_forward(struct ghost_ctx *c, struct ghost *g, size_t i, const struct beam_a
 	while (u >= 0 && p > c->floor) {
 		const struct trace_row *tr = &t->rows[u];
 		const struct ghost_pass *ps = &c->pass[u];
-		double pin = p, ix, iy;
+		double pin = p;
 		struct ghost_row *kept;
 
-		ghost_beam_inv2(c, &gb, &ix, &iy);
-		kept = ghost_add_row(c, &c->gs->g[gi], (size_t)u, ix, iy, p);
-		p = ghost_clip(c, (size_t)u, ix, iy, p);
+		p = ghost_meet(c, &c->gs->g[gi], (size_t)u, &gb, p, &kept);
 		if (ps->space) {
 			if (kept != NULL)
 				kept->power_lost = pin - p;

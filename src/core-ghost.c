@@ -570,6 +570,23 @@ ghost_gap(struct ghost_ctx *c, struct ghost *g, size_t u, double z0, int dir,
 }
 
 double
+ghost_meet(struct ghost_ctx *c, struct ghost *g, size_t u, const struct ghost_beam *gb,
+    double p, struct ghost_row **kept)
+{
+	const struct ghost_pass *ps = &c->pass[u];
+	double ix, iy;
+
+	if (c->lean && !ps->rated && isnan(ps->ap)) {
+		g->nrows++;
+		*kept = NULL;
+		return p;
+	}
+	ghost_beam_inv2(c, gb, &ix, &iy);
+	*kept = ghost_add_row(c, g, u, ix, iy, p);
+	return ghost_clip(c, u, ix, iy, p);
+}
+
+double
 ghost_clip(const struct ghost_ctx *c, size_t u, double ix, double iy, double p)
 {
 	double a = c->pass[u].ap;
@@ -623,7 +640,7 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, const struct beam_axi
 		const struct ghost_pass *ps = &c->pass[u];
 		const struct element *el = tr->el;
 		struct ghost_row *kept;
-		double pin, out, toward, other, ix, iy, lost;
+		double pin, out, toward, other, lost;
 		int side;
 
 		if (ps->space) {
@@ -634,9 +651,7 @@ walk_back(struct ghost_ctx *c, struct ghost *g, long from, const struct beam_axi
 			ghost_beam_space(&gb, len);
 		}
 		pin = p;
-		ghost_beam_inv2(c, &gb, &ix, &iy);
-		kept = ghost_add_row(c, g, (size_t)u, ix, iy, p);
-		p = ghost_clip(c, (size_t)u, ix, iy, p);
+		p = ghost_meet(c, g, (size_t)u, &gb, p, &kept);
 		if (ps->space) {
 			if (kept != NULL)
 				kept->power_lost = pin - p;
