@@ -3,7 +3,8 @@
  * core, within 2x of a bare loop of the same arithmetic timed here, and a
  * fresh result within 1.5x of a reused one), and how long the whole
  * `trace --format json` process takes on a 10^5-element bench file
- * (target: < 0.2 s).
+ * (target: < 0.2 s), and on 10^4 elements against a pure-Python tracer of
+ * the same physics, benches/trace_peer.py (target: 50 times faster).
  * The main beam alone (TRACE_NO_GHOSTS, --no-ghosts): what the surface
  * reflections add is bench_ghost's figure.
  * Prints its figures; asserts nothing. */
@@ -120,6 +121,80 @@ bare_loop(size_t n, struct bare_row *out, int reps)
 	return best;
 }
 
+/* Wall time of a shell command, best of `rounds`; -1 when it fails. */
+static double
+time_cmd(const char *cmd, int rounds)
+{
+	double best = 1e9;
+
+	for (int round = 0; round < rounds; round++) {
+		double t0 = now(), dt;
+		int rc = system(cmd);
+
+		dt = now() - t0;
+		if (rc == -1 || (WEXITSTATUS(rc) != 0 && WEXITSTATUS(rc) != 1))
+			return -1;
+		if (dt < best)
+			best = dt;
+	}
+	return best;
+}
+
+/* The whole process on 10^4 elements against benches/trace_peer.py, a
+ * straightforward pure-Python tracer of the same physics that reads the
+ * same file and writes JSON (target: at least 50 times faster).  Their
+ * ratios are compared too, so that the race is between equals. */
+static int
+peer_figure(const char *prog, const char *peer)
+{
+	struct bench *b = make_chain(10000);
+	char path[] = "/tmp/bench_trace_peer.XXXXXX", cmd[1024], line[256];
+	char *text = bench_file_dump(b);
+	int fd = mkstemp(path);
+	FILE *f = fd >= 0 ? fdopen(fd, "w") : NULL;
+	double tb, tp, diff = NAN;
+
+	if (f == NULL || fputs(text, f) == EOF || fclose(f) != 0) {
+		perror("bench_trace: temporary file");
+		return 2;
+	}
+	snprintf(cmd, sizeof cmd, "%s trace --no-ghosts --format json %s >/dev/null", prog, path);
+	tb = time_cmd(cmd, 5);
+	snprintf(cmd, sizeof cmd, "python3 '%s' %s >/dev/null 2>&1", peer, path);
+	tp = time_cmd(cmd, 3);
+	/* the same ratios: the largest relative difference over the elements */
+	snprintf(cmd, sizeof cmd, "python3 -c '"
+	    "import json, subprocess, sys\n"
+	    "a = json.loads(subprocess.run([\"python3\", sys.argv[1], sys.argv[3]], "
+	    "capture_output=True).stdout)\n"
+	    "b = json.loads(subprocess.run([sys.argv[2], \"trace\", \"--no-ghosts\", "
+	    "\"--format\", \"json\", sys.argv[3]], capture_output=True).stdout)\n"
+	    "ra = {e[\"id\"]: e[\"ratio\"] for e in a[\"elements\"]}\n"
+	    "print(max(abs(ra[e[\"id\"]] - e[\"ratio\"]) / e[\"ratio\"] for e in "
+	    "b[\"elements\"] if e.get(\"ratio\")))' '%s' '%s' %s 2>/dev/null", peer, prog, path);
+	if ((f = popen(cmd, "r")) != NULL) {
+		if (fgets(line, sizeof line, f) != NULL)
+			diff = strtod(line, NULL);
+		pclose(f);
+	}
+	unlink(path);
+	free(text);
+	model_bench_free(b);
+	if (tb < 0) {
+		fprintf(stderr, "bench_trace: '%s trace' failed\n", prog);
+		return 2;
+	}
+	if (tp < 0) {
+		printf("whole process on 10000 elements: %.3f s; plain Python peer: - "
+		    "(python3 or %s not found)\n", tb, peer);
+		return 0;
+	}
+	printf("whole process, trace --format json on 10000 elements: %.4f s; the plain-Python "
+	    "tracer (%s) %.3f s:\n  %.1f x faster (target >= 50 x); their ratios agree to "
+	    "%.1e relative\n", tb, peer, tp, tp / tb, diff);
+	return 0;
+}
+
 int
 main(int argc, char **argv)
 {
@@ -199,5 +274,5 @@ main(int argc, char **argv)
 		}
 		model_bench_free(b);
 	}
-	return 0;
+	return peer_figure(prog, argc > 2 ? argv[2] : "benches/trace_peer.py");
 }
