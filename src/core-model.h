@@ -93,11 +93,13 @@ struct element {
 	char           *label;      /* owned, may be NULL */
 	char           *part;       /* owned, may be NULL: parts-shelf name */
 	enum elem_type  type;
-	uint64_t        set;        /* KEY_BIT of every key given */
-	double          val[K_COUNT];
 	enum port       side_port;  /* PORT_NONE: no side branch */
+	uint64_t        set;        /* KEY_BIT of every key given */
 	struct branch   side;       /* owned */
 	struct tol     *tol;        /* owned [K_COUNT]; NULL: no tolerance */
+	/* last: what a trace reads of every element (type, set, side) shares
+	 * its first cache line, the values it reads follow */
+	double          val[K_COUNT];
 };
 
 enum pulse_shape { PULSE_GAUSSIAN, PULSE_SECH2, PULSE_SQUARE };
