@@ -351,10 +351,36 @@ layout_wrap(const char *s, int width, size_t *starts, size_t *lens, size_t max)
 
 /* ---- key hints ---- */
 
-static int
-hint_cols(const struct layout_hint *h)
+/* The brief forms: the words of the keys a new user most needs to find
+ * on an 80-column line, where the whole words leave no room for them. */
+static const struct {
+	const char *word, *brief;
+} hint_briefs[] = {
+	{ "reflections", "ghosts" }, { "tolerance", "odds" },
+	{ "new seed", "seed" }, { "more samples", "more" },
+};
+
+static const char *
+brief_of(const struct layout_hint *h)
 {
-	return (int)(utf8_cols(h->key) + 1 + utf8_cols(h->word));
+	for (size_t i = 0; i < sizeof hint_briefs / sizeof *hint_briefs; i++)
+		if (strcmp(h->word, hint_briefs[i].word) == 0)
+			return hint_briefs[i].brief;
+	return NULL;
+}
+
+const char *
+layout_hint_word(const struct layout_hint *h, unsigned char shown)
+{
+	const char *b = shown == 2 ? brief_of(h) : NULL;
+
+	return b != NULL ? b : h->word;
+}
+
+static int
+hint_cols(const struct layout_hint *h, unsigned char shown)
+{
+	return (int)(utf8_cols(h->key) + 1 + utf8_cols(layout_hint_word(h, shown)));
 }
 
 /* Width of the shown hints: two blanks inside a group, the group sign
@@ -369,7 +395,7 @@ hints_width(const struct layout_hint *h, size_t n, const unsigned char *shown)
 			continue;
 		if (prev >= 0)
 			total += h[i].group != h[prev].group ? LAYOUT_GROUP_GAP : 2;
-		total += hint_cols(&h[i]);
+		total += hint_cols(&h[i], shown[i]);
 		prev = (int)i;
 	}
 	return total;
@@ -379,10 +405,12 @@ size_t
 layout_hints_pick(const struct layout_hint *h, size_t n, int width, unsigned char *shown)
 {
 	size_t count = n;
+	int briefs = 0;
 
 	for (size_t i = 0; i < n; i++)
 		shown[i] = 1;
-	/* drop one at a time: the least important, the rightmost of equals */
+	/* drop one at a time: the least important, the rightmost of equals;
+	 * the first one that has a brief word makes every brief taken instead */
 	while (hints_width(h, n, shown) > width && count > 0) {
 		size_t drop = n;
 
@@ -391,6 +419,13 @@ layout_hints_pick(const struct layout_hint *h, size_t n, int width, unsigned cha
 				drop = i;
 		if (drop == n)
 			break;
+		if (!briefs && brief_of(&h[drop]) != NULL) {
+			briefs = 1;
+			for (size_t i = 0; i < n; i++)
+				if (shown[i] && brief_of(&h[i]) != NULL)
+					shown[i] = 2;
+			continue;
+		}
 		shown[drop] = 0;
 		count--;
 	}
@@ -419,7 +454,8 @@ layout_hints_text(const struct layout_hint *h, size_t n, int width)
 		if (shown[i]) {
 			if (prev >= 0)
 				buf_add(&b, h[i].group != h[prev].group ? " " LAYOUT_GROUP_SIGN " " : "  ");
-			buf_printf(&b, "%s" LAYOUT_KEY_SIGN "%s", h[i].key, h[i].word);
+			buf_printf(&b, "%s" LAYOUT_KEY_SIGN "%s", h[i].key,
+			    layout_hint_word(&h[i], shown[i]));
 			prev = (int)i;
 		}
 	free(shown);

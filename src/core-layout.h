@@ -91,10 +91,16 @@ struct layout_hint {
 /* Picks which hints fit in `width` columns written as above, in their
  * given order: the least important are dropped one at a time (of equal
  * prio, the rightmost first); prio 0 is dropped only when nothing else is
- * left, from the right.  shown[i] is set to 1 or 0.  Returns how many are
- * shown. */
+ * left, from the right.  A few long words have a brief form (the table in
+ * core-layout.c: "reflections" is "ghosts" there): when the next to go has
+ * one, every hint with one takes it instead, once, and the dropping goes on
+ * only if the line is still too long (so an 80-column line keeps more).
+ * shown[i] is set to 0 (left out), 1 (its word) or 2 (its brief).
+ * Returns how many are shown. */
 size_t layout_hints_pick(const struct layout_hint *, size_t n, int width,
            unsigned char *shown);
+/* The word hint h is written with for its shown[] value: its brief for 2. */
+const char *layout_hint_word(const struct layout_hint *, unsigned char shown);
 /* The chosen hints as one plain line (for tests and monochrome). */
 char  *layout_hints_text(const struct layout_hint *, size_t n, int width); /* caller frees */
 

@@ -765,7 +765,7 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'n' }, "n", NULL, 0, "the next element with a hazard", k_next_problem, 0, UG_MOVE },
 	{ { 'p', UI_FKEY(KEY_IC) }, "p", "place", 1, "place an element after the selection (on a port row: into that branch; also Insert)", wb_k_place, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
 	{ { 'P' }, "P", NULL, 0, "place an element before the selection", wb_k_place_before, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
-	{ { 'l', UI_FKEY(KEY_DC) }, "l", "lift", 2, "lift the selected element off the bench, with its side branch (also Delete)", k_delete, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
+	{ { 'l', UI_FKEY(KEY_DC) }, "l", "lift", 3, "lift the selected element off the bench, with its side branch (also Delete)", k_delete, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
 	{ { 's' }, "s", "shift", 4, "shift the selection: choose a row, then Enter", k_move, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
 	{ { '<', UI_FKEY(KEY_SR) }, "<", NULL, 0, "shift the selection one place up its branch (also Shift-Up)", k_nudge_up, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
 	{ { '>', UI_FKEY(KEY_SF) }, ">", NULL, 0, "shift the selection one place down its branch (also Shift-Down)", k_nudge_down, UI_K_EDITS | UI_K_LAYOUT, UG_LAYOUT },
@@ -779,15 +779,15 @@ const struct ui_key ui_bench_chain_keys[] = {
 	{ { 'h' }, "h", "history", 3, "the bench's logbook: its setups, compare, reinstate, mark", k_history, 0, UG_RECORD },
 	{ { 'c' }, "c", NULL, 0, "compare the draft with the setup it came from", k_compare, 0, UG_RECORD },
 	{ { '!' }, "!", "hazards", 1, "every hazard on the bench; Enter goes to its element", k_hazards, 0, UG_LOOK },
-	{ { 'f' }, "f", "reflections", 4, "every ghost and stray, worst first; Enter goes to its element", k_reflections, 0, UG_LOOK },
-	{ { 't' }, "t", "tolerance", 4, "the odds that each rated optic is over when every tolerance is drawn at random (Monte-Carlo); Enter goes to an element", k_tolerance, 0, UG_LOOK },
+	{ { 'f' }, "f", "reflections", 2, "every ghost and stray, worst first; Enter goes to its element", k_reflections, 0, UG_LOOK },
+	{ { 't' }, "t", "tolerance", 2, "the odds that each rated optic is over when every tolerance is drawn at random (Monte-Carlo); Enter goes to an element", k_tolerance, 0, UG_LOOK },
 	{ { 'z' }, "z", "profile", 4, "the beam along z to the end of the selected element's branch", k_profile, 0, UG_LOOK },
 	{ { 'S' }, "S", NULL, 0, "the parts shelf: place a part, keep an element as a part", k_parts, 0, UG_LOOK },
 	{ { 'o' }, "o", NULL, 0, "every operating point side by side: each element's ratio at each", k_points, 0, UG_LOOK },
 	{ { 'v' }, "v", NULL, 0, "sweep a value of the selected element (or the source) over a range", k_sweep, 0, UG_LOOK },
 	{ { 'O' }, "O", NULL, 0, "the next operating point on the chain, the base first (values typed then are its overrides)", k_point_next, 0, UG_LOOK },
 	{ { 'W' }, "W", NULL, 0, "the chain's ratio and status as each element's worst over every point, and where (again: back)", k_point_worst, 0, UG_LOOK },
-	{ { 'q', UI_ESC }, "q", "list", 1, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
+	{ { 'q', UI_ESC }, "q", "list", 3, "back to the bench list (the draft is saved; also Esc)", k_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };
 
@@ -906,13 +906,16 @@ wb_hints(struct app *a, struct wb *d, struct layout_hint *h, size_t max)
 		n = m;
 	}
 	if (table == ui_bench_chain_keys && a->bench->points.n > 0) {
-		/* with the other ways of looking, before leaving */
+		/* with the other ways of looking, before leaving; at a point it
+		 * is the way on and back to the base, so kept before f and t (at
+		 * the base the margin line says "O: N points") */
 		size_t at = n;
 
 		while (at > 0 && h[at - 1].group > UG_LOOK)
 			at--;
 		memmove(h + at + 1, h + at, (n - at) * sizeof *h);
-		h[at] = (struct layout_hint){ "O", "point", 3, UG_LOOK };
+		h[at] = (struct layout_hint){ "O", "point", app_point_name(a) != NULL ? 1 : 3,
+		    UG_LOOK };
 		n++;
 	}
 	h[n++] = (struct layout_hint){ "?", "help", 0, UG_COUNT };

@@ -272,10 +272,10 @@ ui_hints(struct app *a, int y, int w, const struct layout_hint *h, size_t n)
 			x += 2;
 		}
 		kl = (int)utf8_cols(h[i].key);
-		wl = (int)utf8_cols(h[i].word);
+		wl = (int)utf8_cols(layout_hint_word(&h[i], shown[i]));
 		ui_put_attr(a, y, x, kl, h[i].key, ui_attr(a, UC_KEY) | A_BOLD);
 		ui_put(a, y, x + kl, 1, ui_glyph(a, GL_KEY), UC_DIM);
-		ui_put(a, y, x + kl + 1, wl, h[i].word, UC_NORMAL);
+		ui_put(a, y, x + kl + 1, wl, layout_hint_word(&h[i], shown[i]), UC_NORMAL);
 		x += kl + 1 + wl;
 		prev = (int)i;
 	}

@@ -230,6 +230,43 @@ START_TEST(test_hints_ties)
 }
 END_TEST
 
+/* A long word with a brief form gives way to it before its key is
+ * dropped, and so does every other with one, once (core-layout.c's
+ * table: "reflections" -> "ghosts", "tolerance" -> "odds").  Widths by
+ * hand: p>place 7, f>reflections 13, t>tolerance 11, ?>help 6, briefs
+ * f>ghosts 8, t>odds 6, q>list 6. */
+static const struct layout_hint brief_hints[] = {
+	{ "p", "place", 1, 0 }, { "q", "list", 3, 1 }, { "f", "reflections", 2, 2 },
+	{ "t", "tolerance", 2, 2 }, { "?", "help", 0, 3 },
+};
+static const struct { int width; const char *want; } brief_cases[] = {
+	/* all whole: 7+3+6+3+13+2+11+3+6 = 54 */
+	{ 54, "p\u203aplace \u2506 q\u203alist \u2506 f\u203areflections  t\u203atolerance \u2506 ?\u203ahelp" },
+	/* q goes first (prio 3, no brief): 45 */
+	{ 53, "p\u203aplace \u2506 f\u203areflections  t\u203atolerance \u2506 ?\u203ahelp" },
+	/* then t would go: both take their briefs instead, 35 */
+	{ 44, "p\u203aplace \u2506 f\u203aghosts  t\u203aodds \u2506 ?\u203ahelp" },
+	{ 35, "p\u203aplace \u2506 f\u203aghosts  t\u203aodds \u2506 ?\u203ahelp" },
+	/* still too long: dropping goes on, t first, the briefs kept, 27 */
+	{ 34, "p\u203aplace \u2506 f\u203aghosts \u2506 ?\u203ahelp" },
+};
+
+START_TEST(test_hints_brief)
+{
+	unsigned char shown[5];
+	char *s = layout_hints_text(brief_hints, 5, brief_cases[_i].width);
+
+	ck_assert_str_eq(s, brief_cases[_i].want);
+	ck_assert_int_le((int)utf8_cols(s), brief_cases[_i].width);
+	free(s);
+	layout_hints_pick(brief_hints, 5, brief_cases[_i].width, shown);
+	ck_assert_str_eq(layout_hint_word(&brief_hints[2], shown[2]),
+	    brief_cases[_i].width >= 45 ? "reflections" : "ghosts");
+	/* a word with no brief is its own whatever shown says */
+	ck_assert_str_eq(layout_hint_word(&brief_hints[0], 2), "place");
+}
+END_TEST
+
 START_TEST(test_hints)
 {
 	char *s = layout_hints_text(hints, sizeof hints / sizeof *hints, hint_cases[_i].width);
@@ -1284,6 +1321,7 @@ Suite *s = suite_create("layout");
 	LOOP(tc, test_fit_columns, colfit_cases);
 	LOOP(tc, test_hints, hint_cases);
 	tcase_add_test(tc, test_hints_ties);
+	LOOP(tc, test_hints_brief, brief_cases);
 	LOOP(tc, test_wrap, wrap_cases);
 	suite_add_tcase(s, tc);
 	tc = tcase_create("chain");

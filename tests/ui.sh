@@ -71,7 +71,7 @@ check "hand: safe source power 2 W/(2·$m_worst) = $m_safe mW, as the table says
 	[ -n "$m_worst" -a "$m_safe mW" = "$m_table" ]
 check "the margin line: headroom and safe source power (×$m_hr, $m_table)" \
 	wait_line ui "^worst: W1 109 % OVER(, headroom)? ×$(printf %s "$m_hr" | sed 's/\./\\./') │ safe source power $m_table │ [0-9]+ hazards"
-check "keys grouped by task with the key sign (7d)" wait_line ui '^p›place  l›lift  -›undo ┆ Enter›edit ┆ r›record'
+check "keys grouped by task with the key sign (7d)" wait_line ui '^p›place  -›undo ┆ Enter›edit ┆ r›record ┆ !›hazards'
 # HWP1's ratio, ghosts counted: 15.9 %, derived by hand.  Main beam (the
 # trace's Gaussian beam, Siegman ch. 17; fluence 2E/πw²; √τ law, REFERENCE):
 #   z_R = π·w0²/(M²λ) = π(3 mm)²/(1.3·1.064 µm) = 20.441 m; HWP1 is 800 mm
@@ -371,7 +371,7 @@ check "exit status 0" [ "$(t_status ui)" = 0 ]
 t_start direct 80 24 env LC_ALL=C XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open focus-test
 check "open BENCH goes to the bench" wait_for direct "focus-test > draft"
 check "ASCII fallback under LC_ALL=C" wait_line direct '^worst: [A-Z0-9]+ .*\|.*safe source power .*\|'
-check "ASCII key line" wait_line direct '^p>place  l>lift'
+check "ASCII key line" wait_line direct '^p>place  ->undo : Enter>edit'
 check "ASCII hazard sign on an unrated lens" wait_line direct '^!L1 .* unrated'
 t_keys direct q
 check "q goes back to the list" wait_for direct "updated (UTC)"
