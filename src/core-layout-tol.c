@@ -269,6 +269,62 @@ layout_tol_samples(size_t nrows, int more)
 	return n > MC_MAX_SAMPLES ? MC_MAX_SAMPLES : n;
 }
 
+size_t
+layout_tol_samples_max(size_t nrows)
+{
+	size_t n = LAYOUT_TOL_CELLS / (nrows > 0 ? nrows : 1);
+
+	return n > MC_MAX_SAMPLES ? MC_MAX_SAMPLES : n;
+}
+
+int
+layout_tol_parse_samples(const char *text, size_t max, size_t *n, char **cause)
+{
+	unsigned long long v = 0;
+	const char *s = text;
+	int digits = 0;
+
+	while (*s == ' ')
+		s++;
+	for (; *s != '\0'; s++) {
+		if (*s >= '0' && *s <= '9') {
+			/* far too many already: kept too many, whatever follows */
+			v = v > 1000ULL * MC_MAX_SAMPLES ? v : v * 10 + (unsigned long long)(*s - '0');
+			digits++;
+		} else if (*s == ' ' && digits > 0 && s[1] >= '0' && s[1] <= '9') {
+			continue;       /* "20 000" */
+		} else if ((*s == 'k' || *s == 'K') && digits > 0) {
+			v *= 1000;
+			s++;
+			break;
+		} else {
+			break;
+		}
+	}
+	while (*s == ' ')
+		s++;
+	if (digits == 0 || *s != '\0')
+		return fail_with(cause, "'%s' is not a sample count: type a whole number such "
+		    "as 20000 or 20k", text);
+	if (v < 10 || v > max)
+		return fail_with(cause, "%s samples: give 10 to %zu here (beamledger tolerance "
+		    "--samples N runs up to %d)", text, max, MC_MAX_SAMPLES);
+	*n = (size_t)v;
+	return 0;
+}
+
+char *
+layout_tol_progress(size_t done, size_t total, int stopping, int ascii)
+{
+	const char *dots = ascii ? "..." : "\u2026";
+	double pct = total > 0 ? 100.0 * (double)done / (double)total : 0;
+
+	if (stopping)
+		return xasprintf("stopping%s %zu of %zu samples done", dots, done, total);
+	return xasprintf("sampling%s %zu of %zu samples (%.0f %%)", dots, done, total,
+	    pct >= 99.5 && done < total ? 99.0 : pct);
+}
+
 /* p as a percentage with as many decimals as its size asks. */
 static void
 pct_plain(char *buf, size_t n, double p, int *decimals)
@@ -416,15 +472,28 @@ layout_tol_head(const struct mc_result *r, int cols)
 	const char *tn = r->nparam == 1 ? "" : "s";
 	unsigned long long seed = (unsigned long long)r->seed;
 
-	if (r->stopped)
-		snprintf(stop, sizeof stop, "STOPPED at %zu of %zu samples; ", r->done, r->asked);
-	s = xasprintf("%sStatistical estimates from %zu random samples (seed %llu) of %zu "
-	    "tolerance%s; %s is one standard error", stop, r->done, seed, r->nparam, tn, TOL_SIGN);
+	if (r->stopped) {
+		/* the count done first, however narrow: the figures rest on it */
+		snprintf(stop, sizeof stop, "STOPPED after %zu of %zu samples; ", r->done, r->asked);
+		s = xasprintf("%sstatistical estimates from those (seed %llu) of %zu tolerance%s; "
+		    "%s is one standard error", stop, seed, r->nparam, tn, TOL_SIGN);
+		if ((int)utf8_cols(s) <= cols)
+			return s;
+		free(s);
+		s = xasprintf("%sestimates from those only: seed %llu, %zu tolerance%s, %s one "
+		    "standard error", stop, seed, r->nparam, tn, TOL_SIGN);
+		if ((int)utf8_cols(s) <= cols)
+			return s;
+		free(s);
+		return xasprintf("%sthe figures are of those only", stop);
+	}
+	s = xasprintf("Statistical estimates from %zu random samples (seed %llu) of %zu "
+	    "tolerance%s; %s is one standard error", r->done, seed, r->nparam, tn, TOL_SIGN);
 	if ((int)utf8_cols(s) <= cols)
 		return s;
 	free(s);
-	return xasprintf("%sStatistical: %zu samples, seed %llu, %zu tolerance%s; %s one "
-	    "standard error", stop, r->done, seed, r->nparam, tn, TOL_SIGN);
+	return xasprintf("Statistical: %zu samples, seed %llu, %zu tolerance%s; %s one "
+	    "standard error", r->done, seed, r->nparam, tn, TOL_SIGN);
 }
 
 static void

@@ -65,6 +65,20 @@ char *layout_tol_edit_short(int key, const char *bench_key, int ascii);
  * as many for every doubling beyond (never fewer than 250), then doubled
  * `more` times (0 .. LAYOUT_TOL_MORE_MAX), at most MC_MAX_SAMPLES. */
 size_t layout_tol_samples(size_t nrows, int more);
+/* The most samples the screen runs for a bench of `nrows` trace rows: it
+ * keeps every sample's ratio of every rated element for the histogram, so
+ * at most LAYOUT_TOL_CELLS ratios (samples times rows), and never more
+ * than MC_MAX_SAMPLES. */
+#define LAYOUT_TOL_CELLS ((size_t)1 << 25)  /* 256 MiB of kept ratios */
+size_t layout_tol_samples_max(size_t nrows);
+/* A sample count typed on the screen ("20000", "20 000", "20k"): 0 and
+ * *n set, or -1 with the reason in *cause (caller frees) for anything
+ * but a whole number from 10 to max. */
+int   layout_tol_parse_samples(const char *text, size_t max, size_t *n, char **cause);
+/* The line a run shows while it works (after about a second): "sampling…
+ * 12032 of 200000 samples (6 %)", "stopping… 12032 of 200000 samples
+ * done" once stopped; "..." for "…" when ascii.  Caller frees. */
+char *layout_tol_progress(size_t done, size_t total, int stopping, int ascii);
 
 /* "1.2 %", "0.35 %", "<0.08 %" (none of n, with the rule-of-three bound),
  * ">99.92 %" (all of n), "0 %" / "100 %" when `exact` (every sample the
@@ -93,8 +107,12 @@ void  layout_tol_bar_cells(double p_over, double p_caution, int width, int *over
 
 /* "Statistical estimates from 4000 random samples (seed 1) of 16
  * tolerances; ± is one standard error", or "Statistical: 4000 samples, seed
- * 1, 16 tolerances; ± one standard error" when that is wider than cols (and
- * "STOPPED at 1000 of 4000 samples; " first when stopped).  Caller frees. */
+ * 1, 16 tolerances; ± one standard error" when that is wider than cols.  A
+ * run stopped early says so first, "STOPPED after 1000 of 4000 samples; "
+ * and then "statistical estimates from those (seed 1) of 16 tolerances; ±
+ * is one standard error", or "estimates from those only: seed 1, 16
+ * tolerances, ± one standard error", or "the figures are of those only",
+ * the first that fits.  Caller frees. */
 char *layout_tol_head(const struct mc_result *, int cols);
 /* "P(anything over) 91.5 ± 0.6 % │ safe source power, 5th percentile 821 mW
  * (as written 913 mW)", shorter in steps to fit cols ("P(any over) ...",

@@ -99,7 +99,9 @@ help_text(const struct app *a)
 	    "  error; \"<0.15 %\": no sample was), the histogram of the selected one's\n"
 	    "  ratio, and its drivers: r, the correlation of a tolerance's draw with the\n"
 	    "  ratio (near +1 or -1: that tolerance alone moves it).  These are\n"
-	    "  statistical estimates; beamledger tolerance runs as many samples as asked.\n");
+	    "  statistical estimates; beamledger tolerance runs as many samples as asked.\n"
+	    "  A run that takes over a second shows how far it is; Esc or Ctrl-C stops\n"
+	    "  it, and the screen shows the samples done so far, marked STOPPED.\n");
 	section(&b, a, "Beam profile (z)", ui_profile_ops.keys);
 	buf_add(&b,
 	    "  The plot shows both 1/e^2 radii (x and y) along the path from the source\n"

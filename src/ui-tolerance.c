@@ -2,12 +2,15 @@
  * screen drawn at random at once (core-mc.c), a few thousand times, and
  * each rated optic's odds of over and of caution as a table with stacked
  * bars, the odds that anything is over, the 5th-percentile safe power,
- * what drives the selected optic and the histogram of its ratio.  The run
- * is small enough to take a fraction of a second; every figure says it is
- * an estimate.  Enter goes to the element.  Owned by the workbench. */
+ * what drives the selected optic and the histogram of its ratio.  The
+ * first run takes a fraction of a second; a longer one (more samples, or
+ * a count typed) shows its progress after a second, and Esc or Ctrl-C
+ * stops it with the samples done so far shown as such.  Every figure says
+ * it is an estimate.  Enter goes to the element.  Owned by the workbench. */
 #include <config.h>
 
 #include <math.h>
+#include <signal.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
@@ -20,18 +23,44 @@
 
 #define TS_THREADS_MAX 8            /* the screen's run is small: no more helps */
 
+#define TS_PROGRESS_AFTER 1.0     /* s: a run shorter than this shows nothing */
+
 struct tolscr {
 	struct mc_result r;         /* owned when have */
 	int              have;
 	size_t           nparam;    /* tolerances on the bench; 0: nothing to run */
-	uint64_t         seed;
-	int              more;      /* the sample count doubled this many times */
+	uint64_t         seed;      /* of the last run done */
+	size_t           samples;   /* asked of the last run done */
+	size_t           max;       /* the most samples this bench is run with here */
 	unsigned         threads;
 	double           secs;      /* the last run's time */
 	int              sel, top;
 	int              table_y, table_rows;   /* where the last frame put the rows */
 	char            *unrated;   /* owned: the optics no odds cover; NULL: none */
-	char            *error;     /* owned: why the run failed; NULL */
+	char            *error;     /* owned: the screen's text when there is no run
+	                             * to show (it failed, or stopped before any
+	                             * sample); NULL */
+};
+
+/* Ctrl-C during a run: the terminal is in cbreak mode, so it arrives as
+ * SIGINT, whose handler the run borrows from the workbench's (which would
+ * quit) while it works.  The one piece of state a handler can reach. */
+static volatile sig_atomic_t ts_interrupted;
+
+static void
+on_interrupt(int sig)
+{
+	(void)sig;
+	ts_interrupted = 1;
+}
+
+/* What the progress callback needs: it runs on this thread, between the
+ * workers' chunks, about ten times a second. */
+struct ts_progress {
+	struct app *a;
+	double      t0;
+	int         shown;          /* the box is on the screen */
+	int         resized;        /* a KEY_RESIZE was read: given back after */
 };
 
 static double
@@ -43,47 +72,146 @@ now(void)
 	return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
 }
 
-/* Runs the Monte-Carlo on the bench on screen, keeping the selection. */
+/* Keys while a run works, read without waiting: Esc, Ctrl-C as a key (a
+ * terminal in raw mode) and a request to quit stop it; the rest typed
+ * meanwhile is dropped, as the screen it was meant for is not drawn yet. */
 static void
-ts_run(struct app *a, struct tolscr *d)
+poll_keys(struct ts_progress *g)
+{
+	int key;
+
+	while ((key = ui_read_key(g->a, 0)) >= 0) {
+		if (key == UI_ESC || key == UI_CTRL('c'))
+			ts_interrupted = 1;
+		else if (key == UI_FKEY(KEY_RESIZE))
+			g->resized = 1;
+		else if (key == UI_FKEY(KEY_MOUSE)) {
+			MEVENT ev;
+
+			(void)getmouse(&ev);
+		}
+	}
+	if (ui_stop_requested())
+		ts_interrupted = 1;
+}
+
+/* The box over the middle of the screen: how far the run is, a bar, and
+ * how to stop it. */
+static void
+draw_progress(struct app *a, size_t done, size_t total)
+{
+	int h = LINES, w = COLS, bw = w - 8 > 64 ? 64 : w - 8, bh = 6;
+	int y = (h - bh) / 2, x = (w - bw) / 2, cells;
+	char *line = layout_tol_progress(done, total, ts_interrupted != 0, a->ascii);
+
+	if (bw < 20 || h < bh)
+		return;
+	ui_box(a, y, x, bh, bw, "tolerance run");
+	ui_put(a, y + 1, x + 2, bw - 4, line, ts_interrupted ? UC_CAUTION : UC_INFO);
+	free(line);
+	cells = total > 0 ? (int)((double)(bw - 4) * (double)done / (double)total) : 0;
+	for (int i = 0; i < bw - 4; i++)
+		ui_put(a, y + 2, x + 2 + i, 1, i < cells ? (a->ascii ? "#" : "\u2588") :
+		    (a->ascii ? "." : "\u00b7"), i < cells ? UC_INFO : UC_DIM);
+	ui_put(a, y + 4, x + 2, bw - 4, "Esc or Ctrl-C stops it, keeping the samples done",
+	    UC_DIM);
+	refresh();
+}
+
+static void
+on_progress(void *arg, size_t done, size_t total)
+{
+	struct ts_progress *g = arg;
+
+	poll_keys(g);
+	if (!g->shown && now() - g->t0 < TS_PROGRESS_AFTER)
+		return;
+	g->shown = 1;
+	draw_progress(g->a, done, total);
+}
+
+/* Runs the Monte-Carlo on the bench on screen with this seed and sample
+ * count, keeping the selection, with the progress and a way to stop.
+ * 0: a run to show (complete or stopped early), 1: stopped before any
+ * sample was done (the last run, if any, is kept as it was), -1: it
+ * failed (d->error says why). */
+static int
+ts_run(struct app *a, struct tolscr *d, uint64_t seed, size_t samples)
 {
 	struct mc_param *p = mc_params(a->shown, &d->nparam);
 	char *keep = NULL, *cause = NULL;
+	struct mc_result r;
 	struct mc_opts o;
-	double t0;
+	struct ts_progress g;
+	struct sigaction sa, old;
+	int rc, delay;
 
 	mc_params_free(p, d->nparam);
+	free(d->unrated);
+	d->unrated = layout_tol_unrated_note(a->trace);
+	if (d->nparam == 0)
+		return -1;
+	memset(&o, 0, sizeof o);
+	o.samples = samples;
+	o.seed = seed;
+	o.threads = d->threads;
+	o.keep_ratios = 1;
+	o.stop = &ts_interrupted;
+	o.progress = on_progress;
+	o.arg = &g;
+	memset(&g, 0, sizeof g);
+	g.a = a;
+	g.t0 = now();
+	/* the keys are polled without waiting while it runs: the input mode
+	 * and SIGINT's handler are the workbench's again afterwards */
+	delay = wgetdelay(stdscr);
+	ts_interrupted = 0;
+	memset(&sa, 0, sizeof sa);
+	sa.sa_handler = on_interrupt;
+	sigemptyset(&sa.sa_mask);
+	sigaction(SIGINT, &sa, &old);
+	rc = mc_run(a->shown, &o, &r, &cause);
+	sigaction(SIGINT, &old, NULL);
+	timeout(delay);
+	if (g.resized)
+		ungetch(KEY_RESIZE);
+	ts_interrupted = 0;
+	if (rc != 0) {
+		if (d->have)
+			mc_result_release(&d->r);
+		d->have = 0;
+		free(d->error);
+		d->error = xasprintf("The run failed: %s", cause != NULL ? cause : "no reason given");
+		free(cause);
+		return -1;
+	}
+	if (r.done == 0) {
+		mc_result_release(&r);
+		if (!d->have) {
+			free(d->error);
+			d->error = xstrdup("The run was stopped before any sample was done. n runs "
+			    "it again (the next seed), m with twice the samples, s with a count "
+			    "typed.");
+		}
+		return 1;
+	}
+	d->secs = now() - g.t0;
 	if (d->have && d->sel >= 0 && (size_t)d->sel < d->r.nrated)
 		keep = xstrdup(d->r.el[d->sel].id);
 	if (d->have)
 		mc_result_release(&d->r);
-	d->have = 0;
+	d->r = r;
+	d->have = 1;
+	d->seed = seed;
+	d->samples = samples;
 	free(d->error);
 	d->error = NULL;
-	free(d->unrated);
-	d->unrated = layout_tol_unrated_note(a->trace);
-	if (d->nparam == 0) {
-		free(keep);
-		return;
-	}
-	memset(&o, 0, sizeof o);
-	o.samples = layout_tol_samples(a->trace->nrows, d->more);
-	o.seed = d->seed;
-	o.threads = d->threads;
-	o.keep_ratios = 1;
-	t0 = now();
-	if (mc_run(a->shown, &o, &d->r, &cause) != 0) {
-		d->error = cause != NULL ? cause : xstrdup("the run failed");
-		free(keep);
-		return;
-	}
-	d->secs = now() - t0;
-	d->have = 1;
 	d->sel = d->r.nworst > 0 ? (int)d->r.worst[0] : 0;
 	for (size_t j = 0; keep != NULL && j < d->r.nrated; j++)
 		if (strcmp(d->r.el[j].id, keep) == 0)
 			d->sel = (int)j;
 	free(keep);
+	return 0;
 }
 
 /* Text wrapped from row y, at most `max` rows; the rows used. */
@@ -107,8 +235,7 @@ put_wrapped(struct app *a, int y, int x, int w, int max, const char *text, enum 
 static void
 draw_howto(struct app *a, struct tolscr *d, int h, int w)
 {
-	char *text = d->error != NULL ? xasprintf("The run failed: %s", d->error) :
-	    layout_tol_howto(a->shown, a->ascii);
+	char *text = d->error != NULL ? xstrdup(d->error) : layout_tol_howto(a->shown, a->ascii);
 	int y = 3;
 
 	/* paragraph by paragraph: the examples keep their own lines */
@@ -342,10 +469,17 @@ ts_end(struct app *a, struct ui_pane *p)
 	return ts_move(a, p, 1 << 20);
 }
 
+/* What a run says on the message line: a stopped one the count it got to. */
 static void
-said(struct app *a, struct tolscr *d, const char *what)
+said(struct app *a, struct tolscr *d, int rc, const char *what)
 {
-	if (d->have)
+	if (rc == 1)
+		app_msg(a, 1, "stopped before any sample was done%s", d->have ?
+		    ": the figures shown are still those of the last run" : "");
+	else if (rc == 0 && d->r.stopped)
+		app_msg(a, 1, "stopped after %zu of %zu samples (%.1f s); n, m or s runs again",
+		    d->r.done, d->r.asked, d->secs);
+	else if (rc == 0)
 		app_msg(a, 0, "seed %llu: %zu samples in %.2f s; %s", (unsigned long long)d->r.seed,
 		    d->r.done, d->secs, what);
 }
@@ -357,9 +491,7 @@ ts_seed(struct app *a, struct ui_pane *p)
 
 	if (d->nparam == 0)
 		return UI_NONE;
-	d->seed++;
-	ts_run(a, d);
-	said(a, d, "the figures move by about their \u00b1");
+	said(a, d, ts_run(a, d, d->seed + 1, d->samples), "the figures move by about their \u00b1");
 	return UI_REDRAW;
 }
 
@@ -367,17 +499,46 @@ static enum ui_reaction
 ts_more(struct app *a, struct ui_pane *p)
 {
 	struct tolscr *d = p->data;
+	size_t n = d->samples * 2;
 
 	if (d->nparam == 0)
 		return UI_NONE;
-	if (d->more >= LAYOUT_TOL_MORE_MAX) {
+	if (d->samples >= d->max) {
 		app_msg(a, 1, "%zu samples is the most here; for more: beamledger tolerance %s "
-		    "--samples N", d->r.done, a->name);
+		    "--samples N", d->max, a->name);
 		return UI_REDRAW;
 	}
-	d->more++;
-	ts_run(a, d);
-	said(a, d, "twice as many, so the \u00b1 shrink by about 1/\u221a2");
+	said(a, d, ts_run(a, d, d->seed, n < d->max ? n : d->max),
+	    "twice as many, so the \u00b1 shrink by about 1/\u221a2");
+	return UI_REDRAW;
+}
+
+/* The count typed in the dialog: a run with it, the dialog closed. */
+static int
+count_typed(struct app *a, void *arg, const char *text, char **cause)
+{
+	struct tolscr *d = arg;
+	size_t n;
+
+	if (layout_tol_parse_samples(text, d->max, &n, cause) != 0)
+		return -1;
+	said(a, d, ts_run(a, d, d->seed, n), "the \u00b1 shrink as 1/\u221a(samples)");
+	return 0;
+}
+
+static enum ui_reaction
+ts_count(struct app *a, struct ui_pane *p)
+{
+	struct tolscr *d = p->data;
+	char *help, init[32];
+
+	if (d->nparam == 0)
+		return UI_NONE;
+	help = xasprintf("How many samples (10 to %zu here; \"20k\" is 20000)? A run over a "
+	    "second shows its progress; Esc or Ctrl-C stops it, keeping what is done.", d->max);
+	snprintf(init, sizeof init, "%zu", d->samples);
+	ui_prompt(a, "samples", help, init, count_typed, d, NULL);
+	free(help);
 	return UI_REDRAW;
 }
 
@@ -428,6 +589,7 @@ static const struct ui_key ts_keys[] = {
 	    "back to the workbench with the element selected", ts_jump, 0, UG_LOOK },
 	{ { 'n' }, "n", "new seed", 3, "run again with the next seed: how much the figures move", ts_seed, 0, UG_LOOK },
 	{ { 'm' }, "m", "more samples", 3, "run again with twice the samples (smaller standard errors, longer run)", ts_more, 0, UG_LOOK },
+	{ { 's' }, "s", "samples", 2, "run again with a sample count typed; a run over a second shows its progress, and Esc or Ctrl-C stops it with the samples done so far", ts_count, 0, UG_LOOK },
 	{ { UI_ESC, 'q', 't' }, "Esc", "back", 0, "back to the workbench (also q, t)", ts_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };
@@ -453,11 +615,13 @@ ui_tolerance_push(struct app *a)
 {
 	struct tolscr *d = xcalloc(1, sizeof *d);
 	long cores = sysconf(_SC_NPROCESSORS_ONLN);
+	int rc;
 
 	d->seed = 1;
+	d->samples = layout_tol_samples(a->trace->nrows, 0);
+	d->max = layout_tol_samples_max(a->trace->nrows);
 	d->threads = cores < 1 ? 1 : cores > TS_THREADS_MAX ? TS_THREADS_MAX : (unsigned)cores;
-	ts_run(a, d);
+	rc = ts_run(a, d, d->seed, d->samples);
 	app_push(a, &ui_tolerance_ops, d);
-	if (d->have)
-		said(a, d, "every tolerance drawn at random in each");
+	said(a, d, rc, "every tolerance drawn at random in each");
 }

@@ -327,6 +327,97 @@ END_TEST
 /* A run of the dump bench: the power's ± 10 % moves the dump's ratio, the
  * gap's ± 2 mm does not (max_power rates the power alone).  With only the
  * gap's tolerance every sample is the bench as written: exact figures. */
+/* A run stopped early: the count done comes first in every form, and
+ * the shorter forms are taken as the columns shrink. */
+START_TEST(test_head_stopped)
+{
+	struct mc_result r;
+	char *s;
+
+	memset(&r, 0, sizeof r);
+	r.seed = 3;
+	r.asked = 400000;
+	r.done = 107200;
+	r.stopped = 1;
+	r.nparam = 2;
+	s = layout_tol_head(&r, 200);
+	ck_assert_str_eq(s, "STOPPED after 107200 of 400000 samples; statistical estimates "
+	    "from those (seed 3) of 2 tolerances; " PM " is one standard error");
+	free(s);
+	s = layout_tol_head(&r, 120);
+	ck_assert_str_eq(s, "STOPPED after 107200 of 400000 samples; estimates from those "
+	    "only: seed 3, 2 tolerances, " PM " one standard error");
+	ck_assert_int_le((int)utf8_cols(s), 120);
+	free(s);
+	/* 78: the tolerance screen at 80 columns */
+	s = layout_tol_head(&r, 78);
+	ck_assert_str_eq(s, "STOPPED after 107200 of 400000 samples; the figures are of "
+	    "those only");
+	ck_assert_int_le((int)utf8_cols(s), 78);
+	free(s);
+}
+END_TEST
+
+START_TEST(test_progress_line)
+{
+	char *s = layout_tol_progress(12032, 200000, 0, 0);
+
+	/* 12032/200000 = 6.016 % */
+	ck_assert_str_eq(s, "sampling\u2026 12032 of 200000 samples (6 %)");
+	free(s);
+	s = layout_tol_progress(199990, 200000, 0, 1);
+	/* 99.995 % is not done: never "100 %" before the end */
+	ck_assert_str_eq(s, "sampling... 199990 of 200000 samples (99 %)");
+	free(s);
+	s = layout_tol_progress(12032, 200000, 1, 0);
+	ck_assert_str_eq(s, "stopping\u2026 12032 of 200000 samples done");
+	free(s);
+}
+END_TEST
+
+static const struct {
+	const char *text;
+	size_t      max, want;      /* want 0: refused */
+} count_cases[] = {
+	{ "20000", 1000000, 20000 }, { " 20000 ", 1000000, 20000 }, { "20 000", 1000000, 20000 },
+	{ "20k", 1000000, 20000 }, { "1000000", 1000000, 1000000 }, { "10", 1000000, 10 },
+	{ "9", 1000000, 0 }, { "1000001", 1000000, 0 }, { "50000", 40000, 0 },
+	{ "", 1000000, 0 }, { "2e4", 1000000, 0 }, { "-5", 1000000, 0 },
+	{ "20000x", 1000000, 0 }, { "99999999999999999999999", 1000000, 0 },
+};
+
+START_TEST(test_parse_samples)
+{
+	size_t n = 7;
+	char *cause = NULL;
+	int rc = layout_tol_parse_samples(count_cases[_i].text, count_cases[_i].max, &n, &cause);
+
+	if (count_cases[_i].want != 0) {
+		ck_assert_int_eq(rc, 0);
+		ck_assert_uint_eq(n, count_cases[_i].want);
+		ck_assert_ptr_null(cause);
+	} else {
+		ck_assert_int_eq(rc, -1);
+		ck_assert_uint_eq(n, 7);          /* untouched */
+		ck_assert_ptr_nonnull(cause);
+		ck_assert_msg(strstr(cause, count_cases[_i].text) != NULL, "%s", cause);
+		free(cause);
+	}
+}
+END_TEST
+
+START_TEST(test_samples_max)
+{
+	/* 2^25 kept ratios: 32 rows leave 2^20 = 1048576, above the cap */
+	ck_assert_uint_eq(layout_tol_samples_max(32), MC_MAX_SAMPLES);
+	ck_assert_uint_eq(layout_tol_samples_max(0), MC_MAX_SAMPLES);
+	ck_assert_uint_eq(layout_tol_samples_max(64), (size_t)1 << 19);
+	ck_assert_uint_eq(layout_tol_samples_max(1000), ((size_t)1 << 25) / 1000);
+	/* the screen's own first run always fits */
+	ck_assert_uint_le(layout_tol_samples(100000, 0), layout_tol_samples_max(100000));
+}
+END_TEST
+
 START_TEST(test_rows_and_drivers)
 {
 	struct bench *b = bench_text("dump", DUMP_BENCH, " " PM " 10 %", " " PM " 2 mm");
@@ -637,6 +728,10 @@ main(void)
 	LOOP(tc, test_prob, prob_cases);
 	LOOP(tc, test_bar_cells, bar_cells);
 	tcase_add_test(tc, test_rows_and_drivers);
+	tcase_add_test(tc, test_head_stopped);
+	tcase_add_test(tc, test_progress_line);
+	LOOP(tc, test_parse_samples, count_cases);
+	tcase_add_test(tc, test_samples_max);
 	tcase_add_test(tc, test_drivers_unranked);
 	tcase_add_test(tc, test_unrated_note);
 	tcase_add_test(tc, test_howto);

@@ -512,7 +512,7 @@ check "with the over edge marked under it" wait_line tol2 '▲over 100 %'
 check "what drives it: the pulse energy first" wait_line tol2 '^ drivers of W1 \(r\): source\.pulse_energy \+[01]\.[0-9]+'
 check "the unrated optics no odds cover" wait_line tol2 '^ not in these odds: .*POL1.* take power with no rating'
 check "the run's time and seed said" wait_line tol2 '^seed 1: 2000 samples in [0-9.]+ s'
-check "the screen's keys" wait_line tol2 '^↑↓›choose ┆ Enter›go to element  n›new seed'
+check "the screen's keys" wait_line tol2 '^↑↓›choose ┆ Enter›go to element  n›seed  m›more  s›samples'
 step "Up selects another optic: its histogram" tol2 "L1's ratio in 2000 samples" Up
 check "not ranked: the screen names the ones that are" wait_line tol2 '^ drivers are ranked for the worst only: W1'
 step "n: the next seed" tol2 "Statistical: 2000 samples, seed 2," n
