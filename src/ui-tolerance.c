@@ -56,11 +56,14 @@ on_interrupt(int sig)
 
 /* What the progress callback needs: it runs on this thread, between the
  * workers' chunks, about ten times a second. */
+#define TS_KEYS_KEPT 16
+
 struct ts_progress {
 	struct app *a;
 	double      t0;
 	int         shown;          /* the box is on the screen */
-	int         resized;        /* a KEY_RESIZE was read: given back after */
+	int         keys[TS_KEYS_KEPT]; /* read while it ran, given back after */
+	int         nkeys;
 };
 
 static double
@@ -73,26 +76,43 @@ now(void)
 }
 
 /* Keys while a run works, read without waiting: Esc, Ctrl-C as a key (a
- * terminal in raw mode) and a request to quit stop it; the rest typed
- * meanwhile is dropped, as the screen it was meant for is not drawn yet. */
+ * terminal in raw mode) and a request to quit stop it; the rest (a few,
+ * the resize among them) are kept for the screen once the run is done, as
+ * they would have waited without the polling.  Mouse events are dropped:
+ * what they pointed at is not drawn yet. */
 static void
 poll_keys(struct ts_progress *g)
 {
 	int key;
 
 	while ((key = ui_read_key(g->a, 0)) >= 0) {
-		if (key == UI_ESC || key == UI_CTRL('c'))
+		if (key == UI_ESC || key == UI_CTRL('c')) {
 			ts_interrupted = 1;
-		else if (key == UI_FKEY(KEY_RESIZE))
-			g->resized = 1;
-		else if (key == UI_FKEY(KEY_MOUSE)) {
+		} else if (key == UI_FKEY(KEY_MOUSE)) {
 			MEVENT ev;
 
 			(void)getmouse(&ev);
+		} else if (g->nkeys < TS_KEYS_KEPT) {
+			g->keys[g->nkeys++] = key;
 		}
 	}
 	if (ui_stop_requested())
 		ts_interrupted = 1;
+}
+
+/* The kept keys back in the input queue, first typed first read (curses
+ * gives the last pushed back first). */
+static void
+give_back_keys(const struct ts_progress *g)
+{
+	for (int i = g->nkeys; i-- > 0;) {
+		int key = g->keys[i];
+
+		if (key & UI_FKEY(0))
+			ungetch(key & ~UI_FKEY(0));
+		else
+			unget_wch((wchar_t)key);
+	}
 }
 
 /* The box over the middle of the screen: how far the run is, a bar, and
@@ -173,8 +193,7 @@ ts_run(struct app *a, struct tolscr *d, uint64_t seed, size_t samples)
 	rc = mc_run(a->shown, &o, &r, &cause);
 	sigaction(SIGINT, &old, NULL);
 	timeout(delay);
-	if (g.resized)
-		ungetch(KEY_RESIZE);
+	give_back_keys(&g);
 	ts_interrupted = 0;
 	if (rc != 0) {
 		if (d->have)

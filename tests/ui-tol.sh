@@ -3,10 +3,10 @@
 # in tmux on the demo bench with two tolerances: a sample count typed (s)
 # large enough to take many seconds shows its progress after about one,
 # Esc or Ctrl-C stops it and the screen shows the samples done so far,
-# marked as stopped, without leaving the screen or the workbench; and the
-# chain's key line names f and t at 80 columns as well as at 200.  At
-# 80x24 and 200x60.  Waits for text, never sleeps blindly.  Owned by the
-# workbench.
+# marked as stopped, without leaving the screen or the workbench (other
+# keys typed meanwhile are kept for after); and the chain's key line names
+# f and t at 80 columns as well as at 200.  At 80x24 and 200x60.  Waits
+# for text, never sleeps blindly.  Owned by the workbench.
 
 command -v "${TMUX_BIN:-tmux}" >/dev/null 2>&1 || { echo "1..0 # SKIP no tmux"; exit 0; }
 [ -n "$TMUX_BIN" ] || TMUX_BIN=tmux
@@ -149,9 +149,12 @@ t_keys w s C-u
 t_keys w -l "$BIG"
 t_keys w Enter
 check "200x60: the progress shows" wait_line w "│ sampling… [0-9]+ of $BIG samples" 15
+t_keys w Up
 t_keys w Escape
 check "the long form of the stopped head" \
 	wait_line w "^ STOPPED after [0-9]+ of $BIG samples; statistical estimates from those \(seed 1\) of 2 tolerances; ± is one standard error$" 15
+check "a key typed while it ran is kept for after: Up chose L1" \
+	wait_line w "^ L1's ratio in [0-9]+ samples"
 t_keys w Q
 check "200x60: quits" wait_exit w 5
 
