@@ -58,7 +58,7 @@ char *layout_tol_edit_short(int key, const char *bench_key, int ascii);
 /* ---- the run the screen makes ---- */
 
 #define LAYOUT_TOL_SAMPLES  2000    /* for a bench of up to 64 trace rows */
-#define LAYOUT_TOL_MORE_MAX 5       /* "more samples" doubles up to 2^5 times */
+#define LAYOUT_TOL_MORE_MAX 5       /* layout_tol_samples doubles at most 2^5 times */
 
 /* The samples the screen runs for a bench with `nrows` trace rows, so that
  * a run stays well under a second: LAYOUT_TOL_SAMPLES up to 64 rows, half

@@ -357,7 +357,7 @@ static const struct {
 	const char *word, *brief;
 } hint_briefs[] = {
 	{ "reflections", "ghosts" }, { "tolerance", "odds" },
-	{ "new seed", "seed" }, { "more samples", "more" },
+	{ "new seed", "seed" }, { "more samples", "more" }, { "sample count", "samples" },
 };
 
 static const char *

@@ -21,9 +21,9 @@
 #include "ui-app.h"
 #include "util-err.h"
 
-#define TS_THREADS_MAX 8            /* the screen's run is small: no more helps */
-
-#define TS_PROGRESS_AFTER 1.0     /* s: a run shorter than this shows nothing */
+#define TS_THREADS_MAX    8         /* more does not help on a workstation */
+#define TS_PROGRESS_AFTER 1.0       /* s: a run shorter than this shows nothing */
+#define TS_KEYS_KEPT      16        /* keys typed during a run kept for after */
 
 struct tolscr {
 	struct mc_result r;         /* owned when have */
@@ -56,8 +56,6 @@ on_interrupt(int sig)
 
 /* What the progress callback needs: it runs on this thread, between the
  * workers' chunks, about ten times a second. */
-#define TS_KEYS_KEPT 16
-
 struct ts_progress {
 	struct app *a;
 	double      t0;
@@ -608,7 +606,7 @@ static const struct ui_key ts_keys[] = {
 	    "back to the workbench with the element selected", ts_jump, 0, UG_LOOK },
 	{ { 'n' }, "n", "new seed", 3, "run again with the next seed: how much the figures move", ts_seed, 0, UG_LOOK },
 	{ { 'm' }, "m", "more samples", 3, "run again with twice the samples (smaller standard errors, longer run)", ts_more, 0, UG_LOOK },
-	{ { 's' }, "s", "samples", 2, "run again with a sample count typed; a run over a second shows its progress, and Esc or Ctrl-C stops it with the samples done so far", ts_count, 0, UG_LOOK },
+	{ { 's' }, "s", "sample count", 2, "run again with a sample count typed; a run over a second shows its progress, and Esc or Ctrl-C stops it with the samples done so far", ts_count, 0, UG_LOOK },
 	{ { UI_ESC, 'q', 't' }, "Esc", "back", 0, "back to the workbench (also q, t)", ts_back, 0, UG_LEAVE },
 	UI_KEYS_END,
 };

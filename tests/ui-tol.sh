@@ -145,6 +145,8 @@ check "200x60: the bench opens" wait_for w "worst: W1"
 check "the key line in whole words" wait_line w '!›hazards  f›reflections  t›tolerance  z›profile ┆ q›list ┆ \?›help$'
 t_keys w t
 check "the tolerance screen" wait_for w "Statistical estimates from 2000 random samples (seed 1) of 2 tolerances"
+check "its key line in whole words" wait_line w '^↑↓›choose ┆ Enter›go to element  n›new seed  m›more samples  s›sample count ┆ Esc›back ┆ \?›help$'
+
 t_keys w s C-u
 t_keys w -l "$BIG"
 t_keys w Enter
