@@ -403,7 +403,23 @@ layout_tol_prob_se(char *buf, size_t n, double p, double se, size_t nsamples, in
 	if (bound_form(buf, n, p, nsamples, exact))
 		return;
 	pct_plain(v, sizeof v, p, &d);
-	snprintf(buf, n, "%s %s %.*f %%", v, TOL_SIGN, d, 100 * se);
+	if (!(100 * se < 0.5 * pow(10, -d))) {
+		snprintf(buf, n, "%s %s %.*f %%", v, TOL_SIGN, d, 100 * se);
+		return;
+	}
+	/* an error below the last digit says nothing: left out, and a rare
+	 * or near-certain outcome (many samples) gets the digits to show
+	 * it, never "0.00" or "100.00" for what some samples did */
+	{
+		double x = 100 * p, c = x < 1 ? x : x > 99 ? 100 - x : 0;
+
+		if (c > 0) {
+			int dd = 1 - (int)floor(log10(c));
+
+			d = dd > d ? (dd > 6 ? 6 : dd) : d;
+		}
+		snprintf(buf, n, "%.*f %%", d, x);
+	}
 }
 
 void

@@ -85,7 +85,11 @@ char *layout_tol_progress(size_t done, size_t total, int stopping, int ascii);
  * same, so the figure is no estimate). */
 void  layout_tol_prob(char *buf, size_t n, double p, size_t nsamples, int exact);
 /* The same with its standard error: "91.5 ± 0.6 %"; the bounds and exact
- * forms as layout_tol_prob (no ± there). */
+ * forms as layout_tol_prob (no ± there).  An error that would show as 0 at
+ * the figure's decimals (a run of very many samples) is left out, and a
+ * figure below 1 % or above 99 % then gets two significant digits of
+ * itself or of what it falls short of 100 %: "0.00017 %", "99.99983 %",
+ * never "0.00 ± 0.00 %" for what some samples did. */
 void  layout_tol_prob_se(char *buf, size_t n, double p, double se, size_t nsamples, int exact);
 
 /* One rated element of a run as the table shows it. */

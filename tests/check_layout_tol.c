@@ -299,6 +299,35 @@ START_TEST(test_prob)
 }
 END_TEST
 
+/* Very many samples: the standard error sqrt(p(1-p)/n) (binomial, from
+ * memory) below the last digit shown.  1 of 603456 samples over:
+ * p = 1.657e-6, se = 1.657e-6, 0.0001657 %; all but one: 99.9998343 %;
+ * p = 0.959 of 600000: se = 0.000256, 0.026 %, below the 0.05 of one
+ * decimal. */
+static const struct {
+	double      p, se;
+	size_t      n;
+	const char *want;
+} tiny_se_cases[] = {
+	{ 1.0 / 603456, 1.657e-6, 603456, "0.00017 %" },
+	{ 1 - 1.0 / 603456, 1.657e-6, 603456, "99.99983 %" },
+	{ 0.959, 0.000256, 600000, "95.9 %" },
+	/* one decimal's worth of error is still given */
+	{ 0.959, 0.001, 40000, "95.9 " PM " 0.1 %" },
+	{ 0.00005, 0.00005, 20000, "0.01 " PM " 0.01 %" },
+};
+
+START_TEST(test_prob_tiny_se)
+{
+	char buf[64];
+
+	layout_tol_prob_se(buf, sizeof buf, tiny_se_cases[_i].p, tiny_se_cases[_i].se,
+	    tiny_se_cases[_i].n, 0);
+	ck_assert_str_eq(buf, tiny_se_cases[_i].want);
+	ck_assert_int_le((int)utf8_cols(buf), 13);      /* the table's column */
+}
+END_TEST
+
 static const struct {
 	double po, pc;
 	int    w, over, caution;
@@ -726,6 +755,7 @@ main(void)
 	tcase_set_timeout(tc, 30);
 	LOOP(tc, test_samples, sample_cases);
 	LOOP(tc, test_prob, prob_cases);
+	LOOP(tc, test_prob_tiny_se, tiny_se_cases);
 	LOOP(tc, test_bar_cells, bar_cells);
 	tcase_add_test(tc, test_rows_and_drivers);
 	tcase_add_test(tc, test_head_stopped);
