@@ -45,8 +45,8 @@ buf_take(struct buf *b)
 	return s;
 }
 
-static void
-grow(struct buf *b, size_t extra)
+void
+buf_grow(struct buf *b, size_t extra)
 {
 	if (b->len + extra + 1 <= b->cap)
 		return;
@@ -55,27 +55,6 @@ grow(struct buf *b, size_t extra)
 	while (b->len + extra + 1 > b->cap)
 		b->cap *= 2;
 	b->s = xrealloc(b->s, b->cap);
-}
-
-void
-buf_addn(struct buf *b, const char *s, size_t n)
-{
-	grow(b, n);
-	memcpy(b->s + b->len, s, n);
-	b->len += n;
-	b->s[b->len] = '\0';
-}
-
-void
-buf_add(struct buf *b, const char *s)
-{
-	buf_addn(b, s, strlen(s));
-}
-
-void
-buf_addc(struct buf *b, char c)
-{
-	buf_addn(b, &c, 1);
 }
 
 void
@@ -96,7 +75,7 @@ buf_vprintf(struct buf *b, const char *fmt, va_list ap)
 		return;
 	}
 	if ((size_t)n >= room) {
-		grow(b, (size_t)n);
+		buf_grow(b, (size_t)n);
 		vsnprintf(b->s + b->len, (size_t)n + 1, fmt, ap);
 	}
 	b->len += (size_t)n;

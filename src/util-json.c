@@ -2,6 +2,7 @@
 #include <config.h>
 
 #include <math.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -135,7 +136,13 @@ decimal_exponent(double v)
 
 	if (!(v >= 1e-30 && v < 1e30))
 		return (int)floor(log10(v));
-	(void)frexp(v, &e2);            /* 2^(e2-1) <= v < 2^e2 */
+	{
+		/* frexp's exponent, from the bits: v is a normal double here */
+		uint64_t bits;
+
+		memcpy(&bits, &v, sizeof bits);
+		e2 = (int)((bits >> 52) & 0x7ff) - 1022;    /* 2^(e2-1) <= v < 2^e2 */
+	}
 	/* 0.30103 < log10(2): e is floor(log10(v)) or one less */
 	e = (int)floor((e2 - 1) * 0.30102999566398);
 	if (e < -31)
@@ -145,6 +152,17 @@ decimal_exponent(double v)
 	while (e > -31 && v < p10[e + 31])
 		e--;
 	return e;
+}
+
+/* llround for x >= 0: below 2^52, x + 0.5 is exact, so truncating it
+ * rounds half away from zero as llround does (m is near 10^9 here), without
+ * a call into libm. */
+static unsigned long long
+round_pos(double x)
+{
+	if (x >= 1 && x < 4e15)
+		return (unsigned long long)(x + 0.5);
+	return (unsigned long long)llround(x);
 }
 
 /* Ten significant digits, formatted like "%.10g" (trailing zeros dropped,
@@ -197,13 +215,13 @@ json_put_number(struct buf *b, double v)
 		return;
 	}
 	e = decimal_exponent(v);
-	m = (unsigned long long)llround(scale10(v, 9 - e));
+	m = round_pos(scale10(v, 9 - e));
 	if (m >= 10000000000ULL) {
 		m = (m + 5) / 10;
 		e++;
 	} else if (m < 1000000000ULL) {
 		e--;
-		m = (unsigned long long)llround(scale10(v, 9 - e));
+		m = round_pos(scale10(v, 9 - e));
 	}
 	/* ten digits (m has ten; the low ten were always the ones written),
 	 * as two independent halves of five, two digits at a time; then the

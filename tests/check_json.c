@@ -203,6 +203,29 @@ START_TEST(test_number_near_powers)
 }
 END_TEST
 
+/* Exact halves at the tenth digit, where the rounding of the scaled value
+ * decides the last digit (round half away from zero, as llround): whole
+ * ten-digit m plus one half, and the same scaled by powers of two, which
+ * keeps the half exact in binary. */
+START_TEST(test_number_halves)
+{
+	uint64_t s = 777;
+	struct buf b;
+
+	buf_init(&b);
+	for (int i = 0; i < 100000; i++) {
+		double m = (double)(1000000000ULL + rnd(&s) % 9000000000ULL) + 0.5;
+
+		check_number(&b, m);
+		check_number(&b, m / 1024);
+		check_number(&b, m * 1024);
+		check_number(&b, nextafter(m, 0));
+		check_number(&b, nextafter(m, INFINITY));
+	}
+	buf_release(&b);
+}
+END_TEST
+
 /* Ten significant digits, read back within half a unit of the tenth
  * digit of the value written (what "%.10g" promises, derived in the test). */
 START_TEST(test_number_ten_digits)
@@ -502,6 +525,7 @@ main(void)
 
 	tcase_add_loop_test(tn, test_number_random, 0, 2);
 	tcase_add_test(tn, test_number_near_powers);
+	tcase_add_test(tn, test_number_halves);
 	tcase_add_test(tn, test_number_ten_digits);
 	tcase_add_test(tn, test_string_random);
 	tcase_add_test(tn, test_report_streamed);
