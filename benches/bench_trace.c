@@ -3,19 +3,25 @@
  * core, within 2x of a bare loop of the same arithmetic timed here, and a
  * fresh result within 1.5x of a reused one), and how long the whole
  * `trace --format json` process takes on a 10^5-element bench file
- * (target: < 0.2 s), and on 10^4 elements against a pure-Python tracer of
- * the same physics, benches/trace_peer.py (target: 50 times faster).
+ * (target: < 0.2 s) and its peak memory (max RSS, target: < 60 MB), and
+ * on 10^4 elements against a pure-Python tracer of the same physics,
+ * benches/trace_peer.py (target: 50 times faster).
  * The main beam alone (TRACE_NO_GHOSTS, --no-ghosts): what the surface
  * reflections add is bench_ghost's figure.
  * Prints its figures; asserts nothing. */
 #include <config.h>
 
 #include <complex.h>
+#ifdef __GLIBC__
+#include <malloc.h>
+#endif
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
+#include <fcntl.h>
+#include <sys/resource.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -31,6 +37,49 @@ now(void)
 
 	clock_gettime(CLOCK_MONOTONIC, &ts);
 	return ts.tv_sec + ts.tv_nsec * 1e-9;
+}
+
+/* Resident memory of this process now (kB); -1 where /proc does not say. */
+static long
+self_rss_kb(void)
+{
+	FILE *f = fopen("/proc/self/statm", "r");
+	long size, resident = -1;
+
+	if (f != NULL) {
+		if (fscanf(f, "%ld %ld", &size, &resident) != 2)
+			resident = -1;
+		fclose(f);
+	}
+	return resident < 0 ? -1 : resident * (sysconf(_SC_PAGESIZE) / 1024);
+}
+
+/* One run of `PROG trace --no-ghosts --format json FILE` to /dev/null: its
+ * wall time and its peak memory (the child's ru_maxrss, kB).  0, or -1
+ * when it could not run or exited other than 0 or 1 (something over). */
+static int
+run_whole(const char *prog, const char *file, double *dt, long *maxrss_kb)
+{
+	struct rusage ru;
+	double t0 = now();
+	int st;
+	pid_t pid = fork();
+
+	if (pid < 0)
+		return -1;
+	if (pid == 0) {
+		int fd = open("/dev/null", O_WRONLY);
+
+		if (fd < 0 || dup2(fd, STDOUT_FILENO) < 0)
+			_exit(127);
+		execlp(prog, prog, "trace", "--no-ghosts", "--format", "json", file, (char *)NULL);
+		_exit(127);
+	}
+	if (wait4(pid, &st, 0, &ru) != pid)
+		return -1;
+	*dt = now() - t0;
+	*maxrss_kb = ru.ru_maxrss;
+	return WIFEXITED(st) && (WEXITSTATUS(st) == 0 || WEXITSTATUS(st) == 1) ? 0 : -1;
 }
 
 /* A long relay line: gaps, lenses that refocus, folding mirrors with
@@ -245,32 +294,49 @@ main(int argc, char **argv)
 		}
 		if (s + 1 == sizeof sizes / sizeof *sizes) {
 			char path[] = "/tmp/bench_trace.XXXXXX";
-			char *text = bench_file_dump(b), cmd[512];
+			char *text = bench_file_dump(b);
+			size_t text_kb = strlen(text) / 1024;
 			int fd = mkstemp(path);
 			FILE *f = fd >= 0 ? fdopen(fd, "w") : NULL;
+			long peak_kb = 0, own_kb;
 
 			if (f == NULL || fputs(text, f) == EOF || fclose(f) != 0) {
 				perror("bench_trace: temporary file");
 				return 2;
 			}
-			snprintf(cmd, sizeof cmd, "%s trace --no-ghosts --format json %s >/dev/null", prog, path);
+			/* the bench goes before the child is made: a child's
+			 * ru_maxrss counts what its parent held when it forked */
+			free(text);
+			model_bench_free(b);
+			b = NULL;
+#ifdef __GLIBC__
+			malloc_trim(0);     /* and what malloc keeps of it */
+#endif
+			own_kb = self_rss_kb();
 			best = 1e9;
 			for (int round = 0; round < 3; round++) {
-				t0 = now();
-				int rc = system(cmd);
-				double dt = now() - t0;
+				double dt;
+				long kb;
 
-				if (rc == -1 || (WEXITSTATUS(rc) != 0 && WEXITSTATUS(rc) != 1)) {
-					fprintf(stderr, "bench_trace: '%s' failed\n", cmd);
+				if (run_whole(prog, path, &dt, &kb) != 0) {
+					fprintf(stderr, "bench_trace: '%s trace --no-ghosts --format json "
+					    "%s' failed\n", prog, path);
+					unlink(path);
 					return 2;
 				}
 				if (dt < best)
 					best = dt;
+				if (kb > peak_kb)
+					peak_kb = kb;
 			}
-			printf("whole process, trace --format json on %zu elements (%zu kB file): "
-			    "%.3f s (best of 3; target < 0.2 s)\n", sizes[s], strlen(text) / 1024, best);
+			printf("whole process, trace --no-ghosts --format json on %zu elements "
+			    "(%zu kB file): %.3f s (best of 3; target < 0.2 s)\n"
+			    "                  peak memory %.1f MiB (max RSS, largest of 3; "
+			    "target < 60 MB = %.1f MiB)%s\n", sizes[s], text_kb, best,
+			    peak_kb / 1024.0, 60e6 / 1048576,
+			    own_kb < 0 || peak_kb <= own_kb ? ", at most: this bench held as much "
+			    "when it started the run" : "");
 			unlink(path);
-			free(text);
 		}
 		model_bench_free(b);
 	}
