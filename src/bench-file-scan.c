@@ -11,11 +11,13 @@
 #include <locale.h>
 #include <math.h>
 #include <stdlib.h>
-#include <string.h>
 #include <stdint.h>
+#include <string.h>
 #include <sys/mman.h>
 
 #include "bench-file.h"
+#include "core-tol.h"
+#include "core-units.h"
 #include "util-err.h"
 
 /* Deeper nesting inside one element than any valid element has (side
@@ -204,15 +206,16 @@ rd_string(struct rd *r, const char **s, size_t *len)
 }
 
 /* RFC 8259 §6; integers as JSON_INTEGER unless out of range, the rest as
- * JSON_REAL unless they overflow (jansson refuses both). */
-static json_t *
-rd_number(struct rd *r)
+ * JSON_REAL unless they overflow (jansson refuses both).  *real says which;
+ * 0, or -1 (r->i unmoved) for what is not such a number. */
+static int
+scan_number(struct rd *r, int *real, long long *iv, double *dv)
 {
 	const char *t = r->t;
 	size_t j = r->i, n = r->n;
-	int real = 0;
 	char tok[64], *end;
 
+	*real = 0;
 	if (j < n && t[j] == '-')
 		j++;
 	if (j < n && t[j] == '0')
@@ -221,38 +224,51 @@ rd_number(struct rd *r)
 		while (j < n && is_digit(t[j]))
 			j++;
 	else
-		return NULL;
+		return -1;
 	if (j < n && t[j] == '.') {
-		real = 1;
+		*real = 1;
 		if (++j >= n || !is_digit(t[j]))
-			return NULL;
+			return -1;
 		while (j < n && is_digit(t[j]))
 			j++;
 	}
 	if (j < n && (t[j] == 'e' || t[j] == 'E')) {
-		real = 1;
+		*real = 1;
 		if (++j < n && (t[j] == '+' || t[j] == '-'))
 			j++;
 		if (j >= n || !is_digit(t[j]))
-			return NULL;
+			return -1;
 		while (j < n && is_digit(t[j]))
 			j++;
 	}
 	if (j - r->i >= sizeof tok)
-		return NULL;
+		return -1;
 	memcpy(tok, t + r->i, j - r->i);
 	tok[j - r->i] = '\0';
-	r->i = j;
 	errno = 0;
-	if (!real) {
-		long long v = strtoll(tok, &end, 10);
-
-		return errno == ERANGE ? NULL : json_integer(v);
+	if (!*real) {
+		*iv = strtoll(tok, &end, 10);
+		if (errno == ERANGE)
+			return -1;
 	} else {
-		double v = strtod(tok, &end);
-
-		return (v == HUGE_VAL || v == -HUGE_VAL) && errno == ERANGE ? NULL : json_real(v);
+		*dv = strtod(tok, &end);
+		if ((*dv == HUGE_VAL || *dv == -HUGE_VAL) && errno == ERANGE)
+			return -1;
 	}
+	r->i = j;
+	return 0;
+}
+
+static json_t *
+rd_number(struct rd *r)
+{
+	long long iv;
+	double dv;
+	int real;
+
+	if (scan_number(r, &real, &iv, &dv) != 0)
+		return NULL;
+	return real ? json_real(dv) : json_integer(iv);
 }
 
 static json_t *
@@ -354,6 +370,204 @@ read_element(const char *text, struct span sp, int plain_numbers)
 	return json_loadb(text + sp.from, sp.to - sp.from, JSON_REJECT_DUPLICATES, NULL);
 }
 
+/* ---- the plainest elements, straight into the model ----
+ * Most elements of a long file are an id, a type and a few numbers or
+ * quantities, perhaps with a damage object of the same: building jansson
+ * values for them only to read them back cost a quarter of the reading.
+ * These are set as bench_element_from_json sets them (set_key_json's quiet
+ * way: the same units_parse and model_set); anything else (a label, a
+ * part, a side branch, a tolerance, another kind of key or value, an
+ * escape, a duplicate key, any error) leaves the slot zeroed again and
+ * returns -1, and the element goes the jansson way, which alone decides
+ * and reports. */
+#define PLAIN_MEMBERS 48            /* more keys than any element takes */
+#define PLAIN_TEXT    96            /* ids, types, keys and quantities copied to a string */
+
+struct member {
+	const char *key, *s;        /* borrowed from the text; s: a string value */
+	size_t      klen, slen;
+	char        kind;           /* 'n' number, 's' string, 'o' object */
+	double      num;            /* 'n': as json_number_value would give it */
+	size_t      from;           /* 'o': where it starts */
+};
+
+/* The members of the object at r->t[r->i] == '{': values that are plain
+ * strings, numbers, or (with objects set) objects, which are only
+ * skipped here.  -1 on anything else, a duplicate key, or too many. */
+static int
+plain_members(struct rd *r, struct member *m, size_t *n, int objects)
+{
+	*n = 0;
+	r->i++;
+	rd_ws(r);
+	if (r->i < r->n && r->t[r->i] == '}') {
+		r->i++;
+		return 0;
+	}
+	for (;;) {
+		struct member *x = &m[*n];
+
+		if (*n == PLAIN_MEMBERS || r->i >= r->n || r->t[r->i] != '"' ||
+		    rd_string(r, &x->key, &x->klen) != 0)
+			return -1;
+		for (size_t j = 0; j < *n; j++)
+			if (m[j].klen == x->klen && memcmp(m[j].key, x->key, x->klen) == 0)
+				return -1;
+		(*n)++;
+		rd_ws(r);
+		if (r->i >= r->n || r->t[r->i] != ':')
+			return -1;
+		r->i++;
+		rd_ws(r);
+		if (r->i >= r->n)
+			return -1;
+		if (r->t[r->i] == '"') {
+			x->kind = 's';
+			if (rd_string(r, &x->s, &x->slen) != 0)
+				return -1;
+		} else if (r->t[r->i] == '{') {
+			x->kind = 'o';
+			x->from = r->i;
+			if (!objects || (r->i = skip_value(r->t, r->i, r->n)) == 0)
+				return -1;
+		} else {
+			long long iv;
+			double dv;
+			int real;
+
+			x->kind = 'n';
+			if (scan_number(r, &real, &iv, &dv) != 0)
+				return -1;
+			x->num = real ? dv : (double)iv;
+		}
+		rd_ws(r);
+		if (r->i < r->n && r->t[r->i] == ',') {
+			r->i++;
+			rd_ws(r);
+			continue;
+		}
+		if (r->i < r->n && r->t[r->i] == '}') {
+			r->i++;
+			return 0;
+		}
+		return -1;
+	}
+}
+
+static int
+is_key(const struct member *m, const char *name)
+{
+	return m->klen == strlen(name) && memcmp(m->key, name, m->klen) == 0;
+}
+
+/* A string value (or key) as a C string in out[PLAIN_TEXT]; -1 when longer. */
+static int
+plain_copy(char *out, const char *s, size_t len)
+{
+	if (len >= PLAIN_TEXT)
+		return -1;
+	memcpy(out, s, len);
+	out[len] = '\0';
+	return 0;
+}
+
+/* set_key_json where its quiet_value succeeds, and only there. */
+static int
+plain_set(struct element *el, enum model_key k, const struct member *v)
+{
+	const struct model_key_def *d = &model_keys[k];
+	char s[PLAIN_TEXT], *why = NULL, *cause = NULL;
+	const char *rest;
+	size_t vlen;
+	double x;
+	int rc;
+
+	if (d->kind != KIND_QUANTITY && d->kind != KIND_FRACTION && d->kind != KIND_ANGLE &&
+	    d->kind != KIND_NUMBER)
+		return -1;
+	if (v->kind == 'n') {
+		x = v->num == 0 ? 0.0 : v->num;
+	} else if (v->kind == 's' && d->kind == KIND_QUANTITY) {
+		if (plain_copy(s, v->s, v->slen) != 0 || tol_split(s, &vlen, &rest))
+			return -1;
+		rc = units_parse(s, d->dim, &x, &why);
+		free(why);
+		if (rc != 0)
+			return -1;
+	} else {
+		return -1;
+	}
+	rc = model_set(el, k, x, &cause);
+	free(cause);
+	return rc;
+}
+
+/* The element at text[sp] into the zeroed slot el: 0, or -1 with el zeroed. */
+static int
+plain_element(const char *text, struct span sp, struct element *el)
+{
+	struct rd r = { text, sp.from, sp.to, 0 };
+	struct member m[PLAIN_MEMBERS], dm[PLAIN_MEMBERS];
+	const struct member *id = NULL, *type = NULL, *dmg = NULL;
+	char idtext[PLAIN_TEXT], s[PLAIN_TEXT];
+	size_t n, nd = 0;
+	enum elem_type t;
+
+	if (plain_members(&r, m, &n, 1) != 0 || r.i != sp.to)
+		return -1;
+	for (size_t i = 0; i < n; i++) {
+		if (is_key(&m[i], "id"))
+			id = &m[i];
+		else if (is_key(&m[i], "type"))
+			type = &m[i];
+		else if (is_key(&m[i], "damage"))
+			dmg = &m[i];
+	}
+	if (id == NULL || id->kind != 's' || id->slen == 0 ||
+	    plain_copy(idtext, id->s, id->slen) != 0 ||
+	    type == NULL || type->kind != 's' || plain_copy(s, type->s, type->slen) != 0 ||
+	    model_type_parse(s, &t) != 0)
+		return -1;
+	if (dmg != NULL) {
+		struct rd dr = { text, dmg->from, sp.to, 0 };
+
+		if (dmg->kind != 'o' || plain_members(&dr, dm, &nd, 0) != 0)
+			return -1;
+	}
+	model_element_init(el, t, idtext);
+	for (size_t i = 0; i < n; i++) {
+		int k;
+
+		if (&m[i] == id || &m[i] == type)
+			continue;
+		if (&m[i] == dmg) {
+			/* read_damage: the damage keys by their short names */
+			for (size_t j = 0; j < nd; j++) {
+				k = -1;
+				for (int q = K_DMG_FIRST; q < K_COUNT; q++)
+					if (is_key(&dm[j], model_keys[q].name))
+						k = q;
+				if (k < 0 || plain_set(el, (enum model_key)k, &dm[j]) != 0)
+					goto undo;
+			}
+			continue;
+		}
+		if (plain_copy(s, m[i].key, m[i].klen) != 0 || strcmp(s, "label") == 0 ||
+		    strcmp(s, "part") == 0 || strcmp(s, "reflected") == 0 ||
+		    strcmp(s, "transmitted") == 0 || strcmp(s, "rejected") == 0)
+			goto undo;
+		k = model_key_find(s);
+		if (k < 0 || k >= K_DMG_FIRST || !model_key_applies((enum model_key)k, t) ||
+		    plain_set(el, (enum model_key)k, &m[i]) != 0)
+			goto undo;
+	}
+	return 0;
+undo:
+	model_element_release(el);
+	memset(el, 0, sizeof *el);
+	return -1;
+}
+
 /* Asks for the array of a long path in 2 MB pages where the system grants
  * them on request: 10^5 elements fill 38 MB, ten thousand faults of 4 kB
  * pages otherwise.  Only the whole 2 MB pages inside the block; a hint, so
@@ -414,13 +628,16 @@ bench_file_parse_fast(const char *text, size_t len)
 		huge_pages(b->path.el, nel * sizeof *b->path.el);
 	}
 	for (size_t i = 0; i < nel; i++) {
-		json_t *obj = read_element(text, el[i], plain_numbers);
+		struct element *slot = model_branch_push(&b->path);
+		json_t *obj;
 		int rc;
 
-		if (obj == NULL)
+		if (plain_numbers && plain_element(text, el[i], slot) == 0)
+			continue;
+		if ((obj = read_element(text, el[i], plain_numbers)) == NULL)
 			goto bad;
 		/* as read_branch does for "path": depth 0, side branches allowed */
-		rc = bench_element_from_json(obj, model_branch_push(&b->path), 1, 1, 0, &cause);
+		rc = bench_element_from_json(obj, slot, 1, 1, 0, &cause);
 		json_decref(obj);
 		if (rc != 0)
 			goto bad;
