@@ -338,6 +338,30 @@ static const char tol_text[] =
     " \"label\": \"fold\\tone\", \"damage\": { \"cw_irradiance\": 1.5e9 } },\n"
     "    { \"id\": \"D\", \"type\": \"dump\", \"max_power\": 10 }\n  ] }\n";
 
+/* Elements the fast reader sets straight into the model (id, type, plain
+ * numbers, integers, quantities, a damage object, one empty) beside ones it
+ * leaves to jansson (a tolerance, a label, a surface pair, a boolean, a
+ * choice, a key of another type), in one path. */
+static const char plain_text[] =
+    "{\"format\": \"beamledger-bench-1\", \"name\": \"plain\",\n"
+    " \"source\": {\"wavelength\": \"1064 nm\", \"power\": \"5 W\", \"waist\": \"1 mm\"},\n"
+    " \"path\": [\n"
+    "  {\"id\": \"S0\", \"type\": \"space\", \"length\": \"100 mm\"},\n"
+    "  {\"type\": \"mirror\", \"id\": \"M1\", \"reflectance\": 0.99, \"aoi\": 45,"
+    " \"roc\": -0.5, \"damage\": {\"cw_linear\": \"10 kW/cm\", \"cw_irradiance\": 1e9}},\n"
+    "  {\"id\": \"S1\", \"type\": \"space\", \"length\": 2},\n"
+    "  {\"id\": \"L1\", \"type\": \"lens\", \"focal\": \"100 mm\", \"damage\": {}},\n"
+    "  {\"id\": \"W1\", \"type\": \"window\", \"thickness\": \"5 mm\","
+    " \"n2\": \"3e-16 cm^2/W\", \"index\": 1.45, \"surface_reflectance\": [0.01, 0.02]},\n"
+    "  {\"id\": \"P1\", \"type\": \"polarizer\", \"angle\": 10, \"extinction\": 1000},\n"
+    "  {\"id\": \"F1\", \"type\": \"filter\", \"od\": 1, \"aperture\": \"10 mm\","
+    " \"damage\": {\"cw_irradiance\": \"1 kW/cm^2\"}},\n"
+    "  {\"id\": \"S2\", \"type\": \"space\", \"length\": \"1 m \\u00b1 1 mm\"},\n"
+    "  {\"id\": \"S3\", \"type\": \"space\", \"length\": \"1 m +- 1 mm\"},\n"
+    "  {\"id\": \"I1\", \"type\": \"iris\", \"diameter\": \"2 mm\", \"label\": \"pinhole\"},\n"
+    "  {\"id\": \"D1\", \"type\": \"dump\", \"max_power\": \"10 W\"}\n"
+    " ]}\n";
+
 static char *
 dump_or_cause(struct bench *b, char *cause)
 {
@@ -379,7 +403,8 @@ compare_readers(const char *text, size_t len)
 	return fast_ok;
 }
 
-static const char *const reader_texts[] = { NULL /* the demo */, branches_text, tol_text };
+static const char *const reader_texts[] = { NULL /* the demo */, branches_text, tol_text,
+	plain_text };
 
 START_TEST(test_reader_valid)
 {
