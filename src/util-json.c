@@ -165,6 +165,8 @@ round_pos(double x)
 	return (unsigned long long)llround(x);
 }
 
+#define NUMBER_MAX 39         /* characters json_put_number may write */
+
 /* Ten significant digits, formatted like "%.10g" (trailing zeros dropped,
  * exponent form below 1e-4 and from 1e10), without the cost of printf's
  * arbitrary-precision conversion.  The last digit can differ from printf's
@@ -178,7 +180,7 @@ json_put_number(struct buf *b, double v)
 	    "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
 	    "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
 	    "8081828384858687888990919293949596979899";
-	char out[40], digits[10];
+	char *out, digits[10];
 	unsigned long long m;
 	int e, nd, pos = 0;
 
@@ -190,13 +192,17 @@ json_put_number(struct buf *b, double v)
 		buf_addc(b, '0');
 		return;
 	}
+	/* written in place: room for the longest number, "-1.234567891e-300" */
+	if (b->len + NUMBER_MAX + 1 > b->cap)
+		buf_grow(b, NUMBER_MAX);
+	out = b->s + b->len;
 	if (v < 0) {
 		out[pos++] = '-';
 		v = -v;
 	}
 	if (v < 1e-300 || v > 1e300) {          /* leave the extremes to printf */
-		snprintf(out + pos, sizeof out - (size_t)pos, "%.10g", v);
-		buf_add(b, out);
+		snprintf(out + pos, NUMBER_MAX + 1 - (size_t)pos, "%.10g", v);
+		b->len += strlen(out);
 		return;
 	}
 	if (v < 1e10 && v >= 1 && v == (double)(unsigned long long)v) {
@@ -211,7 +217,8 @@ json_put_number(struct buf *b, double v)
 			m /= 10;
 		} while (m != 0);
 		memcpy(out + pos, d + k, sizeof d - (size_t)k);
-		buf_addn(b, out, (size_t)pos + sizeof d - (size_t)k);
+		b->len += (size_t)pos + sizeof d - (size_t)k;
+		b->s[b->len] = '\0';
 		return;
 	}
 	e = decimal_exponent(v);
@@ -264,12 +271,17 @@ json_put_number(struct buf *b, double v)
 			out[pos++] = '0';
 		memcpy(out + pos, digits, (size_t)nd);
 		pos += nd;
+	} else if (nd <= e + 1) {
+		/* whole: the digits, then zeros up to the point */
+		memcpy(out + pos, digits, (size_t)nd);
+		memset(out + pos + nd, '0', (size_t)(e + 1 - nd));
+		pos += e + 1;
 	} else {
-		for (int i = 0; i <= e || i < nd; i++) {
-			if (i == e + 1)
-				out[pos++] = '.';
-			out[pos++] = i < nd ? digits[i] : '0';
-		}
+		memcpy(out + pos, digits, (size_t)e + 1);
+		out[pos + e + 1] = '.';
+		memcpy(out + pos + e + 2, digits + e + 1, (size_t)(nd - e - 1));
+		pos += nd + 1;
 	}
-	buf_addn(b, out, (size_t)pos);
+	b->len += (size_t)pos;
+	b->s[b->len] = '\0';
 }
