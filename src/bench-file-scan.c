@@ -570,8 +570,13 @@ undo:
 
 /* Asks for the array of a long path in 2 MB pages where the system grants
  * them on request: 10^5 elements fill 38 MB, ten thousand faults of 4 kB
- * pages otherwise.  Only the whole 2 MB pages inside the block; a hint, so
- * whatever it answers is fine. */
+ * pages otherwise.  Only the whole 2 MB pages inside the block, and only
+ * for a block malloc maps on its own (from 32 MiB, glibc's highest mmap
+ * threshold), so that the hint leaves with the block when it is freed and
+ * never lingers on heap memory used again for small things.  A hint:
+ * whatever the system answers is fine. */
+#define HUGE_FROM ((size_t)32 << 20)
+
 static void
 huge_pages(void *p, size_t n)
 {
@@ -580,7 +585,7 @@ huge_pages(void *p, size_t n)
 	uintptr_t from = ((uintptr_t)p + huge - 1) & ~(huge - 1);
 	uintptr_t to = ((uintptr_t)p + n) & ~(huge - 1);
 
-	if (to > from)
+	if (n >= HUGE_FROM && to > from)
 		(void)madvise((void *)from, to - from, MADV_HUGEPAGE);
 #else
 	(void)p;
