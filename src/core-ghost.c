@@ -463,7 +463,8 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 		if (st == STATUS_OVER)
 			g->flags |= GF_OVER;
 	}
-	{
+	/* the summaries are for the screens and reports, not the ratings */
+	if (!c->lean) {
 		struct ghost_at *at = &gs->at[u];
 
 		at->nmet++;

@@ -117,8 +117,9 @@ struct ghost_set {
 /* The bench walked as one part, not two (a test's check that the halves
  * add up to the whole; the sums then differ only in the order added). */
 #define GHOST_ONE_PART 2u
-/* Only what the ratings and warnings need (TRACE_LEAN): no summary at an
- * unrated row, no focus that cannot reach air_breakdown. */
+/* Only what the ratings and warnings need (TRACE_LEAN): no summaries
+ * (at[] stays empty), nothing at an unrated row, no focus that cannot
+ * reach air_breakdown. */
 #define GHOST_LEAN 4u
 /* A bench whose reflections would take more ghost-element visits than
  * this (a few seconds) is refused with a clear error rather than left

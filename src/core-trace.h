@@ -130,9 +130,9 @@ struct trace {
 #define TRACE_GHOST_ROWS 2u
 /* ... or only what the ratings and warnings need (a sweep, a tolerance
  * run): every ratio, status, worst, safe_source_power and warning is
- * exactly the full trace's, but the ghosts' summaries at unrated
- * elements (the flag "ghosts" there) are left out, and so are ghost foci
- * that cannot spark (every CW one).  See ghost_run. */
+ * exactly the full trace's, but the ghosts' summaries (ghost_set.at:
+ * empty) and their flag "ghosts" at unrated elements are left out, and so
+ * are ghost foci that cannot spark (every CW one).  See ghost_run. */
 #define TRACE_LEAN 4u
 
 /* The bench must have passed model_validate.  Never fails. */
