@@ -834,6 +834,7 @@ combine(struct ghost_ctx *c)
 	const struct bench *b = c->b;
 
 	t->worst = -1;
+	t->worst_el = NULL;
 	t->worst_ratio = NAN;
 	for (size_t i = 0; i < t->nrows; i++) {
 		struct trace_row *r = &t->rows[i];
@@ -861,6 +862,7 @@ combine(struct ghost_ctx *c)
 		}
 		if (!isnan(r->ratio) && (t->worst < 0 || r->ratio > t->worst_ratio)) {
 			t->worst = (long)i;
+			t->worst_el = r->el;
 			t->worst_ratio = r->ratio;
 		}
 	}

@@ -630,8 +630,26 @@ trace_rerun(struct trace *t, const struct bench *b)
 	return trace_rerun_opts(t, b, 0);
 }
 
+static struct trace *trace_walk(struct trace *, const struct bench *, unsigned opts,
+    trace_row_fn *fn, void *arg);
+
 struct trace *
 trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
+{
+	return trace_walk(t, b, opts, NULL, NULL);
+}
+
+#define TRACE_STREAM 0x100u     /* trace_walk: rows handed out, not kept */
+
+struct trace *
+trace_stream(struct trace *t, const struct bench *b, trace_row_fn *fn, void *arg)
+{
+	return trace_walk(t, b, TRACE_STREAM | TRACE_NO_GHOSTS, fn, arg);
+}
+
+static struct trace *
+trace_walk(struct trace *t, const struct bench *b, unsigned opts, trace_row_fn *fn,
+    void *arg)
 {
 	/* a side branch in a side branch is rare: the C stack holds the
 	 * first levels, the heap takes deeper nesting (no allocation per
@@ -639,6 +657,7 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 	struct cursor local[16], *stack = local;
 	size_t top = 0, cap = sizeof local / sizeof *local, nrow = 0;
 	double inv_sf = 1 / b->safety_factor;
+	int stream;
 
 	if (t == NULL)
 		t = atomic_exchange(&spare, NULL);
@@ -646,15 +665,19 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		t = xcalloc(1, sizeof *t);
 	t->bench = b;
 	t->nrows = model_count(&b->path);
-	if (t->nrows > t->caprows || t->rows == NULL) {
+	/* streamed: two rows in turn, the one being made and the one before
+	 * (branch_end reads it) */
+	stream = (opts & TRACE_STREAM) != 0;
+	if ((stream ? 2 : t->nrows) > t->caprows || t->rows == NULL) {
 		/* every row is filled whole by visit(): no need to zero them */
 		free(t->rows);
-		t->caprows = t->nrows ? t->nrows : 1;
+		t->caprows = stream ? 2 : t->nrows ? t->nrows : 1;
 		t->rows = xmalloc(t->caprows * sizeof *t->rows);
 	}
 	t->nwarn = 0;
 	t->absorbed = t->leaving = 0;
 	t->worst = -1;
+	t->worst_el = NULL;
 	t->worst_ratio = NAN;
 	t->safe_source_power = NAN;
 	t->nonfinite = NULL;
@@ -671,12 +694,13 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		struct trace_row *row;
 
 		if (c->i >= c->br->n) {
-			branch_end(t, c, nrow > 0 ? &t->rows[nrow - 1] : NULL);
+			branch_end(t, c, nrow > 0 ? &t->rows[stream ? (nrow - 1) & 1 : nrow - 1] : NULL);
 			top--;
 			continue;
 		}
 		el = &c->br->el[c->i];
-		row = &t->rows[nrow++];
+		row = &t->rows[stream ? nrow & 1 : nrow];
+		nrow++;
 		visit(t, c, row, &c->st, &side, (unsigned)(top - 1), inv_sf);
 		{
 			/* never NaN read as safe: a rated element without a
@@ -694,9 +718,12 @@ trace_rerun_opts(struct trace *t, const struct bench *b, unsigned opts)
 		}
 		t->absorbed += row->power_lost;
 		if (!isnan(row->ratio) && (t->worst < 0 || row->ratio > t->worst_ratio)) {
-			t->worst = (long)(row - t->rows);
+			t->worst = (long)nrow - 1;
+			t->worst_el = el;
 			t->worst_ratio = row->ratio;
 		}
+		if (fn != NULL)
+			fn(arg, t, row);
 		c->i++;
 		if (el->side_port != PORT_NONE) {
 			if (top == cap) {

@@ -111,6 +111,7 @@ struct trace {
 	struct trace_warning *warn;     /* owned */
 	size_t                nwarn, capwarn;
 	long                  worst;    /* row index, -1 when nothing is rated */
+	const struct element *worst_el; /* borrowed: its element; NULL with -1 */
 	double                worst_ratio;
 	double                safe_source_power;   /* NAN when nothing is rated; INFINITY when no rated element gets power */
 	double                absorbed, leaving;   /* W: sum of power_lost; sum left on the table */
@@ -134,6 +135,17 @@ struct trace {
  * empty) and their flag "ghosts" at unrated elements are left out, and so
  * are ghost foci that cannot spark (every CW one).  See ghost_run. */
 #define TRACE_LEAN 4u
+
+/* The main beam with no rows kept: each row is handed to `fn` as it is
+ * made (fn may be NULL) and then overwritten, so a 10^5-element trace
+ * holds two rows, not 38 MB of them.  Everything else of the result is
+ * there (warnings, worst_el, worst_ratio, safe_source_power, nonfinite);
+ * rows, nrows and worst are not to be read.  Implies TRACE_NO_GHOSTS (the
+ * reflections need every row).  For `trace --format json` of a long
+ * chain: a first pass checks, the second writes. */
+typedef void trace_row_fn(void *arg, const struct trace *, const struct trace_row *);
+struct trace *trace_stream(struct trace *t, const struct bench *, trace_row_fn *fn,
+                  void *arg);
 
 /* The bench must have passed model_validate.  Never fails. */
 struct trace *trace_run(const struct bench *);     /* caller frees */

@@ -14,6 +14,7 @@
 #include "core-layout.h"
 #include "report.h"
 #include "util-buf.h"
+#include "util-err.h"
 #include "util-json.h"
 
 /* Appends a string literal without measuring it. */
@@ -338,24 +339,34 @@ ghosts_json(struct jout *o, const struct trace *t)
 }
 
 static void
-json_out(struct jout *o, const struct trace *t)
+json_head(struct jout *o, const struct bench *bench)
+{
+	ADD(&o->b, "{\n  \"bench\": ");
+	json_put_string(&o->b, bench->name);
+	ADD(&o->b, ",\n  \"elements\": [");
+}
+
+/* Row number i (from 0) of the elements. */
+static void
+json_row(struct jout *o, const struct trace *t, const struct trace_row *r, size_t i,
+    struct branch_cache *bc)
+{
+	if (i)
+		ADD(&o->b, ",\n");
+	else
+		buf_addc(&o->b, '\n');
+	row_json(&o->b, t, r, bc);
+	spill(o, SPILL);
+}
+
+/* What follows the nrows rows. */
+static void
+json_tail(struct jout *o, const struct trace *t, size_t nrows)
 {
 	struct buf *b = &o->b;
-	struct branch_cache bc = { NULL, PORT_NONE, 0, "" };
 	char br[160];
 
-	ADD(b, "{\n  \"bench\": ");
-	json_put_string(b, t->bench->name);
-	ADD(b, ",\n  \"elements\": [");
-	for (size_t i = 0; i < t->nrows; i++) {
-		if (i)
-			ADD(b, ",\n");
-		else
-			buf_addc(b, '\n');
-		row_json(b, t, &t->rows[i], &bc);
-		spill(o, SPILL);
-	}
-	buf_add(b, t->nrows ? "\n  ],\n  \"warnings\": [" : "],\n  \"warnings\": [");
+	buf_add(b, nrows ? "\n  ],\n  \"warnings\": [" : "],\n  \"warnings\": [");
 	for (size_t i = 0; i < t->nwarn; i++) {
 		const struct trace_warning *x = &t->warn[i];
 
@@ -390,7 +401,7 @@ json_out(struct jout *o, const struct trace *t)
 	buf_add(b, t->nwarn ? "\n  ],\n  \"worst\": " : "],\n  \"worst\": ");
 	if (t->worst >= 0) {
 		ADD(b, "{\"id\": ");
-		json_put_string(b, t->rows[t->worst].el->id);
+		json_put_string(b, t->worst_el->id);
 		ADD(b, ", \"ratio\": ");
 		json_put_number(b, t->worst_ratio);
 		buf_addc(b, '}');
@@ -402,6 +413,56 @@ json_out(struct jout *o, const struct trace *t)
 	if (t->ghosts != NULL)
 		ghosts_json(o, t);
 	ADD(b, "\n}\n");
+}
+
+static void
+json_out(struct jout *o, const struct trace *t)
+{
+	struct branch_cache bc = { NULL, PORT_NONE, 0, "" };
+
+	json_head(o, t->bench);
+	for (size_t i = 0; i < t->nrows; i++)
+		json_row(o, t, &t->rows[i], i, &bc);
+	json_tail(o, t, t->nrows);
+}
+
+struct report_json_stream {
+	struct jout         o;
+	struct branch_cache bc;
+	size_t              n;      /* rows written */
+};
+
+struct report_json_stream *
+report_json_stream_begin(const struct bench *bench, FILE *f)
+{
+	struct report_json_stream *s = xcalloc(1, sizeof *s);
+
+	s->o.f = f;
+	buf_init(&s->o.b);
+	s->bc.port = PORT_NONE;
+	json_head(&s->o, bench);
+	return s;
+}
+
+void
+report_json_stream_row(void *arg, const struct trace *t, const struct trace_row *r)
+{
+	struct report_json_stream *s = arg;
+
+	json_row(&s->o, t, r, s->n++, &s->bc);
+}
+
+int
+report_json_stream_end(struct report_json_stream *s, const struct trace *t)
+{
+	int err;
+
+	json_tail(&s->o, t, s->n);
+	spill(&s->o, 0);
+	buf_release(&s->o.b);
+	err = s->o.err;
+	free(s);
+	return err ? -1 : 0;
 }
 
 char *

@@ -23,6 +23,14 @@ char *report_json(const struct trace *);                              /* caller 
 /* The same text written to f in pieces of about 64 kB as it is made; 0, or
  * -1 when a write failed (errno set; what came before it was written). */
 int   report_json_write(const struct trace *, FILE *f);
+/* The same bytes, written as trace_stream makes the rows (a long chain's
+ * rows are never all held): begin, then report_json_stream_row as the
+ * trace_stream callback, then end with that trace (which frees the
+ * stream; -1 when a write failed, errno says why). */
+struct report_json_stream;
+struct report_json_stream *report_json_stream_begin(const struct bench *, FILE *f);
+void  report_json_stream_row(void *stream, const struct trace *, const struct trace_row *);
+int   report_json_stream_end(struct report_json_stream *, const struct trace *);
 char *report_csv(const struct trace *);                               /* caller frees */
 
 /* Shared by the table and the workbench: the source in one line

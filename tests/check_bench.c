@@ -1338,6 +1338,16 @@ START_TEST(test_trace_nonfinite)
 	ck_assert(t->safe_source_power == 0);
 	free(cause);
 	trace_free(t);
+	/* the same with the rows handed out, not kept (trace --no-ghosts
+	 * --format json checks this way before it prints a byte) */
+	cause = NULL;
+	t = trace_stream(NULL, b, NULL, NULL);
+	ck_assert_int_eq(trace_check(t, &cause), -1);
+	ck_assert_msg(strstr(cause, "element 'S2'") != NULL || strstr(cause, "element 'L1'") != NULL,
+	    "%s", cause);
+	ck_assert(t->worst_el == find(b, "M1") && isinf(t->worst_ratio));
+	free(cause);
+	trace_free(t);
 	model_bench_free(b);
 }
 END_TEST

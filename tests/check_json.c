@@ -509,6 +509,29 @@ check_streamed(const struct bench *b, unsigned opts)
 	ck_assert_uint_eq(len, strlen(whole));
 	ck_assert_msg(memcmp(got, whole, len) == 0, "streamed text differs");
 	free(got);
+	if (opts & TRACE_NO_GHOSTS) {
+		/* and row by row as trace_stream makes them, no rows held: the
+		 * same text, the same summary (trace --no-ghosts --format json) */
+		struct report_json_stream *s;
+		struct trace *st;
+
+		got = NULL;
+		len = 0;
+		f = open_memstream(&got, &len);
+		ck_assert_ptr_nonnull(f);
+		s = report_json_stream_begin(b, f);
+		st = trace_stream(NULL, b, report_json_stream_row, s);
+		ck_assert_int_eq(report_json_stream_end(s, st), 0);
+		ck_assert_int_eq(fclose(f), 0);
+		ck_assert_uint_eq(len, strlen(whole));
+		ck_assert_msg(memcmp(got, whole, len) == 0, "text written row by row differs");
+		ck_assert(st->worst_el == (t->worst >= 0 ? t->rows[t->worst].el : NULL));
+		ck_assert(st->nwarn == t->nwarn && st->nonfinite == t->nonfinite);
+		ck_assert(st->safe_source_power == t->safe_source_power ||
+		    (isnan(st->safe_source_power) && isnan(t->safe_source_power)));
+		free(got);
+		trace_free(st);
+	}
 	free(whole);
 	trace_free(t);
 }
