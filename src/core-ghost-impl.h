@@ -123,4 +123,30 @@ void   ghost_second_at(struct ghost_ctx *, const struct ghost *first, size_t i,
 /* Row i's double bounce inside its own element. */
 void   ghost_second_double(struct ghost_ctx *, size_t i);
 
+/* The buffers one ghost_run allocates, kept by the trace (t->gscratch;
+ * core-ghost-scratch.c).  Every pointer is owned. */
+struct ghost_scratch {
+	struct ghost_set     *set[2];   /* owned: emptied sets, the halves' */
+	size_t                cap;      /* rows the per-row arrays hold */
+	long                 *prev, *next;              /* owned [cap] */
+	struct ghost_pass    *pass;                     /* owned [cap] */
+	struct ghost_acc     *acc[2];                   /* owned [cap] */
+	double               *fourth[2];                /* owned [cap] */
+	double               *split;                    /* owned [4 cap] */
+	struct ghost_pending *pend[2];                  /* owned */
+	size_t                cappend[2];
+	long                 *tmp;                      /* owned [captmp] */
+	size_t                captmp;
+};
+
+/* Set k (0: the trace's, 1: the second half's) emptied into the scratch,
+ * which owns it; and taken back out with room for n summaries (the
+ * caller owns it). */
+void              ghost_scratch_put_set(struct ghost_scratch *, int k, struct ghost_set *);
+struct ghost_set *ghost_scratch_take_set(struct ghost_scratch *, int k, size_t n);
+/* The per-row arrays for n rows (contents undefined). */
+void              ghost_scratch_rows(struct ghost_scratch *, size_t n);
+/* n longs for one step's own use at a time (contents undefined). */
+long             *ghost_scratch_longs(struct ghost_scratch *, size_t n);
+
 #endif

@@ -42,139 +42,6 @@ ghost_set_free(struct ghost_set *gs)
 	free(gs);
 }
 
-/* ---- buffers kept between traces ---- */
-
-struct ghost_scratch {
-	struct ghost_set     *set[2];   /* owned: emptied sets, the halves' */
-	size_t                cap;      /* rows the per-row arrays hold */
-	long                 *prev, *next;              /* owned [cap] */
-	struct ghost_pass    *pass;                     /* owned [cap] */
-	struct ghost_acc     *acc[2];                   /* owned [cap] */
-	double               *fourth[2];                /* owned [cap] */
-	double               *split;                    /* owned [4 cap] */
-	struct ghost_pending *pend[2];                  /* owned */
-	size_t                cappend[2];
-	long                 *tmp;                      /* owned [captmp] */
-	size_t                captmp;
-};
-
-/* Kept rows past this many are handed back to the C library rather
- * than kept for the next trace (a long chain's run for JSON has 10⁶). */
-#define SCRATCH_ROWS_KEPT 65536
-
-void
-ghost_scratch_free(struct ghost_scratch *s)
-{
-	if (s == NULL)
-		return;
-	for (int k = 0; k < 2; k++) {
-		ghost_set_free(s->set[k]);
-		free(s->acc[k]);
-		free(s->fourth[k]);
-		free(s->pend[k]);
-	}
-	free(s->prev);
-	free(s->next);
-	free(s->pass);
-	free(s->split);
-	free(s->tmp);
-	free(s);
-}
-
-/* Set k of the scratch, emptied but with its buffers. */
-static void
-scratch_put_set(struct ghost_scratch *s, int k, struct ghost_set *gs)
-{
-	struct ghost_set kept;
-
-	if (gs->caprows > SCRATCH_ROWS_KEPT) {
-		free(gs->rows);
-		gs->rows = NULL;
-		gs->caprows = 0;
-	}
-	memset(&kept, 0, sizeof kept);
-	kept.g = gs->g;
-	kept.cap = gs->cap;
-	kept.rows = gs->rows;
-	kept.caprows = gs->caprows;
-	kept.foci = gs->foci;
-	kept.capfoci = gs->capfoci;
-	kept.strays = gs->strays;
-	kept.capstrays = gs->capstrays;
-	kept.at = gs->at;
-	kept.capat = gs->capat;
-	*gs = kept;
-	ghost_set_free(s->set[k]);
-	s->set[k] = gs;
-}
-
-void
-ghost_recycle(struct trace *t)
-{
-	if (t->ghosts == NULL)
-		return;
-	if (t->gscratch == NULL)
-		t->gscratch = xcalloc(1, sizeof *t->gscratch);
-	scratch_put_set(t->gscratch, 0, t->ghosts);
-	t->ghosts = NULL;
-}
-
-/* An empty set with room for n summaries, from the scratch when it has
- * one (the caller owns it). */
-static struct ghost_set *
-scratch_take_set(struct ghost_scratch *s, int k, size_t n)
-{
-	struct ghost_set *gs = s->set[k];
-
-	s->set[k] = NULL;
-	if (gs == NULL)
-		gs = xcalloc(1, sizeof *gs);
-	if (gs->capat < n || gs->at == NULL) {
-		free(gs->at);
-		gs->capat = n ? n : 1;
-		gs->at = xmalloc(gs->capat * sizeof *gs->at);
-	}
-	return gs;
-}
-
-/* The per-row arrays for n rows (contents undefined). */
-static void
-scratch_rows(struct ghost_scratch *s, size_t n)
-{
-	if (s->cap >= n && s->prev != NULL)
-		return;
-	s->cap = n ? n : 1;
-	free(s->prev);
-	free(s->next);
-	free(s->pass);
-	free(s->split);
-	s->prev = xmalloc(s->cap * sizeof *s->prev);
-	s->next = xmalloc(s->cap * sizeof *s->next);
-	s->pass = xmalloc(s->cap * sizeof *s->pass);
-	s->split = xmalloc(4 * s->cap * sizeof *s->split);
-	for (int k = 0; k < 2; k++) {
-		free(s->acc[k]);
-		free(s->fourth[k]);
-		s->acc[k] = xmalloc(s->cap * sizeof *s->acc[k]);
-		s->fourth[k] = xmalloc(s->cap * sizeof *s->fourth[k]);
-	}
-}
-
-/* n longs for one step's own use (rows linked, ghosts renumbered, sparks
- * per gap: one after the other, never two at once). */
-static long *
-scratch_longs(struct ghost_scratch *s, size_t n)
-{
-	if (n == 0)
-		n = 1;
-	if (s->captmp < n) {
-		free(s->tmp);
-		s->tmp = xmalloc(n * sizeof *s->tmp);
-		s->captmp = n;
-	}
-	return s->tmp;
-}
-
 void
 ghost_surface_name(const struct ghost *g, int k, char *buf, size_t n)
 {
@@ -807,7 +674,7 @@ link_rows(struct ghost_ctx *c)
 	for (size_t i = 0; i < t->nrows; i++)
 		if (t->rows[i].depth > maxd)
 			maxd = t->rows[i].depth;
-	last = scratch_longs(c->t->gscratch, maxd + 2);
+	last = ghost_scratch_longs(c->t->gscratch, maxd + 2);
 	for (size_t d = 0; d <= maxd + 1; d++)
 		last[d] = -1;
 	for (size_t i = 0; i < t->nrows; i++) {
@@ -878,7 +745,7 @@ static void
 compact(struct ghost_scratch *s, struct ghost_set *gs, size_t nrows)
 {
 	size_t k = 0;
-	long *to = scratch_longs(s, gs->n);
+	long *to = ghost_scratch_longs(s, gs->n);
 
 	for (size_t i = 0; i < gs->n; i++) {
 		to[i] = gs->g[i].nrows > 0 ? (long)k : -1;
@@ -913,7 +780,7 @@ warnings(struct ghost_ctx *c)
 	 * warning per gap, for the brightest (ghost-conventions.md: foci
 	 * with air_breakdown as for main-beam foci) */
 	{
-		long *spark = scratch_longs(t->gscratch, t->nrows);
+		long *spark = ghost_scratch_longs(t->gscratch, t->nrows);
 
 		for (size_t u = 0; u < t->nrows; u++)
 			spark[u] = -1;
@@ -1211,7 +1078,7 @@ ghost_run(struct trace *t, unsigned opts)
 	memset(&c, 0, sizeof c);
 	c.t = t;
 	c.b = t->bench;
-	c.gs = t->ghosts = scratch_take_set(sc, 0, t->nrows);
+	c.gs = t->ghosts = ghost_scratch_take_set(sc, 0, t->nrows);
 	c.keep_rows = c.gs->rows_kept = (opts & GHOST_ROWS) != 0;
 	c.lean = (opts & GHOST_LEAN) != 0 && !c.keep_rows;
 	c.inv_rep = c.b->src.pulsed ? 1 / c.b->src.rep_rate : NAN;
@@ -1227,7 +1094,7 @@ ghost_run(struct trace *t, unsigned opts)
 	}
 	if (t->nrows == 0)
 		return;
-	scratch_rows(sc, t->nrows);
+	ghost_scratch_rows(sc, t->nrows);
 	c.prev = sc->prev;
 	c.next = sc->next;
 	c.pass = sc->pass;
@@ -1248,7 +1115,7 @@ ghost_run(struct trace *t, unsigned opts)
 	prepare(&c);
 	if (opts & GHOST_ONE_PART)
 		m = t->nrows;
-	second = scratch_take_set(sc, 1, t->nrows);
+	second = ghost_scratch_take_set(sc, 1, t->nrows);
 	part_init(&half[0], &c, c.gs, 0, 0, m);
 	part_init(&half[1], &c, second, 1, m, t->nrows);
 	if (!(opts & GHOST_ONE_PART) && work > GHOST_THREAD_WORK &&
@@ -1261,7 +1128,7 @@ ghost_run(struct trace *t, unsigned opts)
 		part_walk(&half[1]);
 	part_merge(&half[0], &half[1]);
 	part_done(&half[1], 1);
-	scratch_put_set(sc, 1, second);
+	ghost_scratch_put_set(sc, 1, second);
 	c = half[0].c;
 	for (size_t u = 0; u < t->nrows; u++)
 		ghost_add_stray(&c, t->rows[u].el, "fourth_port", c.fourth[u], NAN);
