@@ -4,9 +4,13 @@
  * format (table with and without colour and UTF-8, JSON, CSV, a diff
  * against itself) and laid out as the workbench would (chain rows, bars,
  * status line, values, the beam profile: the pure core-layout part).  Any crash, sanitizer report or broken round trip is a
- * finding, and so is the fast reader disagreeing with the tree reader.  Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
+ * finding, and so is the fast reader disagreeing with the tree reader, a
+ * lean trace (TRACE_LEAN) rating anything otherwise than the full one, or
+ * the row-by-row JSON of trace_stream differing from the whole trace's.
+ * Built by ./configure --enable-fuzz; see DEVELOPERS.md. */
 #include <config.h>
 
+#include <math.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -63,6 +67,49 @@ layout(const struct bench *b, const struct trace *t)
 	free(path);
 }
 
+static int
+same(double a, double b)
+{
+	return a == b || (isnan(a) && isnan(b));
+}
+
+/* The lean trace rates as the full one does; the streamed JSON is the
+ * whole main-beam trace's text. */
+static void
+variants(const struct bench *b, const struct trace *t)
+{
+	struct trace *lean = trace_rerun_opts(NULL, b, TRACE_LEAN), *whole, *st;
+	struct report_json_stream *s;
+	char *text, *got = NULL;
+	size_t len = 0;
+	FILE *f;
+
+	if (lean->nwarn != t->nwarn || !same(lean->worst_ratio, t->worst_ratio) ||
+	    !same(lean->safe_source_power, t->safe_source_power))
+		finding("a lean trace's summary differs from the full trace's", b->name, NULL);
+	for (size_t i = 0; i < t->nrows; i++)
+		if (!same(lean->rows[i].ratio, t->rows[i].ratio) ||
+		    lean->rows[i].status != t->rows[i].status)
+			finding("a lean trace rates an element otherwise", t->rows[i].el->id, NULL);
+	trace_free(lean);
+	whole = trace_rerun_opts(NULL, b, TRACE_NO_GHOSTS);
+	text = report_json(whole);
+	if ((f = open_memstream(&got, &len)) == NULL)
+		abort();
+	s = report_json_stream_begin(b, f);
+	st = trace_stream(NULL, b, report_json_stream_row, s);
+	if (report_json_stream_end(s, st) != 0 || fclose(f) != 0)
+		abort();
+	if (len != strlen(text) || memcmp(got, text, len) != 0)
+		finding("the streamed JSON differs from the whole trace's", b->name, text);
+	if ((trace_check(st, NULL) != 0) != (trace_check(whole, NULL) != 0))
+		finding("the streamed trace checks otherwise", b->name, NULL);
+	free(got);
+	free(text);
+	trace_free(st);
+	trace_free(whole);
+}
+
 static void
 reports(const struct bench *b)
 {
@@ -87,6 +134,7 @@ reports(const struct bench *b)
 		}
 	free(report_json(t));
 	free(report_csv(t));
+	variants(b, t);
 	layout(b, t);
 	trace_free(t);
 	d = diff_run(b, b);
