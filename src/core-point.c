@@ -537,12 +537,7 @@ point_survey_run_opts(const struct bench *b, const char *only, unsigned opts,
 		sv->last_trace = trace_rerun_opts(sv->last_trace, sv->last,
 		    one != NULL ? opts : (opts & TRACE_NO_GHOSTS) | TRACE_LEAN);
 		if (trace_check(sv->last_trace, cause) != 0) {
-			if (cause != NULL) {
-				char *why = *cause;
-
-				*cause = xasprintf("point '%s': %s", p->name, why);
-				free(why);
-			}
+			cause_prefix(cause, "point '%s'", p->name);
 			free(cl.v);
 			free(cl.r);
 			point_survey_release(sv);

@@ -474,12 +474,7 @@ sweep_run(struct bench *b, const struct sweep_knob *k, double from, double to,
 		/* reflections beyond the bound (a tilt knob can bring them):
 		 * never a silent main-beam-only step */
 		if (trace_check(c.t, cause) != 0) {
-			if (cause != NULL) {
-				char *why = *cause;
-
-				*cause = xasprintf("sweep %s at step %zu: %s", k->text, s + 1, why);
-				free(why);
-			}
+			cause_prefix(cause, "sweep %s at step %zu", k->text, s + 1);
 			restore(&saved, k, b);
 			trace_free(c.t);
 			sweep_free(sw);
