@@ -106,8 +106,8 @@ void   ghost_gap(struct ghost_ctx *, struct ghost *, size_t u, double z0, int di
            const struct ghost_beam *, double p);
 /* Ghost g with beam gb and power p meets row u: rated there
  * (ghost_add_row) and clipped (ghost_clip); returns the power past the
- * aperture and sets *kept.  In a lean walk a row neither rated nor
- * clipping costs no radii. */
+ * aperture and sets *kept.  In a lean walk an unrated row is only
+ * counted and clipped (no radii without an aperture). */
 double ghost_meet(struct ghost_ctx *, struct ghost *, size_t u, const struct ghost_beam *,
            double p, struct ghost_row **kept);
 /* Clips p at row u's aperture by the ghost's own radii (from 1/w²). */

@@ -301,9 +301,6 @@ ghost_add_row(struct ghost_ctx *c, struct ghost *g, size_t u, double ix, double 
 	struct ghost_row *r;
 
 	g->nrows++;
-	/* nothing here that a rating reads */
-	if (c->lean && !ps->rated)
-		return NULL;
 	/* 2P/(π wx wy) (damage_peak_irradiance) */
 	irr = 2 * p / M_PI * (ix == iy ? ix : sqrt(ix * iy));
 	/* c->inv_rep is NAN for CW, as the fluence is */
@@ -444,10 +441,15 @@ ghost_meet(struct ghost_ctx *c, struct ghost *g, size_t u, const struct ghost_be
 	const struct ghost_pass *ps = &c->pass[u];
 	double ix, iy;
 
-	if (c->lean && !ps->rated && isnan(ps->ap)) {
+	*kept = NULL;
+	/* a lean walk reads nothing of an unrated row but what its aperture
+	 * passes */
+	if (c->lean && !ps->rated) {
 		g->nrows++;
-		*kept = NULL;
-		return p;
+		if (isnan(ps->ap))
+			return p;
+		ghost_beam_inv2(c, gb, &ix, &iy);
+		return ghost_clip(c, u, ix, iy, p);
 	}
 	ghost_beam_inv2(c, gb, &ix, &iy);
 	*kept = ghost_add_row(c, g, u, ix, iy, p);
