@@ -290,6 +290,10 @@ report_table(const struct trace *t, const struct report_opts *o)
 	free(src);
 	buf_printf(&b, "Safety factor %g: caution from %.0f %% of a threshold, over from 100 %%.\n\n",
 	    bench->safety_factor, 100 / bench->safety_factor);
+	if (t->ghosts == NULL)
+		/* the ghosts can be what is over: say they are left out */
+		buf_add(&b, "Main beam only (--no-ghosts): surface reflections are not in "
+		    "these ratios.\n\n");
 	header(&b, t);
 	for (size_t i = 0; i < t->nrows; i++) {
 		const struct trace_row *r = &t->rows[i];

@@ -270,6 +270,11 @@ fi
 run ghosts trace --demo --format json
 check "trace --format json carries ghosts, strays, return_power" \
 	sh -c "grep -q '\"ghosts\": \[' '$T_DIR/ghosts.out' && grep -q '\"strays\": \[' '$T_DIR/ghosts.out' && grep -q '\"return_power\": ' '$T_DIR/ghosts.out'"
+# a table without the reflections says so: a ghost can be what is over
+run ng_table trace --demo --no-ghosts
+check "trace --no-ghosts: the table says the reflections are left out" \
+	out_has ng_table "Main beam only (--no-ghosts)"
+check "... and without --no-ghosts it does not" sh -c '! grep -q "Main beam only" "$1"' sh "$T_DIR/demo.out"
 run stray_words trace --demo --color never
 check "a stray's warning names which surface throws it (two at PBS1)" sh -c \
 	'grep -q "leaves the beam line at PBS1 (back): block" "$1" &&
