@@ -12,6 +12,7 @@
 #include <string.h>
 #include <time.h>
 
+#include "core-beam.h"
 #include "core-mc.h"
 #include "core-point.h"
 #include "core-trace.h"
@@ -222,6 +223,16 @@ sample_one(struct worker *w, size_t i)
 		s->power = s->pulse_energy * s->rep_rate;
 	else if (s->pulsed)
 		s->pulse_energy = s->power / s->rep_rate;
+	/* a measured divergence: the M² of the drawn waist and wavelength,
+	 * π·w0·θ/λ (ISO 11146-1) as the reader derives it, held at 1 where
+	 * the draw would take it below (the truncation of an M² draw) */
+	if (s->divergence_given)
+		for (int a = 0; a < 2; a++) {
+			s->m2[a] = beam_m2_from_divergence(s->waist[a], s->divergence[a],
+			    s->wavelength);
+			if (!(s->m2[a] >= 1))
+				s->m2[a] = 1;
+		}
 	power = s->power;
 	/* the ratings alone: the same ratios as a full trace (TRACE_LEAN) */
 	w->t = trace_rerun_opts(w->t, w->b, TRACE_LEAN |

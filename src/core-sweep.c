@@ -203,10 +203,22 @@ sweep_knob_set(const struct sweep_knob *k, struct bench *b, double v)
 			s->pulse_energy = s->power / v;
 		break;
 	case SRC_PULSE_WIDTH:	s->pulse_width = v; break;
-	case SRC_WAVELENGTH:	s->wavelength = v; break;
-	case SRC_WAIST:		s->waist[0] = s->waist[1] = v; break;
+	case SRC_WAVELENGTH:
+	case SRC_WAIST:
+		if (k->src == SRC_WAVELENGTH)
+			s->wavelength = v;
+		else
+			s->waist[0] = s->waist[1] = v;
+		/* a measured divergence gives the M² of this waist and
+		 * wavelength (end_check has refused an end below 1; M² is
+		 * monotonic in both, so no step between is) */
+		(void)model_source_m2_from_divergence(s, NULL);
+		break;
 	case SRC_WAIST_POSITION: s->waist_position = v; break;
-	case SRC_M2:		s->m2[0] = s->m2[1] = v; break;
+	case SRC_M2:
+		s->m2[0] = s->m2[1] = v;
+		s->divergence_given = 0;    /* a swept M² replaces a measured divergence */
+		break;
 	case SRC_POLARIZATION:	s->pol_angle_deg = v; break;
 	default:
 		k->el->val[k->key] = v;
@@ -279,7 +291,10 @@ end_check(struct bench *b, const struct sweep_knob *k, double v, const char *whi
 	if (rc == 0) {
 		save(&sv, k, b);
 		sweep_knob_set(k, b, v);
-		rc = model_validate(b, cause);
+		/* says which divergence, waist and wavelength give M² below 1 */
+		rc = model_source_m2_from_divergence(&b->src, cause);
+		if (rc == 0)
+			rc = model_validate(b, cause);
 		restore(&sv, k, b);
 	}
 	if (rc != 0)

@@ -304,6 +304,75 @@ START_TEST(test_bad_range)
 }
 END_TEST
 
+/* A source given by its measured divergence θ: M² = π·w0·θ/λ (ISO 11146-1)
+ * follows a swept waist and wavelength, as `set source.waist` and the
+ * reader derive it.  10 m on, w² = w0²(1 + (z/zR)²) with zR = π·w0²/(M²·λ)
+ * (Kogelnik & Li 1966, eq. 21, with the embedded-Gaussian M², ISO 11146-1)
+ * = w0/θ: w² = w0² + θ²z²; the target's ratio is 2P/(π·w²) over 1 W/cm².
+ * A swept M² replaces the divergence (w² then from that M²). */
+#define DIV_BENCH \
+	"{ 'format': 'beamledger-bench-1', 'name': 'div'," \
+	"  'source': { 'wavelength': '1064 nm', 'power': '1 W', 'divergence': %.10g," \
+	"              'waist': '1 mm' }," \
+	"  'path': [ { 'id': 'S0', 'type': 'space', 'length': '10 m' }," \
+	"            { 'id': 'T1', 'type': 'target'," \
+	"              'damage': { 'cw_irradiance': '1 W/cm^2' } } ] }"
+
+static double
+div_ratio(double w0, double m2, double lam)
+{
+	double zr = M_PI * w0 * w0 / (m2 * lam), w2 = w0 * w0 * (1 + (10 / zr) * (10 / zr));
+
+	return 2 / (M_PI * w2) / 1e4;
+}
+
+START_TEST(test_divergence_knobs)
+{
+	const double theta = 1e-3, lam = 1064e-9;
+	struct bench *b = bench_text("div.json", DIV_BENCH, theta);
+	char *before = bench_file_dump(b), *after, *cause = NULL;
+	struct sweep_knob k;
+	struct sweep *sw;
+
+	ck_assert_int_eq(sweep_knob_parse(b, "source.waist", &k, &cause), 0);
+	sw = sweep_run(b, &k, 0.5e-3, 2e-3, 7, SWEEP_NO_GHOSTS, &cause);
+	ck_assert_msg(sw != NULL, "%s", cause);
+	for (size_t i = 0; i < sw->nsteps; i++)
+		CHECK_REL(sw->ratio[i], div_ratio(sw->x[i], M_PI * sw->x[i] * theta / lam, lam),
+		    1e-9);
+	sweep_free(sw);
+	sweep_knob_release(&k);
+	ck_assert_int_eq(sweep_knob_parse(b, "source.wavelength", &k, &cause), 0);
+	sw = sweep_run(b, &k, 800e-9, 1550e-9, 5, SWEEP_NO_GHOSTS, &cause);
+	ck_assert_msg(sw != NULL, "%s", cause);
+	for (size_t i = 0; i < sw->nsteps; i++)
+		CHECK_REL(sw->ratio[i], div_ratio(1e-3, M_PI * 1e-3 * theta / sw->x[i], sw->x[i]),
+		    1e-9);
+	sweep_free(sw);
+	sweep_knob_release(&k);
+	ck_assert_int_eq(sweep_knob_parse(b, "source.m2", &k, &cause), 0);
+	sw = sweep_run(b, &k, 1, 4, 4, SWEEP_NO_GHOSTS, &cause);
+	ck_assert_msg(sw != NULL, "%s", cause);
+	for (size_t i = 0; i < sw->nsteps; i++)
+		CHECK_REL(sw->ratio[i], div_ratio(1e-3, sw->x[i], lam), 1e-9);
+	sweep_free(sw);
+	sweep_knob_release(&k);
+	/* a waist that would make M² < 1 at an end is refused, saying why */
+	ck_assert_int_eq(sweep_knob_parse(b, "source.waist", &k, &cause), 0);
+	ck_assert_ptr_null(sweep_run(b, &k, 0.1e-3, 1e-3, 5, SWEEP_NO_GHOSTS, &cause));
+	ck_assert_msg(cause != NULL && strstr(cause, "below 1") != NULL &&
+	    strstr(cause, "source.waist") != NULL, "%s", cause);
+	free(cause);
+	sweep_knob_release(&k);
+	/* and the bench is as it was, the divergence and M² too */
+	after = bench_file_dump(b);
+	ck_assert_str_eq(before, after);
+	free(before);
+	free(after);
+	model_bench_free(b);
+}
+END_TEST
+
 /* Values typed for a knob carry its unit. */
 START_TEST(test_knob_values)
 {
@@ -377,6 +446,7 @@ main(void)
 	tcase_add_test(tc, test_rail_self_formula);
 	tcase_add_loop_test(tc, test_bad_knob, 0, sizeof bad_knobs / sizeof *bad_knobs);
 	tcase_add_loop_test(tc, test_bad_range, 0, sizeof bad_ranges / sizeof *bad_ranges);
+	tcase_add_test(tc, test_divergence_knobs);
 	tcase_add_test(tc, test_knob_values);
 	tcase_add_test(tc, test_plot_layout);
 	suite_add_tcase(s, tc);
