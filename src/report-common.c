@@ -102,8 +102,20 @@ report_source_line(const struct bench *b, int ascii)
 		units_format_shortest(t1, sizeof t1, s->waist_position, DIM_LENGTH, ascii);
 		buf_printf(&out, " at %s", t1);
 	}
-	units_format_shortest(t1, sizeof t1, s->m2[0], DIM_NONE, ascii);
-	units_format_shortest(t2, sizeof t2, s->m2[1], DIM_NONE, ascii);
+	if (s->divergence_given) {
+		/* typed: the divergence; derived: M² = π·w0·θ/λ, three figures */
+		units_format_shortest(t1, sizeof t1, s->divergence[0], DIM_NONE, ascii);
+		units_format_shortest(t2, sizeof t2, s->divergence[1], DIM_NONE, ascii);
+		if (s->divergence[0] != s->divergence[1])
+			buf_printf(&out, ", divergence %s x %s rad", t1, t2);
+		else
+			buf_printf(&out, ", divergence %s rad", t1);
+		units_format(t1, sizeof t1, s->m2[0], DIM_NONE, 3, ascii);
+		units_format(t2, sizeof t2, s->m2[1], DIM_NONE, 3, ascii);
+	} else {
+		units_format_shortest(t1, sizeof t1, s->m2[0], DIM_NONE, ascii);
+		units_format_shortest(t2, sizeof t2, s->m2[1], DIM_NONE, ascii);
+	}
 	if (s->m2[0] != s->m2[1])
 		buf_printf(&out, ", M%s %s x %s", ascii ? "2" : "²", t1, t2);
 	else

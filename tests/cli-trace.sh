@@ -275,6 +275,13 @@ run ng_table trace --demo --no-ghosts
 check "trace --no-ghosts: the table says the reflections are left out" \
 	out_has ng_table "Main beam only (--no-ghosts)"
 check "... and without --no-ghosts it does not" sh -c '! grep -q "Main beam only" "$1"' sh "$T_DIR/demo.out"
+# a source given by its divergence: that is shown as typed, the M² derived
+# from it (π·w0·θ/λ = 2.9526 here, ISO 11146-1) with three figures
+bench div.json "{$HEAD,'source':{'wavelength':'1064 nm','power':'1 W','waist':'1 mm',
+ 'divergence':0.001},'path':[{'id':'BD','type':'dump','max_power':'2 W'}]}"
+run div trace "$T_DIR/div.json"
+check "a divergence source: the head line shows it and M² to three figures" \
+	out_has div "waist 1 mm, divergence 0.001 rad, M² 2.95, linear"
 run stray_words trace --demo --color never
 check "a stray's warning names which surface throws it (two at PBS1)" sh -c \
 	'grep -q "leaves the beam line at PBS1 (back): block" "$1" &&
