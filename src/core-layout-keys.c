@@ -138,6 +138,7 @@ static const struct {
 	{ "source.waist", LKG_SOURCE, "waist radius" },
 	{ "source.waist_position", LKG_SOURCE, "waist position" },
 	{ "source.m2", LKG_SOURCE, "beam quality M\u00b2" },
+	{ "source.divergence", LKG_SOURCE, "divergence, rad" },
 	{ "source.polarization", LKG_SOURCE, "polarization" },
 	{ "source.max_return", LKG_SOURCE, "max return power" },
 };

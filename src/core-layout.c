@@ -675,6 +675,10 @@ static const struct {
 	{ "source.waist", DIM_LENGTH, "1/e\u00b2 waist radius: \"3 mm\" or \"3 mm, 2 mm\" (x, y)" },
 	{ "source.waist_position", DIM_LENGTH, "waist position, + downstream of the source" },
 	{ "source.m2", DIM_COUNT, "beam quality M\u00b2: \"1.3\" or \"1.3, 1.5\" (x, y)" },
+	{ "source.m2 derived", DIM_COUNT, "beam quality M\u00b2, derived from the divergence "
+	    "(\u03c0\u00b7w0\u00b7\u03b8/\u03bb); a typed M\u00b2 replaces the divergence" },
+	{ "source.divergence", DIM_COUNT, "measured far-field half-angle (1/e\u00b2, rad) "
+	    "instead of M\u00b2: \"0.5e-3\" or \"0.5e-3, 0.6e-3\" (x, y)" },
 	{ "source.polarization", DIM_COUNT, "degrees from horizontal, circular or unpolarized" },
 	{ "source.max_return", DIM_POWER, "power the laser tolerates back (empty: not judged)" },
 };
@@ -712,7 +716,21 @@ layout_bench_key_hint(const char *key)
 		return xstrdup("true or false");
 	if (strcmp(key, "source.m2") == 0)
 		return xstrdup("a plain number, 1 or more");
+	if (strcmp(key, "source.divergence") == 0)
+		return xstrdup("radians, above 0; empty: none (M\u00b2 as it is)");
 	return xstrdup("");
+}
+
+char *
+layout_source_m2_text(const struct source *s)
+{
+	char x[48], y[48];
+
+	units_format(x, sizeof x, s->m2[0], DIM_NONE, 3, 1);
+	if (!s->m2_pair)
+		return xstrdup(x);
+	units_format(y, sizeof y, s->m2[1], DIM_NONE, 3, 1);
+	return xasprintf("%s, %s", x, y);
 }
 
 static char *bench_value_text(const struct bench *, const char *key);

@@ -144,6 +144,9 @@ char  *layout_bench_key_hint(const char *key);                         /* caller
 /* A bench-level key (edit_bench_keys) the same way: "1.064 µm", "3 mm, 2 mm",
  * "2 W ± 5 %". */
 char  *layout_bench_value_text(const struct bench *, const char *key);
+/* The source's M² to three figures ("2.95" or "2.95, 3.54"): as shown
+ * where it is derived from a measured divergence. */
+char  *layout_source_m2_text(const struct source *);                  /* caller frees */
 /* A new, empty bench with a starting source the user then edits:
  * 1064 nm, CW 1 W, waist 1 mm at the source, M² 1, linear 0°. */
 struct bench *layout_bench_new(const char *name);            /* caller frees */

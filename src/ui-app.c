@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
+#include <sys/stat.h>
 
 #include "bench-demo.h"
 #include "bench-file.h"
@@ -786,6 +787,16 @@ ui_app_new(const struct ui_opts *o, char **cause)
 	}
 	a->readonly = store_readonly(a->store);
 	if (o->bench != NULL && app_open_bench(a, o->bench, cause) != 0) {
+		struct stat sb;
+
+		/* `open bench.json`: the workbench edits what the database holds */
+		if (stat(o->bench, &sb) == 0 && S_ISREG(sb.st_mode) && cause != NULL) {
+			free(*cause);
+			*cause = NULL;
+			fail_with(cause, "no bench '%s' in the database; that is a file: import it "
+			    "first (beamledger import %s), then open the bench by the name import "
+			    "gives", o->bench, o->bench);
+		}
 		ui_app_free(a);
 		return NULL;
 	}

@@ -27,6 +27,7 @@ struct fld {
 	char       *value;          /* owned: as shown and as the editor starts */
 	int         given;
 	int         fixed;          /* shown, not editable */
+	int         derived;        /* computed from another field (M² from the divergence) */
 };
 
 static const struct layout_row *
@@ -42,6 +43,8 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 	size_t n = 0;
 
 	if (d->mode == WB_SETTINGS) {
+		const struct source *s = &a->shown->src;
+
 		for (const char *const *k = edit_bench_keys; *k != NULL && n < max; k++, n++) {
 			out[n].name = *k;
 			out[n].help = layout_bench_key_help(*k);
@@ -50,6 +53,28 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 			out[n].value = layout_bench_value_text(a->shown, *k);
 			out[n].given = out[n].value[0] != '\0';
 			out[n].fixed = strcmp(*k, "name") == 0;
+			out[n].derived = 0;
+			if (strcmp(*k, "source.m2") != 0 || n + 1 >= max)
+				continue;
+			if (s->divergence_given) {
+				/* M² follows from the divergence: shown as derived */
+				free(out[n].value);
+				out[n].value = layout_source_m2_text(s);
+				out[n].given = 0;
+				out[n].derived = 1;
+				out[n].help = layout_bench_key_help("source.m2 derived");
+			}
+			/* the measured divergence, which stands for M² when given
+			 * (not in edit_bench_keys: the comparison shows M²) */
+			n++;
+			out[n].name = "source.divergence";
+			out[n].help = layout_bench_key_help(out[n].name);
+			out[n].label = layout_bench_key_label(out[n].name, &out[n].group);
+			out[n].key = -1;
+			out[n].value = layout_bench_value_text(a->shown, out[n].name);
+			out[n].given = out[n].value[0] != '\0';
+			out[n].fixed = 0;
+			out[n].derived = 0;
 		}
 		return n;
 	} else {
@@ -81,6 +106,7 @@ fields_get(struct app *a, struct wb *d, struct fld *out, size_t max)
 			out[n].value = layout_field_value(r->el, &f[i]);
 			out[n].given = f[i].given;
 			out[n].fixed = 0;
+			out[n].derived = 0;
 		}
 		return n;
 	}
@@ -252,6 +278,7 @@ wb_draw_detail(struct app *a, struct wb *d, const struct wb_geom *g, int w)
 				ui_line_draw(a, &d->line, yy, 21, lw - 22);
 			} else {
 				char *v = x->fixed ? xasprintf("%s (fixed)", x->value) :
+				    x->derived ? xasprintf("%s (derived)", x->value) :
 				    x->value[0] == '\0' ? xstrdup("-") :
 				    !x->given ? xasprintf("%s (default)", x->value) : xstrdup(x->value);
 				char who[96] = "", fit[400];
@@ -571,6 +598,14 @@ do_set(struct bench *b, void *arg, char **cause)
 	    edit_set(b, s->id, s->key, s->text, cause);
 }
 
+/* How to undo from where the change was made: in the values, - starts a
+ * negative number ("-500 mm"), so undo is the chain's key. */
+static const char *
+undo_hint(const struct wb *d)
+{
+	return d->focus == WB_FIELDS ? "Esc, then - undoes" : "- undoes";
+}
+
 static enum ui_reaction
 apply_edit(struct app *a, struct wb *d)
 {
@@ -613,8 +648,8 @@ apply_edit(struct app *a, struct wb *d)
 			free(d->error);
 			d->error = NULL;
 			app_msg(a, 0, "point %s: %s%s%s = %s, its override; the base keeps its own "
-			    "(- undoes)", pt, s.bench ? "" : id, s.bench ? "" : ".", s.key,
-			    text[0] ? text : "(unset)");
+			    "(%s)", pt, s.bench ? "" : id, s.bench ? "" : ".", s.key,
+			    text[0] ? text : "(unset)", undo_hint(d));
 		}
 		fields_free(f, n);
 		free(id);
@@ -632,10 +667,11 @@ apply_edit(struct app *a, struct wb *d)
 		free(d->error);
 		d->error = NULL;
 		if (s.bench)
-			app_msg(a, 0, "%s = %s (- undoes)", s.key, text[0] ? text : "(unset)");
+			app_msg(a, 0, "%s = %s (%s)", s.key, text[0] ? text : "(unset)",
+			    undo_hint(d));
 		else
-			app_msg(a, 0, "%s %s = %s (- undoes)", strcmp(s.key, "id") == 0 ? text : id,
-			    s.key, text[0] ? text : "(unset)");
+			app_msg(a, 0, "%s %s = %s (%s)", strcmp(s.key, "id") == 0 ? text : id,
+			    s.key, text[0] ? text : "(unset)", undo_hint(d));
 	}
 	fields_free(f, n);
 	free(id);

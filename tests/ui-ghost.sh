@@ -141,7 +141,12 @@ check "the surface reflections grouped, after the rating" wait_line g '^ Surface
 check "aoi on glass is the tilt" wait_line g '^   tilt \(aoi\) +\['
 t_keys g C-u
 t_keys g -l "2"
-step "L1 tilted by 2 degrees" g "L1 aoi = 2 (- undoes)" Enter
+step "L1 tilted by 2 degrees" g "L1 aoi = 2 (Esc, then - undoes)" Enter
+# in the values, - starts a negative number, as the hint says: Esc first
+t_keys g -
+check "- in the values starts a number" wait_line g '^   tilt \(aoi\) +\[-'
+t_keys g Escape
+check "... and Esc leaves the tilt as typed" wait_line g '^   tilt \(aoi\) +2 '
 t_keys g Escape
 check "the results say its strays, to block" wait_line g '│ strays +(front|back) [0-9.]+ mW: block it'
 step "the reflections screen lists them" g "▸ reflections ·" f

@@ -574,6 +574,52 @@ list_stops_above() {
 }
 check "the list stops a line above the selected one's full text" list_stops_above
 t_keys many Escape q
+# ---- a source given by its divergence: shown, edited, M² derived ----
+# M² = π·w0·θ/λ (ISO 11146-1): π·1 mm·1 mrad/1064 nm = 2.95; 2 mrad 5.91
+python3 - "$T_DIR/div.json" <<'EOT'
+import json, sys
+json.dump({"format": "beamledger-bench-1", "name": "div-source",
+           "source": {"wavelength": "1064 nm", "power": "1 W", "waist": "1 mm",
+                      "divergence": 0.001},
+           "path": [{"id": "S0", "type": "space", "length": "10 m"},
+                    {"id": "BD", "type": "dump", "max_power": "2 W"}]}, open(sys.argv[1], "w"))
+EOT
+# open takes a bench of the database; a file is pointed to import
+t_start dvf 80 24 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open "$T_DIR/div.json"
+wait_exit dvf
+# (-J: the message as one line, however the terminal wrapped it)
+check "open FILE: says it is a file, and to import it" sh -c \
+	'"$1" -L "$2" -f /dev/null capture-pane -p -J -S -50 -t dvf | grep -q "that is a file: import it first"' \
+	_ "${TMUX_BIN:-tmux}" "$T_SOCK"
+check "... and exits 2" [ "$(t_status dvf)" = 2 ]
+"$BL" --db "$DB" import "$T_DIR/div.json" >/dev/null 2>&1
+t_start dv 100 30 env XDG_DATA_HOME="$XDG_DATA_HOME" "$BL" --db "$DB" open div-source
+check "the divergence bench is open" wait_for dv "div-source"
+t_keys dv b
+check "settings: M² shown as derived, to three figures" wait_line dv '^   beam quality M² +2\.95 \(derived\)'
+for _k in 1 2 3 4 5 6 7 8 9 10 11 12 13 14; do
+	t_screen dv | grep -q 'source.divergence: measured' && break
+	t_keys dv Down
+	sleep 0.05
+done
+check "the divergence field reached, its help said" wait_for dv "source.divergence: measured far-field"
+check "... the divergence as typed, under M²" wait_line dv '^   divergence, rad +0\.001 '
+t_keys dv Enter C-u
+t_keys dv -l "0.002"
+step "a new divergence taken" dv "source.divergence = 0.002 (Esc, then - undoes)" Enter
+check "... and M² follows" wait_line dv '^   beam quality M² +5\.91 \(derived\)'
+t_keys dv Up Enter C-u
+t_keys dv -l "1.5"
+step "a typed M² replaces the divergence" dv "source.m2 = 1.5" Enter
+check "... M² as typed" wait_line dv '^   beam quality M² +1\.5 +│'
+t_keys dv Down
+check "... no divergence left" wait_line dv '^   divergence, rad +- +[▾│]'
+t_keys dv Escape
+t_keys dv -
+check "Esc, then - undoes the M²" wait_for dv "undone"
+t_keys dv b
+check "... the divergence back, M² derived from it again" wait_line dv '^   beam quality M² +5\.91 \(derived\)'
+t_keys dv q
 check "CLI diff sees the move" grep -q "moved" "$T_DIR/diff.txt"
 check "demo bench is in the database" sh -c '"$1" --db "$2" list | grep -q table3-ablation' _ "$BL" "$DB"
 check "database check passes" sh -c '"$1" --db "$2" check >/dev/null' _ "$BL" "$DB"
