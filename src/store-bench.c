@@ -722,6 +722,15 @@ name_free(struct store *s, const char *name, char **cause)
 	if (strchr(name, '@') != NULL || !utf8_valid(name))
 		return fail_with(cause, "bench name '%s': '@' and text that is not UTF-8 are "
 		    "not allowed in a bench name", utf8_valid(name) ? name : "?");
+	/* a name is typed as an operand: '-x' would read as an option, and a
+	 * tab or line break would break the list's columns */
+	if (name[0] == '-')
+		return fail_with(cause, "bench name '%s': a name may not start with '-' (it "
+		    "would read as an option on the command line)", name);
+	for (const unsigned char *p = (const unsigned char *)name; *p != '\0'; p++)
+		if (*p < 0x20 || *p == 0x7f)
+			return fail_with(cause, "bench name: tabs, line breaks and other control "
+			    "characters are not allowed in a bench name");
 	if ((q = store_q(s, Q_BENCH_ID, cause)) == NULL)
 		return -1;
 	store_bind_text(q, 1, name);

@@ -661,6 +661,39 @@ START_TEST(test_at_in_name_refused)
 }
 END_TEST
 
+/* A name is typed as an operand: one starting with '-' would read as an
+ * option, a control character would break the list; refused when made,
+ * copied or renamed. */
+START_TEST(test_option_like_name_refused)
+{
+	static const char *const bad[] = { "-x", "--demo", "tab\there", "line\nbreak" };
+	struct bench *ok = demo("plain");
+	char *cause = NULL;
+
+	ck_assert_int_eq(store_bench_create(st, ok, "n", "a", &cause), 0);
+	for (size_t i = 0; i < sizeof bad / sizeof *bad; i++) {
+		struct bench *b = demo(bad[i]);
+
+		ck_assert_int_ne(store_bench_create(st, b, "n", "a", &cause), 0);
+		ck_assert_msg(strstr(cause, bad[i][0] == '-' ? "may not start with '-'" :
+		    "control characters") != NULL, "%s: %s", bad[i], cause);
+		free(cause);
+		cause = NULL;
+		ck_assert_int_ne(store_bench_rename(st, "plain", bad[i], &cause), 0);
+		ck_assert_ptr_nonnull(cause);
+		free(cause);
+		cause = NULL;
+		ck_assert_int_ne(store_clone(st, "plain", NULL, bad[i], "a", &cause), 0);
+		ck_assert_ptr_nonnull(cause);
+		free(cause);
+		cause = NULL;
+		ck_assert_ptr_null(store_bench_load(st, bad[i], NULL, NULL, NULL));
+		model_bench_free(b);
+	}
+	model_bench_free(ok);
+}
+END_TEST
+
 START_TEST(test_odd_names)
 {
 	struct bench *b = demo(odd_names[_i]), *back;
@@ -1081,6 +1114,7 @@ main(void)
 	tcase_add_loop_test(tc, test_refuse_foreign, 0, NELEMS(foreign_cases));
 	tcase_add_test(tc, test_empty_file_initialised);
 	tcase_add_test(tc, test_at_in_name_refused);
+	tcase_add_test(tc, test_option_like_name_refused);
 	tcase_add_test(tc, test_readonly);
 	tcase_add_test(tc, test_default_path);
 	tcase_add_test(tc, test_creates_directories);

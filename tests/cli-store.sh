@@ -552,6 +552,15 @@ check "a note that is not UTF-8 is refused" trouble "not valid UTF-8"
 check "... and the bench is unchanged" same_file utf8-before.json utf8-after.json
 run copy $B 'lab@good'
 check "a bench name with '@' is refused (BENCH@SETUP would be ambiguous)" trouble "'@'"
+# a name is typed as an operand: one that reads as an option is refused,
+# on the ways in (import, rename; copy in check_store), and nothing is made
+run import utf8-before.json --name -x
+check "import --name -x: refused (it would read as an option)" trouble "may not start with '-'"
+run set $B --bench name=-x
+check "set --bench name=-x: refused" trouble "may not start with '-'"
+run import utf8-before.json --name "$(printf 'two\nlines')"
+check "a name with a line break is refused" trouble "control characters"
+check "... and no such bench was made" sh -c '! "$1" list | grep -q "^-x "' _ "$BEAMLEDGER"
 # ---- files that are not ours: a read-only export target, a URI-like name ----
 echo keep > ro-target.txt
 chmod 0444 ro-target.txt
