@@ -2,6 +2,7 @@
  * command; with no command the workbench opens. */
 #include <config.h>
 
+#include <signal.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -168,6 +169,11 @@ main(int argc, char **argv)
 	char *author = NULL;
 	int i = 1, rc;
 
+	/* Over a file-size limit every write (a report, an export, the
+	 * standard output, the database) fails with EFBIG and is reported,
+	 * leaving no partial file, instead of the signal killing the process
+	 * between a temporary file and its rename. */
+	signal(SIGXFSZ, SIG_IGN);
 	for (; i < argc && argv[i][0] == '-'; i++) {
 		if (strcmp(argv[i], "--help") == 0 || strcmp(argv[i], "-h") == 0) {
 			usage();

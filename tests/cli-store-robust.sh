@@ -53,6 +53,17 @@ RC=$?
 check "file-size limit: record says so" trouble "file-size limit"
 run --db lim.db check
 check "file-size limit: the database is intact" rc_is 0
+# and outside the database: a file written over the limit is an error with
+# a message, and nothing is left (no partial file, no temporary one)
+mkdir lim-out
+(ulimit -f 4 && exec "$BEAMLEDGER" report --demo -o lim-out/review.md) \
+	>"$T_DIR/out" 2>"$T_DIR/err"
+RC=$?
+check "file-size limit: report -o says so (not killed)" trouble "File too large; nothing written"
+check "... and leaves no file behind" sh -c '[ -z "$(ls -A lim-out)" ]'
+(ulimit -f 4 && exec "$BEAMLEDGER" trace --demo --format json) >lim-out/t.json 2>"$T_DIR/err"
+RC=$?
+check "file-size limit: trace to a file says so" trouble "standard output: File too large"
 run --db lim.db history $B
 check "file-size limit: nothing was recorded" sh -c "[ $RC -eq 0 ] && grep -q '^#1 ' '$T_DIR/out' && ! grep -q '^#2' '$T_DIR/out'"
 
