@@ -565,16 +565,17 @@ branch_end(struct trace *t, const struct cursor *c, const struct trace_row *prev
 static const char *
 row_nonfinite(const struct bench *b, const struct trace_row *r)
 {
-	/* The common case in one test: x·0 is 0 for a finite x and NaN for
-	 * an infinite or NaN one, so the sum is 0 exactly when every term
-	 * is finite (summed in pairs, not in a chain of additions) */
-	double f = ((r->z * 0 + r->stokes[0] * 0) + (r->stokes[1] * 0 + r->stokes[2] * 0)) +
-	    ((r->stokes[3] * 0 + r->power_in * 0) + (r->power_out * 0 + r->power_lost * 0)) +
-	    ((r->wx * 0 + r->wy * 0) + (r->irradiance * 0 + r->peak_irradiance * 0)) +
-	    ((r->linear_density * 0 + r->field * 0) + r->b_total * 0);
+	/* The common case in one test: an infinite or NaN term makes the sum
+	 * infinite or NaN, so a finite sum means every term is finite (a sum
+	 * that overflows from finite terms takes the exact checks below, which
+	 * find nothing); summed in pairs, not in a chain of additions */
+	double f = ((r->z + r->stokes[0]) + (r->stokes[1] + r->stokes[2])) +
+	    ((r->stokes[3] + r->power_in) + (r->power_out + r->power_lost)) +
+	    ((r->wx + r->wy) + (r->irradiance + r->peak_irradiance)) +
+	    ((r->linear_density + r->field) + r->b_total);
 
-	if (f == 0 && !isinf(r->b_integral) && !r->has_focus &&
-	    (!b->src.pulsed || r->fluence * 0 + r->peak_power * 0 == 0) &&
+	if (isfinite(f) && !isinf(r->b_integral) && !r->has_focus &&
+	    (!b->src.pulsed || isfinite(r->fluence + r->peak_power)) &&
 	    !(damage_rated(&r->limits) && !isfinite(r->ratio)))
 		return NULL;
 	if (!isfinite(r->z))
