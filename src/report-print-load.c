@@ -106,7 +106,8 @@ report_print_load(char **cause)
 	if (loaded != NULL)
 		return loaded;
 	if (env != NULL && env[0] != '\0') {
-		paths[n++] = xstrdup(env);
+		/* dlopen searches the library path for a name without a slash */
+		paths[n++] = strchr(env, '/') != NULL ? xstrdup(env) : xasprintf("./%s", env);
 	} else {
 		if ((dir = exe_dir()) != NULL)
 			paths[n++] = xasprintf("%s%s", dir, REPORT_PRINT_FILE);
