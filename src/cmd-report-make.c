@@ -17,6 +17,7 @@
 #include "bench-file.h"
 #include "cmd-report.h"
 #include "core-diff.h"
+#include "report-print.h"
 #include "report-review.h"
 #include "util-err.h"
 #include "util-file.h"
@@ -233,7 +234,14 @@ cmd_report_write(const struct review *rv, const char *path, int fmt_in, char **c
 		data = (unsigned char *)review_markdown(rv);
 		len = strlen((char *)data);
 	} else {
-		data = fmt == OUT_SVG ? review_svg(rv, &len, cause) : review_pdf(rv, &len, cause);
+		/* cairo and pango are loaded only here (report-print.h) */
+		const struct report_print *pm = report_print_load(cause);
+
+		if (pm == NULL) {
+			cause_prefix(cause, "%s", path);
+			return -1;
+		}
+		data = fmt == OUT_SVG ? pm->svg(rv, &len, cause) : pm->pdf(rv, &len, cause);
 		if (data == NULL)
 			return -1;
 	}

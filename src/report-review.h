@@ -83,7 +83,9 @@ char *review_worst_text_of(const struct review *);            /* caller frees */
 
 /* Writers: the document into memory.  Return NULL with *cause on failure. */
 char *review_markdown(const struct review *);                 /* caller frees */
-/* PDF or SVG bytes; *len gets the length. */
+/* PDF or SVG bytes; *len gets the length.  In the print module
+ * (report-print.h): the program reaches them through report_print_load,
+ * the unit tests and benches link src/libreport.a. */
 unsigned char *review_pdf(const struct review *, size_t *len, char **cause);   /* caller frees */
 unsigned char *review_svg(const struct review *, size_t *len, char **cause);   /* caller frees */
 

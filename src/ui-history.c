@@ -16,6 +16,7 @@
 #include "report-diff.h"
 #include "bench-file.h"
 #include "ui-app.h"
+#include "util-buf.h"
 #include "util-err.h"
 
 struct hist {
@@ -565,6 +566,36 @@ h_enter(struct app *a, struct ui_pane *p)
 	hist_load(a, p->data);
 }
 
+/* A cause wider than the message line (the print module's names where it
+ * looked and that the Markdown form needs none) on a text screen of its
+ * own, wrapped to the terminal, rather than cut. */
+static void
+review_failed(struct app *a, char *cause)
+{
+	int w = COLS > 40 ? COLS - 1 : 79;
+	size_t n, *st, *ln;
+	struct buf b;
+
+	if ((int)utf8_cols(cause) <= w) {
+		app_msg_take(a, 1, cause);
+		return;
+	}
+	n = layout_wrap(cause, w, NULL, NULL, 0);
+	st = xcalloc(n + 1, sizeof *st);
+	ln = xcalloc(n + 1, sizeof *ln);
+	n = layout_wrap(cause, w, st, ln, n);
+	buf_init(&b);
+	for (size_t i = 0; i < n; i++) {
+		buf_addn(&b, cause + st[i], ln[i]);
+		buf_addc(&b, '\n');
+	}
+	free(st);
+	free(ln);
+	free(cause);
+	app_msg(a, 1, "the review was not written: Esc goes back");
+	ui_text_view(a, "review not written", buf_take(&b));
+}
+
 /* The printed review of the chosen setup, as a PDF in the current folder. */
 static enum ui_reaction
 h_review(struct app *a, struct ui_pane *p)
@@ -581,7 +612,7 @@ h_review(struct app *a, struct ui_pane *p)
 	}
 	path = xasprintf("%s.pdf", review_src_stem(g));
 	if (review_src_write(g, path, 1, &cause) != 0) {
-		app_msg_take(a, 1, cause);
+		review_failed(a, cause);
 	} else {
 		cwd = getcwd(NULL, 0);
 		app_msg(a, 0, "review of %s written to %s/%s", review_src_setup(g),

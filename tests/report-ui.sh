@@ -38,4 +38,32 @@ check "T1's id under its mark" wait_line rv '^ .* L1 +T1 *$'
 check "W1's id on the second row, not hidden" wait_line rv ' W1 *$'
 t_keys rv Q
 check "quits" wait_exit rv 5
+
+# without the print module (report-print.h): the workbench says what was
+# looked for and that the Markdown form needs none, writes nothing, and
+# goes on
+mkdir "$T_DIR/none"
+t_start nm 100 30 env -C "$T_DIR/none" BEAMLEDGER_PRINT_MODULE="$T_DIR/no-module.so" \
+	USER=lab-tester NO_COLOR= "$BL" --db "$DB" open "$B"
+check "without the module: the workbench opens" wait_for nm "worst:"
+t_keys nm h
+check "... history" wait_for nm "longer lens"
+t_keys nm Down
+t_keys nm v
+check "... v says the review was not written" wait_for nm "review not written"
+# the screen's words with the line breaks taken out
+words_on() { t_screen "$1" | tr -s ' \n' '  ' | grep -qF -- "$2" ||
+	{ diag "screen lacks '$2'"; t_screen "$1" | sed 's/^/# | /'; return 1; }; }
+check "... that the print module was not found, and where it looked" \
+	words_on nm "the print module, which was not found (looked for $T_DIR/no-module.so"
+check "... that Markdown needs no module" words_on nm "the Markdown form (--format md) needs no module"
+check "... and that nothing was written" words_on nm "nothing written"
+check "... and nothing is in the folder" [ -z "$(ls -A "$T_DIR/none")" ]
+t_keys nm Escape
+check "Esc goes back to the history" wait_for nm "longer lens"
+t_keys nm Escape
+check "... and the chain" wait_for nm "worst:"
+t_keys nm Q
+check "quits" wait_exit nm 5
+check "... with status 0" [ "$(t_status nm)" = 0 ]
 done_testing
