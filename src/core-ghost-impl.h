@@ -115,6 +115,11 @@ double ghost_clip(const struct ghost_ctx *, size_t u, double ix, double iy, doub
 void   ghost_add_stray(struct ghost_ctx *, const struct element *, const char *what,
            double p, double focus_distance);
 
+/* The first-order ghosts of row r (core-ghost.c), and the strays that
+ * leave it sideways: a mirror's leak, a reflective filter's reflection. */
+void   ghost_first_order(struct ghost_ctx *, size_t r);
+void   ghost_side_strays(struct ghost_ctx *, size_t r);
+
 /* Second order: the first-order ghost of row j, arriving at row i of the
  * same branch from downstream with power p and axes x, y (after i's
  * aperture), reflects forward again off i (core-ghost-second.c). */
