@@ -38,6 +38,11 @@ int           cmd_write_atomic(const char *path, const char *text, char **cause)
 /* getopt_long over argv from index 1, permuting so options may follow the
  * operands; resets getopt's state first. */
 void          cmd_getopt_reset(void);
+/* Unknown options and missing arguments after getopt_long, in the house
+ * words (usage, exit 2). */
+int           cmd_bad_option(const char *cmd, int argc, char **argv);
+/* --format table|json for a listing command: *json 0 or 1; usage error else. */
+int           cmd_format_opt(const char *cmd, const char *arg, int *json);
 /* An element's given values, "focal 250 mm, damage.fluence 10 J/cm²", into b. */
 struct buf;
 void          cmd_values_line(struct buf *b, const struct element *el);
