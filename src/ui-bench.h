@@ -31,6 +31,8 @@ void   wb_geometry(int h, size_t nrows, struct wb_geom *);
 void   wb_draw_detail(struct app *, struct wb *, const struct wb_geom *, int w);
 void   wb_draw_results(struct app *, int y, int x, int h, int w);
 void   wb_draw_status(struct app *, int y, int w);
+/* The whole workbench pane (the pane table's draw). */
+void   wb_draw(struct app *, struct ui_pane *, int h, int w);
 size_t wb_hints(struct app *, struct wb *, struct layout_hint *, size_t max);
 /* The marked field as a sweep knob ("L1.focal", "source.power"), when it
  * is a number of the selected element or of the source (caller frees);
