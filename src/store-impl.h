@@ -82,6 +82,15 @@ struct store_state {
 };
 void          store_state_release(struct store_state *);
 int           store_state_equal(const struct store_state *, const struct store_state *);
+/* The records of a bench (store-record.c): stores them and fills
+ * st->head and st->layout; the bench back from a state (caller frees;
+ * NULL with *cause); and the check of what is about to be stored, values
+ * set in place included. */
+int           store_state_of(struct store *, const struct bench *, struct store_state *st,
+                  char **cause);
+struct bench *store_state_load(struct store *, const char *name,
+                  const struct store_state *st, char **cause);
+int           store_bench_check(const struct bench *, char **cause);
 /* Column i as an allocated string ("" for NULL; caller frees). */
 char         *store_col_text(sqlite3_stmt *, int i);
 /* Steps q once and resets it: 0 when done, -1 with *cause (what failed). */
