@@ -66,7 +66,9 @@ help_text(const struct app *a)
 	    "h opens the logbook of setups.\n"
 	    "Values take units: \"250 mm\", \"1.064 um\", \"5 kW/cm\", \"10 J/cm^2\", \"8 ns\".\n"
 	    "A value that does not fit is refused at its field, with the reason, and\n"
-	    "nothing is stored.  An empty value unsets an optional key.\n"
+	    "nothing is stored.  An empty value unsets an optional key.  - undoes the\n"
+	    "last change from the chain; among the values - starts a negative number,\n"
+	    "so Esc first.\n"
 	    "With operating points, O shows one at a time on the chain, the base first;\n"
 	    "a value typed is then that point's override.  W: each element's worst.\n");
 	section(&b, a, "Bench list", ui_list_ops.keys);

@@ -169,6 +169,7 @@ done
 check "help ends with the laser-safety cautions" grep -q "Align at reduced power" "$T_DIR/help.txt"
 check "help lists keys by task" grep -q "^  Laying out the chain" "$T_DIR/help.txt"
 check "help tells how operating points are shown and edited" grep -q "a value typed is then that point's override" "$T_DIR/help.txt"
+check "help tells where - undoes and where it starts a number" grep -q "among the values - starts a negative number" "$T_DIR/help.txt"
 check "help names the record's keys" grep -q "record the draft as a new numbered setup" "$T_DIR/help.txt"
 check "help has no retired verb (7)" sh -c '! grep -wiE "commit|diff|clone|restore|revision|show|log" "$1"' _ "$T_DIR/help.txt"
 check "help has no rN names (7)" sh -c '! grep -wE "r[0-9]+|rN" "$1"' _ "$T_DIR/help.txt"
