@@ -17,6 +17,7 @@
 #include "bench-file.h"
 #include "check-util.h"
 #include "core-trace.h"
+#include "core-units.h"
 #include "report.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -248,6 +249,69 @@ START_TEST(test_number_ten_digits)
 		ck_assert_msg(sig <= 10 + 9, "%s", b.s);   /* leading zeros of 0.000x */
 	}
 	buf_release(&b);
+}
+END_TEST
+
+/* ---- quantities: units_parse rounded every number through strtod of
+ * its digits and exponent as text; now the integer-and-exact-power way
+ * where it is exact.  The reference is the text way, here. ---- */
+static double
+ref_quantity(const char *digits, long long exp10)
+{
+	char text[160];
+
+	snprintf(text, sizeof text, "%se%lld", digits, exp10);
+	return strtod(text, NULL);
+}
+
+START_TEST(test_quantity_random)
+{
+	static const struct { const char *unit; enum unit_dim dim; int exp10; } units[] = {
+		{ "", DIM_NONE, 0 }, { " m", DIM_LENGTH, 0 }, { " mm", DIM_LENGTH, -3 },
+		{ "nm", DIM_LENGTH, -9 }, { " km", DIM_LENGTH, 3 },
+		{ " kW/cm^2", DIM_IRRADIANCE, 7 }, { " J/cm2", DIM_FLUENCE, 4 },
+		{ " fs", DIM_TIME, -15 }, { " GW", DIM_POWER, 9 }, { " cm^2/W", DIM_N2, -4 },
+	};
+	uint64_t s = 0x5eed;
+
+	for (int i = 0; i < 300000; i++) {
+		char text[200], digits[64];
+		size_t nd = 0, len = 0;
+		int nint = (int)(rnd(&s) % 21), nfrac = (int)(rnd(&s) % 21), frac = 0;
+		long long e = 0;
+		int ui = (int)(rnd(&s) % (sizeof units / sizeof *units));
+		double got = -42, want;
+		char *cause = NULL;
+
+		if (nint + nfrac == 0)
+			nint = 1;
+		if (rnd(&s) % 4 == 0)
+			digits[nd++] = text[len++] = rnd(&s) % 2 ? '-' : '+';
+		for (int k = 0; k < nint + nfrac; k++) {
+			/* runs of zeros: leading, trailing and inside */
+			char c = (char)(rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+
+			if (k == nint)
+				text[len++] = '.';
+			text[len++] = digits[nd++] = c;
+			frac += k >= nint;
+		}
+		digits[nd] = '\0';
+		if (rnd(&s) % 2) {
+			e = (long long)(rnd(&s) % 81) - 40;
+			len += (size_t)snprintf(text + len, sizeof text - len, "e%lld", e);
+		}
+		snprintf(text + len, sizeof text - len, "%s", units[ui].unit);
+		want = ref_quantity(digits, e - frac + units[ui].exp10);
+		if (want == 0)
+			want = 0;               /* -0 reads as 0 */
+		if (units[ui].dim != DIM_NONE && want != 0 && units[ui].unit[0] == '\0')
+			continue;
+		ck_assert_msg(units_parse(text, units[ui].dim, &got, &cause) == 0,
+		    "'%s': %s", text, cause);
+		ck_assert_msg(memcmp(&got, &want, sizeof got) == 0,
+		    "'%s' read as %a, the text way %a", text, got, want);
+	}
 }
 END_TEST
 
@@ -576,6 +640,7 @@ main(void)
 	tcase_add_test(tn, test_number_halves);
 	tcase_add_test(tn, test_number_ten_digits);
 	tcase_add_test(tn, test_string_random);
+	tcase_add_test(tn, test_quantity_random);
 	tcase_add_test(tn, test_report_streamed);
 	tcase_set_timeout(tn, 60);
 	suite_add_tcase(s, tn);
