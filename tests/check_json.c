@@ -157,6 +157,38 @@ START_TEST(test_number_random)
 }
 END_TEST
 
+/* One number after another in one buffer, as a report writes them: the
+ * bytes the writer copies past a number's end must never show (nor its
+ * length be off), the buffer growing as it goes. */
+START_TEST(test_number_appended)
+{
+	uint64_t s = 4242;
+	struct buf got, want;
+	char one[64];
+
+	buf_init(&got);
+	buf_init(&want);
+	for (int i = 0; i < 100000; i++) {
+		double v = (double)(rnd(&s) % 100000) * pow(10, (int)(rnd(&s) % 44) - 22);
+
+		if (i % 7 == 0)
+			v = (double)(rnd(&s) % 1000);
+		json_put_number(&got, v);
+		ref_number(one, sizeof one, v);
+		buf_add(&want, one);
+		if (i % 3 == 0) {
+			buf_addc(&got, ',');
+			buf_addc(&want, ',');
+		}
+	}
+	ck_assert_uint_eq(got.len, strlen(got.s));
+	ck_assert_uint_eq(got.len, want.len);
+	ck_assert(strcmp(got.s, want.s) == 0);
+	buf_release(&got);
+	buf_release(&want);
+}
+END_TEST
+
 /* Next to every power of ten, where the exponent by table and by log10
  * may differ: up to 64 doubles either side, and the halves 5·10^k; whole
  * numbers. */
@@ -636,6 +668,7 @@ main(void)
 	TCase *tr = tcase_create("reader");
 
 	tcase_add_loop_test(tn, test_number_random, 0, 2);
+	tcase_add_test(tn, test_number_appended);
 	tcase_add_test(tn, test_number_near_powers);
 	tcase_add_test(tn, test_number_halves);
 	tcase_add_test(tn, test_number_ten_digits);
