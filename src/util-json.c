@@ -192,6 +192,15 @@ five_digits(char *out, unsigned x)
 #define NUMBER_MAX 39         /* characters json_put_number may write */
 #define DIGITS_COPY 16        /* bytes of digits it copies at a time */
 
+/* json_put_number's extremes, by printf (out of line: the common numbers
+ * keep their registers); the length written from out. */
+static __attribute__((noinline)) size_t
+number_printf(char *out, int pos, double v)
+{
+	snprintf(out + pos, NUMBER_MAX + 1 - (size_t)pos, "%.10g", v);
+	return strlen(out);
+}
+
 /* Ten significant digits, formatted like "%.10g" (trailing zeros dropped,
  * exponent form below 1e-4 and from 1e10), without the cost of printf's
  * arbitrary-precision conversion.  The last digit can differ from printf's
@@ -223,23 +232,25 @@ json_put_number(struct buf *b, double v)
 		v = -v;
 	}
 	if (v < 1e-300 || v > 1e300) {          /* leave the extremes to printf */
-		snprintf(out + pos, NUMBER_MAX + 1 - (size_t)pos, "%.10g", v);
-		b->len += strlen(out);
+		b->len += number_printf(out, pos, v);
 		return;
 	}
 	if (v < 1e10 && v >= 1 && v == (double)(long long)v) {
 		/* a whole number of at most ten digits is its own ten digits
-		 * (powers, counts and zeros are half of a trace's numbers) */
-		char d[12];
-		int k = sizeof d;
+		 * (powers, counts and zeros are half of a trace's numbers):
+		 * written without its leading zeros */
+		unsigned w = (unsigned)((long long)v % 100000);
+		int lead = 5;
 
-		m = (unsigned long long)(long long)v;
-		do {
-			d[--k] = (char)('0' + m % 10);
-			m /= 10;
-		} while (m != 0);
-		memcpy(out + pos, d + k, sizeof d - (size_t)k);
-		b->len += (size_t)pos + sizeof d - (size_t)k;
+		if (v >= 100000) {
+			five_digits(digits, (unsigned)((long long)v / 100000));
+			lead = 0;
+		}
+		five_digits(digits + 5, w);
+		while (digits[lead] == '0')
+			lead++;
+		memcpy(out + pos, digits + lead, DIGITS_COPY);
+		b->len += (size_t)(pos + 10 - lead);
 		b->s[b->len] = '\0';
 		return;
 	}
