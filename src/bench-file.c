@@ -703,7 +703,15 @@ bench_slurp(const char *path, size_t *len, char **cause)
 		b.cap = (size_t)st.st_size + 1;
 		b.s = xrealloc(b.s, b.cap);
 	}
-	while ((n = fread(chunk, 1, sizeof chunk, f)) > 0) {
+	for (;;) {
+		/* into the buffer itself while it has room (a regular file's
+		 * whole text at once), through chunk when it must grow */
+		int direct = b.cap - b.len > sizeof chunk;
+
+		n = direct ? fread(b.s + b.len, 1, b.cap - b.len - 1, f) :
+		    fread(chunk, 1, sizeof chunk, f);
+		if (n == 0)
+			break;
 		if (n > BENCH_FILE_MAX - b.len) {
 			/* refused before it is all read: /dev/zero never ends */
 			fail_with(cause, "%s: larger than %d MiB, the most a bench "
@@ -713,7 +721,12 @@ bench_slurp(const char *path, size_t *len, char **cause)
 			buf_release(&b);
 			return NULL;
 		}
-		buf_addn(&b, chunk, n);
+		if (direct) {
+			b.len += n;
+			b.s[b.len] = '\0';
+		} else {
+			buf_addn(&b, chunk, n);
+		}
 	}
 	if (ferror(f)) {
 		fail_with(cause, "%s: %s", path, strerror(errno));
