@@ -20,6 +20,7 @@
 #include "core-tol.h"
 #include "core-units.h"
 #include "util-err.h"
+#include "util-json.h"
 
 /* Deeper nesting inside one element than any valid element has (side
  * branches stop at MODEL_MAX_DEPTH); past it, the tree reader decides. */
@@ -269,7 +270,7 @@ scan_number(struct rd *r, int *real, long long *iv, double *dv)
 		*iv = strtoll(tok, &end, 10);
 		if (errno == ERANGE)
 			return -1;
-	} else {
+	} else if (json_number_exact(tok, j - r->i, dv) != 0) {
 		*dv = strtod(tok, &end);
 		if ((*dv == HUGE_VAL || *dv == -HUGE_VAL) && errno == ERANGE)
 			return -1;

@@ -72,6 +72,47 @@ json_put_string(struct buf *b, const char *s)
 	buf_addc(b, '"');
 }
 
+int
+json_number_exact(const char *s, size_t len, double *out)
+{
+	static const double p10[] = { 1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8,
+	    1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19,
+	    1e20, 1e21, 1e22 };
+	const char *p = s, *end = s + len;
+	unsigned long long m = 0;
+	int nd = 0, e = 0, neg = 0, eneg = 0, ex = 0;
+	double v;
+
+	if (p < end && *p == '-')
+		neg = *p++ == '-';
+	for (; p < end && *p >= '0' && *p <= '9'; p++) {
+		nd += m != 0 || *p != '0';
+		m = m * 10 + (unsigned)(*p - '0');
+		if (nd > 19)
+			return -1;
+	}
+	if (p < end && *p == '.')
+		for (p++; p < end && *p >= '0' && *p <= '9'; p++, e--) {
+			nd += m != 0 || *p != '0';
+			m = m * 10 + (unsigned)(*p - '0');
+			if (nd > 19)
+				return -1;
+		}
+	if (p < end && (*p == 'e' || *p == 'E')) {
+		if (++p < end && (*p == '+' || *p == '-'))
+			eneg = *p++ == '-';
+		for (; p < end && *p >= '0' && *p <= '9'; p++)
+			if ((ex = ex * 10 + (*p - '0')) > 1000)
+				return -1;
+		e += eneg ? -ex : ex;
+	}
+	if (p != end || m >= (1ULL << 53) || e < -22 || e > 22)
+		return -1;
+	v = e >= 0 ? (double)m * p10[e] : (double)m / p10[-e];
+	*out = neg ? -v : v;
+	return 0;
+}
+
 void
 fmt_exact(char *out, size_t n, double v)
 {

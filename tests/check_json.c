@@ -347,6 +347,46 @@ START_TEST(test_quantity_random)
 }
 END_TEST
 
+/* The scanner's JSON numbers: json_number_exact, where it answers, is
+ * strtod bit for bit; and it answers for the short decimals files hold. */
+START_TEST(test_json_number_exact)
+{
+	uint64_t s = 0xdec;
+	int answered = 0;
+
+	for (int i = 0; i < 300000; i++) {
+		char text[80];
+		int len = 0, nint = 1 + (int)(rnd(&s) % 18), nfrac = (int)(rnd(&s) % 18);
+		double got, want;
+
+		if (rnd(&s) % 3 == 0)
+			text[len++] = '-';
+		for (int k = 0; k < nint; k++)      /* JSON: no leading zero but "0" */
+			text[len++] = (char)(k == 0 && nint > 1 ? '1' + rnd(&s) % 9 :
+			    rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+		if (nfrac > 0) {
+			text[len++] = '.';
+			for (int k = 0; k < nfrac; k++)
+				text[len++] = (char)(rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+		}
+		if (rnd(&s) % 2)
+			len += snprintf(text + len, sizeof text - (size_t)len, "%s%d",
+			    rnd(&s) % 2 ? "e" : "E-", (int)(rnd(&s) % 40));
+		text[len] = '\0';
+		if (json_number_exact(text, (size_t)len, &got) != 0)
+			continue;
+		answered++;
+		want = strtod(text, NULL);
+		ck_assert_msg(memcmp(&got, &want, sizeof got) == 0, "'%s' read as %a, strtod %a",
+		    text, got, want);
+	}
+	ck_assert_int_gt(answered, 50000);
+	ck_assert_int_eq(json_number_exact("0.99999", 7, &(double){ 0 }), 0);
+	ck_assert_int_eq(json_number_exact("1e23", 4, &(double){ 0 }), -1);
+	ck_assert_int_eq(json_number_exact("9007199254740993", 16, &(double){ 0 }), -1);
+}
+END_TEST
+
 /* ---- strings: the escaper before this change ---- */
 static void
 ref_string(struct buf *b, const char *s)
@@ -674,6 +714,7 @@ main(void)
 	tcase_add_test(tn, test_number_ten_digits);
 	tcase_add_test(tn, test_string_random);
 	tcase_add_test(tn, test_quantity_random);
+	tcase_add_test(tn, test_json_number_exact);
 	tcase_add_test(tn, test_report_streamed);
 	tcase_set_timeout(tn, 60);
 	suite_add_tcase(s, tn);
