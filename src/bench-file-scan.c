@@ -121,8 +121,8 @@ skip_value(const char *t, size_t i, size_t n)
 	return 0;
 }
 
-static int read_path_element(const char *t, size_t *i, size_t n, struct bench *b,
-    int plain_numbers);
+static int read_path_element(const char *t, size_t *i, size_t n, size_t from,
+    struct bench *b, int plain_numbers);
 
 /* Finds the top-level "path" array and reads every element in it into
  * b's path as it goes (one pass over the text).  Returns 0 with *path its
@@ -152,7 +152,8 @@ scan(const char *t, size_t n, struct span *path, struct bench *b, int plain_numb
 			found = 1;
 			path->from = i;
 			for (i = skip_ws(t, i + 1, n); i < n && t[i] != ']'; ) {
-				if (t[i] != '{' || read_path_element(t, &i, n, b, plain_numbers) != 0)
+				if (t[i] != '{' ||
+				    read_path_element(t, &i, n, path->from, b, plain_numbers) != 0)
 					return -1;
 				i = skip_ws(t, i, n);
 				if (i < n && t[i] == ',') {
@@ -641,12 +642,69 @@ huge_pages(void *p, size_t n)
 #endif
 }
 
-/* The element object at t[*i] into a new slot of b's path, *i past it:
- * by plain_element where it can, else by jansson and
- * bench_element_from_json as read_branch does for "path" (depth 0, side
- * branches allowed).  -1 when it is not valid. */
+/* A path array of at least this much is worth 2 MB pages: on this kind of
+ * machine a fault costs about 2 us, so 4 MB of 4 kB pages took 2.3 ms to
+ * touch and 0.45 ms to hand back, and the same in 2 MB pages 0.28 ms and
+ * 0.03 ms (benches/bench_trace's 10^4 chain fills 3.8 MB). */
+#define HUGE_WORTH ((size_t)2 << 20)
+
+/* A new array of at least *cap elements, aligned to and rounded up to
+ * 2 MB pages and at least HUGE_FROM, so that malloc maps it on its own
+ * and every page of it can be a 2 MB one (what is never touched costs
+ * nothing); *cap is what it holds.  NULL where the system will not. */
+static struct element *
+huge_array(size_t *cap)
+{
+	size_t bytes = (*cap * sizeof(struct element) + HUGE_WORTH - 1) & ~(HUGE_WORTH - 1);
+	struct element *el;
+
+	if (bytes < HUGE_FROM)
+		bytes = HUGE_FROM;
+	if ((el = aligned_alloc(HUGE_WORTH, bytes)) == NULL)
+		return NULL;
+	huge_pages(el, bytes);
+	*cap = bytes / sizeof *el;
+	return el;
+}
+
+/* Room for one more element in a path being read from text[from..n), *i
+ * where the reading is.  The first time the array grows, the elements so
+ * far tell how many the text holds (a quarter more, for safety); a path
+ * that needs 2 MB or more gets a huge_array of that at once, before its
+ * pages are touched.  Otherwise, and past the guess, the array doubles
+ * (past malloc's mmap threshold a larger block is the same pages mapped
+ * again, mremap, not a copy). */
+static void
+path_room(struct branch *path, size_t from, size_t i, size_t n)
+{
+	size_t cap = path->cap ? 2 * path->cap : 1024;
+	struct element *el;
+
+	if (path->cap == 1024 && i > from) {
+		double guess = (double)path->n * (double)(n - from) / (double)(i - from) * 1.25;
+
+		if (guess * sizeof *el >= HUGE_WORTH && guess < (double)(SIZE_MAX / sizeof *el) &&
+		    (cap = (size_t)guess, el = huge_array(&cap)) != NULL) {
+			memcpy(el, path->el, path->n * sizeof *el);
+			free(path->el);
+			path->el = el;
+			path->cap = cap;
+			return;
+		}
+		cap = 2 * path->cap;
+	}
+	path->el = xreallocarray(path->el, cap, sizeof *path->el);
+	path->cap = cap;
+	huge_pages(path->el, cap * sizeof *path->el);
+}
+
+/* The element object at t[*i] into a new slot of b's path (whose text
+ * starts at t[from]), *i past it: by plain_element where it can, else by
+ * jansson and bench_element_from_json as read_branch does for "path"
+ * (depth 0, side branches allowed).  -1 when it is not valid. */
 static int
-read_path_element(const char *t, size_t *i, size_t n, struct bench *b, int plain_numbers)
+read_path_element(const char *t, size_t *i, size_t n, size_t from, struct bench *b,
+    int plain_numbers)
 {
 	struct branch *path = &b->path;
 	struct span sp = { *i, 0 };
@@ -655,13 +713,8 @@ read_path_element(const char *t, size_t *i, size_t n, struct bench *b, int plain
 	char *cause = NULL;
 	int rc;
 
-	if (path->n == path->cap) {
-		/* doubling: past malloc's mmap threshold a larger block is the
-		 * same pages mapped again (mremap), not a copy */
-		path->cap = path->cap ? 2 * path->cap : 1024;
-		path->el = xreallocarray(path->el, path->cap, sizeof *path->el);
-		huge_pages(path->el, path->cap * sizeof *path->el);
-	}
+	if (path->n == path->cap)
+		path_room(path, from, *i, n);
 	slot = model_branch_push(path);
 	if (plain_numbers && plain_element(t, *i, n, slot, i) == 0)
 		return 0;

@@ -556,6 +556,51 @@ START_TEST(test_reader_valid)
 }
 END_TEST
 
+/* Long paths, whose array the reader sizes from its first 1,024 elements
+ * (2 MB pages from about 5,600, at least 32 MiB of address space): a
+ * steady chain; one whose first elements are padded so that the guess
+ * falls short of the 32 MiB and the array grows past it (read the fast
+ * way only: the tree reader's 10^5-element tree is 100 MB); every 97th
+ * element has a label, which the jansson way reads. */
+START_TEST(test_reader_long)
+{
+	const int n = _i == 0 ? 30000 : 100000, pad = _i == 0 ? 0 : 200;
+	struct buf text;
+	struct bench *b;
+
+	buf_init(&text);
+	buf_add(&text, "{\"format\": \"beamledger-bench-1\", \"name\": \"long\", \"source\": "
+	    "{\"wavelength\": \"1064 nm\", \"power\": \"5 W\", \"waist\": \"1 mm\"}, \"path\": [");
+	for (int i = 0; i < n; i++)
+		buf_printf(&text, "%s{\"id\": \"E%d\",%*s \"type\": \"space\", \"length\": "
+		    "\"%d mm\"%s}", i ? ", " : "", i, i < 1024 ? pad : 0, "",
+		    1 + i % 50, i % 97 == 0 ? ", \"label\": \"x\"" : "");
+	buf_add(&text, ", {\"id\": \"END\", \"type\": \"dump\"}]}");
+	if (_i == 0)
+		ck_assert_msg(compare_readers(text.s, text.len), "fast reader refused the long path");
+	b = bench_file_parse_fast(text.s, text.len);
+	ck_assert(b != NULL);
+	ck_assert_uint_eq(b->path.n, (size_t)n + 1);
+	ck_assert_uint_ge(b->path.cap, b->path.n);
+	if (_i == 1)            /* the case is what it says: past 32 MiB */
+		ck_assert_uint_gt(b->path.n * sizeof *b->path.el, (size_t)32 << 20);
+	for (int i = 0; i < n; i++) {
+		char id[16];
+		double mm = 1 + i % 50;
+
+		snprintf(id, sizeof id, "E%d", i);
+		ck_assert_str_eq(b->path.el[i].id, id);
+		/* "N mm" is N / 10^3 rounded once (core-units.c) */
+		ck_assert(b->path.el[i].val[K_LENGTH] == mm / 1e3);
+		ck_assert(i % 97 == 0 ? b->path.el[i].label != NULL &&
+		    strcmp(b->path.el[i].label, "x") == 0 : b->path.el[i].label == NULL);
+	}
+	ck_assert_str_eq(b->path.el[n].id, "END");
+	model_bench_free(b);
+	buf_release(&text);
+}
+END_TEST
+
 /* Damaged copies: bytes deleted, replaced by JSON's own punctuation or
  * any byte, duplicated keys, truncation. */
 START_TEST(test_reader_damaged)
@@ -721,6 +766,7 @@ main(void)
 	tcase_add_loop_test(tr, test_reader_valid, 0, sizeof reader_texts / sizeof *reader_texts);
 	tcase_add_loop_test(tr, test_reader_damaged, 0, sizeof reader_texts / sizeof *reader_texts);
 	tcase_add_loop_test(tr, test_reader_duplicates, 0, 6);
+	tcase_add_loop_test(tr, test_reader_long, 0, 2);
 	tcase_set_timeout(tr, 120);
 	suite_add_tcase(s, tr);
 	return run_suite(s);
