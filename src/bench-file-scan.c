@@ -14,7 +14,6 @@
 #include <stdlib.h>
 #include <stdint.h>
 #include <string.h>
-#include <sys/mman.h>
 
 #include "bench-file.h"
 #include "core-tol.h"
@@ -617,61 +616,17 @@ undo:
 	return -1;
 }
 
-/* Asks for the array of a long path in 2 MB pages where the system grants
- * them on request: 10^5 elements fill 38 MB, ten thousand faults of 4 kB
- * pages otherwise.  Only the whole 2 MB pages inside the block, and only
- * for a block malloc maps on its own (from 32 MiB, glibc's highest mmap
- * threshold), so that the hint leaves with the block when it is freed and
- * never lingers on heap memory used again for small things.  A hint:
- * whatever the system answers is fine. */
-#define HUGE_FROM ((size_t)32 << 20)
-
-static void
-huge_pages(void *p, size_t n)
-{
-#ifdef MADV_HUGEPAGE
-	const uintptr_t huge = (uintptr_t)2 << 20;
-	uintptr_t from = ((uintptr_t)p + huge - 1) & ~(huge - 1);
-	uintptr_t to = ((uintptr_t)p + n) & ~(huge - 1);
-
-	if (n >= HUGE_FROM && to > from)
-		(void)madvise((void *)from, to - from, MADV_HUGEPAGE);
-#else
-	(void)p;
-	(void)n;
-#endif
-}
-
-/* A path array of at least this much is worth 2 MB pages: on this kind of
- * machine a fault costs about 2 us, so 4 MB of 4 kB pages took 2.3 ms to
- * touch and 0.45 ms to hand back, and the same in 2 MB pages 0.28 ms and
- * 0.03 ms (benches/bench_trace's 10^4 chain fills 3.8 MB). */
+/* A path array of at least this much is worth 2 MB pages (util-err.h):
+ * 4 MB of 4 kB pages took 2.3 ms to touch and 0.45 ms to hand back on
+ * this kind of machine, the same in 2 MB pages 0.28 ms and 0.03 ms
+ * (benches/bench_trace's 10^4 chain fills 3.8 MB). */
 #define HUGE_WORTH ((size_t)2 << 20)
-
-/* A new array of at least *cap elements, aligned to and rounded up to
- * 2 MB pages and at least HUGE_FROM, so that malloc maps it on its own
- * and every page of it can be a 2 MB one (what is never touched costs
- * nothing); *cap is what it holds.  NULL where the system will not. */
-static struct element *
-huge_array(size_t *cap)
-{
-	size_t bytes = (*cap * sizeof(struct element) + HUGE_WORTH - 1) & ~(HUGE_WORTH - 1);
-	struct element *el;
-
-	if (bytes < HUGE_FROM)
-		bytes = HUGE_FROM;
-	if ((el = aligned_alloc(HUGE_WORTH, bytes)) == NULL)
-		return NULL;
-	huge_pages(el, bytes);
-	*cap = bytes / sizeof *el;
-	return el;
-}
 
 /* Room for one more element in a path being read from text[from..n), *i
  * where the reading is.  The first time the array grows, the elements so
  * far tell how many the text holds (a quarter more, for safety); a path
- * that needs 2 MB or more gets a huge_array of that at once, before its
- * pages are touched.  Otherwise, and past the guess, the array doubles
+ * that needs 2 MB or more gets a huge_alloc block of that at once, before
+ * its pages are touched.  Otherwise, and past the guess, the array doubles
  * (past malloc's mmap threshold a larger block is the same pages mapped
  * again, mremap, not a copy). */
 static void
@@ -683,19 +638,21 @@ path_room(struct branch *path, size_t from, size_t i, size_t n)
 	if (path->cap == 1024 && i > from) {
 		double guess = (double)path->n * (double)(n - from) / (double)(i - from) * 1.25;
 
+		size_t bytes;
+
 		if (guess * sizeof *el >= HUGE_WORTH && guess < (double)(SIZE_MAX / sizeof *el) &&
-		    (cap = (size_t)guess, el = huge_array(&cap)) != NULL) {
+		    (bytes = (size_t)guess * sizeof *el, el = huge_alloc(&bytes)) != NULL) {
 			memcpy(el, path->el, path->n * sizeof *el);
 			free(path->el);
 			path->el = el;
-			path->cap = cap;
+			path->cap = bytes / sizeof *el;
 			return;
 		}
 		cap = 2 * path->cap;
 	}
 	path->el = xreallocarray(path->el, cap, sizeof *path->el);
 	path->cap = cap;
-	huge_pages(path->el, cap * sizeof *path->el);
+	huge_hint(path->el, cap * sizeof *path->el);
 }
 
 /* The element object at t[*i] into a new slot of b's path (whose text
