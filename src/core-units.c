@@ -68,25 +68,32 @@ static const struct dim_info {
 	    { "V/m", "V/m" }, { "V/m", "V/m" }, 0, 0, "V/m", 0 },
 };
 
+/* NAME_LEN: a literal and its length, so that lookups need no strlen */
+#define NAME_LEN(s)	s, sizeof s - 1
+
 static const struct symbol {
 	const char	*name;
+	size_t		 len;
 	signed char	 e[B_COUNT];
 } symbols[] = {
-	{ "m",	{ 1, 0, 0, 0 } },
-	{ "s",	{ 0, 0, 1, 0 } },
-	{ "J",	{ 0, 1, 0, 0 } },
-	{ "W",	{ 0, 1, -1, 0 } },
-	{ "Hz",	{ 0, 0, -1, 0 } },
-	{ "V",	{ 0, 0, 0, 1 } },
+	{ NAME_LEN("m"),	{ 1, 0, 0, 0 } },
+	{ NAME_LEN("s"),	{ 0, 0, 1, 0 } },
+	{ NAME_LEN("J"),	{ 0, 1, 0, 0 } },
+	{ NAME_LEN("W"),	{ 0, 1, -1, 0 } },
+	{ NAME_LEN("Hz"),	{ 0, 0, -1, 0 } },
+	{ NAME_LEN("V"),	{ 0, 0, 0, 1 } },
 };
 
 static const struct prefix {
 	const char	*name;
+	size_t		 len;
 	int		 exp10;
 } prefixes[] = {
-	{ "f", -15 }, { "p", -12 }, { "n", -9 }, { "u", -6 },
-	{ MICRO_SIGN, -6 }, { GREEK_MU, -6 }, { "m", -3 }, { "c", -2 },
-	{ "k", 3 }, { "M", 6 }, { "G", 9 }, { "T", 12 },	/* T: we print it */
+	{ NAME_LEN("f"), -15 }, { NAME_LEN("p"), -12 }, { NAME_LEN("n"), -9 },
+	{ NAME_LEN("u"), -6 }, { NAME_LEN(MICRO_SIGN), -6 }, { NAME_LEN(GREEK_MU), -6 },
+	{ NAME_LEN("m"), -3 }, { NAME_LEN("c"), -2 }, { NAME_LEN("k"), 3 },
+	{ NAME_LEN("M"), 6 }, { NAME_LEN("G"), 9 },
+	{ NAME_LEN("T"), 12 },	/* T: we print it */
 };
 
 /* Output prefixes by engineering exponent, 10^-15 .. 10^12; no "c". */
@@ -298,7 +305,7 @@ find_symbol(const char *s, size_t len)
 	size_t i;
 
 	for (i = 0; i < NELEMS(symbols); i++)
-		if (len > 0 && symbols[i].name[0] == s[0] && strlen(symbols[i].name) == len &&
+		if (symbols[i].len == len && symbols[i].name[0] == s[0] &&
 		    memcmp(symbols[i].name, s, len) == 0)
 			return &symbols[i];
 	return NULL;
@@ -327,7 +334,8 @@ scan_factor(const struct quote *q, const char **pp, const char *end,
 	/* A bare symbol wins over prefix + symbol: "m" is the metre. */
 	sym = find_symbol(run, len);
 	for (k = 0; sym == NULL && k < NELEMS(prefixes); k++)
-		if ((i = starts(run, p, prefixes[k].name)) != 0 &&
+		if ((i = prefixes[k].len) < len && run[0] == prefixes[k].name[0] &&
+		    memcmp(run, prefixes[k].name, i) == 0 &&
 		    (sym = find_symbol(run + i, len - i)) != NULL)
 			pexp = prefixes[k].exp10;
 	if (sym == NULL)
