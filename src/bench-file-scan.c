@@ -622,6 +622,10 @@ undo:
  * (benches/bench_trace's 10^4 chain fills 3.8 MB). */
 #define HUGE_WORTH ((size_t)2 << 20)
 
+/* Elements a path array first holds: few enough to stay on the heap, and
+ * enough to tell how many bytes an element takes. */
+#define PATH_FIRST 64
+
 /* Room for one more element in a path being read from text[from..n), *i
  * where the reading is.  The first time the array grows, the elements so
  * far tell how many the text holds (a quarter more, for safety); a path
@@ -632,13 +636,11 @@ undo:
 static void
 path_room(struct branch *path, size_t from, size_t i, size_t n)
 {
-	size_t cap = path->cap ? 2 * path->cap : 1024;
+	size_t cap = path->cap ? 2 * path->cap : PATH_FIRST, bytes;
 	struct element *el;
 
-	if (path->cap == 1024 && i > from) {
+	if (path->cap == PATH_FIRST && i > from) {
 		double guess = (double)path->n * (double)(n - from) / (double)(i - from) * 1.25;
-
-		size_t bytes;
 
 		if (guess * sizeof *el >= HUGE_WORTH && guess < (double)(SIZE_MAX / sizeof *el) &&
 		    (bytes = (size_t)guess * sizeof *el, el = huge_alloc(&bytes)) != NULL) {
@@ -648,7 +650,6 @@ path_room(struct branch *path, size_t from, size_t i, size_t n)
 			path->cap = bytes / sizeof *el;
 			return;
 		}
-		cap = 2 * path->cap;
 	}
 	path->el = xreallocarray(path->el, cap, sizeof *path->el);
 	path->cap = cap;

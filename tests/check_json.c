@@ -556,7 +556,7 @@ START_TEST(test_reader_valid)
 }
 END_TEST
 
-/* Long paths, whose array the reader sizes from its first 1,024 elements
+/* Long paths, whose array the reader sizes from its first 64 elements
  * (2 MB pages from about 5,600, at least 32 MiB of address space): a
  * steady chain; one whose first elements are padded so that the guess
  * falls short of the 32 MiB and the array grows past it (read the fast
@@ -564,7 +564,7 @@ END_TEST
  * element has a label, which the jansson way reads. */
 START_TEST(test_reader_long)
 {
-	const int n = _i == 0 ? 30000 : 100000, pad = _i == 0 ? 0 : 200;
+	const int n = _i == 0 ? 30000 : 100000, pad = _i == 0 ? 0 : 400;
 	struct buf text;
 	struct bench *b;
 
