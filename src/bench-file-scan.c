@@ -1,7 +1,8 @@
-/* bench-file-scan.c - the fast way in for a valid bench file: the path is
- * cut into its elements by a small scanner and each element is read by
- * jansson alone, so a 10^5-element file never becomes one tree of 10^6
- * nodes (about 100 MB and most of the reading time).  Anything the scanner
+/* bench-file-scan.c - the fast way in for a valid bench file: a small
+ * scanner walks the text once and reads each element of the path where
+ * it meets it (the plainest straight into the model, the rest by jansson
+ * alone), so a 10^5-element file never becomes one tree of 10^6 nodes
+ * (about 100 MB and most of the reading time).  Anything the scanner
  * is not sure of, and every error, goes back to the whole-tree reader,
  * which alone writes the messages: the two never disagree on what is
  * valid, only on how long it takes. */
@@ -13,12 +14,12 @@
 #include <stdlib.h>
 #include <stdint.h>
 #include <string.h>
-#include <sys/mman.h>
 
 #include "bench-file.h"
 #include "core-tol.h"
 #include "core-units.h"
 #include "util-err.h"
+#include "util-json.h"
 
 /* Deeper nesting inside one element than any valid element has (side
  * branches stop at MODEL_MAX_DEPTH); past it, the tree reader decides. */
@@ -36,16 +37,41 @@ skip_ws(const char *t, size_t i, size_t n)
 	return i;
 }
 
+/* Byte classes for the skipping loops: what ends a run of plain bytes in
+ * a string (C_STR), outside strings in a container (C_NEST), and in a bare
+ * token (C_TOKEN).  A table, so that a plain byte costs one load and one
+ * test: the scanner passes over every byte of a long file. */
+enum { C_STR = 1, C_NEST = 2, C_TOKEN = 4 };
+
+static const unsigned char byte_class[256] = {
+	[0] = C_TOKEN,
+	['\t'] = C_TOKEN, ['\n'] = C_TOKEN, ['\r'] = C_TOKEN, [' '] = C_TOKEN,
+	[','] = C_TOKEN,
+	['"'] = C_STR | C_NEST, ['\\'] = C_STR,
+	['{'] = C_NEST, ['['] = C_NEST,
+	['}'] = C_NEST | C_TOKEN, [']'] = C_NEST | C_TOKEN,
+};
+
+static int
+is_class(char c, unsigned cls)
+{
+	return (byte_class[(unsigned char)c] & cls) != 0;
+}
+
 /* Past the string opening at t[i] == '"'; 0 when it does not end.  *esc
  * is set when it holds a backslash. */
 static size_t
 skip_string(const char *t, size_t i, size_t n, int *esc)
 {
 	for (i++; i < n; i++) {
+		while (i < n && !is_class(t[i], C_STR))
+			i++;
+		if (i >= n)
+			break;
 		if (t[i] == '\\') {
 			*esc = 1;
 			i++;
-		} else if (t[i] == '"') {
+		} else {
 			return i + 1;
 		}
 	}
@@ -65,11 +91,15 @@ skip_value(const char *t, size_t i, size_t n)
 	if (t[i] == '"')
 		return skip_string(t, i, n, &esc);
 	if (t[i] != '{' && t[i] != '[') {
-		while (i < n && strchr(" \t\r\n,}]", t[i]) == NULL && t[i] != '\0')
+		while (i < n && !is_class(t[i], C_TOKEN))
 			i++;
 		return i;
 	}
 	while (i < n) {
+		while (i < n && !is_class(t[i], C_NEST))
+			i++;
+		if (i >= n)
+			break;
 		switch (t[i]) {
 		case '"':
 			if ((i = skip_string(t, i, n, &esc)) == 0)
@@ -80,8 +110,7 @@ skip_value(const char *t, size_t i, size_t n)
 			if (++depth > SCAN_MAX_NEST)
 				return 0;
 			break;
-		case '}':
-		case ']':
+		default:                /* '}' or ']' */
 			if (--depth == 0)
 				return i + 1;
 			break;
@@ -91,17 +120,19 @@ skip_value(const char *t, size_t i, size_t n)
 	return 0;
 }
 
-/* Finds the top-level "path" array and every element in it.  Returns 0
- * with *path its brackets and *el (caller frees) the n element objects,
- * or -1 when the text is not plainly shaped so (the tree reader decides). */
+static int read_path_element(const char *t, size_t *i, size_t n, size_t from,
+    struct bench *b, int plain_numbers);
+
+/* Finds the top-level "path" array and reads every element in it into
+ * b's path as it goes (one pass over the text).  Returns 0 with *path its
+ * brackets, or -1 when the text is not plainly shaped so or an element is
+ * not valid (the tree reader decides). */
 static int
-scan(const char *t, size_t n, struct span *path, struct span **el, size_t *nel)
+scan(const char *t, size_t n, struct span *path, struct bench *b, int plain_numbers)
 {
-	size_t i = skip_ws(t, 0, n), cap = 0;
+	size_t i = skip_ws(t, 0, n);
 	int found = 0;
 
-	*el = NULL;
-	*nel = 0;
 	if (i >= n || t[i] != '{')
 		return -1;
 	for (i = skip_ws(t, i + 1, n); i < n && t[i] != '}'; ) {
@@ -109,53 +140,42 @@ scan(const char *t, size_t n, struct span *path, struct span **el, size_t *nel)
 		int esc = 0;
 
 		if (t[i] != '"' || (k1 = skip_string(t, i, n, &esc)) == 0 || esc)
-			goto fail;
+			return -1;
 		i = skip_ws(t, k1, n);
 		if (i >= n || t[i] != ':')
-			goto fail;
+			return -1;
 		i = skip_ws(t, i + 1, n);
 		if (k1 - k0 == 6 && memcmp(t + k0, "\"path\"", 6) == 0) {
 			if (found || i >= n || t[i] != '[')
-				goto fail;
+				return -1;
 			found = 1;
 			path->from = i;
 			for (i = skip_ws(t, i + 1, n); i < n && t[i] != ']'; ) {
-				size_t e = i;
-
-				if (t[i] != '{' || (i = skip_value(t, i, n)) == 0)
-					goto fail;
-				if (*nel == cap) {
-					cap = cap ? 2 * cap : 1024;
-					*el = xreallocarray(*el, cap, sizeof **el);
-				}
-				(*el)[(*nel)++] = (struct span){ e, i };
+				if (t[i] != '{' ||
+				    read_path_element(t, &i, n, path->from, b, plain_numbers) != 0)
+					return -1;
 				i = skip_ws(t, i, n);
 				if (i < n && t[i] == ',') {
 					i = skip_ws(t, i + 1, n);
 					if (i >= n || t[i] != '{')
-						goto fail;
+						return -1;
 				} else if (i >= n || t[i] != ']') {
-					goto fail;
+					return -1;
 				}
 			}
 			if (i >= n)
-				goto fail;
+				return -1;
 			path->to = ++i;
 		} else if ((i = skip_value(t, i, n)) == 0) {
-			goto fail;
+			return -1;
 		}
 		i = skip_ws(t, i, n);
 		if (i < n && t[i] == ',')
 			i = skip_ws(t, i + 1, n);
 		else if (i >= n || t[i] != '}')
-			goto fail;
+			return -1;
 	}
-	if (found)
-		return 0;
-fail:
-	free(*el);
-	*el = NULL;
-	return -1;
+	return found ? 0 : -1;
 }
 
 /* ---- one element's object, as jansson would build it ----
@@ -250,7 +270,7 @@ scan_number(struct rd *r, int *real, long long *iv, double *dv)
 		*iv = strtoll(tok, &end, 10);
 		if (errno == ERANGE)
 			return -1;
-	} else {
+	} else if (json_number_exact(tok, j - r->i, dv) != 0) {
 		*dv = strtod(tok, &end);
 		if ((*dv == HUGE_VAL || *dv == -HUGE_VAL) && errno == ERANGE)
 			return -1;
@@ -388,14 +408,14 @@ struct member {
 	size_t      klen, slen;
 	char        kind;           /* 'n' number, 's' string, 'o' object */
 	double      num;            /* 'n': as json_number_value would give it */
-	size_t      from;           /* 'o': where it starts */
 };
 
 /* The members of the object at r->t[r->i] == '{': values that are plain
- * strings, numbers, or (with objects set) objects, which are only
- * skipped here.  -1 on anything else, a duplicate key, or too many. */
+ * strings, numbers, or (with dm given) objects: a "damage" object's own
+ * plain members read into dm[*nd] where it stands, any other object only
+ * skipped.  -1 on anything else, a duplicate key, or too many. */
 static int
-plain_members(struct rd *r, struct member *m, size_t *n, int objects)
+plain_members(struct rd *r, struct member *m, size_t *n, struct member *dm, size_t *nd)
 {
 	*n = 0;
 	r->i++;
@@ -427,9 +447,14 @@ plain_members(struct rd *r, struct member *m, size_t *n, int objects)
 				return -1;
 		} else if (r->t[r->i] == '{') {
 			x->kind = 'o';
-			x->from = r->i;
-			if (!objects || (r->i = skip_value(r->t, r->i, r->n)) == 0)
+			if (dm == NULL)
 				return -1;
+			if (x->klen == 6 && memcmp(x->key, "damage", 6) == 0) {
+				if (plain_members(r, dm, nd, NULL, NULL) != 0)
+					return -1;
+			} else if ((r->i = skip_value(r->t, r->i, r->n)) == 0) {
+				return -1;
+			}
 		} else {
 			long long iv;
 			double dv;
@@ -460,6 +485,34 @@ is_key(const struct member *m, const char *name)
 	return m->klen == strlen(name) && memcmp(m->key, name, m->klen) == 0;
 }
 
+/* The key of model_keys[from..to) named as m's key, or -1: model_key_find
+ * without a C string, and with a first-byte test before each comparison
+ * (every element of a long file asks). */
+static int
+plain_key(const struct member *m, int from, int to)
+{
+	for (int k = from; k < to; k++) {
+		const char *name = model_keys[k].name;
+
+		if (name[0] == m->key[0] && strncmp(name, m->key, m->klen) == 0 &&
+		    name[m->klen] == '\0')
+			return k;
+	}
+	return -1;
+}
+
+/* tol_split's answer for the string s[0..len) (no NUL): does it hold the
+ * tolerance sign or "+-"?  Without copying it or two strstr. */
+static int
+plain_has_tol(const char *s, size_t len)
+{
+	for (size_t i = 0; i + 1 < len; i++)
+		if ((s[i] == '+' && s[i + 1] == '-') ||
+		    (s[i] == TOL_SIGN[0] && s[i + 1] == TOL_SIGN[1]))
+			return 1;
+	return 0;
+}
+
 /* A string value (or key) as a C string in out[PLAIN_TEXT]; -1 when longer. */
 static int
 plain_copy(char *out, const char *s, size_t len)
@@ -477,8 +530,6 @@ plain_set(struct element *el, enum model_key k, const struct member *v)
 {
 	const struct model_key_def *d = &model_keys[k];
 	char s[PLAIN_TEXT], *why = NULL, *cause = NULL;
-	const char *rest;
-	size_t vlen;
 	double x;
 	int rc;
 
@@ -488,7 +539,7 @@ plain_set(struct element *el, enum model_key k, const struct member *v)
 	if (v->kind == 'n') {
 		x = v->num == 0 ? 0.0 : v->num;
 	} else if (v->kind == 's' && d->kind == KIND_QUANTITY) {
-		if (plain_copy(s, v->s, v->slen) != 0 || tol_split(s, &vlen, &rest))
+		if (plain_has_tol(v->s, v->slen) || plain_copy(s, v->s, v->slen) != 0)
 			return -1;
 		rc = units_parse(s, d->dim, &x, &why);
 		free(why);
@@ -502,18 +553,19 @@ plain_set(struct element *el, enum model_key k, const struct member *v)
 	return rc;
 }
 
-/* The element at text[sp] into the zeroed slot el: 0, or -1 with el zeroed. */
+/* The element object at text[from] into the zeroed slot el: 0 with *end
+ * just past it, or -1 with el zeroed. */
 static int
-plain_element(const char *text, struct span sp, struct element *el)
+plain_element(const char *text, size_t from, size_t len, struct element *el, size_t *end)
 {
-	struct rd r = { text, sp.from, sp.to, 0 };
+	struct rd r = { text, from, len, 0 };
 	struct member m[PLAIN_MEMBERS], dm[PLAIN_MEMBERS];
 	const struct member *id = NULL, *type = NULL, *dmg = NULL;
 	char idtext[PLAIN_TEXT], s[PLAIN_TEXT];
 	size_t n, nd = 0;
 	enum elem_type t;
 
-	if (plain_members(&r, m, &n, 1) != 0 || r.i != sp.to)
+	if (plain_members(&r, m, &n, dm, &nd) != 0)
 		return -1;
 	for (size_t i = 0; i < n; i++) {
 		if (is_key(&m[i], "id"))
@@ -528,12 +580,8 @@ plain_element(const char *text, struct span sp, struct element *el)
 	    type == NULL || type->kind != 's' || plain_copy(s, type->s, type->slen) != 0 ||
 	    model_type_parse(s, &t) != 0)
 		return -1;
-	if (dmg != NULL) {
-		struct rd dr = { text, dmg->from, sp.to, 0 };
-
-		if (dmg->kind != 'o' || plain_members(&dr, dm, &nd, 0) != 0)
-			return -1;
-	}
+	if (dmg != NULL && dmg->kind != 'o')
+		return -1;
 	model_element_init(el, t, idtext);
 	for (size_t i = 0; i < n; i++) {
 		int k;
@@ -543,24 +591,24 @@ plain_element(const char *text, struct span sp, struct element *el)
 		if (&m[i] == dmg) {
 			/* read_damage: the damage keys by their short names */
 			for (size_t j = 0; j < nd; j++) {
-				k = -1;
-				for (int q = K_DMG_FIRST; q < K_COUNT; q++)
-					if (is_key(&dm[j], model_keys[q].name))
-						k = q;
+				k = dm[j].klen > 0 ? plain_key(&dm[j], K_DMG_FIRST, K_COUNT) : -1;
 				if (k < 0 || plain_set(el, (enum model_key)k, &dm[j]) != 0)
 					goto undo;
 			}
 			continue;
 		}
-		if (plain_copy(s, m[i].key, m[i].klen) != 0 || strcmp(s, "label") == 0 ||
-		    strcmp(s, "part") == 0 || strcmp(s, "reflected") == 0 ||
-		    strcmp(s, "transmitted") == 0 || strcmp(s, "rejected") == 0)
+		/* model_key_find's keys outside the damage object (a damage
+		 * key's path here is no key of the plain way either) */
+		if (m[i].klen == 0 || m[i].klen >= PLAIN_TEXT || is_key(&m[i], "label") ||
+		    is_key(&m[i], "part") || is_key(&m[i], "reflected") ||
+		    is_key(&m[i], "transmitted") || is_key(&m[i], "rejected"))
 			goto undo;
-		k = model_key_find(s);
-		if (k < 0 || k >= K_DMG_FIRST || !model_key_applies((enum model_key)k, t) ||
+		k = plain_key(&m[i], 0, K_DMG_FIRST);
+		if (k < 0 || !model_key_applies((enum model_key)k, t) ||
 		    plain_set(el, (enum model_key)k, &m[i]) != 0)
 			goto undo;
 	}
+	*end = r.i;
 	return 0;
 undo:
 	model_element_release(el);
@@ -568,45 +616,92 @@ undo:
 	return -1;
 }
 
-/* Asks for the array of a long path in 2 MB pages where the system grants
- * them on request: 10^5 elements fill 38 MB, ten thousand faults of 4 kB
- * pages otherwise.  Only the whole 2 MB pages inside the block, and only
- * for a block malloc maps on its own (from 32 MiB, glibc's highest mmap
- * threshold), so that the hint leaves with the block when it is freed and
- * never lingers on heap memory used again for small things.  A hint:
- * whatever the system answers is fine. */
-#define HUGE_FROM ((size_t)32 << 20)
+/* A path array of at least this much is worth 2 MB pages (util-err.h):
+ * 4 MB of 4 kB pages took 2.3 ms to touch and 0.45 ms to hand back on
+ * this kind of machine, the same in 2 MB pages 0.28 ms and 0.03 ms
+ * (benches/bench_trace's 10^4 chain fills 3.8 MB). */
+#define HUGE_WORTH ((size_t)2 << 20)
 
+/* Elements a path array first holds: few enough to stay on the heap, and
+ * enough to tell how many bytes an element takes. */
+#define PATH_FIRST 64
+
+/* Room for one more element in a path being read from text[from..n), *i
+ * where the reading is.  The first time the array grows, the elements so
+ * far tell how many the text holds (a quarter more, for safety); a path
+ * that needs 2 MB or more gets a huge_alloc block of that at once, before
+ * its pages are touched.  Otherwise, and past the guess, the array doubles
+ * (past malloc's mmap threshold a larger block is the same pages mapped
+ * again, mremap, not a copy). */
 static void
-huge_pages(void *p, size_t n)
+path_room(struct branch *path, size_t from, size_t i, size_t n)
 {
-#ifdef MADV_HUGEPAGE
-	const uintptr_t huge = (uintptr_t)2 << 20;
-	uintptr_t from = ((uintptr_t)p + huge - 1) & ~(huge - 1);
-	uintptr_t to = ((uintptr_t)p + n) & ~(huge - 1);
+	size_t cap = path->cap ? 2 * path->cap : PATH_FIRST, bytes;
+	struct element *el;
 
-	if (n >= HUGE_FROM && to > from)
-		(void)madvise((void *)from, to - from, MADV_HUGEPAGE);
-#else
-	(void)p;
-	(void)n;
-#endif
+	if (path->cap == PATH_FIRST && i > from) {
+		double guess = (double)path->n * (double)(n - from) / (double)(i - from) * 1.25;
+
+		if (guess * sizeof *el >= HUGE_WORTH && guess < (double)(SIZE_MAX / sizeof *el) &&
+		    (bytes = (size_t)guess * sizeof *el, el = huge_alloc(&bytes)) != NULL) {
+			memcpy(el, path->el, path->n * sizeof *el);
+			free(path->el);
+			path->el = el;
+			path->cap = bytes / sizeof *el;
+			return;
+		}
+	}
+	path->el = xreallocarray(path->el, cap, sizeof *path->el);
+	path->cap = cap;
+	huge_hint(path->el, cap * sizeof *path->el);
+}
+
+/* The element object at t[*i] into a new slot of b's path (whose text
+ * starts at t[from]), *i past it: by plain_element where it can, else by
+ * jansson and bench_element_from_json as read_branch does for "path"
+ * (depth 0, side branches allowed).  -1 when it is not valid. */
+static int
+read_path_element(const char *t, size_t *i, size_t n, size_t from, struct bench *b,
+    int plain_numbers)
+{
+	struct branch *path = &b->path;
+	struct span sp = { *i, 0 };
+	struct element *slot;
+	json_t *obj;
+	char *cause = NULL;
+	int rc;
+
+	if (path->n == path->cap)
+		path_room(path, from, *i, n);
+	slot = model_branch_push(path);
+	if (plain_numbers && plain_element(t, *i, n, slot, i) == 0)
+		return 0;
+	if ((sp.to = skip_value(t, sp.from, n)) == 0 ||
+	    (obj = read_element(t, sp, plain_numbers)) == NULL)
+		return -1;
+	rc = bench_element_from_json(obj, slot, 1, 1, 0, &cause);
+	json_decref(obj);
+	free(cause);
+	*i = sp.to;
+	return rc;
 }
 
 struct bench *
 bench_file_parse_fast(const char *text, size_t len)
 {
-	struct span path, *el;
-	size_t nel, hlen;
+	struct span path;
+	size_t hlen;
 	char *head;
-	json_t *root;
-	struct bench *b;
+	json_t *root = NULL;
+	struct bench *b = model_bench_new(NULL);
 	char *cause = NULL;
 	/* strtod reads "0.5" as jansson does only with a decimal point */
 	int plain_numbers = strcmp(localeconv()->decimal_point, ".") == 0;
 
-	if (scan(text, len, &path, &el, &nel) != 0)
-		return NULL;
+	free(b->name);
+	b->name = NULL;
+	if (scan(text, len, &path, b, plain_numbers) != 0)
+		goto bad;
 	/* the file with an empty path: everything but the elements */
 	hlen = path.from + 2 + (len - path.to);
 	head = xmalloc(hlen);
@@ -615,49 +710,16 @@ bench_file_parse_fast(const char *text, size_t len)
 	memcpy(head + path.from + 2, text + path.to, len - path.to);
 	root = json_loadb(head, hlen, JSON_REJECT_DUPLICATES, NULL);
 	free(head);
-	if (root == NULL) {
-		free(el);
-		return NULL;
-	}
-	b = model_bench_new(NULL);
-	free(b->name);
-	b->name = NULL;
-	if (bench_head_from_json(root, b, &cause) != 0)
+	if (root == NULL || bench_head_from_json(root, b, &cause) != 0)
 		goto bad;
 	json_decref(root);
 	root = NULL;
-	if (nel > 0) {
-		/* sized once: model_branch_push then never moves the array */
-		b->path.el = xreallocarray(NULL, nel, sizeof *b->path.el);
-		b->path.cap = nel;
-		huge_pages(b->path.el, nel * sizeof *b->path.el);
-	}
-	for (size_t i = 0; i < nel; i++) {
-		struct element *slot = model_branch_push(&b->path);
-		json_t *obj;
-		int rc;
-
-		if (plain_numbers && plain_element(text, el[i], slot) == 0)
-			continue;
-		if ((obj = read_element(text, el[i], plain_numbers)) == NULL)
-			goto bad;
-		/* as read_branch does for "path": depth 0, side branches allowed */
-		rc = bench_element_from_json(obj, slot, 1, 1, 0, &cause);
-		json_decref(obj);
-		if (rc != 0)
-			goto bad;
-	}
-	/* the spans are done with: handed back before validation takes its
-	 * own table (the peak of a long file's reading) */
-	free(el);
-	el = NULL;
 	if (model_validate(b, &cause) != 0)
 		goto bad;
 	return b;
 bad:
 	free(cause);
 	json_decref(root);
-	free(el);
 	model_bench_free(b);
 	return NULL;
 }

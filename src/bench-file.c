@@ -679,6 +679,8 @@ bad:
 	return NULL;
 }
 
+#define SLURP_HUGE ((size_t)512 << 10)
+
 char *
 bench_slurp(const char *path, size_t *len, char **cause)
 {
@@ -700,10 +702,31 @@ bench_slurp(const char *path, size_t *len, char **cause)
 	 * grows meanwhile still grows the buffer */
 	if (fstat(fileno(f), &st) == 0 && S_ISREG(st.st_mode) && st.st_size > 0 &&
 	    st.st_size <= BENCH_FILE_MAX) {
-		b.cap = (size_t)st.st_size + 1;
-		b.s = xrealloc(b.s, b.cap);
+		size_t want = (size_t)st.st_size + 1;
+		/* a long file's text in 2 MB pages (util-err.h): from a quarter of
+		 * one, what it saves in faults (2 us per 4 kB) pays for zeroing
+		 * the rest (0.14 ms per 2 MB) */
+		char *huge = want >= SLURP_HUGE ? huge_alloc(&want) : NULL;
+
+		if (huge != NULL) {
+			free(b.s);
+			b.s = huge;
+			b.s[0] = '\0';
+		} else {
+			want = (size_t)st.st_size + 1;
+			b.s = xrealloc(b.s, want);
+		}
+		b.cap = want;
 	}
-	while ((n = fread(chunk, 1, sizeof chunk, f)) > 0) {
+	for (;;) {
+		/* into the buffer itself while it has room (a regular file's
+		 * whole text at once), through chunk when it must grow */
+		int direct = b.cap - b.len > sizeof chunk;
+
+		n = direct ? fread(b.s + b.len, 1, b.cap - b.len - 1, f) :
+		    fread(chunk, 1, sizeof chunk, f);
+		if (n == 0)
+			break;
 		if (n > BENCH_FILE_MAX - b.len) {
 			/* refused before it is all read: /dev/zero never ends */
 			fail_with(cause, "%s: larger than %d MiB, the most a bench "
@@ -713,7 +736,12 @@ bench_slurp(const char *path, size_t *len, char **cause)
 			buf_release(&b);
 			return NULL;
 		}
-		buf_addn(&b, chunk, n);
+		if (direct) {
+			b.len += n;
+			b.s[b.len] = '\0';
+		} else {
+			buf_addn(&b, chunk, n);
+		}
 	}
 	if (ferror(f)) {
 		fail_with(cause, "%s: %s", path, strerror(errno));

@@ -68,25 +68,32 @@ static const struct dim_info {
 	    { "V/m", "V/m" }, { "V/m", "V/m" }, 0, 0, "V/m", 0 },
 };
 
+/* NAME_LEN: a literal and its length, so that lookups need no strlen */
+#define NAME_LEN(s)	s, sizeof s - 1
+
 static const struct symbol {
 	const char	*name;
+	size_t		 len;
 	signed char	 e[B_COUNT];
 } symbols[] = {
-	{ "m",	{ 1, 0, 0, 0 } },
-	{ "s",	{ 0, 0, 1, 0 } },
-	{ "J",	{ 0, 1, 0, 0 } },
-	{ "W",	{ 0, 1, -1, 0 } },
-	{ "Hz",	{ 0, 0, -1, 0 } },
-	{ "V",	{ 0, 0, 0, 1 } },
+	{ NAME_LEN("m"),	{ 1, 0, 0, 0 } },
+	{ NAME_LEN("s"),	{ 0, 0, 1, 0 } },
+	{ NAME_LEN("J"),	{ 0, 1, 0, 0 } },
+	{ NAME_LEN("W"),	{ 0, 1, -1, 0 } },
+	{ NAME_LEN("Hz"),	{ 0, 0, -1, 0 } },
+	{ NAME_LEN("V"),	{ 0, 0, 0, 1 } },
 };
 
 static const struct prefix {
 	const char	*name;
+	size_t		 len;
 	int		 exp10;
 } prefixes[] = {
-	{ "f", -15 }, { "p", -12 }, { "n", -9 }, { "u", -6 },
-	{ MICRO_SIGN, -6 }, { GREEK_MU, -6 }, { "m", -3 }, { "c", -2 },
-	{ "k", 3 }, { "M", 6 }, { "G", 9 }, { "T", 12 },	/* T: we print it */
+	{ NAME_LEN("f"), -15 }, { NAME_LEN("p"), -12 }, { NAME_LEN("n"), -9 },
+	{ NAME_LEN("u"), -6 }, { NAME_LEN(MICRO_SIGN), -6 }, { NAME_LEN(GREEK_MU), -6 },
+	{ NAME_LEN("m"), -3 }, { NAME_LEN("c"), -2 }, { NAME_LEN("k"), 3 },
+	{ NAME_LEN("M"), 6 }, { NAME_LEN("G"), 9 },
+	{ NAME_LEN("T"), 12 },	/* T: we print it */
 };
 
 /* Output prefixes by engineering exponent, 10^-15 .. 10^12; no "c". */
@@ -129,10 +136,11 @@ units_si_symbol(enum unit_dim dim, int ascii)
 	return dims[dim].si[ascii != 0];
 }
 
+/* " \t\n\v\f\r", C's isspace in the C locale */
 static int
 is_space(char c)
 {
-	return c != '\0' && strchr(" \t\n\r\v\f", c) != NULL;
+	return c == ' ' || (c >= '\t' && c <= '\r');
 }
 
 /* U+00A0 (no-break space) and U+202F (narrow no-break space, the SI
@@ -166,8 +174,11 @@ article(const char *noun)
 static size_t
 starts(const char *p, const char *end, const char *lit)
 {
-	size_t n = strlen(lit);
+	size_t n;
 
+	if (p >= end || *p != lit[0])       /* most tries end at the first byte */
+		return 0;
+	n = strlen(lit);
 	return (size_t)(end - p) >= n && memcmp(p, lit, n) == 0 ? n : 0;
 }
 
@@ -220,11 +231,9 @@ scan_number(const char *p, const char *end, struct number *num)
 	return q;
 }
 
-/* The number times 10^shift, rounded once.  The decimal point is dropped
- * (its place goes into the exponent), so strtod never meets the locale's
- * idea of one. */
+/* number_value's general way: the digits and exponent as text, to strtod. */
 static double
-number_value(const struct number *num, long long shift)
+number_value_slow(const struct number *num, long long shift)
 {
 	struct buf b;
 	const char *p;
@@ -247,13 +256,56 @@ number_value(const struct number *num, long long shift)
 	return v;
 }
 
+/* The number times 10^shift, rounded once.  The decimal point is dropped
+ * (its place goes into the exponent), so strtod never meets the locale's
+ * idea of one.  Where the digits make an integer below 2^53 and the
+ * exponent is within 10^22, both it and the power of ten are exact
+ * doubles, so one multiplication or division rounds the exact value once,
+ * as strtod does (Clinger 1990, "How to read floating point numbers
+ * accurately", the fast path): the same double, without a formatted
+ * string (tests/check_units.c compares the two ways). */
+static double
+number_value(const struct number *num, long long shift)
+{
+	static const double p10[] = { 1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8,
+	    1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19,
+	    1e20, 1e21, 1e22 };
+	const char *p = num->start;
+	unsigned long long m = 0;
+	long long frac = 0, e;
+	int in_frac = 0, nd = 0, neg = 0;
+
+	if (*p == '+' || *p == '-')
+		neg = *p++ == '-';
+	for (; p < num->end; p++) {
+		if (*p == '.') {
+			in_frac = 1;
+			continue;
+		}
+		if (m != 0 || *p != '0')
+			nd++;
+		if (nd > 19)
+			break;
+		m = m * 10 + (unsigned)(*p - '0');
+		frac += in_frac;
+	}
+	e = num->exp10 - frac + shift;
+	if (p == num->end && m < (1ULL << 53) && e >= -22 && e <= 22) {
+		double v = (double)m;
+
+		v = e >= 0 ? v * p10[e] : v / p10[-e];
+		return neg ? -v : v;
+	}
+	return number_value_slow(num, shift);
+}
+
 static const struct symbol *
 find_symbol(const char *s, size_t len)
 {
 	size_t i;
 
 	for (i = 0; i < NELEMS(symbols); i++)
-		if (strlen(symbols[i].name) == len &&
+		if (symbols[i].len == len && symbols[i].name[0] == s[0] &&
 		    memcmp(symbols[i].name, s, len) == 0)
 			return &symbols[i];
 	return NULL;
@@ -282,7 +334,8 @@ scan_factor(const struct quote *q, const char **pp, const char *end,
 	/* A bare symbol wins over prefix + symbol: "m" is the metre. */
 	sym = find_symbol(run, len);
 	for (k = 0; sym == NULL && k < NELEMS(prefixes); k++)
-		if ((i = starts(run, p, prefixes[k].name)) != 0 &&
+		if ((i = prefixes[k].len) < len && run[0] == prefixes[k].name[0] &&
+		    memcmp(run, prefixes[k].name, i) == 0 &&
 		    (sym = find_symbol(run + i, len - i)) != NULL)
 			pexp = prefixes[k].exp10;
 	if (sym == NULL)

@@ -211,11 +211,17 @@ check_element(struct element *el, struct element *parent, size_t depth, void *ar
 	if (depth > MODEL_MAX_DEPTH)
 		return fail_with(cause, "element '%s': side branches nested more "
 		    "than %d deep", el->id, MODEL_MAX_DEPTH);
-	for (int k = 0; k < K_COUNT; k++)
-		if ((el->set & KEY_BIT(k)) && !model_key_applies((enum model_key)k, el->type))
+	/* the keys given only, lowest first (the message names the first) */
+	for (uint64_t set = el->set; set != 0; set &= set - 1) {
+		int k = __builtin_ctzll(set);
+
+		if (k >= K_COUNT)
+			break;
+		if (!model_key_applies((enum model_key)k, el->type))
 			return fail_with(cause, "element '%s': a %s has no key '%s'",
 			    el->id, model_type_name(el->type),
 			    model_key_path((enum model_key)k));
+	}
 	if (el->side_port != PORT_NONE && !model_type_takes_port(el->type, el->side_port))
 		return fail_with(cause, "element '%s': a %s has no %s port", el->id,
 		    model_type_name(el->type), model_port_name(el->side_port));

@@ -5,6 +5,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/mman.h>
 
 #include "util-err.h"
 
@@ -214,4 +215,40 @@ cause_prefix(char **cause, const char *fmt, ...)
 	free(pre);
 	free(*cause);
 	*cause = s;
+}
+
+#define HUGE_PAGE ((size_t)2 << 20)
+#define HUGE_FROM ((size_t)32 << 20)
+
+void
+huge_hint(void *p, size_t n)
+{
+#ifdef MADV_HUGEPAGE
+	uintptr_t from = ((uintptr_t)p + HUGE_PAGE - 1) & ~(uintptr_t)(HUGE_PAGE - 1);
+	uintptr_t to = ((uintptr_t)p + n) & ~(uintptr_t)(HUGE_PAGE - 1);
+
+	if (n >= HUGE_FROM && to > from)
+		(void)madvise((void *)from, to - from, MADV_HUGEPAGE);
+#else
+	(void)p;
+	(void)n;
+#endif
+}
+
+void *
+huge_alloc(size_t *bytes)
+{
+	size_t n;
+	void *p;
+
+	if (*bytes > SIZE_MAX - HUGE_PAGE)
+		return NULL;
+	n = (*bytes + HUGE_PAGE - 1) & ~(HUGE_PAGE - 1);
+	if (n < HUGE_FROM)
+		n = HUGE_FROM;
+	if ((p = aligned_alloc(HUGE_PAGE, n)) == NULL)
+		return NULL;
+	huge_hint(p, n);
+	*bytes = n;
+	return p;
 }

@@ -17,6 +17,12 @@ void fmt_exact(char *out, size_t n, double v);
 void json_put_string(struct buf *, const char *s);
 /* Shortest "%.Ng" (N <= 17) that round-trips; non-finite values are null. */
 void json_put_exact(struct buf *, double v);
+/* A decimal number s[0..len) (JSON's syntax, already checked) as strtod
+ * reads it, where that is one exact operation: digits that make an
+ * integer below 2^53 times or over a power of ten up to 10^22, which
+ * rounds once (Clinger 1990, the fast path).  0, or -1 for the rest,
+ * which strtod must read. */
+int json_number_exact(const char *s, size_t len, double *out);
 /* "%.10g"; non-finite values are null. */
 void json_put_number(struct buf *, double v);
 

@@ -17,6 +17,7 @@
 #include "bench-file.h"
 #include "check-util.h"
 #include "core-trace.h"
+#include "core-units.h"
 #include "report.h"
 #include "util-buf.h"
 #include "util-err.h"
@@ -156,6 +157,38 @@ START_TEST(test_number_random)
 }
 END_TEST
 
+/* One number after another in one buffer, as a report writes them: the
+ * bytes the writer copies past a number's end must never show (nor its
+ * length be off), the buffer growing as it goes. */
+START_TEST(test_number_appended)
+{
+	uint64_t s = 4242;
+	struct buf got, want;
+	char one[64];
+
+	buf_init(&got);
+	buf_init(&want);
+	for (int i = 0; i < 100000; i++) {
+		double v = (double)(rnd(&s) % 100000) * pow(10, (int)(rnd(&s) % 44) - 22);
+
+		if (i % 7 == 0)
+			v = (double)(rnd(&s) % 1000);
+		json_put_number(&got, v);
+		ref_number(one, sizeof one, v);
+		buf_add(&want, one);
+		if (i % 3 == 0) {
+			buf_addc(&got, ',');
+			buf_addc(&want, ',');
+		}
+	}
+	ck_assert_uint_eq(got.len, strlen(got.s));
+	ck_assert_uint_eq(got.len, want.len);
+	ck_assert(strcmp(got.s, want.s) == 0);
+	buf_release(&got);
+	buf_release(&want);
+}
+END_TEST
+
 /* Next to every power of ten, where the exponent by table and by log10
  * may differ: up to 64 doubles either side, and the halves 5·10^k; whole
  * numbers. */
@@ -251,6 +284,109 @@ START_TEST(test_number_ten_digits)
 }
 END_TEST
 
+/* ---- quantities: units_parse rounded every number through strtod of
+ * its digits and exponent as text; now the integer-and-exact-power way
+ * where it is exact.  The reference is the text way, here. ---- */
+static double
+ref_quantity(const char *digits, long long exp10)
+{
+	char text[160];
+
+	snprintf(text, sizeof text, "%se%lld", digits, exp10);
+	return strtod(text, NULL);
+}
+
+START_TEST(test_quantity_random)
+{
+	static const struct { const char *unit; enum unit_dim dim; int exp10; } units[] = {
+		{ "", DIM_NONE, 0 }, { " m", DIM_LENGTH, 0 }, { " mm", DIM_LENGTH, -3 },
+		{ "nm", DIM_LENGTH, -9 }, { " km", DIM_LENGTH, 3 },
+		{ " kW/cm^2", DIM_IRRADIANCE, 7 }, { " J/cm2", DIM_FLUENCE, 4 },
+		{ " fs", DIM_TIME, -15 }, { " GW", DIM_POWER, 9 }, { " cm^2/W", DIM_N2, -4 },
+	};
+	uint64_t s = 0x5eed;
+
+	for (int i = 0; i < 300000; i++) {
+		char text[200], digits[64];
+		size_t nd = 0, len = 0;
+		int nint = (int)(rnd(&s) % 21), nfrac = (int)(rnd(&s) % 21), frac = 0;
+		long long e = 0;
+		int ui = (int)(rnd(&s) % (sizeof units / sizeof *units));
+		double got = -42, want;
+		char *cause = NULL;
+
+		if (nint + nfrac == 0)
+			nint = 1;
+		if (rnd(&s) % 4 == 0)
+			digits[nd++] = text[len++] = rnd(&s) % 2 ? '-' : '+';
+		for (int k = 0; k < nint + nfrac; k++) {
+			/* runs of zeros: leading, trailing and inside */
+			char c = (char)(rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+
+			if (k == nint)
+				text[len++] = '.';
+			text[len++] = digits[nd++] = c;
+			frac += k >= nint;
+		}
+		digits[nd] = '\0';
+		if (rnd(&s) % 2) {
+			e = (long long)(rnd(&s) % 81) - 40;
+			len += (size_t)snprintf(text + len, sizeof text - len, "e%lld", e);
+		}
+		snprintf(text + len, sizeof text - len, "%s", units[ui].unit);
+		want = ref_quantity(digits, e - frac + units[ui].exp10);
+		if (want == 0)
+			want = 0;               /* -0 reads as 0 */
+		if (units[ui].dim != DIM_NONE && want != 0 && units[ui].unit[0] == '\0')
+			continue;
+		ck_assert_msg(units_parse(text, units[ui].dim, &got, &cause) == 0,
+		    "'%s': %s", text, cause);
+		ck_assert_msg(memcmp(&got, &want, sizeof got) == 0,
+		    "'%s' read as %a, the text way %a", text, got, want);
+	}
+}
+END_TEST
+
+/* The scanner's JSON numbers: json_number_exact, where it answers, is
+ * strtod bit for bit; and it answers for the short decimals files hold. */
+START_TEST(test_json_number_exact)
+{
+	uint64_t s = 0xdec;
+	int answered = 0;
+
+	for (int i = 0; i < 300000; i++) {
+		char text[80];
+		int len = 0, nint = 1 + (int)(rnd(&s) % 18), nfrac = (int)(rnd(&s) % 18);
+		double got, want;
+
+		if (rnd(&s) % 3 == 0)
+			text[len++] = '-';
+		for (int k = 0; k < nint; k++)      /* JSON: no leading zero but "0" */
+			text[len++] = (char)(k == 0 && nint > 1 ? '1' + rnd(&s) % 9 :
+			    rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+		if (nfrac > 0) {
+			text[len++] = '.';
+			for (int k = 0; k < nfrac; k++)
+				text[len++] = (char)(rnd(&s) % 3 == 0 ? '0' : '0' + rnd(&s) % 10);
+		}
+		if (rnd(&s) % 2)
+			len += snprintf(text + len, sizeof text - (size_t)len, "%s%d",
+			    rnd(&s) % 2 ? "e" : "E-", (int)(rnd(&s) % 40));
+		text[len] = '\0';
+		if (json_number_exact(text, (size_t)len, &got) != 0)
+			continue;
+		answered++;
+		want = strtod(text, NULL);
+		ck_assert_msg(memcmp(&got, &want, sizeof got) == 0, "'%s' read as %a, strtod %a",
+		    text, got, want);
+	}
+	ck_assert_int_gt(answered, 50000);
+	ck_assert_int_eq(json_number_exact("0.99999", 7, &(double){ 0 }), 0);
+	ck_assert_int_eq(json_number_exact("1e23", 4, &(double){ 0 }), -1);
+	ck_assert_int_eq(json_number_exact("9007199254740993", 16, &(double){ 0 }), -1);
+}
+END_TEST
+
 /* ---- strings: the escaper before this change ---- */
 static void
 ref_string(struct buf *b, const char *s)
@@ -281,7 +417,7 @@ START_TEST(test_string_random)
 {
 	uint64_t s = 777;
 	struct buf got, want;
-	char str[40];
+	char str[160];        /* past json_put_string's short way (62) */
 
 	buf_init(&got);
 	buf_init(&want);
@@ -417,6 +553,51 @@ START_TEST(test_reader_valid)
 	ck_assert_msg(compare_readers(dumped, strlen(dumped)), "fast reader refused dump %d", _i);
 	free(dumped);
 	model_bench_free(b);
+}
+END_TEST
+
+/* Long paths, whose array the reader sizes from its first 64 elements
+ * (2 MB pages from about 5,600, at least 32 MiB of address space): a
+ * steady chain; one whose first elements are padded so that the guess
+ * falls short of the 32 MiB and the array grows past it (read the fast
+ * way only: the tree reader's 10^5-element tree is 100 MB); every 97th
+ * element has a label, which the jansson way reads. */
+START_TEST(test_reader_long)
+{
+	const int n = _i == 0 ? 30000 : 100000, pad = _i == 0 ? 0 : 400;
+	struct buf text;
+	struct bench *b;
+
+	buf_init(&text);
+	buf_add(&text, "{\"format\": \"beamledger-bench-1\", \"name\": \"long\", \"source\": "
+	    "{\"wavelength\": \"1064 nm\", \"power\": \"5 W\", \"waist\": \"1 mm\"}, \"path\": [");
+	for (int i = 0; i < n; i++)
+		buf_printf(&text, "%s{\"id\": \"E%d\",%*s \"type\": \"space\", \"length\": "
+		    "\"%d mm\"%s}", i ? ", " : "", i, i < 1024 ? pad : 0, "",
+		    1 + i % 50, i % 97 == 0 ? ", \"label\": \"x\"" : "");
+	buf_add(&text, ", {\"id\": \"END\", \"type\": \"dump\"}]}");
+	if (_i == 0)
+		ck_assert_msg(compare_readers(text.s, text.len), "fast reader refused the long path");
+	b = bench_file_parse_fast(text.s, text.len);
+	ck_assert(b != NULL);
+	ck_assert_uint_eq(b->path.n, (size_t)n + 1);
+	ck_assert_uint_ge(b->path.cap, b->path.n);
+	if (_i == 1)            /* the case is what it says: past 32 MiB */
+		ck_assert_uint_gt(b->path.n * sizeof *b->path.el, (size_t)32 << 20);
+	for (int i = 0; i < n; i++) {
+		char id[16];
+		double mm = 1 + i % 50;
+
+		snprintf(id, sizeof id, "E%d", i);
+		ck_assert_str_eq(b->path.el[i].id, id);
+		/* "N mm" is N / 10^3 rounded once (core-units.c) */
+		ck_assert(b->path.el[i].val[K_LENGTH] == mm / 1e3);
+		ck_assert(i % 97 == 0 ? b->path.el[i].label != NULL &&
+		    strcmp(b->path.el[i].label, "x") == 0 : b->path.el[i].label == NULL);
+	}
+	ck_assert_str_eq(b->path.el[n].id, "END");
+	model_bench_free(b);
+	buf_release(&text);
 }
 END_TEST
 
@@ -572,16 +753,20 @@ main(void)
 	TCase *tr = tcase_create("reader");
 
 	tcase_add_loop_test(tn, test_number_random, 0, 2);
+	tcase_add_test(tn, test_number_appended);
 	tcase_add_test(tn, test_number_near_powers);
 	tcase_add_test(tn, test_number_halves);
 	tcase_add_test(tn, test_number_ten_digits);
 	tcase_add_test(tn, test_string_random);
+	tcase_add_test(tn, test_quantity_random);
+	tcase_add_test(tn, test_json_number_exact);
 	tcase_add_test(tn, test_report_streamed);
 	tcase_set_timeout(tn, 60);
 	suite_add_tcase(s, tn);
 	tcase_add_loop_test(tr, test_reader_valid, 0, sizeof reader_texts / sizeof *reader_texts);
 	tcase_add_loop_test(tr, test_reader_damaged, 0, sizeof reader_texts / sizeof *reader_texts);
 	tcase_add_loop_test(tr, test_reader_duplicates, 0, 6);
+	tcase_add_loop_test(tr, test_reader_long, 0, 2);
 	tcase_set_timeout(tr, 120);
 	suite_add_tcase(s, tr);
 	return run_suite(s);
